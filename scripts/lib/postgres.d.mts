@@ -1,0 +1,16 @@
+export interface ClusterSettings {
+  port: number
+  base: string
+  dataDir: string
+  socketDir: string
+  logFile: string
+  appUser: string
+  appPassword: string
+}
+export interface Cluster extends ClusterSettings { bin: string }
+export function pgSettings(projectRoot: string, env?: NodeJS.ProcessEnv): ClusterSettings
+export function findServerBin(): string | null
+export function ensureServerBinaries(): string
+export function ensureCluster(projectRoot: string, options?: { fast?: boolean }): Cluster
+export function stopCluster(projectRoot: string): void
+export function ensureDatabase(cluster: Cluster, dbName: string, options?: { recreate?: boolean }): string

@@ -1,0 +1,92 @@
+import { existsSync } from 'node:fs'
+import path from 'node:path'
+import { csrfSync } from 'csrf-sync'
+import express, { type Express } from 'express'
+import helmet from 'helmet'
+import { createPassport } from './auth/passport'
+import type { Db } from './db/knex'
+import { errorHandler, notFoundApi } from './http/errors'
+import { authRouter } from './routes/auth'
+import { healthRouter } from './routes/health'
+import { studiesRouter } from './routes/studies'
+import { usersRouter } from './routes/users'
+import { createSessionMiddleware } from './session'
+
+export interface AppOptions {
+  db: Db
+  databaseUrl: string
+  sessionSecret: string
+  secureCookies?: boolean
+  signInLimitPerWindow?: number
+  /** Folder of the built client (vite build); served with a fallback to index.html for client routes. */
+  clientDir?: string
+  devMailbox?: boolean
+}
+
+export interface PriorsmithApp {
+  app: Express
+  close(): Promise<void>
+}
+
+/** Builds the Express app; listening is the caller's job (server/index.ts, tests). */
+export function createApp(opts: AppOptions): PriorsmithApp {
+  const app = express()
+  const { db } = opts
+  app.disable('x-powered-by')
+  app.set('trust proxy', 'loopback')
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: true,
+        directives: {
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'font-src': ["'self'", 'data:'],
+          // Served over plain http on localhost: upgrading would send subresources to https and break them.
+          'upgrade-insecure-requests': opts.secureCookies ? [] : null,
+        },
+      },
+      strictTransportSecurity: opts.secureCookies ? undefined : false,
+    }),
+  )
+  app.use(express.json({ limit: '1mb' }))
+
+  const sessions = createSessionMiddleware({ databaseUrl: opts.databaseUrl, secret: opts.sessionSecret, secure: !!opts.secureCookies })
+  app.use('/api', sessions.middleware)
+  const passport = createPassport(db)
+  app.use('/api', passport.initialize())
+  app.use('/api', passport.session())
+
+  const csrf = csrfSync({
+    getTokenFromRequest: (req) => req.get('x-csrf-token'),
+    errorConfig: { statusCode: 403, message: 'Invalid or missing CSRF token; reload the page and try again', code: 'EBADCSRFTOKEN' },
+  })
+
+  app.use('/api/health', healthRouter(db))
+  app.get('/api/config', (_req, res) => {
+    res.json({ devMailbox: !!opts.devMailbox })
+  })
+  app.use('/api', csrf.csrfSynchronisedProtection)
+  app.use('/api/auth', authRouter(db, passport, { signInLimitPerWindow: opts.signInLimitPerWindow ?? 20, generateCsrfToken: csrf.generateToken }))
+  app.use('/api/users', usersRouter(db))
+  app.use('/api/studies', studiesRouter(db))
+  app.use('/api', notFoundApi)
+
+  if (opts.clientDir && existsSync(path.join(opts.clientDir, 'index.html'))) {
+    const clientDir = opts.clientDir
+    app.use(express.static(clientDir, { index: false, maxAge: '1h' }))
+    app.get(/^(?!\/api\/).*/, (_req, res) => {
+      res.sendFile(path.join(clientDir, 'index.html'), { headers: { 'Cache-Control': 'no-cache' } })
+    })
+  }
+
+  app.use(errorHandler)
+
+  return {
+    app,
+    close: async () => {
+      await sessions.close()
+    },
+  }
+}

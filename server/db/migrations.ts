@@ -1,0 +1,15 @@
+import type { Knex } from 'knex'
+import * as m001 from '../../migrations/20261202_001_foundation'
+
+type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> }
+
+// Listed by hand: knex cannot load .ts migrations from a folder under vitest.
+const migrations: Record<string, Migration> = {
+  '20261202_001_foundation': m001,
+}
+
+export const migrationSource: Knex.MigrationSource<string> = {
+  getMigrations: async () => Object.keys(migrations),
+  getMigrationName: (name) => name,
+  getMigration: async (name) => migrations[name],
+}

@@ -1,0 +1,65 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express'
+import { ValidationError, type AnyObjectSchema, type InferType } from 'yup'
+
+/** An error with an HTTP status and, for 400s, messages per field. */
+export class HttpError extends Error {
+  constructor(public status: number, message: string, public fields?: Record<string, string>) {
+    super(message)
+  }
+}
+
+/** Validates a body with a shared yup schema; throws 400 with one message per field. */
+export async function validateBody<S extends AnyObjectSchema>(schema: S, body: unknown): Promise<InferType<S>> {
+  if (body === null || typeof body !== 'object' || Array.isArray(body)) {
+    throw new HttpError(400, 'The request body must be a JSON object')
+  }
+  try {
+    return await schema.validate(body, { abortEarly: false, stripUnknown: false })
+  } catch (err) {
+    if (err instanceof ValidationError) {
+      const fields: Record<string, string> = {}
+      for (const e of err.inner.length ? err.inner : [err]) {
+        const key = e.path || (e.type === 'noUnknown' ? String(e.params?.unknown ?? '_') : '_')
+        fields[key] ??= e.message
+      }
+      throw new HttpError(400, 'Some fields need attention', fields)
+    }
+    throw err
+  }
+}
+
+/** Parses a positive integer route parameter, or answers 404. */
+export function idParam(value: string | undefined, what = 'Resource'): number {
+  const n = Number(value)
+  if (!Number.isSafeInteger(n) || n <= 0) throw new HttpError(404, `${what} not found`)
+  return n
+}
+
+export const notFoundApi: RequestHandler = (_req, _res, next) => next(new HttpError(404, 'No such API route'))
+
+/** The one error handler: every error leaves as `{ error: { message, fields? } }`. */
+export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
+  if (err instanceof HttpError) {
+    res.status(err.status).json({ error: { message: err.message, ...(err.fields ? { fields: err.fields } : {}) } })
+    return
+  }
+  const status = typeof err?.status === 'number' ? err.status : typeof err?.statusCode === 'number' ? err.statusCode : 500
+  if (err?.type === 'entity.parse.failed') {
+    res.status(400).json({ error: { message: 'The request body is not valid JSON' } })
+    return
+  }
+  if (err?.type === 'entity.too.large') {
+    res.status(413).json({ error: { message: 'The request body is too large' } })
+    return
+  }
+  if (err?.code === 'EBADCSRFTOKEN' || (status === 403 && /csrf/i.test(String(err?.message)))) {
+    res.status(403).json({ error: { message: 'Invalid or missing CSRF token; reload the page and try again' } })
+    return
+  }
+  if (status >= 400 && status < 500) {
+    res.status(status).json({ error: { message: String(err.message || 'Bad request') } })
+    return
+  }
+  console.error(err)
+  res.status(500).json({ error: { message: 'Something went wrong on the server; nothing was changed' } })
+}

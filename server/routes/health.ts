@@ -1,0 +1,17 @@
+import { Router } from 'express'
+import type { Db } from '../db/knex'
+
+export function healthRouter(db: Db): Router {
+  const r = Router()
+  r.get('/', async (_req, res) => {
+    let dbUp = false
+    try {
+      await db.raw('SELECT 1')
+      dbUp = true
+    } catch {
+      dbUp = false
+    }
+    res.status(dbUp ? 200 : 503).json({ ok: dbUp, db: dbUp })
+  })
+  return r
+}

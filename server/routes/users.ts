@@ -1,0 +1,42 @@
+import { Router } from 'express'
+import { userCreateSchema, userUpdateSchema } from '../../shared/schemas/users'
+import type { Role } from '../../shared/types/index'
+import { currentUser, requireRole } from '../auth/guards'
+import type { Db } from '../db/knex'
+import { HttpError, idParam, validateBody } from '../http/errors'
+import { recordAudit } from '../services/audit'
+import { createUser, listUsers, updateUser } from '../services/users'
+
+export function usersRouter(db: Db): Router {
+  const r = Router()
+  r.use(requireRole('admin'))
+
+  r.get('/', async (_req, res) => {
+    res.json(await listUsers(db))
+  })
+
+  r.post('/', async (req, res) => {
+    const body = await validateBody(userCreateSchema, req.body)
+    const user = await createUser(db, { ...body, role: body.role as Role })
+    await recordAudit(db, { actorId: currentUser(req).id, action: 'user.create', subject: `user:${user.id}`, details: { email: user.email, role: user.role } })
+    res.status(201).json(user)
+  })
+
+  r.patch('/:id', async (req, res) => {
+    const id = idParam(req.params.id, 'User')
+    const body = await validateBody(userUpdateSchema, req.body)
+    const me = currentUser(req)
+    if (id === me.id && (body.disabled === true || (body.role && body.role !== 'admin'))) {
+      throw new HttpError(400, 'You cannot disable your own account or remove your own admin role', body.disabled ? { disabled: 'Not for your own account' } : { role: 'Not for your own account' })
+    }
+    const user = await updateUser(db, id, { displayName: body.displayName, role: body.role as Role | undefined, disabled: body.disabled })
+    if (body.disabled === true) {
+      // Signing a disabled user out everywhere: drop their stored sessions.
+      await db('session').whereRaw(`(sess->'passport'->>'user')::int = ?`, [id]).delete()
+    }
+    await recordAudit(db, { actorId: me.id, action: 'user.update', subject: `user:${id}`, details: body })
+    res.json(user)
+  })
+
+  return r
+}

@@ -1,0 +1,71 @@
+import bcrypt from 'bcryptjs'
+import type { Role, User } from '../../shared/types/index'
+import type { Db } from '../db/knex'
+import { HttpError } from '../http/errors'
+
+interface UserRow {
+  id: number
+  email: string
+  display_name: string
+  role: Role
+  password_hash: string
+  disabled: boolean
+  created_at: Date
+  updated_at: Date
+}
+
+const BCRYPT_COST = 10
+
+export function toUser(r: UserRow): User {
+  return {
+    id: r.id,
+    email: r.email,
+    displayName: r.display_name,
+    role: r.role,
+    disabled: r.disabled,
+    createdAt: r.created_at.toISOString(),
+    updatedAt: r.updated_at.toISOString(),
+  }
+}
+
+export async function findUserById(db: Db, id: number): Promise<User | null> {
+  const row = await db<UserRow>('users').where({ id }).first()
+  return row ? toUser(row) : null
+}
+
+/** Returns the user when the password matches an enabled account, else null (no hint which part failed). */
+export async function verifyCredentials(db: Db, email: string, password: string): Promise<User | null> {
+  const row = await db<UserRow>('users').whereRaw('lower(email) = lower(?)', [email.trim()]).first()
+  if (!row || row.disabled) return null
+  const ok = await bcrypt.compare(password, row.password_hash)
+  return ok ? toUser(row) : null
+}
+
+export async function listUsers(db: Db): Promise<User[]> {
+  const rows = await db<UserRow>('users').select('*').orderBy('id')
+  return rows.map(toUser)
+}
+
+export async function createUser(db: Db, input: { email: string; displayName: string; role: Role; password: string }): Promise<User> {
+  const existing = await db('users').whereRaw('lower(email) = lower(?)', [input.email]).first()
+  if (existing) throw new HttpError(400, 'This e-mail address is already registered', { email: 'This e-mail address is already registered' })
+  const [row] = await db<UserRow>('users')
+    .insert({
+      email: input.email.toLowerCase(),
+      display_name: input.displayName,
+      role: input.role,
+      password_hash: await bcrypt.hash(input.password, BCRYPT_COST),
+    })
+    .returning('*')
+  return toUser(row)
+}
+
+export async function updateUser(db: Db, id: number, patch: { displayName?: string; role?: Role; disabled?: boolean }): Promise<User> {
+  const changes: Record<string, unknown> = { updated_at: db.fn.now() }
+  if (patch.displayName !== undefined) changes.display_name = patch.displayName
+  if (patch.role !== undefined) changes.role = patch.role
+  if (patch.disabled !== undefined) changes.disabled = patch.disabled
+  const [row] = await db<UserRow>('users').where({ id }).update(changes).returning('*')
+  if (!row) throw new HttpError(404, 'User not found')
+  return toUser(row)
+}

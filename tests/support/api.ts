@@ -1,0 +1,66 @@
+import { inject } from 'vitest'
+import request from 'supertest'
+import type TestAgent from 'supertest/lib/agent'
+import { createApp, type PriorsmithApp } from '../../server/app'
+import { createDb, type Db } from '../../server/db/knex'
+import { DEMO_PASSWORD } from '../../seeds/demo'
+
+export interface ApiHarness {
+  db: Db
+  built: PriorsmithApp
+  close(): Promise<void>
+}
+
+/** The real app on the suite's PostgreSQL test database. */
+export function startApi(options: { signInLimitPerWindow?: number } = {}): ApiHarness {
+  const databaseUrl = inject('databaseUrl')
+  const db = createDb(databaseUrl)
+  const built = createApp({ db, databaseUrl, sessionSecret: 'test-secret', signInLimitPerWindow: options.signInLimitPerWindow ?? 1000 })
+  return {
+    db,
+    built,
+    close: async () => {
+      await built.close()
+      await db.destroy()
+    },
+  }
+}
+
+/** A cookie-keeping client that fetches a CSRF token and sends it on every write. */
+export class Client {
+  readonly agent: TestAgent
+  token = ''
+  constructor(h: ApiHarness) {
+    this.agent = request.agent(h.built.app)
+  }
+  async csrf(): Promise<string> {
+    const res = await this.agent.get('/api/auth/csrf').expect(200)
+    this.token = res.body.token
+    return this.token
+  }
+  async signIn(email: string, password = DEMO_PASSWORD) {
+    await this.csrf()
+    const res = await this.agent.post('/api/auth/sign-in').set('x-csrf-token', this.token).send({ email, password })
+    if (res.status === 200) await this.csrf()
+    return res
+  }
+  get(url: string) {
+    return this.agent.get(url)
+  }
+  post(url: string, body?: object) {
+    return this.agent.post(url).set('x-csrf-token', this.token).send(body)
+  }
+  patch(url: string, body?: object) {
+    return this.agent.patch(url).set('x-csrf-token', this.token).send(body)
+  }
+  put(url: string, body?: object) {
+    return this.agent.put(url).set('x-csrf-token', this.token).send(body)
+  }
+}
+
+export async function signedIn(h: ApiHarness, email: string): Promise<Client> {
+  const c = new Client(h)
+  const res = await c.signIn(email)
+  if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status} ${JSON.stringify(res.body)}`)
+  return c
+}
