@@ -6,8 +6,16 @@ import helmet from 'helmet'
 import { createPassport } from './auth/passport'
 import type { Db } from './db/knex'
 import { errorHandler, notFoundApi } from './http/errors'
+import type { AppContext } from './context'
+import type { SmtpFake } from './mail/smtp-fake'
 import { authRouter } from './routes/auth'
+import { calibrationRouter } from './routes/calibration'
+import { devMailboxRouter } from './routes/dev-mailbox'
 import { healthRouter } from './routes/health'
+import { invitationsRouter } from './routes/invitations'
+import { outboxRouter } from './routes/outbox'
+import { quantitiesRouter } from './routes/quantities'
+import { roundsRouter } from './routes/rounds'
 import { studiesRouter } from './routes/studies'
 import { usersRouter } from './routes/users'
 import { createSessionMiddleware } from './session'
@@ -20,7 +28,12 @@ export interface AppOptions {
   signInLimitPerWindow?: number
   /** Folder of the built client (vite build); served with a fallback to index.html for client routes. */
   clientDir?: string
-  devMailbox?: boolean
+  /** Address used in e-mailed links. */
+  publicUrl?: string
+  /** Wakes the mail worker after outbox rows commit (the mailer's kick); omitted, mail waits for the sweeper. */
+  kickMail?: (ids: number[]) => Promise<void>
+  /** The local SMTP fake, when it runs in this process: enables /api/dev/mailbox. */
+  mailFake?: SmtpFake | null
 }
 
 export interface PriorsmithApp {
@@ -65,12 +78,19 @@ export function createApp(opts: AppOptions): PriorsmithApp {
 
   app.use('/api/health', healthRouter(db))
   app.get('/api/config', (_req, res) => {
-    res.json({ devMailbox: !!opts.devMailbox })
+    res.json({ devMailbox: !!opts.mailFake?.running })
   })
   app.use('/api', csrf.csrfSynchronisedProtection)
   app.use('/api/auth', authRouter(db, passport, { signInLimitPerWindow: opts.signInLimitPerWindow ?? 20, generateCsrfToken: csrf.generateToken }))
   app.use('/api/users', usersRouter(db))
+  const ctx: AppContext = { db, publicUrl: opts.publicUrl ?? 'http://localhost:3000', kickMail: opts.kickMail ?? (async () => {}) }
   app.use('/api/studies', studiesRouter(db))
+  app.use('/api/invitations', invitationsRouter(db))
+  app.use('/api/dev/mailbox', devMailboxRouter(opts.mailFake ?? null))
+  app.use('/api', quantitiesRouter(db))
+  app.use('/api', calibrationRouter(db))
+  app.use('/api', roundsRouter(ctx))
+  app.use('/api', outboxRouter(db))
   app.use('/api', notFoundApi)
 
   if (opts.clientDir && existsSync(path.join(opts.clientDir, 'index.html'))) {

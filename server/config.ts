@@ -12,7 +12,7 @@ export interface AppConfig {
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
   const production = env.NODE_ENV === 'production'
-  const sessionSecret = env.SESSION_SECRET ?? (production && env.ALLOW_DEV_SECRET !== '1' ? '' : 'dev-only-session-secret-change-me')
+  const sessionSecret = env.SESSION_SECRET ?? (production ? '' : 'dev-only-session-secret-change-me')
   if (!sessionSecret) throw new Error('SESSION_SECRET must be set in production')
   const port = Number(env.PORT ?? 3000)
   return {

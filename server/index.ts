@@ -3,10 +3,26 @@ import { fileURLToPath } from 'node:url'
 import { createApp } from './app'
 import { loadConfig } from './config'
 import { createDb } from './db/knex'
+import { createMailer } from './mail/mailer'
+import { startSmtpFake, type SmtpFake } from './mail/smtp-fake'
+import { localMailConfig, mailConfigFromEnv } from './mail/transport'
+import { runRoundSchedule } from './services/rounds'
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..')
 const config = loadConfig()
 const db = createDb(config.databaseUrl)
+
+// Without SMTP_HOST the app runs the local mail fake, readable by admins at /dev/mailbox.
+let mailFake: SmtpFake | null = null
+let transport = mailConfigFromEnv()
+if (!transport) {
+  mailFake = await startSmtpFake({ port: Number(process.env.MAIL_FAKE_PORT ?? 0) })
+  transport = localMailConfig(mailFake.port)
+  console.log(`[priorsmith] local mail fake on 127.0.0.1:${mailFake.port} (no mail leaves this machine)`)
+}
+const mailer = createMailer({ databaseUrl: config.databaseUrl, db, transport })
+await mailer.start()
+
 const { app, close } = createApp({
   db,
   databaseUrl: config.databaseUrl,
@@ -14,14 +30,26 @@ const { app, close } = createApp({
   secureCookies: config.secureCookies,
   signInLimitPerWindow: config.signInLimitPerWindow,
   clientDir: path.join(root, 'dist'),
+  publicUrl: config.publicUrl,
+  kickMail: (ids) => mailer.kick(ids),
+  mailFake,
 })
+
+const ctx = { db, publicUrl: config.publicUrl, kickMail: (ids: number[]) => mailer.kick(ids) }
+const schedule = setInterval(() => {
+  runRoundSchedule(ctx).catch((err) => console.error('[priorsmith] round schedule:', err.message))
+}, 60_000)
+schedule.unref()
 
 const server = app.listen(config.port, () => {
   console.log(`[priorsmith] serving app and API on ${config.publicUrl}`)
 })
 
 async function shutdown() {
+  clearInterval(schedule)
   server.close()
+  await mailer.stop()
+  await mailFake?.stop()
   await close()
   await db.destroy()
   process.exit(0)

@@ -1,11 +1,15 @@
 import type { Knex } from 'knex'
 import * as m001 from '../../migrations/20261202_001_foundation'
+import * as m002 from '../../migrations/20261202_002_outbox'
+import * as m003 from '../../migrations/20261202_003_studies_rounds'
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> }
 
 // Listed by hand: knex cannot load .ts migrations from a folder under vitest.
 const migrations: Record<string, Migration> = {
   '20261202_001_foundation': m001,
+  '20261202_002_outbox': m002,
+  '20261202_003_studies_rounds': m003,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

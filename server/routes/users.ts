@@ -9,6 +9,13 @@ import { createUser, listUsers, updateUser } from '../services/users'
 
 export function usersRouter(db: Db): Router {
   const r = Router()
+
+  // Analysts pick study members and panel experts from this list: no more than a name, e-mail and role.
+  r.get('/directory', requireRole('admin', 'analyst'), async (_req, res) => {
+    const users = await listUsers(db)
+    res.json(users.filter((u) => !u.disabled).map((u) => ({ id: u.id, displayName: u.displayName, email: u.email, role: u.role })))
+  })
+
   r.use(requireRole('admin'))
 
   r.get('/', async (_req, res) => {

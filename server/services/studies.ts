@@ -1,24 +1,42 @@
-import type { StudySummary, User } from '../../shared/types/index'
+import type { StudyRole, StudySummary, User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
+import { HttpError } from '../http/errors'
+import { recordAudit } from './audit'
 
-/** Studies the user belongs to (admins see every study), with the user's role in each. */
-export async function listStudiesFor(db: Db, user: User): Promise<StudySummary[]> {
-  const q = db('studies as s')
+export type QuantityStage = 'framed' | 'judged' | 'reconciled' | 'in-record'
+
+interface StudyRow {
+  id: number
+  title: string
+  context: string
+  status: StudySummary['status']
+  owner_id: number
+  owner_name: string
+  my_role: StudyRole | null
+  member_count: number
+  quantity_count: number
+  version: number
+  created_at: Date
+  updated_at: Date
+}
+
+function studyQuery(db: Db, userId: number) {
+  return db('studies as s')
     .join('users as o', 'o.id', 's.owner_id')
     .leftJoin('study_members as m', function () {
-      this.on('m.study_id', '=', 's.id').andOn('m.user_id', '=', db.raw('?', [user.id]))
+      this.on('m.study_id', '=', 's.id').andOn('m.user_id', '=', db.raw('?', [userId]))
     })
     .select(
       's.*',
       'o.display_name as owner_name',
       'm.study_role as my_role',
       db.raw('(SELECT count(*)::int FROM study_members sm WHERE sm.study_id = s.id) as member_count'),
+      db.raw('(SELECT count(*)::int FROM quantities q WHERE q.study_id = s.id) as quantity_count'),
     )
-    .orderBy('s.updated_at', 'desc')
-  if (user.role !== 'admin') q.whereNotNull('m.user_id')
-  const rows = await q
-  const counts = await quantityCounts(db, rows.map((r) => r.id))
-  return rows.map((r) => ({
+}
+
+function toSummary(r: StudyRow): StudySummary {
+  return {
     id: r.id,
     title: r.title,
     context: r.context,
@@ -26,17 +44,91 @@ export async function listStudiesFor(db: Db, user: User): Promise<StudySummary[]
     ownerId: r.owner_id,
     ownerName: r.owner_name,
     myRole: r.my_role ?? 'admin',
-    quantityCount: counts.get(r.id) ?? 0,
+    quantityCount: r.quantity_count,
     memberCount: r.member_count,
     version: r.version,
     createdAt: r.created_at.toISOString(),
     updatedAt: r.updated_at.toISOString(),
-  }))
+  }
 }
 
-async function quantityCounts(db: Db, studyIds: number[]): Promise<Map<number, number>> {
-  const hasTable = await db.schema.hasTable('quantities')
-  if (!hasTable || studyIds.length === 0) return new Map()
-  const rows = await db('quantities').whereIn('study_id', studyIds).groupBy('study_id').select('study_id', db.raw('count(*)::int as n'))
-  return new Map(rows.map((r: { study_id: number; n: number }) => [r.study_id, r.n]))
+/** Studies the user belongs to (admins see every study), with the user's role in each. */
+export async function listStudiesFor(db: Db, user: User): Promise<StudySummary[]> {
+  const q = studyQuery(db, user.id).orderBy('s.updated_at', 'desc')
+  if (user.role !== 'admin') q.whereNotNull('m.user_id')
+  return (await q).map(toSummary)
+}
+
+export async function getStudySummary(db: Db, user: User, id: number): Promise<StudySummary> {
+  const row = await studyQuery(db, user.id).where('s.id', id).first()
+  if (!row) throw new HttpError(404, 'Study not found')
+  return toSummary(row)
+}
+
+/** Overview: members, each quantity's stage, rounds. Experts see the panel's names only for themselves. */
+export async function getStudyDetail(db: Db, user: User, id: number, role: StudyRole | 'admin') {
+  const summary = await getStudySummary(db, user, id)
+  const seesPeople = role !== 'expert'
+  const members = await db('study_members as m').join('users as u', 'u.id', 'm.user_id').where('m.study_id', id)
+    .select('u.id as userId', 'u.display_name as displayName', 'u.email', 'm.study_role as studyRole', 'm.added_at as addedAt').orderBy(['m.study_role', 'u.display_name'])
+  const quantities = await db('quantities as q').where('q.study_id', id)
+    .select('q.id', 'q.name', 'q.symbol', 'q.unit', 'q.support_kind as supportKind',
+      db.raw(`EXISTS (SELECT 1 FROM judgements j WHERE j.quantity_id = q.id AND j.status = 'submitted') as judged`))
+    .orderBy(['q.position', 'q.id'])
+  const rounds = await db('rounds').where({ study_id: id }).select('id', 'number', 'title', 'status', 'opens_at', 'closes_at').orderBy('number')
+  return {
+    ...summary,
+    members: seesPeople ? members : members.filter((m) => m.userId === user.id || m.studyRole !== 'expert'),
+    quantities: quantities.map((q) => ({ id: q.id, name: q.name, symbol: q.symbol, unit: q.unit, supportKind: q.supportKind, stage: (q.judged ? 'judged' : 'framed') as QuantityStage })),
+    rounds: rounds.map((r) => ({ id: r.id, number: r.number, title: r.title, status: r.status, opensAt: r.opens_at.toISOString(), closesAt: r.closes_at.toISOString() })),
+  }
+}
+
+export async function createStudy(db: Db, user: User, body: { title: string; context: string }): Promise<StudySummary> {
+  const id = await db.transaction(async (trx) => {
+    const [row] = await trx('studies').insert({ title: body.title, context: body.context, owner_id: user.id }).returning('id')
+    await trx('study_members').insert({ study_id: row.id, user_id: user.id, study_role: 'analyst' })
+    return row.id as number
+  })
+  await recordAudit(db, { actorId: user.id, studyId: id, action: 'study.create', subject: `study:${id}`, details: { title: body.title } })
+  return getStudySummary(db, user, id)
+}
+
+/** Optimistic update: a stale version answers 409 and changes nothing. */
+export async function updateStudy(db: Db, user: User, id: number, body: { title: string; context: string; version: number }): Promise<StudySummary> {
+  const before = await db('studies').where({ id }).first('title', 'context', 'version')
+  if (!before) throw new HttpError(404, 'Study not found')
+  const n = await db('studies').where({ id, version: body.version })
+    .update({ title: body.title, context: body.context, version: db.raw('version + 1'), updated_at: db.fn.now() })
+  if (n === 0) throw new HttpError(409, 'Someone else changed this study since you opened it; reload to see their version')
+  await recordAudit(db, { actorId: user.id, studyId: id, action: 'study.update', subject: `study:${id}`, details: { before: { title: before.title }, after: { title: body.title }, contextChanged: before.context !== body.context } })
+  return getStudySummary(db, user, id)
+}
+
+export async function addMember(db: Db, actor: User, studyId: number, userId: number, studyRole: StudyRole) {
+  const target = await db('users').where({ id: userId }).first('id', 'role', 'disabled')
+  if (!target) throw new HttpError(400, 'Choose an existing user', { userId: 'No such user' })
+  if (target.disabled) throw new HttpError(400, 'This account is disabled', { userId: 'This account is disabled' })
+  const allowed: Record<StudyRole, string[]> = { analyst: ['analyst', 'admin'], expert: ['expert'], reviewer: ['reviewer', 'analyst', 'admin'] }
+  if (!allowed[studyRole].includes(target.role)) {
+    throw new HttpError(400, `A ${target.role} account cannot be this study's ${studyRole}`, { studyRole: `Not for a ${target.role} account` })
+  }
+  const before = await db('study_members').where({ study_id: studyId, user_id: userId }).first('study_role')
+  await db('study_members').insert({ study_id: studyId, user_id: userId, study_role: studyRole }).onConflict(['study_id', 'user_id']).merge(['study_role'])
+  await recordAudit(db, { actorId: actor.id, studyId, action: 'study.member', subject: `user:${userId}`, details: { before: before?.study_role ?? null, after: studyRole } })
+}
+
+export async function removeMember(db: Db, actor: User, studyId: number, userId: number) {
+  const study = await db('studies').where({ id: studyId }).first('owner_id')
+  if (study?.owner_id === userId) throw new HttpError(400, 'The study owner cannot be removed')
+  const n = await db('study_members').where({ study_id: studyId, user_id: userId }).delete()
+  if (n === 0) throw new HttpError(404, 'Not a member of this study')
+  await recordAudit(db, { actorId: actor.id, studyId, action: 'study.member-remove', subject: `user:${userId}` })
+}
+
+/** The study's audit trail, newest first. */
+export async function studyAudit(db: Db, studyId: number, limit = 200) {
+  const rows = await db('audit_events as a').leftJoin('users as u', 'u.id', 'a.actor_id').where('a.study_id', studyId)
+    .select('a.id', 'a.at', 'a.action', 'a.subject', 'a.details', 'a.hash', 'u.display_name as actorName').orderBy('a.id', 'desc').limit(limit)
+  return rows.map((r) => ({ id: Number(r.id), at: new Date(r.at).toISOString(), action: r.action, subject: r.subject, details: r.details, actorName: r.actorName ?? 'system', hash: r.hash }))
 }

@@ -1,3 +1,5 @@
 export * from './auth'
 export * from './users'
 export * from './studies'
+export * from './quantities'
+export * from './rounds'

@@ -1,7 +1,7 @@
 import { inject } from 'vitest'
 import request from 'supertest'
 import type TestAgent from 'supertest/lib/agent'
-import { createApp, type PriorsmithApp } from '../../server/app'
+import { createApp, type AppOptions, type PriorsmithApp } from '../../server/app'
 import { createDb, type Db } from '../../server/db/knex'
 import { DEMO_PASSWORD } from '../../seeds/demo'
 
@@ -12,10 +12,13 @@ export interface ApiHarness {
 }
 
 /** The real app on the suite's PostgreSQL test database. */
-export function startApi(options: { signInLimitPerWindow?: number } = {}): ApiHarness {
+export function startApi(options: Partial<Pick<AppOptions, 'signInLimitPerWindow' | 'kickMail' | 'mailFake'>> = {}): ApiHarness {
   const databaseUrl = inject('databaseUrl')
   const db = createDb(databaseUrl)
-  const built = createApp({ db, databaseUrl, sessionSecret: 'test-secret', signInLimitPerWindow: options.signInLimitPerWindow ?? 1000 })
+  const built = createApp({
+    db, databaseUrl, sessionSecret: 'test-secret', publicUrl: 'http://localhost:3000', ...options,
+    signInLimitPerWindow: options.signInLimitPerWindow ?? 1000,
+  })
   return {
     db,
     built,
@@ -52,6 +55,9 @@ export class Client {
   }
   patch(url: string, body?: object) {
     return this.agent.patch(url).set('x-csrf-token', this.token).send(body)
+  }
+  delete(url: string) {
+    return this.agent.delete(url).set('x-csrf-token', this.token)
   }
   put(url: string, body?: object) {
     return this.agent.put(url).set('x-csrf-token', this.token).send(body)

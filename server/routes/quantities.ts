@@ -1,0 +1,85 @@
+import { Router } from 'express'
+import multer from 'multer'
+import { EVIDENCE_MAX_BYTES, quantitySchema, quantityUpdateSchema } from '../../shared/schemas/quantities'
+import { currentUser } from '../auth/guards'
+import type { Db } from '../db/knex'
+import { HttpError, idParam, validateBody } from '../http/errors'
+import { allow, studyAccess, studyIdOf } from '../services/access'
+import { addEvidenceFile, createQuantity, deleteEvidenceFile, getEvidenceFile, getQuantity, listQuantities, updateQuantity } from '../services/quantities'
+
+const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: EVIDENCE_MAX_BYTES, files: 1, fields: 5 } })
+
+/** Quantities of a study and their evidence files. */
+export function quantitiesRouter(db: Db): Router {
+  const r = Router()
+  // Mounted at /api: no router-wide guard, or unknown /api routes would answer 401; currentUser() guards each handler.
+
+  r.get('/studies/:id/quantities', async (req, res) => {
+    const access = await studyAccess(db, currentUser(req), idParam(req.params.id, 'Study'))
+    res.json(await listQuantities(db, access.studyId))
+  })
+
+  r.post('/studies/:id/quantities', async (req, res) => {
+    const access = await studyAccess(db, currentUser(req), idParam(req.params.id, 'Study'))
+    allow(access, 'analyst')
+    const body = await validateBody(quantitySchema, req.body)
+    res.status(201).json(await createQuantity(db, access.user, access.studyId, body))
+  })
+
+  r.get('/quantities/:id', async (req, res) => {
+    const user = currentUser(req)
+    const id = idParam(req.params.id, 'Quantity')
+    await studyAccess(db, user, await studyIdOf(db, 'quantities', id, 'Quantity'))
+    res.json(await getQuantity(db, id))
+  })
+
+  r.patch('/quantities/:id', async (req, res) => {
+    const user = currentUser(req)
+    const id = idParam(req.params.id, 'Quantity')
+    const access = await studyAccess(db, user, await studyIdOf(db, 'quantities', id, 'Quantity'))
+    allow(access, 'analyst')
+    const body = await validateBody(quantityUpdateSchema, req.body)
+    res.json(await updateQuantity(db, access.user, id, body))
+  })
+
+  r.post('/quantities/:id/files', async (req, res) => {
+    const user = currentUser(req)
+    const id = idParam(req.params.id, 'Quantity')
+    const access = await studyAccess(db, user, await studyIdOf(db, 'quantities', id, 'Quantity'))
+    allow(access, 'analyst')
+    await new Promise<void>((resolve, reject) => {
+      upload.single('file')(req, res, (err: unknown) => {
+        if (err instanceof multer.MulterError) {
+          const message = err.code === 'LIMIT_FILE_SIZE' ? 'Files may be at most 5 MB' : `Upload refused: ${err.message}`
+          reject(new HttpError(400, message, { file: message }))
+        } else if (err) reject(err)
+        else resolve()
+      })
+    })
+    if (!req.file) throw new HttpError(400, 'Choose a file to upload', { file: 'Choose a file to upload' })
+    res.status(201).json(await addEvidenceFile(db, access.user, id, req.file))
+  })
+
+  // Served only to members of the file's study, as a download so the browser never renders it in the app's origin.
+  r.get('/files/:id', async (req, res) => {
+    const user = currentUser(req)
+    const file = await getEvidenceFile(db, idParam(req.params.id, 'File'))
+    await studyAccess(db, user, file.study_id)
+    res.setHeader('Content-Type', file.mime_type)
+    res.setHeader('Content-Disposition', `attachment; filename*=UTF-8''${encodeURIComponent(file.filename)}`)
+    res.setHeader('X-Content-Type-Options', 'nosniff')
+    res.send(file.content)
+  })
+
+  r.delete('/files/:id', async (req, res) => {
+    const user = currentUser(req)
+    const id = idParam(req.params.id, 'File')
+    const file = await getEvidenceFile(db, id)
+    const access = await studyAccess(db, user, file.study_id)
+    allow(access, 'analyst')
+    await deleteEvidenceFile(db, access.user, id)
+    res.status(204).end()
+  })
+
+  return r
+}

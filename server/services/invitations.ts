@@ -1,0 +1,98 @@
+import bcrypt from 'bcryptjs'
+import type { DeclarationBody } from '../../shared/schemas/rounds'
+import type { User } from '../../shared/types/index'
+import type { Db } from '../db/knex'
+import { HttpError } from '../http/errors'
+import { recordAudit } from './audit'
+import { hashToken } from './tokens'
+import { findUserById } from './users'
+
+type InvitationState = 'valid' | 'expired' | 'used' | 'revoked'
+
+async function invitationByToken(db: Db, token: string) {
+  if (!/^[A-Za-z0-9_-]{20,100}$/.test(token)) throw new HttpError(404, 'This invitation link is not valid')
+  const row = await db('invitations as i').join('rounds as r', 'r.id', 'i.round_id').join('studies as s', 's.id', 'r.study_id')
+    .where('i.token_hash', hashToken(token))
+    .first('i.*', 'r.title as round_title', 'r.opens_at', 'r.closes_at', 'r.status as round_status', 's.title as study_title', 's.id as study_id')
+  if (!row) throw new HttpError(404, 'This invitation link is not valid')
+  const state: InvitationState = row.accepted_at ? 'used' : row.revoked_at ? 'revoked' : row.expires_at < new Date() ? 'expired' : 'valid'
+  return { row, state }
+}
+
+const STATE_MESSAGES: Record<Exclude<InvitationState, 'valid'>, string> = {
+  used: 'This invitation link has already been used. Sign in with the password you chose.',
+  revoked: 'This invitation link was withdrawn. Ask the analyst for a new one.',
+  expired: 'This invitation link has expired. Ask the analyst to send a new one.',
+}
+
+/** What the invitation page shows before the expert sets a password. */
+export async function describeInvitation(db: Db, token: string) {
+  const { row, state } = await invitationByToken(db, token)
+  return {
+    state,
+    message: state === 'valid' ? null : STATE_MESSAGES[state],
+    email: row.email,
+    name: row.name,
+    studyTitle: row.study_title,
+    roundTitle: row.round_title,
+    roundId: row.round_id,
+    opensAt: row.opens_at.toISOString(),
+    closesAt: row.closes_at.toISOString(),
+    expiresAt: row.expires_at.toISOString(),
+  }
+}
+
+/** Creates the expert's account from a valid invitation (single use, under a row lock) and returns it. */
+export async function acceptInvitation(db: Db, token: string, body: { name: string; password: string }): Promise<{ user: User; roundId: number }> {
+  const passwordHash = await bcrypt.hash(body.password, 10)
+  const result = await db.transaction(async (trx) => {
+    const inv = await trx('invitations').where({ token_hash: hashToken(token) }).forUpdate().first()
+    if (!inv) throw new HttpError(404, 'This invitation link is not valid')
+    const state: InvitationState = inv.accepted_at ? 'used' : inv.revoked_at ? 'revoked' : inv.expires_at < new Date() ? 'expired' : 'valid'
+    if (state !== 'valid') throw new HttpError(410, STATE_MESSAGES[state])
+    if (await trx('users').whereRaw('lower(email) = lower(?)', [inv.email]).first('id')) {
+      throw new HttpError(409, 'An account with this e-mail address already exists. Sign in instead.')
+    }
+    const round = await trx('rounds').where({ id: inv.round_id }).first('study_id')
+    const [user] = await trx('users').insert({ email: inv.email.toLowerCase(), display_name: body.name, role: 'expert', password_hash: passwordHash }).returning('id')
+    await trx('invitations').where({ id: inv.id }).update({ accepted_at: trx.fn.now(), accepted_user_id: user.id })
+    await trx('round_panel').where({ id: inv.panel_id }).update({ user_id: user.id, name: body.name })
+    await trx('study_members').insert({ study_id: round.study_id, user_id: user.id, study_role: 'expert' }).onConflict(['study_id', 'user_id']).ignore()
+    return { userId: user.id as number, roundId: inv.round_id as number, studyId: round.study_id as number }
+  })
+  await recordAudit(db, { actorId: result.userId, studyId: result.studyId, action: 'invitation.accept', subject: `round:${result.roundId}` })
+  const user = await findUserById(db, result.userId)
+  return { user: user!, roundId: result.roundId }
+}
+
+/** The expert's entry state for a round: first visit is stamped; declaration and practice status. */
+export async function roundEntry(db: Db, user: User, roundId: number) {
+  const member = await db('round_panel').where({ round_id: roundId, user_id: user.id }).first()
+  if (!member) throw new HttpError(403, 'You are not on the panel of this round')
+  if (!member.first_opened_at) await db('round_panel').where({ id: member.id }).update({ first_opened_at: db.fn.now() })
+  const d = await db('declarations').where({ round_id: roundId, user_id: user.id }).first()
+  return {
+    declaration: d ? { expertise: d.expertise, interests: d.interests, interestsText: d.interests_text, seenPilotData: d.seen_pilot_data, savedAt: d.updated_at.toISOString() } : null,
+    practice: d?.practice_completed_at ? { points: d.practice_points, fit: d.practice_fit, completedAt: d.practice_completed_at.toISOString() } : null,
+    submittedAt: member.submitted_at ? member.submitted_at.toISOString() : null,
+  }
+}
+
+export async function saveDeclaration(db: Db, user: User, roundId: number, studyId: number, body: DeclarationBody) {
+  const member = await db('round_panel').where({ round_id: roundId, user_id: user.id }).first('id')
+  if (!member) throw new HttpError(403, 'You are not on the panel of this round')
+  await db('declarations').insert({
+    round_id: roundId, user_id: user.id, expertise: body.expertise, interests: body.interests,
+    interests_text: body.interests === 'described' ? body.interestsText : '', seen_pilot_data: body.seenPilotData,
+  }).onConflict(['round_id', 'user_id']).merge(['expertise', 'interests', 'interests_text', 'seen_pilot_data', 'updated_at'])
+  await recordAudit(db, { actorId: user.id, studyId, action: 'declaration.save', subject: `round:${roundId}`, details: { interests: body.interests, seenPilotData: body.seenPilotData } })
+  return roundEntry(db, user, roundId)
+}
+
+export async function savePractice(db: Db, user: User, roundId: number, studyId: number, points: { value: number; prob: number }[], fit: unknown) {
+  const n = await db('declarations').where({ round_id: roundId, user_id: user.id })
+    .update({ practice_points: JSON.stringify(points), practice_fit: JSON.stringify(fit), practice_completed_at: db.fn.now(), updated_at: db.fn.now() })
+  if (n === 0) throw new HttpError(400, 'Complete the declaration first', { declaration: 'Complete the declaration first' })
+  await recordAudit(db, { actorId: user.id, studyId, action: 'practice.complete', subject: `round:${roundId}` })
+  return roundEntry(db, user, roundId)
+}

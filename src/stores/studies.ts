@@ -1,0 +1,34 @@
+import { ref } from 'vue'
+import { defineStore } from 'pinia'
+import type { StudySummary } from '@shared/types'
+import { studiesApi } from '@/api/studies'
+
+/** Studies the signed-in user is a member of (admins: all). */
+export const useStudiesStore = defineStore('studies', () => {
+  const items = ref<StudySummary[]>([])
+  /** True once the list has been fetched for this session. */
+  const loaded = ref(false)
+
+  async function fetchAll(): Promise<StudySummary[]> {
+    const list = await studiesApi.list()
+    items.value = list
+    loaded.value = true
+    return list
+  }
+
+  /** Fetches the list unless it is already here. */
+  async function ensureLoaded(): Promise<StudySummary[]> {
+    return loaded.value ? items.value : fetchAll()
+  }
+
+  function byId(id: number): StudySummary | undefined {
+    return items.value.find((study) => study.id === id)
+  }
+
+  function clear(): void {
+    items.value = []
+    loaded.value = false
+  }
+
+  return { items, loaded, fetchAll, ensureLoaded, byId, clear }
+})
