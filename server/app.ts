@@ -13,8 +13,10 @@ import { calibrationRouter } from './routes/calibration'
 import { devMailboxRouter } from './routes/dev-mailbox'
 import { healthRouter } from './routes/health'
 import { invitationsRouter } from './routes/invitations'
+import { judgementsRouter } from './routes/judgements'
 import { outboxRouter } from './routes/outbox'
 import { quantitiesRouter } from './routes/quantities'
+import { reconciliationRouter } from './routes/reconciliation'
 import { roundsRouter } from './routes/rounds'
 import { studiesRouter } from './routes/studies'
 import { usersRouter } from './routes/users'
@@ -90,6 +92,8 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   app.use('/api', quantitiesRouter(db))
   app.use('/api', calibrationRouter(db))
   app.use('/api', roundsRouter(ctx))
+  app.use('/api', judgementsRouter(db))
+  app.use('/api', reconciliationRouter(db))
   app.use('/api', outboxRouter(db))
   app.use('/api', notFoundApi)
 

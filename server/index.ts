@@ -29,7 +29,7 @@ const { app, close } = createApp({
   sessionSecret: config.sessionSecret,
   secureCookies: config.secureCookies,
   signInLimitPerWindow: config.signInLimitPerWindow,
-  clientDir: path.join(root, 'dist'),
+  clientDir: process.env.CLIENT_DIR ?? path.join(root, 'dist'),
   publicUrl: config.publicUrl,
   kickMail: (ids) => mailer.kick(ids),
   mailFake,

@@ -2,6 +2,8 @@ import type { Knex } from 'knex'
 import * as m001 from '../../migrations/20261202_001_foundation'
 import * as m002 from '../../migrations/20261202_002_outbox'
 import * as m003 from '../../migrations/20261202_003_studies_rounds'
+import * as m004 from '../../migrations/20261202_004_answers'
+import * as m005 from '../../migrations/20261202_005_reconciliation'
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> }
 
@@ -10,6 +12,8 @@ const migrations: Record<string, Migration> = {
   '20261202_001_foundation': m001,
   '20261202_002_outbox': m002,
   '20261202_003_studies_rounds': m003,
+  '20261202_004_answers': m004,
+  '20261202_005_reconciliation': m005,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -23,6 +23,7 @@ interface RoundRow {
   reminder_sent_at: Date | null
   calibration_position: 'before' | 'after'
   feedback_enabled: boolean
+  ask_calibration: boolean
   practice_question: string
   practice_unit: string
   practice_answer: number
@@ -85,6 +86,7 @@ export async function createRound(db: Db, user: User, studyId: number, body: Rou
       reminder_hours_before: body.reminderHoursBefore ?? null,
       calibration_position: body.calibrationPosition,
       feedback_enabled: body.feedbackEnabled,
+      ask_calibration: body.askCalibration,
       practice_question: body.practiceQuestion,
       practice_unit: body.practiceUnit,
       practice_answer: body.practiceAnswer,
@@ -128,6 +130,7 @@ export async function getRound(db: Db, access: StudyAccess, id: number) {
     reminderSentAt: iso(r.reminder_sent_at),
     calibrationPosition: r.calibration_position,
     feedbackEnabled: r.feedback_enabled,
+    askCalibration: r.ask_calibration,
     practice: { question: r.practice_question, unit: r.practice_unit, ...(isExpert ? {} : { answer: r.practice_answer }) },
     openedAt: iso(r.opened_at),
     closedAt: iso(r.closed_at),
@@ -202,7 +205,7 @@ export async function updateRound(db: Db, user: User, id: number, body: RoundUpd
   const fields: Record<string, string> = {}
   if (r.status === 'open') {
     // Once experts are answering, only the window, briefing and reminder may change.
-    for (const k of ['items', 'opensAt', 'calibrationPosition', 'feedbackEnabled', 'practiceQuestion', 'practiceUnit', 'practiceAnswer'] as const) {
+    for (const k of ['items', 'opensAt', 'calibrationPosition', 'feedbackEnabled', 'askCalibration', 'practiceQuestion', 'practiceUnit', 'practiceAnswer'] as const) {
       if (body[k] !== undefined) fields[k] = 'Cannot change while the round is open'
     }
     if (body.closesAt && body.closesAt.getTime() <= Date.now()) fields.closesAt = 'To end the round now, close it; an extension must be in the future'
@@ -215,7 +218,7 @@ export async function updateRound(db: Db, user: User, id: number, body: RoundUpd
 
   const map: [keyof RoundUpdateBody, string][] = [
     ['title', 'title'], ['briefing', 'briefing'], ['opensAt', 'opens_at'], ['closesAt', 'closes_at'], ['reminderHoursBefore', 'reminder_hours_before'],
-    ['calibrationPosition', 'calibration_position'], ['feedbackEnabled', 'feedback_enabled'], ['practiceQuestion', 'practice_question'],
+    ['calibrationPosition', 'calibration_position'], ['feedbackEnabled', 'feedback_enabled'], ['askCalibration', 'ask_calibration'], ['practiceQuestion', 'practice_question'],
     ['practiceUnit', 'practice_unit'], ['practiceAnswer', 'practice_answer'],
   ]
   for (const [k, col] of map) if (body[k] !== undefined) changes[col] = body[k]

@@ -73,13 +73,14 @@ export async function getStudyDetail(db: Db, user: User, id: number, role: Study
     .select('u.id as userId', 'u.display_name as displayName', 'u.email', 'm.study_role as studyRole', 'm.added_at as addedAt').orderBy(['m.study_role', 'u.display_name'])
   const quantities = await db('quantities as q').where('q.study_id', id)
     .select('q.id', 'q.name', 'q.symbol', 'q.unit', 'q.support_kind as supportKind',
-      db.raw(`EXISTS (SELECT 1 FROM judgements j WHERE j.quantity_id = q.id AND j.status = 'submitted') as judged`))
+      db.raw(`EXISTS (SELECT 1 FROM judgements j WHERE j.quantity_id = q.id AND j.status = 'submitted') as judged`),
+      db.raw(`EXISTS (SELECT 1 FROM reconciliations r WHERE r.quantity_id = q.id AND r.status = 'reconciled') as reconciled`))
     .orderBy(['q.position', 'q.id'])
   const rounds = await db('rounds').where({ study_id: id }).select('id', 'number', 'title', 'status', 'opens_at', 'closes_at').orderBy('number')
   return {
     ...summary,
     members: seesPeople ? members : members.filter((m) => m.userId === user.id || m.studyRole !== 'expert'),
-    quantities: quantities.map((q) => ({ id: q.id, name: q.name, symbol: q.symbol, unit: q.unit, supportKind: q.supportKind, stage: (q.judged ? 'judged' : 'framed') as QuantityStage })),
+    quantities: quantities.map((q) => ({ id: q.id, name: q.name, symbol: q.symbol, unit: q.unit, supportKind: q.supportKind, stage: (q.reconciled ? 'reconciled' : q.judged ? 'judged' : 'framed') as QuantityStage })),
     rounds: rounds.map((r) => ({ id: r.id, number: r.number, title: r.title, status: r.status, opensAt: r.opens_at.toISOString(), closesAt: r.closes_at.toISOString() })),
   }
 }

@@ -1,0 +1,222 @@
+import { fitAnswer, type AnswerInput, type AnswerItem } from '../../shared/elicitation/answers'
+import { RATIONALE_MIN, type JudgementBody } from '../../shared/schemas/judgements'
+import type { User } from '../../shared/types/index'
+import type { Db } from '../db/knex'
+import { HttpError } from '../http/errors'
+import { recordAudit } from './audit'
+import { supportOf } from './quantities'
+import { roundRow } from './rounds'
+
+interface JudgementRow {
+  id: number
+  round_id: number
+  quantity_id: number
+  expert_id: number
+  method: string
+  answer: AnswerInput
+  rationale: string
+  fits: unknown[]
+  chosen_family: string | null
+  status: 'draft' | 'submitted'
+  version: number
+  submitted_at: Date | null
+  updated_at: Date
+  expert_name?: string
+}
+
+function toJudgement(r: JudgementRow, withName: boolean) {
+  return {
+    id: r.id,
+    roundId: r.round_id,
+    quantityId: r.quantity_id,
+    expertId: r.expert_id,
+    ...(withName ? { expertName: r.expert_name } : {}),
+    method: r.method,
+    answer: r.answer,
+    rationale: r.rationale,
+    fits: r.fits,
+    chosenFamily: r.chosen_family,
+    status: r.status,
+    version: r.version,
+    submittedAt: r.submitted_at ? r.submitted_at.toISOString() : null,
+    updatedAt: r.updated_at.toISOString(),
+  }
+}
+
+async function roundItem(db: Db, roundId: number, quantityId: number) {
+  const row = await db('round_items as i').join('quantities as q', 'q.id', 'i.quantity_id').where({ 'i.round_id': roundId, 'i.quantity_id': quantityId })
+    .first('i.method', 'i.edges', 'i.chips', 'i.ask_tails', 'q.support_kind', 'q.support_lower', 'q.support_upper')
+  if (!row) throw new HttpError(404, 'This quantity is not part of the round')
+  const item: AnswerItem = { method: row.method, edges: row.edges ?? undefined, chips: row.chips ?? undefined, askTails: row.ask_tails }
+  return { item, support: supportOf(row) }
+}
+
+async function assertAnswering(db: Db, user: User, roundId: number) {
+  const round = await roundRow(db, roundId)
+  if (round.status !== 'open' || round.closes_at.getTime() <= Date.now()) throw new HttpError(409, 'This round is closed; answers can no longer change')
+  const member = await db('round_panel').where({ round_id: roundId, user_id: user.id }).first('id', 'submitted_at')
+  if (!member) throw new HttpError(403, 'You are not on the panel of this round')
+  return { round, member }
+}
+
+/** The expert's own judgements, or every judgement with names for the study's analysts. */
+export async function listJudgements(db: Db, roundId: number, viewer: { user: User; seesAll: boolean }) {
+  const q = db('judgements as j').join('users as u', 'u.id', 'j.expert_id').where('j.round_id', roundId).select('j.*', 'u.display_name as expert_name').orderBy(['j.quantity_id', 'j.expert_id'])
+  if (!viewer.seesAll) q.where('j.expert_id', viewer.user.id)
+  const rows: JudgementRow[] = await q
+  return rows.map((r) => toJudgement(r, viewer.seesAll))
+}
+
+/**
+ * Saves one draft answer: incoherent input → 400 with field errors; stale version → 409; a submitted
+ * answer is frozen. The fits are recomputed here with the same engine the browser ran.
+ */
+export async function saveJudgement(db: Db, user: User, roundId: number, quantityId: number, body: JudgementBody) {
+  const { round } = await assertAnswering(db, user, roundId)
+  const { item, support } = await roundItem(db, roundId, quantityId)
+  if (body.method !== item.method) throw new HttpError(400, 'This quantity uses another method in this round', { method: `This round uses the ${item.method} method here` })
+  const input: AnswerInput = item.method === 'quantile'
+    ? { lower: body.lower, upper: body.upper, points: body.points }
+    : item.method === 'fixed-interval' ? { edges: body.edges ?? item.edges, probs: body.probs ?? [] } : { edges: body.edges ?? item.edges, chips: body.chips ?? [] }
+  const { check, fits, fitMessage } = fitAnswer(item, input, support)
+  if (Object.keys(check.problems).length) throw new HttpError(400, 'Some values need attention', check.problems)
+  const chosen = body.chosenFamily ?? null
+  if (chosen && !fits.some((f) => f.distribution.family === chosen)) {
+    throw new HttpError(400, 'That family was not fitted to this answer', { chosenFamily: 'Choose one of the fitted families' })
+  }
+  const stored = { method: item.method, answer: JSON.stringify(input), rationale: body.rationale ?? '', fits: JSON.stringify(fits), chosen_family: chosen }
+
+  const saved = await db.transaction(async (trx) => {
+    const existing: JudgementRow | undefined = await trx('judgements').where({ round_id: roundId, quantity_id: quantityId, expert_id: user.id }).forUpdate().first()
+    let row: JudgementRow
+    if (!existing) {
+      if (body.version !== 0) throw new HttpError(409, 'This answer was removed or never saved; reload')
+      ;[row] = await trx('judgements').insert({ ...stored, round_id: roundId, quantity_id: quantityId, expert_id: user.id, version: 1 }).returning('*')
+    } else {
+      if (existing.status === 'submitted') throw new HttpError(409, 'You have submitted this round; ask the analyst to reopen it to change an answer')
+      if (existing.version !== body.version) throw new HttpError(409, 'This answer was saved from another window or device since you loaded it; reload to continue from the newer version')
+      ;[row] = await trx('judgements').where({ id: existing.id }).update({ ...stored, version: existing.version + 1, updated_at: trx.fn.now() }).returning('*')
+    }
+    await trx('judgement_versions').insert({
+      judgement_id: row.id, version: row.version, answer: stored.answer, rationale: stored.rationale, fits: stored.fits, chosen_family: chosen, status: 'draft', saved_by: user.id,
+    })
+    return row
+  })
+  return { judgement: toJudgement(saved, false), fits, complete: check.complete, fitMessage, studyId: round.study_id }
+}
+
+/** Freezes every answer of the expert in this round; all must be complete, with a rationale. */
+export async function submitRound(db: Db, user: User, roundId: number) {
+  const { round, member } = await assertAnswering(db, user, roundId)
+  if (member.submitted_at) throw new HttpError(409, 'You have already submitted this round')
+  const items = await db('round_items as i').join('quantities as q', 'q.id', 'i.quantity_id').where('i.round_id', roundId).select('i.quantity_id', 'q.name').orderBy('i.position')
+  const judgements: JudgementRow[] = await db('judgements').where({ round_id: roundId, expert_id: user.id })
+  const fields: Record<string, string> = {}
+  for (const item of items) {
+    const j = judgements.find((x) => x.quantity_id === item.quantity_id)
+    if (!j || (j.fits as unknown[]).length === 0) fields[`quantity.${item.quantity_id}`] = `${item.name}: complete your answer`
+    else if (j.rationale.trim().length < RATIONALE_MIN) fields[`quantity.${item.quantity_id}`] = `${item.name}: say in a sentence or two what evidence drove your judgement`
+  }
+  if (round.ask_calibration) {
+    const questions = await db('calibration_questions').where({ study_id: round.study_id }).select('id', 'position').orderBy(['position', 'id'])
+    const answered = new Set(await db('calibration_answers').where({ round_id: roundId, expert_id: user.id }).pluck('question_id'))
+    questions.forEach((q, i) => {
+      if (!answered.has(q.id)) fields[`calibration.${q.id}`] = `Calibration question ${i + 1}: give your 5 %, 50 % and 95 % values`
+    })
+  }
+  if (Object.keys(fields).length) throw new HttpError(400, 'Some answers are not complete yet', fields)
+  await db.transaction(async (trx) => {
+    for (const j of judgements) {
+      await trx('judgements').where({ id: j.id }).update({ status: 'submitted', submitted_at: trx.fn.now(), version: j.version + 1, updated_at: trx.fn.now() })
+      await trx('judgement_versions').insert({
+        judgement_id: j.id, version: j.version + 1, answer: JSON.stringify(j.answer), rationale: j.rationale, fits: JSON.stringify(j.fits), chosen_family: j.chosen_family, status: 'submitted', saved_by: user.id,
+      })
+    }
+    await trx('round_panel').where({ id: member.id }).update({ submitted_at: trx.fn.now() })
+  })
+  await recordAudit(db, { actorId: user.id, studyId: round.study_id, action: 'round.submit', subject: `round:${roundId}`, details: { judgements: judgements.length } })
+}
+
+/** The analyst reopens an expert's submitted answers (history kept; the reason is audited). */
+export async function reopenSubmission(db: Db, analyst: User, roundId: number, expertId: number, reason: string) {
+  const round = await roundRow(db, roundId)
+  if (round.status !== 'open') throw new HttpError(409, 'Only answers in an open round can be reopened; extend the round first')
+  const member = await db('round_panel').where({ round_id: roundId, user_id: expertId }).first('id', 'submitted_at')
+  if (!member) throw new HttpError(404, 'This expert is not on the panel')
+  if (!member.submitted_at) throw new HttpError(409, 'This expert has not submitted')
+  await db.transaction(async (trx) => {
+    await trx('judgements').where({ round_id: roundId, expert_id: expertId }).update({ status: 'draft', submitted_at: null, version: trx.raw('version + 1'), updated_at: trx.fn.now() })
+    await trx('round_panel').where({ id: member.id }).update({ submitted_at: null })
+  })
+  await recordAudit(db, { actorId: analyst.id, studyId: round.study_id, action: 'round.reopen', subject: `round:${roundId}`, details: { expertId, reason } })
+}
+
+/** Every saved version of one judgement, oldest first. */
+export async function judgementHistory(db: Db, judgementId: number) {
+  const rows = await db('judgement_versions as v').join('users as u', 'u.id', 'v.saved_by').where('v.judgement_id', judgementId)
+    .select('v.version', 'v.answer', 'v.rationale', 'v.fits', 'v.chosen_family', 'v.status', 'v.saved_at', 'u.display_name as saved_by').orderBy('v.version')
+  return rows.map((r) => ({ version: r.version, answer: r.answer, rationale: r.rationale, fits: r.fits, chosenFamily: r.chosen_family, status: r.status, savedAt: r.saved_at.toISOString(), savedBy: r.saved_by }))
+}
+
+export async function listCalibrationAnswers(db: Db, roundId: number, viewer: { user: User; seesAll: boolean }) {
+  const q = db('calibration_answers as a').join('users as u', 'u.id', 'a.expert_id').where('a.round_id', roundId)
+    .select('a.question_id', 'a.expert_id', 'u.display_name as expert_name', 'a.q05', 'a.q50', 'a.q95', 'a.version', 'a.updated_at').orderBy(['a.question_id', 'a.expert_id'])
+  if (!viewer.seesAll) q.where('a.expert_id', viewer.user.id)
+  const rows = await q
+  return rows.map((r) => ({
+    questionId: r.question_id, expertId: r.expert_id, ...(viewer.seesAll ? { expertName: r.expert_name } : {}),
+    q05: r.q05, q50: r.q50, q95: r.q95, version: r.version, updatedAt: r.updated_at.toISOString(),
+  }))
+}
+
+export async function saveCalibrationAnswer(db: Db, user: User, roundId: number, questionId: number, body: { q05: number; q50: number; q95: number; version: number }) {
+  const { round, member } = await assertAnswering(db, user, roundId)
+  if (member.submitted_at) throw new HttpError(409, 'You have submitted this round; ask the analyst to reopen it to change an answer')
+  if (!round.ask_calibration) throw new HttpError(400, 'This round asks no calibration questions')
+  const q = await db('calibration_questions').where({ id: questionId, study_id: round.study_id }).first('id')
+  if (!q) throw new HttpError(404, 'Calibration question not found')
+  return db.transaction(async (trx) => {
+    const existing = await trx('calibration_answers').where({ round_id: roundId, question_id: questionId, expert_id: user.id }).forUpdate().first()
+    const values = { q05: body.q05, q50: body.q50, q95: body.q95 }
+    if (!existing) {
+      if (body.version !== 0) throw new HttpError(409, 'This answer was never saved; reload')
+      const [row] = await trx('calibration_answers').insert({ ...values, round_id: roundId, question_id: questionId, expert_id: user.id }).returning('*')
+      return { questionId, ...values, version: row.version }
+    }
+    if (existing.version !== body.version) throw new HttpError(409, 'This answer was saved from another window or device since you loaded it; reload')
+    const [row] = await trx('calibration_answers').where({ id: existing.id }).update({ ...values, version: existing.version + 1, updated_at: trx.fn.now() }).returning('*')
+    return { questionId, ...values, version: row.version }
+  })
+}
+
+/**
+ * For a feedback round: per quantity, the latest earlier round of the study that asked it, the expert's own
+ * fitted answer there, and the other experts' submitted fits, labelled Expert A, B, … in a fixed order.
+ */
+export async function feedbackFor(db: Db, user: User, roundId: number) {
+  const round = await roundRow(db, roundId)
+  if (!round.feedback_enabled) throw new HttpError(404, 'This round shows no feedback from earlier rounds')
+  const items = await db('round_items').where({ round_id: roundId }).pluck('quantity_id')
+  const out = []
+  for (const quantityId of items) {
+    const prev = await db('rounds as r').join('round_items as i', 'i.round_id', 'r.id')
+      .where({ 'r.study_id': round.study_id, 'i.quantity_id': quantityId }).where('r.number', '<', round.number).orderBy('r.number', 'desc').first('r.id', 'r.number')
+    if (!prev) {
+      out.push({ quantityId, previousRound: null, mine: null, others: [] })
+      continue
+    }
+    const rows: JudgementRow[] = await db('judgements').where({ round_id: prev.id, quantity_id: quantityId, status: 'submitted' }).orderBy('expert_id')
+    const pick = (j: JudgementRow) => {
+      const fits = j.fits as { distribution: { family: string } }[]
+      return (fits.find((f) => f.distribution.family === j.chosen_family) ?? fits[0])?.distribution ?? null
+    }
+    const mine = rows.find((j) => j.expert_id === user.id)
+    out.push({
+      quantityId,
+      previousRound: { id: prev.id, number: prev.number },
+      mine: mine ? { answer: mine.answer, distribution: pick(mine), rationale: mine.rationale } : null,
+      others: rows.filter((j) => j.expert_id !== user.id).map((j, i) => ({ label: `Expert ${String.fromCharCode(65 + i)}`, distribution: pick(j), rationale: j.rationale })),
+    })
+  }
+  return out
+}
