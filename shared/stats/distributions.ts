@@ -1,0 +1,378 @@
+import jStat from 'jstat'
+import { EngineInputError, requireFinite, requirePositive } from './errors'
+import {
+  betaPQ,
+  erf,
+  erfc,
+  gammaPQ,
+  lbeta,
+  lgamma,
+  logGammaPrefactor,
+  logNormCdf,
+  logNormPdf,
+  normCdf,
+  normPdf,
+} from './special'
+import type { PriorDistribution, Univariate } from './types'
+
+const LN_PI = Math.log(Math.PI)
+
+/** Throws EngineInputError unless every parameter of d is finite and in range. */
+export function validateDistribution(d: PriorDistribution, field = 'distribution'): void {
+  if (d === null || typeof d !== 'object') throw new EngineInputError(field, 'A distribution is required.')
+  switch (d.family) {
+    case 'normal':
+      requireFinite(d.mu, field, 'The normal mean')
+      requirePositive(d.sigma, field, 'The normal sd')
+      return
+    case 'student-t':
+      requireFinite(d.mu, field, 'The t location')
+      requirePositive(d.sigma, field, 'The t scale')
+      requirePositive(d.df, field, 'The t degrees of freedom')
+      return
+    case 'lognormal':
+      requireFinite(d.meanlog, field, 'The lognormal meanlog')
+      requirePositive(d.sdlog, field, 'The lognormal sdlog')
+      return
+    case 'gamma':
+      requirePositive(d.shape, field, 'The gamma shape')
+      requirePositive(d.rate, field, 'The gamma rate')
+      return
+    case 'beta':
+      requirePositive(d.alpha, field, 'The beta alpha')
+      requirePositive(d.beta, field, 'The beta beta')
+      return
+    case 'scaled-beta':
+      requirePositive(d.alpha, field, 'The beta alpha')
+      requirePositive(d.beta, field, 'The beta beta')
+      requireFinite(d.lower, field, 'The lower bound')
+      requireFinite(d.upper, field, 'The upper bound')
+      if (!(d.lower < d.upper)) throw new EngineInputError(field, 'The lower bound must be below the upper bound.')
+      return
+    case 'uniform':
+      requireFinite(d.lower, field, 'The lower bound')
+      requireFinite(d.upper, field, 'The upper bound')
+      if (!(d.lower < d.upper)) throw new EngineInputError(field, 'The lower bound must be below the upper bound.')
+      return
+    case 'half-normal':
+      requirePositive(d.scale, field, 'The half-normal scale')
+      return
+    default:
+      throw new EngineInputError(field, `Unknown distribution family "${(d as { family: unknown }).family}".`)
+  }
+}
+
+/** Lower and upper end of the support. */
+export function supportOf(d: PriorDistribution): { lower: number; upper: number } {
+  switch (d.family) {
+    case 'normal':
+    case 'student-t':
+      return { lower: -Infinity, upper: Infinity }
+    case 'lognormal':
+    case 'gamma':
+    case 'half-normal':
+      return { lower: 0, upper: Infinity }
+    case 'beta':
+      return { lower: 0, upper: 1 }
+    case 'scaled-beta':
+    case 'uniform':
+      return { lower: d.lower, upper: d.upper }
+  }
+}
+
+/** Student-t CDF of the standardised value t with ν df: ½ I_{ν/(ν+t²)}(ν/2, ½) in the lower tail (Abramowitz & Stegun 26.7.1). */
+export function studentTCdf(t: number, df: number): number {
+  if (Number.isNaN(t)) return NaN
+  if (t === -Infinity) return 0
+  if (t === Infinity) return 1
+  const t2 = t * t
+  const tail = 0.5 * betaPQ(df / (df + t2), df / 2, 0.5, t2 / (df + t2)).p
+  return t < 0 ? tail : 1 - tail
+}
+
+/** ln of the Student-t density of the standardised value t. */
+export function studentTLogPdf(t: number, df: number): number {
+  return lgamma((df + 1) / 2) - lgamma(df / 2) - 0.5 * (Math.log(df) + LN_PI) - ((df + 1) / 2) * Math.log1p((t * t) / df)
+}
+
+type Tails = { lower: (x: number) => number; upper: (x: number) => number; density: (x: number) => number }
+type SolveScale = 'linear' | 'log' | 'logit'
+
+const sigmoid = (v: number): number => 1 / (1 + Math.exp(-v))
+
+/**
+ * Refines a starting value x0 to the p-quantile by safeguarded Newton steps on ln(tail) (the lower tail for p ≤ ½,
+ * the upper tail otherwise, so 1 − p is never formed), taken on a log or logit scale for bounded supports.
+ */
+export function refineQuantile(p: number, x0: number, tails: Tails, scale: SolveScale): number {
+  const useUpper = p > 0.5
+  const logTarget = useUpper ? Math.log1p(-p) : Math.log(p)
+  const toX = scale === 'log' ? Math.exp : scale === 'logit' ? sigmoid : (v: number) => v
+  let v: number
+  if (scale === 'log') v = x0 > 0 && Number.isFinite(x0) ? Math.log(x0) : 0
+  else if (scale === 'logit') v = x0 > 0 && x0 < 1 ? Math.log(x0 / (1 - x0)) : 0
+  else v = Number.isFinite(x0) ? x0 : 0
+  let a = -Infinity
+  let b = Infinity
+  let x = toX(v)
+  for (let iter = 0; iter < 300; iter++) {
+    x = toX(v)
+    const t = useUpper ? tails.upper(x) : tails.lower(x)
+    const f = useUpper ? logTarget - Math.log(t) : Math.log(t) - logTarget
+    if (f === 0) return x
+    if (f < 0) a = v
+    else b = v
+    const dxdv = scale === 'log' ? x : scale === 'logit' ? x * (1 - x) : 1
+    let next = v - (f * t) / (tails.density(x) * dxdv)
+    const tol = scale === 'linear' ? 4e-16 * Math.abs(v) : 4e-16
+    if (Math.abs(next - v) <= tol) return toX(next)
+    if (!(next > a && next < b) || !Number.isFinite(next)) {
+      if (Number.isFinite(a) && Number.isFinite(b)) next = 0.5 * (a + b)
+      else if (Number.isFinite(a)) next = a + Math.max(1, 2 * Math.abs(a))
+      else next = b - Math.max(1, 2 * Math.abs(b))
+    }
+    if (next === a || next === b) return toX(next)
+    v = next
+  }
+  return x
+}
+
+/** Standard normal quantile: jstat's erfcinv start, refined by Newton on ln Φ (accurate to ~1e-16 relative). */
+export function normalQuantile(p: number): number {
+  if (!(p >= 0 && p <= 1)) return NaN
+  if (p === 0) return -Infinity
+  if (p === 1) return Infinity
+  if (p === 0.5) return 0
+  if (p > 0.5) return -normalQuantile(1 - p)
+  const x0 = jStat.normal.inv(p, 0, 1)
+  let x = Number.isFinite(x0) ? x0 : -Math.sqrt(-2 * Math.log(p))
+  for (let i = 0; i < 8; i++) {
+    const lc = logNormCdf(x)
+    const step = (lc - Math.log(p)) * Math.exp(lc - logNormPdf(x))
+    x -= step
+    if (Math.abs(step) <= 1e-16 * Math.abs(x)) break
+  }
+  return x
+}
+
+/** Student-t standardised quantile: jstat's start (≈1e-8 off) refined on the accurate CDF. */
+export function studentTQuantile(p: number, df: number): number {
+  if (!(p >= 0 && p <= 1)) return NaN
+  if (p === 0) return -Infinity
+  if (p === 1) return Infinity
+  if (p === 0.5) return 0
+  if (p > 0.5) return -studentTQuantile(1 - p, df)
+  const x0 = jStat.studentt.inv(p, df)
+  const tails: Tails = {
+    lower: (t) => studentTCdf(t, df),
+    upper: (t) => studentTCdf(-t, df),
+    density: (t) => Math.exp(studentTLogPdf(t, df)),
+  }
+  return refineQuantile(p, x0, tails, 'linear')
+}
+
+/** Natural-log density; −Infinity outside the support. */
+export function logPdf(d: PriorDistribution, x: number): number {
+  switch (d.family) {
+    case 'normal':
+      return logNormPdf((x - d.mu) / d.sigma) - Math.log(d.sigma)
+    case 'student-t':
+      return studentTLogPdf((x - d.mu) / d.sigma, d.df) - Math.log(d.sigma)
+    case 'lognormal':
+      if (!(x > 0)) return -Infinity
+      return logNormPdf((Math.log(x) - d.meanlog) / d.sdlog) - Math.log(d.sdlog) - Math.log(x)
+    case 'gamma':
+      if (!(x > 0)) return x === 0 && d.shape === 1 ? Math.log(d.rate) : -Infinity
+      return logGammaPrefactor(d.shape, d.rate * x) - Math.log(x)
+    case 'beta':
+      return betaLogPdf(x, 1 - x, d.alpha, d.beta)
+    case 'scaled-beta': {
+      const w = d.upper - d.lower
+      return betaLogPdf((x - d.lower) / w, (d.upper - x) / w, d.alpha, d.beta) - Math.log(w)
+    }
+    case 'uniform':
+      return x >= d.lower && x <= d.upper ? -Math.log(d.upper - d.lower) : -Infinity
+    case 'half-normal':
+      return x >= 0 ? Math.LN2 + logNormPdf(x / d.scale) - Math.log(d.scale) : -Infinity
+  }
+}
+
+function betaLogPdf(y: number, ycomp: number, a: number, b: number): number {
+  if (!(y >= 0 && ycomp >= 0)) return -Infinity
+  const la = a === 1 ? 0 : (a - 1) * Math.log(y)
+  const lb = b === 1 ? 0 : (b - 1) * Math.log(ycomp)
+  return la + lb - lbeta(a, b)
+}
+
+/** Density f(x) (Johnson, Kotz & Balakrishnan 1994–95, the family's chapter). */
+export function pdf(d: PriorDistribution, x: number): number {
+  return Math.exp(logPdf(d, x))
+}
+
+/** Lower-tail probability P(X ≤ x). */
+export function cdf(d: PriorDistribution, x: number): number {
+  switch (d.family) {
+    case 'normal':
+      return normCdf((x - d.mu) / d.sigma)
+    case 'student-t':
+      return studentTCdf((x - d.mu) / d.sigma, d.df)
+    case 'lognormal':
+      return x > 0 ? normCdf((Math.log(x) - d.meanlog) / d.sdlog) : 0
+    case 'gamma':
+      return x > 0 ? gammaPQ(d.shape, d.rate * x).p : 0
+    case 'beta':
+      return betaPQ(clamp01(x), d.alpha, d.beta, clamp01(1 - x)).p
+    case 'scaled-beta': {
+      const w = d.upper - d.lower
+      return betaPQ(clamp01((x - d.lower) / w), d.alpha, d.beta, clamp01((d.upper - x) / w)).p
+    }
+    case 'uniform':
+      return x <= d.lower ? 0 : x >= d.upper ? 1 : (x - d.lower) / (d.upper - d.lower)
+    case 'half-normal':
+      return x > 0 ? erf(x / (d.scale * Math.SQRT2)) : 0
+  }
+}
+
+/** Upper-tail probability P(X > x), computed directly (not as 1 − cdf). */
+export function sf(d: PriorDistribution, x: number): number {
+  switch (d.family) {
+    case 'normal':
+      return normCdf((d.mu - x) / d.sigma)
+    case 'student-t':
+      return studentTCdf((d.mu - x) / d.sigma, d.df)
+    case 'lognormal':
+      return x > 0 ? normCdf((d.meanlog - Math.log(x)) / d.sdlog) : 1
+    case 'gamma':
+      return x > 0 ? gammaPQ(d.shape, d.rate * x).q : 1
+    case 'beta':
+      return betaPQ(clamp01(x), d.alpha, d.beta, clamp01(1 - x)).q
+    case 'scaled-beta': {
+      const w = d.upper - d.lower
+      return betaPQ(clamp01((x - d.lower) / w), d.alpha, d.beta, clamp01((d.upper - x) / w)).q
+    }
+    case 'uniform':
+      return x <= d.lower ? 1 : x >= d.upper ? 0 : (d.upper - x) / (d.upper - d.lower)
+    case 'half-normal':
+      return x > 0 ? erfc(x / (d.scale * Math.SQRT2)) : 1
+  }
+}
+
+function clamp01(v: number): number {
+  return v < 0 ? 0 : v > 1 ? 1 : v
+}
+
+/** Quantile F⁻¹(p): closed forms where they exist, otherwise jstat's inverse refined by Newton steps on the accurate CDF. */
+export function quantile(d: PriorDistribution, p: number): number {
+  if (!(p >= 0 && p <= 1)) return NaN
+  switch (d.family) {
+    case 'normal':
+      return d.mu + d.sigma * normalQuantile(p)
+    case 'student-t':
+      return d.mu + d.sigma * studentTQuantile(p, d.df)
+    case 'lognormal':
+      return Math.exp(d.meanlog + d.sdlog * normalQuantile(p))
+    case 'uniform':
+      return d.lower + p * (d.upper - d.lower)
+    case 'gamma': {
+      if (p === 0) return 0
+      if (p === 1) return Infinity
+      const a = d.shape
+      const tails: Tails = {
+        lower: (y) => gammaPQ(a, y).p,
+        upper: (y) => gammaPQ(a, y).q,
+        density: (y) => Math.exp(logGammaPrefactor(a, y) - Math.log(y)),
+      }
+      return refineQuantile(p, jStat.gamma.inv(p, a, 1), tails, 'log') / d.rate
+    }
+    case 'beta':
+      return betaQuantile(p, d.alpha, d.beta)
+    case 'scaled-beta':
+      return d.lower + (d.upper - d.lower) * betaQuantile(p, d.alpha, d.beta)
+    case 'half-normal': {
+      if (p === 0) return 0
+      if (p === 1) return Infinity
+      const s = d.scale
+      const tails: Tails = {
+        lower: (x) => erf(x / (s * Math.SQRT2)),
+        upper: (x) => erfc(x / (s * Math.SQRT2)),
+        density: (x) => (2 * normPdf(x / s)) / s,
+      }
+      return refineQuantile(p, -s * normalQuantile((1 - p) / 2), tails, 'log')
+    }
+  }
+}
+
+function betaQuantile(p: number, a: number, b: number): number {
+  if (p === 0) return 0
+  if (p === 1) return 1
+  const tails: Tails = {
+    lower: (y) => betaPQ(y, a, b).p,
+    upper: (y) => betaPQ(y, a, b).q,
+    density: (y) => Math.exp(betaLogPdf(y, 1 - y, a, b)),
+  }
+  return refineQuantile(p, jStat.beta.inv(p, a, b), tails, 'logit')
+}
+
+/** Mean (NaN where it does not exist, e.g. Student-t with df ≤ 1). */
+export function mean(d: PriorDistribution): number {
+  switch (d.family) {
+    case 'normal':
+      return d.mu
+    case 'student-t':
+      return d.df > 1 ? d.mu : NaN
+    case 'lognormal':
+      return Math.exp(d.meanlog + (d.sdlog * d.sdlog) / 2)
+    case 'gamma':
+      return d.shape / d.rate
+    case 'beta':
+      return d.alpha / (d.alpha + d.beta)
+    case 'scaled-beta':
+      return d.lower + ((d.upper - d.lower) * d.alpha) / (d.alpha + d.beta)
+    case 'uniform':
+      return (d.lower + d.upper) / 2
+    case 'half-normal':
+      return d.scale * Math.sqrt(2 / Math.PI)
+  }
+}
+
+/** Standard deviation (Infinity for Student-t with 1 < df ≤ 2, NaN for df ≤ 1). */
+export function sd(d: PriorDistribution): number {
+  switch (d.family) {
+    case 'normal':
+      return d.sigma
+    case 'student-t':
+      return d.df > 2 ? d.sigma * Math.sqrt(d.df / (d.df - 2)) : d.df > 1 ? Infinity : NaN
+    case 'lognormal': {
+      const s2 = d.sdlog * d.sdlog
+      return Math.exp(d.meanlog + s2 / 2) * Math.sqrt(Math.expm1(s2))
+    }
+    case 'gamma':
+      return Math.sqrt(d.shape) / d.rate
+    case 'beta':
+    case 'scaled-beta': {
+      const { alpha: a, beta: b } = d
+      const w = d.family === 'beta' ? 1 : d.upper - d.lower
+      return (w * Math.sqrt((a * b) / (a + b + 1))) / (a + b)
+    }
+    case 'uniform':
+      return (d.upper - d.lower) / Math.sqrt(12)
+    case 'half-normal':
+      return d.scale * Math.sqrt(1 - 2 / Math.PI)
+  }
+}
+
+/** Median, i.e. quantile(d, ½). */
+export function median(d: PriorDistribution): number {
+  return quantile(d, 0.5)
+}
+
+/** Wraps a distribution as a Univariate (function-valued) object. */
+export function toUnivariate(d: PriorDistribution): Univariate {
+  return {
+    pdf: (x) => pdf(d, x),
+    cdf: (x) => cdf(d, x),
+    quantile: (p) => quantile(d, p),
+    mean: () => mean(d),
+    sd: () => sd(d),
+  }
+}

@@ -1,0 +1,691 @@
+import { quantile, studentTLogPdf, supportOf, toUnivariate, validateDistribution } from './distributions'
+import { EngineInputError } from './errors'
+import { mixtureQuantile } from './pool'
+import { findRoot, LogIntegral, maximize, type Hint } from './quadrature'
+import { betaPQ, gammaPQ, lbeta, lgamma, logNormCdf, logNormDiff, logNormPdf, normCdf, normPdf, softplus } from './special'
+import type { Analysis, PilotData, PosteriorSummary, PriorDistribution, Univariate } from './types'
+
+const LN_2PI = Math.log(2 * Math.PI)
+const PROBS = [0.025, 0.5, 0.975] as const
+
+export type AnalyzeOptions = {
+  /** Use quadrature even where a closed form exists (for cross-checks). */
+  forceQuadrature?: boolean
+  /** Skip Box's prior predictive p-value (NaN in the result); used by the width sweep. */
+  skipPredictiveCheck?: boolean
+}
+
+// ─── Prior on an unconstrained scale ─────────────────────────────────────────────────────────────
+
+/**
+ * A prior expressed on u ∈ ℝ: θ = u (real support), θ = e^u (positive), θ = L + (U − L)/(1 + e^(−u)) (bounded);
+ * logPrior(u) is the log density of u, Jacobian included.
+ */
+interface PriorScale {
+  theta(u: number): number
+  /** 1 − θ without cancellation (meaningful when θ ∈ [0, 1]). */
+  oneMinusTheta(u: number): number
+  logPrior(u: number): number
+  toU(theta: number): number
+  hint: Hint
+}
+
+function priorScale(prior: PriorDistribution): PriorScale {
+  switch (prior.family) {
+    case 'normal':
+    case 'student-t': {
+      const { mu, sigma } = prior
+      const df = prior.family === 'student-t' ? prior.df : Infinity
+      const c = prior.family === 'student-t' ? studentTLogPdf(0, df) - Math.log(sigma) : -Math.log(sigma)
+      return {
+        theta: (u) => u,
+        oneMinusTheta: (u) => 1 - u,
+        logPrior:
+          prior.family === 'student-t'
+            ? (u) => c - ((df + 1) / 2) * Math.log1p(((u - mu) / sigma) ** 2 / df)
+            : (u) => c + logNormPdf((u - mu) / sigma),
+        toU: (t) => t,
+        hint: { center: mu, scale: sigma },
+      }
+    }
+    case 'lognormal':
+      return {
+        theta: Math.exp,
+        oneMinusTheta: (u) => -Math.expm1(u),
+        logPrior: (u) => logNormPdf((u - prior.meanlog) / prior.sdlog) - Math.log(prior.sdlog),
+        toU: (t) => (t > 0 ? Math.log(t) : NaN),
+        hint: { center: prior.meanlog, scale: prior.sdlog },
+      }
+    case 'gamma': {
+      const { shape: a, rate: b } = prior
+      const c = a * Math.log(b) - lgamma(a)
+      return {
+        theta: Math.exp,
+        oneMinusTheta: (u) => -Math.expm1(u),
+        logPrior: (u) => a * u - b * Math.exp(u) + c,
+        toU: (t) => (t > 0 ? Math.log(t) : NaN),
+        hint: { center: Math.log(a / b), scale: 1 / Math.sqrt(a) },
+      }
+    }
+    case 'half-normal': {
+      const s = prior.scale
+      return {
+        theta: Math.exp,
+        oneMinusTheta: (u) => -Math.expm1(u),
+        logPrior: (u) => Math.LN2 + logNormPdf(Math.exp(u) / s) - Math.log(s) + u,
+        toU: (t) => (t > 0 ? Math.log(t) : NaN),
+        hint: { center: Math.log(s), scale: 0.7 },
+      }
+    }
+    case 'beta':
+    case 'scaled-beta':
+    case 'uniform': {
+      const a = prior.family === 'uniform' ? 1 : prior.alpha
+      const b = prior.family === 'uniform' ? 1 : prior.beta
+      const lower = prior.family === 'beta' ? 0 : prior.lower
+      const upper = prior.family === 'beta' ? 1 : prior.upper
+      const w = upper - lower
+      const lb = lbeta(a, b)
+      return {
+        theta: (u) => (u <= 0 ? lower + w / (1 + Math.exp(-u)) : upper - w / (1 + Math.exp(u))),
+        oneMinusTheta: (u) => 1 - upper + w / (1 + Math.exp(u)),
+        logPrior: (u) => -a * softplus(-u) - b * softplus(u) - lb,
+        toU: (t) => (t > lower && t < upper ? Math.log((t - lower) / (upper - t)) : NaN),
+        hint: { center: Math.log(a / b), scale: Math.sqrt(1 / a + 1 / b) },
+      }
+    }
+  }
+}
+
+/** A likelihood hint (centre and scale on θ) carried over to the prior's u scale. */
+function hintOnU(scale: PriorScale, center: number, spread: number): Hint | null {
+  const u = scale.toU(center)
+  if (!Number.isFinite(u)) return null
+  const eps = Math.min(spread, Math.abs(center) + spread) * 1e-3
+  const du = Math.abs(scale.toU(center + eps) - scale.toU(center - eps)) / (2 * eps)
+  const s = spread * du
+  return Number.isFinite(s) && s > 0 ? { center: u, scale: s } : { center: u, scale: scale.hint.scale }
+}
+
+function priorHints(scale: PriorScale, extra: (Hint | null)[]): Hint[] {
+  return [scale.hint, ...extra.filter((h): h is Hint => h !== null)]
+}
+
+// ─── Data checks and sufficient statistics ───────────────────────────────────────────────────────
+
+type NormalStats = { n: number; mean: number; ss: number }
+
+function normalStats(values: number[]): NormalStats {
+  if (!Array.isArray(values) || values.length === 0) throw new EngineInputError('values', 'The data contain no observations.')
+  values.forEach((v, i) => {
+    if (typeof v !== 'number' || !Number.isFinite(v)) throw new EngineInputError('values', `Observation ${i + 1} is not a finite number.`)
+  })
+  const n = values.length
+  const mean = values.reduce((s, v) => s + v, 0) / n
+  const ss = values.reduce((s, v) => s + (v - mean) ** 2, 0)
+  return { n, mean, ss }
+}
+
+function requireSupportWithin(prior: PriorDistribution, lower: number, upper: number, field: string, what: string): void {
+  const s = supportOf(prior)
+  if (s.lower < lower || s.upper > upper) throw new EngineInputError(field, `The prior must put all its mass on ${what}; a ${prior.family} prior does not.`)
+}
+
+function validateData(prior: PriorDistribution, data: PilotData): void {
+  validateDistribution(prior, 'prior')
+  if (!data || typeof data !== 'object') throw new EngineInputError('data', 'Pilot data are required.')
+  switch (data.model) {
+    case 'normal-known-sigma':
+      if (!(data.sigma > 0 && Number.isFinite(data.sigma))) throw new EngineInputError('sigma', 'σ must be a positive number.')
+      normalStats(data.values)
+      return
+    case 'normal': {
+      const st = normalStats(data.values)
+      if (st.n >= 2 && !(st.ss > 0))
+        throw new EngineInputError('values', 'All observations are equal: with σ unknown the likelihood grows without bound as σ → 0.')
+      validateDistribution(data.sigmaPrior, 'sigmaPrior')
+      requireSupportWithin(data.sigmaPrior, 0, Infinity, 'sigmaPrior', 'positive values of σ')
+      return
+    }
+    case 'binomial':
+      if (!Number.isInteger(data.trials) || data.trials < 1) throw new EngineInputError('trials', 'The number of trials must be a whole number of at least 1.')
+      if (!Number.isInteger(data.successes) || data.successes < 0) throw new EngineInputError('successes', 'The number of successes must be a whole number, 0 or more.')
+      if (data.successes > data.trials) throw new EngineInputError('successes', 'There cannot be more successes than trials.')
+      requireSupportWithin(prior, 0, 1, 'prior', 'probabilities in [0, 1]')
+      return
+    case 'poisson':
+      if (!Array.isArray(data.counts) || data.counts.length === 0) throw new EngineInputError('counts', 'The data contain no counts.')
+      data.counts.forEach((c, i) => {
+        if (!Number.isInteger(c) || c < 0) throw new EngineInputError('counts', `Count ${i + 1} must be a whole number, 0 or more.`)
+      })
+      if (!Array.isArray(data.exposures) || data.exposures.length !== data.counts.length)
+        throw new EngineInputError('exposures', 'Give one exposure per count.')
+      data.exposures.forEach((t, i) => {
+        if (!(t > 0 && Number.isFinite(t))) throw new EngineInputError('exposures', `Exposure ${i + 1} must be a positive number.`)
+      })
+      requireSupportWithin(prior, 0, Infinity, 'prior', 'positive rates')
+      return
+    default:
+      throw new EngineInputError('model', `Unknown data model "${(data as { model: unknown }).model}".`)
+  }
+}
+
+// ─── Distributions built on the way ──────────────────────────────────────────────────────────────
+
+/** What a posterior summary needs: moments, CDF and quantiles on θ. */
+type PosteriorParts = Pick<Univariate, 'cdf' | 'quantile' | 'mean' | 'sd'> & { variance: number }
+
+function normalUnivariate(m: number, s: number): Univariate {
+  return {
+    pdf: (x) => normPdf((x - m) / s) / s,
+    cdf: (x) => normCdf((x - m) / s),
+    quantile: (p) => quantile({ family: 'normal', mu: m, sigma: s }, p),
+    mean: () => m,
+    sd: () => s,
+  }
+}
+
+/** N(m, s²) truncated to [a, b], with tail-safe log-scale normalisation (Johnson, Kotz & Balakrishnan 1994, §10.1). */
+export function truncatedNormal(m: number, s: number, a: number, b: number): Univariate {
+  const alpha = (a - m) / s
+  const beta = (b - m) / s
+  const logZ = logNormDiff(alpha, beta)
+  const ra = Number.isFinite(alpha) ? Math.exp(logNormPdf(alpha) - logZ) : 0
+  const rb = Number.isFinite(beta) ? Math.exp(logNormPdf(beta) - logZ) : 0
+  const mean = m + s * (ra - rb)
+  const aTerm = Number.isFinite(alpha) ? alpha * ra : 0
+  const bTerm = Number.isFinite(beta) ? beta * rb : 0
+  const variance = s * s * Math.max(0, 1 + aTerm - bTerm - (ra - rb) ** 2)
+  const cdf = (x: number): number => (x <= a ? 0 : x >= b ? 1 : Math.exp(logNormDiff(alpha, (x - m) / s) - logZ))
+  return {
+    pdf: (x) => (x < a || x > b ? 0 : Math.exp(logNormPdf((x - m) / s) - logZ) / s),
+    cdf,
+    quantile: (p) => {
+      if (p <= 0) return a
+      if (p >= 1) return b
+      const lo = Math.max(a, m - 40 * s)
+      const hi = Math.min(b, m + 40 * s)
+      return findRoot((x) => cdf(x) - p, lo < hi ? lo : a, lo < hi ? hi : b, 1e-15)
+    },
+    mean: () => mean,
+    sd: () => Math.sqrt(variance),
+  }
+}
+
+function summarise(d: Pick<Univariate, 'quantile' | 'mean' | 'sd'>): PosteriorSummary {
+  return { mean: d.mean(), sd: d.sd(), q025: d.quantile(PROBS[0]), q50: d.quantile(PROBS[1]), q975: d.quantile(PROBS[2]) }
+}
+
+/** Posterior moments, CDF and quantiles on θ from a LogIntegral on the prior's u scale. */
+function posteriorFromIntegral(li: LogIntegral, scale: PriorScale): PosteriorParts {
+  const mean = li.expect((u) => scale.theta(u))
+  const variance = li.expect((u) => (scale.theta(u) - mean) ** 2)
+  return {
+    cdf: (t) => {
+      const u = scale.toU(t)
+      return Number.isNaN(u) ? (t <= scale.theta(li.lower) ? 0 : 1) : li.cdf(u)
+    },
+    quantile: (p) => scale.theta(li.quantile(p)),
+    mean: () => mean,
+    sd: () => Math.sqrt(variance),
+    variance,
+  }
+}
+
+// ─── Normal data with known σ ────────────────────────────────────────────────────────────────────
+
+type Conditional = { logEvidence: number; closed: boolean; posterior: () => PosteriorParts }
+
+/** Marginal likelihood and posterior of μ for normal data with known σ (BDA3 §2.5; REFERENCE §4.1–4.2). */
+function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: number, force: boolean): Conditional {
+  const { n, mean: xbar, ss } = st
+  const se = sigma / Math.sqrt(n)
+  const base = -(n / 2) * (LN_2PI + 2 * Math.log(sigma)) - ss / (2 * sigma * sigma)
+  const shift = 0.5 * (LN_2PI + 2 * Math.log(se))
+  if (!force && prior.family === 'normal') {
+    const tau = prior.sigma
+    const predSd = Math.sqrt(tau * tau + se * se)
+    const logEvidence = base + shift + logNormPdf((xbar - prior.mu) / predSd) - Math.log(predSd)
+    return {
+      logEvidence,
+      closed: true,
+      posterior: () => {
+        const precision = 1 / (tau * tau) + 1 / (se * se)
+        const v = 1 / precision
+        const m = v * (prior.mu / (tau * tau) + xbar / (se * se))
+        return Object.assign(normalUnivariate(m, Math.sqrt(v)), { variance: v })
+      },
+    }
+  }
+  if (!force && prior.family === 'uniform') {
+    const logZ = logNormDiff((prior.lower - xbar) / se, (prior.upper - xbar) / se)
+    return {
+      logEvidence: base + shift + logZ - Math.log(prior.upper - prior.lower),
+      closed: true,
+      posterior: () => {
+        const d = truncatedNormal(xbar, se, prior.lower, prior.upper)
+        return Object.assign(d, { variance: d.sd() ** 2 })
+      },
+    }
+  }
+  const scale = priorScale(prior)
+  const h = (u: number): number => scale.logPrior(u) - (n * (xbar - scale.theta(u)) ** 2) / (2 * sigma * sigma)
+  const li = new LogIntegral(h, priorHints(scale, [hintOnU(scale, xbar, se)]))
+  let post: PosteriorParts | null = null
+  return {
+    logEvidence: base + li.logValue,
+    closed: false,
+    posterior: () => (post ??= posteriorFromIntegral(li, scale)),
+  }
+}
+
+// ─── Normal data with unknown σ ──────────────────────────────────────────────────────────────────
+
+/** μ and σ independent a priori: μ integrated out for each σ (closed form for normal and uniform priors), then σ by quadrature on ln σ (REFERENCE §9). */
+function normalUnknownSigma(prior: PriorDistribution, st: NormalStats, sigmaPrior: PriorDistribution, force: boolean) {
+  const sScale = priorScale(sigmaPrior)
+  const cache = new Map<number, Conditional>()
+  const conditional = (sigma: number): Conditional => {
+    let c = cache.get(sigma)
+    if (!c) {
+      c = normalKnownSigma(prior, st, sigma, force)
+      cache.set(sigma, c)
+    }
+    return c
+  }
+  const h = (v: number): number => {
+    const sigma = sScale.theta(v)
+    if (!(sigma > 0) || !Number.isFinite(sigma)) return -Infinity
+    return sScale.logPrior(v) + conditional(sigma).logEvidence
+  }
+  const sigmaHat = Math.sqrt(st.ss / Math.max(1, st.n - 1))
+  const hints = priorHints(sScale, [sigmaHat > 0 ? hintOnU(sScale, sigmaHat, sigmaHat / Math.sqrt(2 * st.n)) : null])
+  const li = new LogIntegral(h, hints)
+  const posterior = (): PosteriorSummary => {
+    if (prior.family !== 'normal' && prior.family !== 'uniform') {
+      const fast = marginalOfMean(prior, st, sScale, li)
+      if (fast && Math.abs(fast.logValue - li.logValue) <= 1e-9 * Math.max(1, Math.abs(li.logValue))) return summarise(fast.posterior)
+    }
+    const nodes = li.nodes().filter((nd) => nd.weight > 0)
+    const top = Math.max(...nodes.map((nd) => nd.weight))
+    const kept = nodes.filter((nd) => nd.weight > 1e-17 * top)
+    const total = kept.reduce((s, nd) => s + nd.weight, 0)
+    const comps = kept.map((nd) => conditional(sScale.theta(nd.u)).posterior())
+    const w = kept.map((nd) => nd.weight / total)
+    const mean = comps.reduce((s, c, i) => s + w[i] * c.mean(), 0)
+    const variance = comps.reduce((s, c, i) => s + w[i] * (c.variance + (c.mean() - mean) ** 2), 0)
+    const q = PROBS.map((p) => mixtureQuantile(comps, w, p))
+    return { mean, sd: Math.sqrt(variance), q025: q[0], q50: q[1], q975: q[2] }
+  }
+  return { logEvidence: li.logValue, posterior }
+}
+
+/**
+ * Marginal posterior of μ for a non-conjugate prior when σ is unknown: σ is integrated out with the fixed G–K rule of the
+ * σ quadrature (valid while the result reproduces the evidence), then μ by quadrature. Null when the rule is empty.
+ */
+function marginalOfMean(prior: PriorDistribution, st: NormalStats, sScale: PriorScale, outer: LogIntegral) {
+  const { n, mean: xbar, ss } = st
+  const rule = outer
+    .rule()
+    .map(({ u, w }) => ({ sigma: sScale.theta(u), c: Math.log(w) + sScale.logPrior(u) }))
+    .filter((r) => r.sigma > 0 && Number.isFinite(r.c))
+  if (rule.length === 0) return null
+  const base = rule.map((r) => r.c - n * Math.log(r.sigma) - (n / 2) * LN_2PI)
+  const inv = rule.map((r) => 1 / (2 * r.sigma * r.sigma))
+  const scale = priorScale(prior)
+  const terms = new Float64Array(rule.length)
+  const h = (u: number): number => {
+    const q = ss + n * (xbar - scale.theta(u)) ** 2
+    let m = -Infinity
+    for (let j = 0; j < terms.length; j++) {
+      terms[j] = base[j] - q * inv[j]
+      if (terms[j] > m) m = terms[j]
+    }
+    if (m === -Infinity) return -Infinity
+    let total = 0
+    for (let j = 0; j < terms.length; j++) total += Math.exp(terms[j] - m)
+    return scale.logPrior(u) + m + Math.log(total)
+  }
+  const sigmaHat = Math.sqrt(ss / Math.max(1, n - 1)) || sScale.theta(sScale.hint.center)
+  const li = new LogIntegral(h, priorHints(scale, [hintOnU(scale, xbar, sigmaHat / Math.sqrt(n))]))
+  return { logValue: li.logValue, posterior: posteriorFromIntegral(li, scale) }
+}
+
+// ─── Box's prior predictive check for the sample mean ────────────────────────────────────────────
+
+type Predictive = { logDensity(t: number): number; lower(t: number): number; upper(t: number): number; symmetric: boolean; center: number; spread: number }
+
+/** Error kernel of x̄ − μ: a normal (known σ) or a scale mixture of normals Σ w_j N(0, s_j²) (σ integrated over its prior). */
+type Kernel = { s: number[]; w: number[] }
+
+function logSumExp(terms: number[]): number {
+  const m = Math.max(...terms)
+  if (!Number.isFinite(m)) return m
+  let total = 0
+  for (const t of terms) total += Math.exp(t - m)
+  return m + Math.log(total)
+}
+
+function psi(z: number): number {
+  return z * normCdf(z) + normPdf(z)
+}
+
+/** Prior predictive distribution of x̄ = μ + e: closed form for normal and uniform priors, quadrature over μ otherwise. */
+function meanPredictive(prior: PriorDistribution, kernel: Kernel): Predictive {
+  const { s, w } = kernel
+  const logW = w.map(Math.log)
+  const sBar = Math.sqrt(s.reduce((acc, sj, j) => acc + w[j] * sj * sj, 0))
+  if (prior.family === 'normal') {
+    const total = s.map((sj) => Math.sqrt(prior.sigma ** 2 + sj * sj))
+    const tail = (z: number): number => total.reduce((acc, tj, j) => acc + w[j] * normCdf(z / tj), 0)
+    return {
+      logDensity: (t) => logSumExp(total.map((tj, j) => logW[j] + logNormPdf((t - prior.mu) / tj) - Math.log(tj))),
+      lower: (t) => tail(t - prior.mu),
+      upper: (t) => tail(prior.mu - t),
+      symmetric: true,
+      center: prior.mu,
+      spread: Math.sqrt(prior.sigma ** 2 + sBar * sBar),
+    }
+  }
+  if (prior.family === 'uniform') {
+    const { lower: a, upper: b } = prior
+    const lowerTail = (t: number): number => s.reduce((acc, sj, j) => acc + ((w[j] * sj) / (b - a)) * (psi((t - a) / sj) - psi((t - b) / sj)), 0)
+    return {
+      logDensity: (t) => logSumExp(s.map((sj, j) => logW[j] + logNormDiff((a - t) / sj, (b - t) / sj))) - Math.log(b - a),
+      lower: lowerTail,
+      upper: (t) => lowerTail(a + b - t),
+      symmetric: true,
+      center: (a + b) / 2,
+      spread: Math.sqrt((b - a) ** 2 / 12 + sBar * sBar),
+    }
+  }
+  const scale = priorScale(prior)
+  const logK = (e: number): number => logSumExp(s.map((sj, j) => logW[j] + logNormCdf(e / sj)))
+  const logk = (e: number): number => logSumExp(s.map((sj, j) => logW[j] + logNormPdf(e / sj) - Math.log(sj)))
+  const integral = (t: number, logKernel: (theta: number) => number): number =>
+    new LogIntegral((u) => scale.logPrior(u) + logKernel(scale.theta(u)), priorHints(scale, [hintOnU(scale, t, sBar)])).logValue
+  const iqr = quantile(prior, 0.75) - quantile(prior, 0.25)
+  return {
+    logDensity: (t) => integral(t, (th) => logk(t - th)),
+    lower: (t) => Math.exp(integral(t, (th) => logK(t - th))),
+    upper: (t) => Math.exp(integral(t, (th) => logK(th - t))),
+    symmetric: prior.family === 'student-t',
+    center: quantile(prior, 0.5),
+    spread: Math.sqrt((iqr / 1.349) ** 2 + sBar * sBar),
+  }
+}
+
+/** The kernel of x̄ − μ when σ has a prior: the σ prior's quadrature nodes as a scale mixture of N(0, σ²/n). */
+function sigmaMixtureKernel(sigmaPrior: PriorDistribution, n: number): Kernel {
+  const sScale = priorScale(sigmaPrior)
+  const nodes = new LogIntegral((v) => sScale.logPrior(v), [sScale.hint]).nodes()
+  const top = Math.max(...nodes.map((nd) => nd.weight))
+  const kept = nodes.filter((nd) => nd.weight > 1e-16 * top)
+  const total = kept.reduce((acc, nd) => acc + nd.weight, 0)
+  return { s: kept.map((nd) => sScale.theta(nd.u) / Math.sqrt(n)), w: kept.map((nd) => nd.weight / total) }
+}
+
+/**
+ * Box's (1980) p-value P(g(X̄) ≤ g(x̄)) under the prior predictive density g of the sample mean: 2·min(tail) when g is
+ * symmetric; otherwise the two tails beyond x̄ and beyond the point on the other side of the mode with equal density
+ * (g is unimodal when the prior is: normal errors are strongly unimodal, Ibragimov 1956).
+ */
+function boxPForMean(pred: Predictive, xbar: number): number {
+  if (pred.symmetric) {
+    const tail = xbar <= pred.center ? pred.lower(xbar) : pred.upper(xbar)
+    return Math.min(1, 2 * tail)
+  }
+  const mode = maximize((t) => pred.logDensity(t), pred.center, pred.spread).u
+  const target = pred.logDensity(xbar)
+  if (xbar === mode) return 1
+  const dir = xbar < mode ? 1 : -1
+  const g = (t: number): number => pred.logDensity(t) - target
+  if (g(mode) <= 0) return 1
+  let step = pred.spread
+  let far = mode + dir * step
+  for (let i = 0; i < 60 && g(far) > 0; i++) {
+    step *= 2
+    far = mode + dir * step
+  }
+  const other = findRoot(g, Math.min(mode, far), Math.max(mode, far), 1e-10)
+  const left = Math.min(xbar, other)
+  const right = Math.max(xbar, other)
+  return Math.min(1, pred.lower(left) + pred.upper(right))
+}
+
+// ─── Counts ──────────────────────────────────────────────────────────────────────────────────────
+
+/** The Beta(a, b) on [0, 1] that a beta, a uniform or a scaled beta on exactly [0, 1] is; null otherwise. */
+function asStandardBeta(prior: PriorDistribution): { a: number; b: number } | null {
+  if (prior.family === 'beta') return { a: prior.alpha, b: prior.beta }
+  if (prior.family === 'uniform' && prior.lower === 0 && prior.upper === 1) return { a: 1, b: 1 }
+  if (prior.family === 'scaled-beta' && prior.lower === 0 && prior.upper === 1) return { a: prior.alpha, b: prior.beta }
+  return null
+}
+
+function lchoose(n: number, k: number): number {
+  return lgamma(n + 1) - lgamma(k + 1) - lgamma(n - k + 1)
+}
+
+function countTailsToP(lower: number, upper: number): number {
+  return Math.min(1, 2 * Math.min(lower, upper))
+}
+
+/** Beta-binomial tails P(T ≤ y) and P(T ≥ y), summing the pmf relative to its value at y (exact, no underflow). */
+function betaBinomialTails(y: number, n: number, a: number, b: number): { lower: number; upper: number } {
+  let lowerSum = 1
+  let term = 1
+  for (let k = y; k > 0; k--) {
+    term *= (k / (n - k + 1)) * ((b + n - k) / (a + k - 1))
+    lowerSum += term
+    if (term < 1e-300) break
+  }
+  let upperSum = 1
+  term = 1
+  for (let k = y; k < n; k++) {
+    term *= ((n - k) / (k + 1)) * ((a + k) / (b + n - k - 1))
+    upperSum += term
+    if (term < 1e-300) break
+  }
+  const total = lowerSum + upperSum - 1
+  return { lower: lowerSum / total, upper: upperSum / total }
+}
+
+/** Expected value under the prior of a probability depending on θ, by quadrature on the prior's u scale. */
+function priorExpectation(scale: PriorScale, logValue: (u: number) => number, hints: (Hint | null)[]): number {
+  return Math.exp(new LogIntegral((u) => scale.logPrior(u) + logValue(u), priorHints(scale, hints)).logValue)
+}
+
+function binomialAnalysis(prior: PriorDistribution, y: number, n: number, opts: AnalyzeOptions): Analysis {
+  const constant = lchoose(n, y)
+  const asBeta = asStandardBeta(prior)
+  if (asBeta && !opts.forceQuadrature) {
+    const { a, b } = asBeta
+    const post = { family: 'beta' as const, alpha: a + y, beta: b + n - y }
+    const tails = opts.skipPredictiveCheck ? null : betaBinomialTails(y, n, a, b)
+    return {
+      logEvidence: constant + lbeta(a + y, b + n - y) - lbeta(a, b),
+      method: 'closed-form',
+      posterior: summariseDistribution(post),
+      priorPredictiveP: tails ? countTailsToP(tails.lower, tails.upper) : NaN,
+      priorEss: priorEffectiveSampleSize(prior, { model: 'binomial', successes: y, trials: n }),
+    }
+  }
+  const scale = priorScale(prior)
+  const logLik = (u: number): number => {
+    const th = scale.theta(u)
+    const om = scale.oneMinusTheta(u)
+    return (y > 0 ? y * Math.log(th) : 0) + (n - y > 0 ? (n - y) * Math.log(om) : 0)
+  }
+  const pHat = (y + 0.5) / (n + 1)
+  const likHint = hintOnU(scale, pHat, Math.sqrt((pHat * (1 - pHat)) / n))
+  const li = new LogIntegral((u) => scale.logPrior(u) + logLik(u), priorHints(scale, [likHint]))
+  let p = NaN
+  if (!opts.skipPredictiveCheck) {
+    const lower =
+      y === n ? 1 : priorExpectation(scale, (u) => Math.log(betaPQ(scale.oneMinusTheta(u), n - y, y + 1, scale.theta(u)).p), [likHint])
+    const upper = y === 0 ? 1 : priorExpectation(scale, (u) => Math.log(betaPQ(scale.theta(u), y, n - y + 1, scale.oneMinusTheta(u)).p), [likHint])
+    p = countTailsToP(lower, upper)
+  }
+  return {
+    logEvidence: constant + li.logValue,
+    method: 'quadrature',
+    posterior: summarise(posteriorFromIntegral(li, scale)),
+    priorPredictiveP: p,
+    priorEss: priorEffectiveSampleSize(prior, { model: 'binomial', successes: y, trials: n }),
+  }
+}
+
+function poissonAnalysis(prior: PriorDistribution, counts: number[], exposures: number[], opts: AnalyzeOptions): Analysis {
+  const Y = counts.reduce((s, c) => s + c, 0)
+  const T = exposures.reduce((s, t) => s + t, 0)
+  const constant = counts.reduce((s, c, i) => s + (c > 0 ? c * Math.log(exposures[i]) : 0) - lgamma(c + 1), 0)
+  if (prior.family === 'gamma' && !opts.forceQuadrature) {
+    const { shape: a, rate: b } = prior
+    const post = { family: 'gamma' as const, shape: a + Y, rate: b + T }
+    let p = NaN
+    if (!opts.skipPredictiveCheck) {
+      const q = b / (b + T)
+      const qc = T / (b + T)
+      const lower = betaPQ(q, a, Y + 1, qc).p
+      const upper = Y === 0 ? 1 : betaPQ(qc, Y, a, q).p
+      p = countTailsToP(lower, upper)
+    }
+    return {
+      logEvidence: constant + a * Math.log(b) + lgamma(a + Y) - lgamma(a) - (a + Y) * Math.log(b + T),
+      method: 'closed-form',
+      posterior: summariseDistribution(post),
+      priorPredictiveP: p,
+      priorEss: priorEffectiveSampleSize(prior, { model: 'poisson', counts, exposures }),
+    }
+  }
+  const scale = priorScale(prior)
+  const logLik = (u: number): number => {
+    const lam = scale.theta(u)
+    return (Y > 0 ? Y * Math.log(lam) : 0) - lam * T
+  }
+  const lamHat = (Y + 0.5) / T
+  const likHint = hintOnU(scale, lamHat, Math.sqrt(Y + 0.5) / T)
+  const li = new LogIntegral((u) => scale.logPrior(u) + logLik(u), priorHints(scale, [likHint]))
+  let p = NaN
+  if (!opts.skipPredictiveCheck) {
+    const lower = priorExpectation(scale, (u) => Math.log(gammaPQ(Y + 1, scale.theta(u) * T).q), [likHint])
+    const upper = Y === 0 ? 1 : priorExpectation(scale, (u) => Math.log(gammaPQ(Y, scale.theta(u) * T).p), [likHint])
+    p = countTailsToP(lower, upper)
+  }
+  return {
+    logEvidence: constant + li.logValue,
+    method: 'quadrature',
+    posterior: summarise(posteriorFromIntegral(li, scale)),
+    priorPredictiveP: p,
+    priorEss: priorEffectiveSampleSize(prior, { model: 'poisson', counts, exposures }),
+  }
+}
+
+function summariseDistribution(d: PriorDistribution): PosteriorSummary {
+  return summarise(toUnivariate(d))
+}
+
+// ─── Entry point ─────────────────────────────────────────────────────────────────────────────────
+
+/**
+ * Log marginal likelihood (all constants included), posterior summary, Box's prior predictive p-value and prior ESS
+ * for one prior and one pilot data set: closed forms for conjugate pairs (BDA3 §2.4–2.6; REFERENCE §4), otherwise
+ * adaptive Gauss–Kronrod quadrature in log space (Piessens et al. 1983; REFERENCE §9).
+ */
+export function analyzePrior(prior: PriorDistribution, data: PilotData, options: AnalyzeOptions = {}): Analysis {
+  validateData(prior, data)
+  const force = options.forceQuadrature === true
+  switch (data.model) {
+    case 'normal-known-sigma': {
+      const st = normalStats(data.values)
+      const c = normalKnownSigma(prior, st, data.sigma, force)
+      const pred = options.skipPredictiveCheck ? null : meanPredictive(prior, { s: [data.sigma / Math.sqrt(st.n)], w: [1] })
+      return {
+        logEvidence: c.logEvidence,
+        method: c.closed ? 'closed-form' : 'quadrature',
+        posterior: summarise(c.posterior()),
+        priorPredictiveP: pred ? boxPForMean(pred, st.mean) : NaN,
+        priorEss: priorEffectiveSampleSize(prior, data),
+      }
+    }
+    case 'normal': {
+      const st = normalStats(data.values)
+      const r = normalUnknownSigma(prior, st, data.sigmaPrior, force)
+      const pred = options.skipPredictiveCheck ? null : meanPredictive(prior, sigmaMixtureKernel(data.sigmaPrior, st.n))
+      return {
+        logEvidence: r.logEvidence,
+        method: 'quadrature',
+        posterior: r.posterior(),
+        priorPredictiveP: pred ? boxPForMean(pred, st.mean) : NaN,
+        priorEss: null,
+      }
+    }
+    case 'binomial':
+      return binomialAnalysis(prior, data.successes, data.trials, options)
+    case 'poisson':
+      return poissonAnalysis(prior, data.counts, data.exposures, options)
+  }
+}
+
+/**
+ * Normal data with a normal–inverse-gamma prior μ | σ² ~ N(m₀, σ²/κ₀), σ² ~ IG(α₀, β₀): posterior parameters and log
+ * marginal likelihood (Murphy 2007, "Conjugate Bayesian analysis of the Gaussian distribution", NIG section; BDA3 §3.3).
+ */
+export function normalInverseGamma(values: number[], prior: { m0: number; kappa0: number; alpha0: number; beta0: number }) {
+  const { n, mean: xbar, ss } = normalStats(values)
+  const { m0, kappa0, alpha0, beta0 } = prior
+  for (const [k, v] of Object.entries({ kappa0, alpha0, beta0 }))
+    if (!(v > 0 && Number.isFinite(v))) throw new EngineInputError(k, `${k} must be a positive number.`)
+  if (!Number.isFinite(m0)) throw new EngineInputError('m0', 'm0 must be a finite number.')
+  const kappaN = kappa0 + n
+  const mN = (kappa0 * m0 + n * xbar) / kappaN
+  const alphaN = alpha0 + n / 2
+  const betaN = beta0 + ss / 2 + (kappa0 * n * (xbar - m0) ** 2) / (2 * kappaN)
+  const logEvidence =
+    lgamma(alphaN) - lgamma(alpha0) + alpha0 * Math.log(beta0) - alphaN * Math.log(betaN) + 0.5 * (Math.log(kappa0) - Math.log(kappaN)) - (n / 2) * LN_2PI
+  return {
+    logEvidence,
+    kappaN,
+    mN,
+    alphaN,
+    betaN,
+    posteriorMeanSigma2: alphaN > 1 ? betaN / (alphaN - 1) : Infinity,
+    mu: { family: 'student-t' as const, mu: mN, sigma: Math.sqrt(betaN / (alphaN * kappaN)), df: 2 * alphaN },
+  }
+}
+
+/**
+ * Box's (1980) check for normal data with known σ and a N(m₀, τ²) prior on μ: the sample-mean version
+ * (z = (x̄ − m₀)/√(τ² + σ²/n), two-sided and upper-tail p) and the full-data version Q = S/σ² + (x̄ − m₀)²/(τ² + σ²/n) ~ χ²_n.
+ */
+export function boxCheckNormalNormal(values: number[], sigma: number, prior: { mu: number; sigma: number }) {
+  const { n, mean: xbar, ss } = normalStats(values)
+  if (!(sigma > 0)) throw new EngineInputError('sigma', 'σ must be a positive number.')
+  const predSd = Math.sqrt(prior.sigma ** 2 + (sigma * sigma) / n)
+  const z = (xbar - prior.mu) / predSd
+  const q = ss / (sigma * sigma) + z * z
+  return {
+    predictiveSd: predSd,
+    z,
+    pTwoSided: 2 * normCdf(-Math.abs(z)),
+    pUpperTail: normCdf(-z),
+    fullDataQ: q,
+    fullDataP: gammaPQ(n / 2, q / 2).q,
+  }
+}
+
+/**
+ * Prior effective sample size (Morita, Thall & Müller 2008; REFERENCE §8): beta a + b (a uniform or scaled beta on [0, 1]
+ * counts as the beta it is), normal mean with known σ σ²/τ², gamma–Poisson the rate b in exposure units; null otherwise.
+ */
+export function priorEffectiveSampleSize(prior: PriorDistribution, data: PilotData): number | null {
+  if (data.model === 'binomial') {
+    const b = asStandardBeta(prior)
+    return b ? b.a + b.b : null
+  }
+  if (data.model === 'normal-known-sigma' && prior.family === 'normal') return (data.sigma / prior.sigma) ** 2
+  if (data.model === 'poisson' && prior.family === 'gamma') return prior.rate
+  return null
+}

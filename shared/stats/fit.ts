@@ -1,0 +1,721 @@
+import { levenbergMarquardt } from 'ml-levenberg-marquardt'
+import { cdf, normalQuantile, studentTCdf, studentTLogPdf, studentTQuantile } from './distributions'
+import { EngineInputError } from './errors'
+import { requireInside, supportBounds, validatePoints, validateSupport } from './points'
+import { betaPQ, digamma, gammaPQ, lbeta, logGammaPrefactor, normCdf, normPdf } from './special'
+import type { Distribution, Family, FitResult, Point, Support } from './types'
+
+export type FitOptions = { lower?: number; upper?: number; df?: number }
+
+/** Degrees of freedom used for Student-t fits when none is given. */
+export const DEFAULT_T_DF = 3
+
+const FAMILIES: readonly Family[] = ['normal', 'student-t', 'lognormal', 'gamma', 'beta', 'scaled-beta', 'uniform']
+const LOG_BOUND = 30
+/** Levenberg–Marquardt iterations from each starting point before the Newton polish takes over. */
+const LM_ITERATIONS = 4
+/** A start through two of the points is added when its SSE is below this fraction of the best regular start's SSE. */
+const PAIR_START_GAIN = 1
+
+/**
+ * A CDF model on an unconstrained parameter vector θ: normal/t [μ, ln σ], lognormal [meanlog, ln sdlog],
+ * gamma [ln shape, ln rate], beta and scaled beta [ln α, ln β], uniform [L, ln(U − L)] (or [ln(U − L)] with one end fixed).
+ */
+interface CdfModel {
+  readonly nParams: number
+  /** Which parameters are logarithms (bounded to ±LOG_BOUND during the search). */
+  readonly logParams: readonly boolean[]
+  /** F(x_i; θ) for every point i, with the θ-dependent constants computed once. */
+  at(theta: readonly number[]): (i: number) => number
+  /** Analytic F, ∂F/∂θ and ∂²F/∂θ² (packed 00, 01, 11) at point i, where available. */
+  analytic?(theta: readonly number[], i: number, out: Float64Array): void
+  toDistribution(theta: readonly number[]): Distribution
+}
+
+/** Normal distribution through two quantiles: σ = (x₂ − x₁)/(z_{p₂} − z_{p₁}), μ = x₁ − σ z_{p₁} (REFERENCE §1.3). */
+export function normalFromQuantiles(a: Point, b: Point): Distribution {
+  const za = normalQuantile(a.prob)
+  const zb = normalQuantile(b.prob)
+  const sigma = (b.value - a.value) / (zb - za)
+  return { family: 'normal', mu: a.value - sigma * za, sigma }
+}
+
+/** Lognormal through two quantiles: the normal closed form applied to ln x (REFERENCE §1.3). */
+export function lognormalFromQuantiles(a: Point, b: Point): Distribution {
+  const za = normalQuantile(a.prob)
+  const zb = normalQuantile(b.prob)
+  const la = Math.log(a.value)
+  const sdlog = (Math.log(b.value) - la) / (zb - za)
+  return { family: 'lognormal', meanlog: la - sdlog * za, sdlog }
+}
+
+/** Student-t (fixed df) through two quantiles: the location-scale closed form with t quantiles. */
+export function studentTFromQuantiles(a: Point, b: Point, df: number): Distribution {
+  const ta = studentTQuantile(a.prob, df)
+  const tb = studentTQuantile(b.prob, df)
+  const sigma = (b.value - a.value) / (tb - ta)
+  return { family: 'student-t', mu: a.value - sigma * ta, sigma, df }
+}
+
+/** Sum of squared CDF errors Σ (F(x_i) − p_i)² (the fitting criterion, REFERENCE §1). */
+export function sumSquaredError(d: Distribution, points: Point[]): number {
+  let s = 0
+  for (const pt of points) {
+    const r = cdf(d, pt.value) - pt.prob
+    s += r * r
+  }
+  return s
+}
+
+function locationScaleModel(
+  t: number[],
+  G: (z: number) => number,
+  g: (z: number) => number,
+  gPrime: (z: number, gz: number) => number,
+  build: (loc: number, scale: number) => Distribution,
+): CdfModel {
+  return {
+    nParams: 2,
+    logParams: [false, true],
+    at: (th) => {
+      const s = Math.exp(th[1])
+      return (i) => G((t[i] - th[0]) / s)
+    },
+    analytic: (th, i, out) => {
+      const s = Math.exp(th[1])
+      const z = (t[i] - th[0]) / s
+      const gz = g(z)
+      const gp = gPrime(z, gz)
+      out[0] = G(z)
+      out[1] = -gz / s
+      out[2] = -gz * z
+      out[3] = gp / (s * s)
+      out[4] = (gp * z + gz) / s
+      out[5] = gp * z * z + gz * z
+    },
+    toDistribution: (th) => build(th[0], Math.exp(th[1])),
+  }
+}
+
+function buildModel(points: Point[], family: Family, options: FitOptions): CdfModel {
+  const x = points.map((p) => p.value)
+  switch (family) {
+    case 'normal':
+      return locationScaleModel(x, normCdf, normPdf, (z, gz) => -z * gz, (mu, sigma) => ({ family: 'normal', mu, sigma }))
+    case 'lognormal':
+      return locationScaleModel(
+        x.map(Math.log),
+        normCdf,
+        normPdf,
+        (z, gz) => -z * gz,
+        (meanlog, sdlog) => ({ family: 'lognormal', meanlog, sdlog }),
+      )
+    case 'student-t': {
+      const df = options.df ?? DEFAULT_T_DF
+      const logNorm = studentTLogPdf(0, df)
+      return locationScaleModel(
+        x,
+        (z) => studentTCdf(z, df),
+        (z) => Math.exp(logNorm - ((df + 1) / 2) * Math.log1p((z * z) / df)),
+        (z, gz) => (-gz * (df + 1) * z) / (df + z * z),
+        (mu, sigma) => ({ family: 'student-t', mu, sigma, df }),
+      )
+    }
+    case 'gamma':
+      return {
+        nParams: 2,
+        logParams: [true, true],
+        at: (th) => {
+          const a = Math.exp(th[0])
+          const b = Math.exp(th[1])
+          return (i) => gammaPQ(a, b * x[i]).p
+        },
+        analytic: (th, i, out) => {
+          const a = Math.exp(th[0])
+          const y = Math.exp(th[1]) * x[i]
+          const h = 1e-4
+          const f0 = gammaPQ(a, y).p
+          const fPlus = gammaPQ(a * Math.exp(h), y).p
+          const fMinus = gammaPQ(a * Math.exp(-h), y).p
+          const e = Math.exp(logGammaPrefactor(a, y))
+          out[0] = f0
+          out[1] = (fPlus - fMinus) / (2 * h)
+          out[2] = e
+          out[3] = (fPlus - 2 * f0 + fMinus) / (h * h)
+          out[4] = e * a * (Math.log(y) - digamma(a))
+          out[5] = e * (a - y)
+        },
+        toDistribution: (th) => ({ family: 'gamma', shape: Math.exp(th[0]), rate: Math.exp(th[1]) }),
+      }
+    case 'beta':
+      return {
+        nParams: 2,
+        logParams: [true, true],
+        at: (th) => {
+          const a = Math.exp(th[0])
+          const b = Math.exp(th[1])
+          const lb = lbeta(a, b)
+          return (i) => betaPQ(x[i], a, b, 1 - x[i], lb).p
+        },
+        toDistribution: (th) => ({ family: 'beta', alpha: Math.exp(th[0]), beta: Math.exp(th[1]) }),
+      }
+    case 'scaled-beta': {
+      const { lower, upper } = options as { lower: number; upper: number }
+      const w = upper - lower
+      const y = x.map((v) => (v - lower) / w)
+      const yc = x.map((v) => (upper - v) / w)
+      return {
+        nParams: 2,
+        logParams: [true, true],
+        at: (th) => {
+          const a = Math.exp(th[0])
+          const b = Math.exp(th[1])
+          const lb = lbeta(a, b)
+          return (i) => betaPQ(y[i], a, b, yc[i], lb).p
+        },
+        toDistribution: (th) => ({ family: 'scaled-beta', alpha: Math.exp(th[0]), beta: Math.exp(th[1]), lower, upper }),
+      }
+    }
+    case 'uniform': {
+      const clamp = (v: number): number => (v < 0 ? 0 : v > 1 ? 1 : v)
+      if (options.lower !== undefined && options.upper !== undefined) {
+        const { lower, upper } = options
+        return { nParams: 0, logParams: [], at: () => (i) => clamp((x[i] - lower) / (upper - lower)), toDistribution: () => ({ family: 'uniform', lower, upper }) }
+      }
+      if (options.lower !== undefined) {
+        const lower = options.lower
+        return {
+          nParams: 1,
+          logParams: [true],
+          at: (th) => {
+            const w = Math.exp(th[0])
+            return (i) => clamp((x[i] - lower) / w)
+          },
+          toDistribution: (th) => ({ family: 'uniform', lower, upper: lower + Math.exp(th[0]) }),
+        }
+      }
+      if (options.upper !== undefined) {
+        const upper = options.upper
+        return {
+          nParams: 1,
+          logParams: [true],
+          at: (th) => {
+            const w = Math.exp(th[0])
+            return (i) => clamp(1 - (upper - x[i]) / w)
+          },
+          toDistribution: (th) => ({ family: 'uniform', lower: upper - Math.exp(th[0]), upper }),
+        }
+      }
+      return {
+        nParams: 2,
+        logParams: [false, true],
+        at: (th) => {
+          const w = Math.exp(th[1])
+          return (i) => clamp((x[i] - th[0]) / w)
+        },
+        toDistribution: (th) => ({ family: 'uniform', lower: th[0], upper: th[0] + Math.exp(th[1]) }),
+      }
+    }
+  }
+}
+
+/** Least-squares line t ≈ a + b·z. */
+function regress(t: number[], z: number[]): { a: number; b: number } {
+  const n = t.length
+  const mz = z.reduce((s, v) => s + v, 0) / n
+  const mt = t.reduce((s, v) => s + v, 0) / n
+  let szz = 0
+  let szt = 0
+  for (let i = 0; i < n; i++) {
+    szz += (z[i] - mz) ** 2
+    szt += (z[i] - mz) * (t[i] - mt)
+  }
+  const b = szt / szz
+  return { a: mt - b * mz, b }
+}
+
+function clampLog(v: number): number {
+  return Math.min(LOG_BOUND, Math.max(-LOG_BOUND, v))
+}
+
+function betaFromMoments(m: number, s: number): number[] | null {
+  if (!(m > 0 && m < 1 && s > 0)) return null
+  const nu = (m * (1 - m)) / (s * s) - 1
+  if (!(nu > 0)) return null
+  return [Math.log(m * nu), Math.log((1 - m) * nu)]
+}
+
+function betaStarts(y: number[], z: number[]): number[][] {
+  const starts: number[][] = []
+  const lin = regress(y, z)
+  const mom = betaFromMoments(lin.a, lin.b)
+  if (mom) starts.push(mom)
+  const lg = regress(
+    y.map((v) => Math.log(v / (1 - v))),
+    z,
+  )
+  const med = 1 / (1 + Math.exp(-lg.a))
+  const nu = 1 / (lg.b * lg.b * med * (1 - med))
+  starts.push([Math.log(med * nu), Math.log((1 - med) * nu)])
+  return starts
+}
+
+function primaryStarts(points: Point[], family: Family, options: FitOptions, z: number[], tq: number[]): number[][] {
+  const x = points.map((p) => p.value)
+  const p = points.map((pt) => pt.prob)
+  const n = x.length
+  const starts: number[][] = []
+  switch (family) {
+    case 'normal': {
+      const r = regress(x, z)
+      starts.push([r.a, Math.log(r.b)])
+      const two = normalFromQuantiles(points[0], points[n - 1]) as { mu: number; sigma: number }
+      starts.push([two.mu, Math.log(two.sigma)])
+      break
+    }
+    case 'lognormal': {
+      const r = regress(x.map(Math.log), z)
+      starts.push([r.a, Math.log(r.b)])
+      const two = lognormalFromQuantiles(points[0], points[n - 1]) as { meanlog: number; sdlog: number }
+      starts.push([two.meanlog, Math.log(two.sdlog)])
+      break
+    }
+    case 'student-t': {
+      const r = regress(x, tq)
+      starts.push([r.a, Math.log(r.b)])
+      const rn = regress(x, z)
+      starts.push([rn.a, Math.log(rn.b)])
+      break
+    }
+    case 'gamma': {
+      const wh = regress(x.map(Math.cbrt), z)
+      const ratio = wh.b / wh.a
+      if (ratio > 0 && Number.isFinite(ratio)) {
+        const s = (-1 + Math.sqrt(1 + 4 * ratio * ratio)) / (2 * ratio)
+        const shape = 1 / (9 * s * s)
+        const meanCube = wh.a / (1 - s * s)
+        const rate = shape / meanCube ** 3
+        if (shape > 0 && rate > 0) starts.push([Math.log(shape), Math.log(rate)])
+      }
+      const ln = regress(x.map(Math.log), z)
+      const shapeL = 1 / Math.expm1(ln.b * ln.b)
+      const meanL = Math.exp(ln.a + (ln.b * ln.b) / 2)
+      starts.push([Math.log(shapeL), Math.log(shapeL / meanL)])
+      const nm = regress(x, z)
+      if (nm.a > 0) starts.push([Math.log((nm.a * nm.a) / (nm.b * nm.b)), Math.log(nm.a / (nm.b * nm.b))])
+      break
+    }
+    case 'beta':
+      starts.push(...betaStarts(x, z))
+      break
+    case 'scaled-beta': {
+      const { lower, upper } = options as { lower: number; upper: number }
+      starts.push(
+        ...betaStarts(
+          x.map((v) => (v - lower) / (upper - lower)),
+          z,
+        ),
+      )
+      break
+    }
+    case 'uniform': {
+      const lower = options.lower
+      const upper = options.upper
+      if (lower !== undefined && upper !== undefined) return [[]]
+      if (lower !== undefined) {
+        const w = x.map((v, i) => (v - lower) / p[i]).filter((v) => v > 0)
+        starts.push([Math.log(w.length ? w.reduce((s, v) => s + v, 0) / w.length : 1)])
+      } else if (upper !== undefined) {
+        const w = x.map((v, i) => (upper - v) / (1 - p[i])).filter((v) => v > 0)
+        starts.push([Math.log(w.length ? w.reduce((s, v) => s + v, 0) / w.length : 1)])
+      } else {
+        const r = regress(p, x)
+        if (r.b > 0) starts.push([-r.a / r.b, -Math.log(r.b)])
+        const slope = (p[n - 1] - p[0]) / (x[n - 1] - x[0])
+        starts.push([x[0] - p[0] / slope, -Math.log(slope)])
+      }
+      break
+    }
+  }
+  return starts
+}
+
+/** Two-parameter starts through each pair of points: the exact two-point fit (location-scale families, uniform) or its moment match. */
+function pairStarts(points: Point[], family: Family, options: FitOptions, z: number[], tq: number[]): number[][] {
+  const out: number[][] = []
+  const n = points.length
+  for (let i = 0; i < n; i++)
+    for (let j = i + 1; j < n; j++) {
+      const a = points[i]
+      const b = points[j]
+      const za = z[i]
+      const zb = z[j]
+      if (family === 'normal' || family === 'student-t') {
+        const qa = family === 'normal' ? za : tq[i]
+        const sigma = (b.value - a.value) / ((family === 'normal' ? zb : tq[j]) - qa)
+        out.push([a.value - sigma * qa, Math.log(sigma)])
+      } else if (family === 'lognormal' || family === 'gamma') {
+        const s = (Math.log(b.value) - Math.log(a.value)) / (zb - za)
+        const m = Math.log(a.value) - s * za
+        if (family === 'lognormal') out.push([m, Math.log(s)])
+        else {
+          const shape = 1 / Math.expm1(s * s)
+          out.push([Math.log(shape), Math.log(shape) - m - (s * s) / 2])
+        }
+      } else if (family === 'beta' || family === 'scaled-beta') {
+        const lower = family === 'beta' ? 0 : (options.lower as number)
+        const upper = family === 'beta' ? 1 : (options.upper as number)
+        const logit = (v: number): number => Math.log((v - lower) / (upper - v))
+        const s = (logit(b.value) - logit(a.value)) / (zb - za)
+        const med = 1 / (1 + Math.exp(-(logit(a.value) - s * za)))
+        const nu = 1 / (s * s * med * (1 - med))
+        out.push([Math.log(med * nu), Math.log((1 - med) * nu)])
+      } else if (family === 'uniform' && options.lower === undefined && options.upper === undefined) {
+        const slope = (b.prob - a.prob) / (b.value - a.value)
+        out.push([a.value - a.prob / slope, -Math.log(slope)])
+      }
+    }
+  return out
+}
+
+function sanitise(starts: number[][], family: Family): number[][] {
+  return starts
+    .filter((s) => s.every(Number.isFinite))
+    .map((s) => (family === 'uniform' || s.length < 2 ? s : isLogFamily(family) ? s.map(clampLog) : [s[0], clampLog(s[1])]))
+}
+
+/**
+ * Starting points for the least-squares fit on the unconstrained scale (see CdfModel): quantile-scale regressions
+ * (x on the family's standard quantiles), the two outermost points, moment matches from normal, lognormal and
+ * Wilson–Hilferty (cube-root) regressions for the gamma; and, when it beats all of these at the outset, the best of the
+ * exact fits through each pair of points (which rescues strongly inconsistent judgements from a poor basin).
+ */
+export function fittingStarts(points: Point[], family: Family, options: FitOptions = {}): number[][] {
+  const z = points.map((pt) => normalQuantile(pt.prob))
+  const tq = family === 'student-t' ? points.map((pt) => studentTQuantile(pt.prob, options.df ?? DEFAULT_T_DF)) : z
+  const primary = sanitise(primaryStarts(points, family, options, z, tq), family)
+  const model = family === 'uniform' && (options.lower !== undefined || options.upper !== undefined) ? null : buildModel(points, family, options)
+  if (model && points.length > 2) {
+    const p = points.map((pt) => pt.prob)
+    const bestPrimary = Math.min(...primary.map((st) => sseOf(model, st, p)))
+    let best: { start: number[]; sse: number } | null = null
+    for (const st of sanitise(pairStarts(points, family, options, z, tq), family)) {
+      const sse = sseOf(model, st, p)
+      if (sse < PAIR_START_GAIN * bestPrimary && (!best || sse < best.sse)) best = { start: st, sse }
+    }
+    if (best) primary.push(best.start)
+  }
+  const unique: number[][] = []
+  for (const st of primary) {
+    if (!unique.some((u) => u.every((v, k) => Math.abs(v - st[k]) <= 1e-3 * (1 + Math.abs(v))))) unique.push(st)
+  }
+  if (unique.length === 0) unique.push(isLogFamily(family) ? [0, 0] : [points[0].value, 0])
+  return unique
+}
+
+function isLogFamily(family: Family): boolean {
+  return family === 'gamma' || family === 'beta' || family === 'scaled-beta'
+}
+
+function sseOf(model: CdfModel, theta: readonly number[], p: readonly number[]): number {
+  const F = model.at(theta)
+  let s = 0
+  for (let i = 0; i < p.length; i++) {
+    const r = F(i) - p[i]
+    s += r * r
+  }
+  return s
+}
+
+/** Levenberg–Marquardt (ml-levenberg-marquardt) in rounds of a few iterations until the parameters stop moving. */
+function levenbergMarquardtFit(model: CdfModel, p: number[], start: number[], iterations: number, rounds: number): { theta: number[]; sse: number } {
+  const n = p.length
+  const k = model.nParams
+  const index = Array.from({ length: n }, (_, i) => i)
+  const paramFn = (th: number[]) => model.at(th)
+  const scratch = new Float64Array(6)
+  const jacobianFunction = model.analytic
+    ? (th: number[]) => (i: number) => {
+        model.analytic!(th, i, scratch)
+        return [scratch[1], scratch[2]]
+      }
+    : (th: number[]) => {
+        const cols: Float64Array[] = []
+        const base = new Float64Array(n)
+        const F = model.at(th)
+        for (let i = 0; i < n; i++) base[i] = F(i)
+        for (let j = 0; j < k; j++) {
+          const hstep = 1e-7 * Math.max(1, Math.abs(th[j]))
+          const shifted = th.slice()
+          shifted[j] += hstep
+          const col = new Float64Array(n)
+          const Fs = model.at(shifted)
+          for (let i = 0; i < n; i++) col[i] = (Fs(i) - base[i]) / hstep
+          cols.push(col)
+        }
+        return (i: number) => cols.map((c) => c[i])
+      }
+  const minValues = model.logParams.map((isLog) => (isLog ? -LOG_BOUND : -Number.MAX_VALUE))
+  const maxValues = model.logParams.map((isLog) => (isLog ? LOG_BOUND : Number.MAX_VALUE))
+  let theta = start.slice()
+  let sse = sseOf(model, theta, p)
+  for (let round = 0; round < rounds; round++) {
+    const res = levenbergMarquardt({ x: index, y: p }, paramFn, {
+      initialValues: theta,
+      maxIterations: iterations,
+      errorTolerance: 1e-32,
+      damping: 1e-3,
+      jacobianFunction,
+      minValues,
+      maxValues,
+    })
+    const moved = res.parameterValues.reduce((m, v, j) => Math.max(m, Math.abs(v - theta[j]) / (1 + Math.abs(v))), 0)
+    if (res.parameterError <= sse) {
+      theta = res.parameterValues.slice()
+      sse = res.parameterError
+    }
+    if (moved < 1e-7 || sse < 1e-30) break
+  }
+  return { theta, sse }
+}
+
+/** F, ∂F/∂θ and ∂²F/∂θ² at every point: analytic where the model has them, otherwise a six-point difference stencil. */
+function derivatives(model: CdfModel, theta: readonly number[], n: number): { F: number[]; J: number[][]; H: number[][] } {
+  const k = model.nParams
+  const F: number[] = []
+  const J: number[][] = []
+  const H: number[][] = []
+  if (model.analytic) {
+    const out = new Float64Array(6)
+    for (let i = 0; i < n; i++) {
+      model.analytic(theta, i, out)
+      F.push(out[0])
+      J.push([out[1], out[2]])
+      H.push([out[3], out[4], out[5]])
+    }
+    return { F, J, H }
+  }
+  const at = (shift: number[]): number[] => {
+    const th = theta.map((v, j) => v + shift[j])
+    const Fth = model.at(th)
+    return Array.from({ length: n }, (_, i) => Fth(i))
+  }
+  const h = theta.map((v) => 1e-4 * Math.max(1, Math.abs(v)))
+  const unit = (j: number, sgn: number): number[] => theta.map((_, m) => (m === j ? sgn * h[j] : 0))
+  const f0 = at(new Array(k).fill(0))
+  const plus = h.map((_, j) => at(unit(j, 1)))
+  const minus = h.map((_, j) => at(unit(j, -1)))
+  const both = k === 2 ? at([h[0], h[1]]) : []
+  for (let i = 0; i < n; i++) {
+    F.push(f0[i])
+    J.push(h.map((hj, j) => (plus[j][i] - minus[j][i]) / (2 * hj)))
+    const d2 = h.map((hj, j) => (plus[j][i] - 2 * f0[i] + minus[j][i]) / (hj * hj))
+    H.push(k === 2 ? [d2[0], (both[i] - plus[0][i] - plus[1][i] + f0[i]) / (h[0] * h[1]), d2[1]] : [d2[0]])
+  }
+  return { F, J, H }
+}
+
+/** Newton's method on SSE(θ) from a converged LM point, with Gauss–Newton fallback and step halving; solves ∇SSE = 0 to ~1e-10. */
+function newtonPolish(model: CdfModel, p: number[], start: number[]): { theta: number[]; sse: number; converged: boolean } {
+  const n = p.length
+  const k = model.nParams
+  let theta = start.slice()
+  let sse = sseOf(model, theta, p)
+  for (let iter = 0; iter < 12 && sse > 0; iter++) {
+    const { F, J, H } = derivatives(model, theta, n)
+    const g = new Array<number>(k).fill(0)
+    const full = new Array<number>(k * k).fill(0)
+    const gn = new Array<number>(k * k).fill(0)
+    for (let i = 0; i < n; i++) {
+      const r = F[i] - p[i]
+      for (let a = 0; a < k; a++) {
+        g[a] += r * J[i][a]
+        for (let b = 0; b < k; b++) {
+          const second = k === 2 ? H[i][a + b] : H[i][0]
+          gn[a * k + b] += J[i][a] * J[i][b]
+          full[a * k + b] += J[i][a] * J[i][b] + r * second
+        }
+      }
+    }
+    let step = solve(full, g, k)
+    if (!step) step = solve(gn, g, k, 1e-12)
+    if (!step) break
+    let accepted = false
+    let lambda = 1
+    for (let tries = 0; tries < 30; tries++) {
+      const trial = theta.map((v, j) => v - lambda * step![j])
+      const s = sseOf(model, trial, p)
+      if (s <= sse * (1 + 1e-13) + 1e-300) {
+        const small = step.every((d, j) => Math.abs(lambda * d) <= 1e-10 * Math.max(1, Math.abs(theta[j])))
+        theta = trial
+        sse = s
+        accepted = true
+        if (small) return { theta, sse, converged: true }
+        break
+      }
+      lambda /= 2
+    }
+    if (!accepted) return { theta, sse, converged: true }
+  }
+  return { theta, sse, converged: sse === 0 }
+}
+
+/** Solves a 1×1 or 2×2 symmetric system; null unless positive definite. */
+function solve(A: number[], g: number[], k: number, ridge = 0): number[] | null {
+  if (k === 1) {
+    const a = A[0] * (1 + ridge)
+    return a > 0 ? [g[0] / a] : null
+  }
+  const a = A[0] * (1 + ridge)
+  const d = A[3] * (1 + ridge)
+  const b = A[1]
+  const det = a * d - b * b
+  if (!(a > 0) || !(det > 0)) return null
+  return [(d * g[0] - b * g[1]) / det, (a * g[1] - b * g[0]) / det]
+}
+
+/** Exact least squares for a uniform CDF: for a fixed split into points below, inside and above [L, U], the inside points give a linear fit; iterate the split. */
+function uniformActiveSet(x: number[], p: number[], options: FitOptions, theta: number[]): number[] {
+  let current = theta.slice()
+  for (let iter = 0; iter < 50; iter++) {
+    const lower = options.lower ?? (options.upper !== undefined ? options.upper - Math.exp(current[0]) : current[0])
+    const width = Math.exp(current[current.length - 1])
+    const upper = options.upper ?? lower + width
+    const inside = x.map((_v, i) => i).filter((i) => x[i] > lower && x[i] < upper)
+    let next: number[] | null = null
+    if (options.lower === undefined && options.upper === undefined) {
+      if (inside.length >= 2) {
+        const r = regress(
+          inside.map((i) => p[i]),
+          inside.map((i) => x[i]),
+        )
+        if (r.b > 0) next = [-r.a / r.b, -Math.log(r.b)]
+      }
+    } else if (inside.length >= 1) {
+      const anchor = options.lower ?? options.upper!
+      let num = 0
+      let den = 0
+      for (const i of inside) {
+        const d = options.lower !== undefined ? x[i] - anchor : anchor - x[i]
+        const target = options.lower !== undefined ? p[i] : 1 - p[i]
+        num += d * target
+        den += d * d
+      }
+      if (num > 0) next = [Math.log(den / num)]
+    }
+    if (!next || next.every((v, j) => Math.abs(v - current[j]) <= 1e-15 * (1 + Math.abs(v)))) return next ?? current
+    current = next
+  }
+  return current
+}
+
+function checkFamilyInput(points: Point[], family: Family, options: FitOptions): void {
+  if (!FAMILIES.includes(family)) throw new EngineInputError('family', `Unknown family "${family}".`)
+  validatePoints(points)
+  const needs = family === 'uniform' ? (options.lower !== undefined ? 0 : 1) + (options.upper !== undefined ? 0 : 1) : 2
+  if (points.length < Math.max(1, needs))
+    throw new EngineInputError('points', `A ${family} fit needs at least ${Math.max(1, needs)} points; ${points.length} given.`)
+  if (family === 'lognormal' || family === 'gamma') requireInside(points, 0, Infinity, 'points', `the ${family} support`)
+  if (family === 'beta') requireInside(points, 0, 1, 'points', 'the beta support')
+  if (family === 'student-t' && options.df !== undefined && !(options.df > 0 && Number.isFinite(options.df)))
+    throw new EngineInputError('df', 'The degrees of freedom must be a positive number.')
+  if (family === 'scaled-beta') {
+    if (options.lower === undefined || options.upper === undefined || !Number.isFinite(options.lower) || !Number.isFinite(options.upper))
+      throw new EngineInputError('lower', 'A scaled beta needs finite lower and upper bounds.')
+    if (!(options.lower < options.upper)) throw new EngineInputError('upper', 'The upper bound must be above the lower bound.')
+    requireInside(points, options.lower, options.upper, 'points', 'the scaled-beta range')
+  }
+  if (family === 'uniform') {
+    for (const key of ['lower', 'upper'] as const) {
+      const v = options[key]
+      if (v !== undefined && !Number.isFinite(v)) throw new EngineInputError(key, `The ${key} bound must be a finite number.`)
+    }
+    if (options.lower !== undefined && options.upper !== undefined && !(options.lower < options.upper))
+      throw new EngineInputError('upper', 'The upper bound must be above the lower bound.')
+  }
+}
+
+/**
+ * Least-squares fit of a family to elicited CDF points: argmin Σ (F(x_i; θ) − p_i)² (REFERENCE §1; Garthwaite, Kadane &
+ * O'Hagan 2005), by Levenberg–Marquardt from several starting points and a final Newton polish.
+ */
+export function fitDistribution(points: Point[], family: Family, options: FitOptions = {}): FitResult {
+  checkFamilyInput(points, family, options)
+  const n = points.length
+  if (n === 2 && (family === 'normal' || family === 'lognormal' || family === 'student-t')) {
+    const d =
+      family === 'normal'
+        ? normalFromQuantiles(points[0], points[1])
+        : family === 'lognormal'
+          ? lognormalFromQuantiles(points[0], points[1])
+          : studentTFromQuantiles(points[0], points[1], options.df ?? DEFAULT_T_DF)
+    return { distribution: d, sse: sumSquaredError(d, points) }
+  }
+  const model = buildModel(points, family, options)
+  const p = points.map((pt) => pt.prob)
+  const x = points.map((pt) => pt.value)
+  if (model.nParams === 0) {
+    const d = model.toDistribution([])
+    return { distribution: d, sse: sumSquaredError(d, points) }
+  }
+  let best: { theta: number[]; sse: number } | null = null
+  for (const start of fittingStarts(points, family, options)) {
+    const r = n >= 2 ? levenbergMarquardtFit(model, p, start, LM_ITERATIONS, 1) : { theta: start, sse: sseOf(model, start, p) }
+    if (!best || r.sse < best.sse) best = r
+  }
+  let theta = best!.theta
+  if (family === 'uniform') {
+    const exact = uniformActiveSet(x, p, options, theta)
+    if (sseOf(model, exact, p) <= best!.sse * (1 + 1e-9) + 1e-30) theta = exact
+  } else {
+    let polished = newtonPolish(model, p, theta)
+    if (!polished.converged) polished = newtonPolish(model, p, levenbergMarquardtFit(model, p, polished.theta, LM_ITERATIONS, 8).theta)
+    theta = polished.theta
+  }
+  const distribution = model.toDistribution(theta)
+  return { distribution, sse: sumSquaredError(distribution, points) }
+}
+
+/** Families fitted for a quantity's support (Student-t with df = DEFAULT_T_DF). */
+export function familiesFor(support: Support): Family[] {
+  switch (support.kind) {
+    case 'real':
+      return ['normal', 'student-t', 'uniform']
+    case 'positive':
+      return ['lognormal', 'gamma', 'uniform']
+    case 'proportion':
+      return ['beta', 'uniform']
+    case 'bounded':
+      return ['scaled-beta', 'uniform']
+  }
+}
+
+function fitUniformInside(points: Point[], lower: number, upper: number): FitResult {
+  let fit = fitDistribution(points, 'uniform')
+  const d = fit.distribution as { lower: number; upper: number }
+  const fixLower = d.lower < lower
+  const fixUpper = d.upper > upper
+  if (fixLower || fixUpper) {
+    fit = fitDistribution(points, 'uniform', { lower: fixLower ? lower : undefined, upper: fixUpper ? upper : undefined })
+    const e = fit.distribution as { lower: number; upper: number }
+    if (e.lower < lower || e.upper > upper)
+      fit = fitDistribution(points, 'uniform', { lower: Math.max(lower, Math.min(e.lower, upper)), upper: Math.min(upper, e.upper) })
+  }
+  return fit
+}
+
+/** Fits every family valid for the support and returns them best (lowest SSE) first. */
+export function fitAll(points: Point[], support: Support): FitResult[] {
+  validateSupport(support)
+  validatePoints(points)
+  const { lower, upper } = supportBounds(support)
+  requireInside(points, lower, upper, 'points', 'the quantity’s support')
+  if (points.length < 2) throw new EngineInputError('points', 'At least two points are needed to fit a distribution.')
+  const results: FitResult[] = []
+  for (const family of familiesFor(support)) {
+    if (family === 'uniform') results.push(fitUniformInside(points, lower, upper))
+    else if (family === 'scaled-beta') results.push(fitDistribution(points, family, { lower, upper }))
+    else results.push(fitDistribution(points, family))
+  }
+  return results.map((r, i) => ({ r, i })).sort((a, b) => a.r.sse - b.r.sse || a.i - b.i).map(({ r }) => r)
+}

@@ -1,0 +1,47 @@
+export type {
+  Analysis,
+  BayesFactorResult,
+  CookeExpertScore,
+  CookeInput,
+  CookeResult,
+  Distribution,
+  Family,
+  FitResult,
+  HalfNormal,
+  PilotData,
+  Point,
+  Pool,
+  PosteriorSummary,
+  PriorDistribution,
+  Support,
+  SweepPoint,
+  SweepResult,
+  Univariate,
+} from './types'
+export { EngineInputError } from './errors'
+export { cdf, logPdf, mean, median, pdf, quantile, sd, sf, supportOf, toUnivariate, validateDistribution } from './distributions'
+export {
+  DEFAULT_T_DF,
+  familiesFor,
+  fitAll,
+  fitDistribution,
+  fittingStarts,
+  lognormalFromQuantiles,
+  normalFromQuantiles,
+  studentTFromQuantiles,
+  sumSquaredError,
+  type FitOptions,
+} from './fit'
+export { pointsFromChips, pointsFromIntervals, validatePoints } from './points'
+export { linearPool, logPool, mixture, poolSummary } from './pool'
+export { cookeClassical, decisionMaker, minimumInformationDistribution } from './cooke'
+export {
+  analyzePrior,
+  boxCheckNormalNormal,
+  normalInverseGamma,
+  priorEffectiveSampleSize,
+  truncatedNormal,
+  type AnalyzeOptions,
+} from './evidence'
+export { bayesFactor, JEFFREYS_SCALE, KASS_RAFTERY_SCALE } from './bayes-factor'
+export { PRIOR_DRIVEN_RULE, scaleSpread, widthSweep } from './sweep'

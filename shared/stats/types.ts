@@ -1,0 +1,104 @@
+/** A fitted or analyst-specified distribution. Student-t `sigma` is the scale, not the sd; gamma uses the rate. */
+export type Distribution =
+  | { family: 'normal'; mu: number; sigma: number }
+  | { family: 'student-t'; mu: number; sigma: number; df: number }
+  | { family: 'lognormal'; meanlog: number; sdlog: number }
+  | { family: 'gamma'; shape: number; rate: number }
+  | { family: 'beta'; alpha: number; beta: number }
+  | { family: 'scaled-beta'; alpha: number; beta: number; lower: number; upper: number }
+  | { family: 'uniform'; lower: number; upper: number }
+
+export type Family = Distribution['family']
+
+/** Half-normal on (0, ∞) with density 2φ(x/scale)/scale; used as a prior on a standard deviation, never fitted. */
+export type HalfNormal = { family: 'half-normal'; scale: number }
+
+/** Any distribution the engine can evaluate: the fitted families plus the half-normal. */
+export type PriorDistribution = Distribution | HalfNormal
+
+/** One elicited point: P(X ≤ value) = prob. */
+export type Point = { value: number; prob: number }
+
+export type Support =
+  | { kind: 'real' }
+  | { kind: 'positive' }
+  | { kind: 'proportion' }
+  | { kind: 'bounded'; lower: number; upper: number }
+
+export type FitResult = { distribution: Distribution; sse: number }
+
+/** A distribution given by its functions (a pool, a posterior, a piecewise-uniform Cooke distribution). */
+export interface Univariate {
+  pdf(x: number): number
+  cdf(x: number): number
+  quantile(p: number): number
+  mean(): number
+  sd(): number
+}
+
+export interface Pool extends Univariate {
+  kind: 'linear-pool' | 'log-pool'
+  components: readonly Univariate[]
+  weights: readonly number[]
+}
+
+export type PilotData =
+  | { model: 'normal-known-sigma'; sigma: number; values: number[] }
+  | { model: 'normal'; values: number[]; sigmaPrior: PriorDistribution }
+  | { model: 'binomial'; successes: number; trials: number }
+  | { model: 'poisson'; counts: number[]; exposures: number[] }
+
+export type PosteriorSummary = { mean: number; sd: number; q025: number; q50: number; q975: number }
+
+export type Analysis = {
+  logEvidence: number
+  method: 'closed-form' | 'quadrature'
+  posterior: PosteriorSummary
+  priorPredictiveP: number
+  priorEss: number | null
+}
+
+export type CookeInput = {
+  quantiles: number[]
+  experts: { id: string; assessments: number[][] }[]
+  realizations: number[]
+  overshoot?: number
+  cutoff?: number
+}
+
+export type CookeExpertScore = {
+  id: string
+  calibration: number
+  information: number
+  weight: number
+  normalizedWeight: number
+  binCounts: number[]
+  statistic: number
+  informationByQuestion: number[]
+}
+
+export type CookeResult = {
+  experts: CookeExpertScore[]
+  ranges: { lower: number; upper: number }[]
+}
+
+export type BayesFactorResult = {
+  logBF: number
+  twoLnBF: number
+  log10BF: number
+  label: string
+  category: string
+  favours: 'A' | 'B'
+  jeffreys: string
+}
+
+export type SweepPoint = {
+  factor: number
+  prior: PriorDistribution
+  logEvidence: number
+  posteriorMean: number
+  q025: number
+  q975: number
+}
+
+export type SweepResult = { points: SweepPoint[]; evidenceRatio: number; priorDriven: boolean }
