@@ -1,5 +1,9 @@
+import { createHash } from 'node:crypto'
+import { readFileSync } from 'node:fs'
 import bcrypt from 'bcryptjs'
 import type { Knex } from 'knex'
+import Papa from 'papaparse'
+import { extractPilotData, type PilotMapping } from '../shared/elicitation/pilot'
 
 /** Demo-only password for every seeded account (listed in the README). */
 export const DEMO_PASSWORD = 'priorsmith-demo'
@@ -55,6 +59,13 @@ export const DEMO_CALIBRATION = [
   { question: 'How many kilometres of cast-iron main did the Board renew in 2020–2024?', unit: 'km', true_value: 37 },
 ]
 
+/** Invented pilot data, one file per quantity (seeds/pilot/). */
+export const DEMO_PILOT: { symbol: string; file: string; name: string; mapping: PilotMapping }[] = [
+  { symbol: 'burst_rate', file: 'burst-logs.csv', name: 'Burst logs 2025, eight districts', mapping: { model: 'poisson', countColumn: 'bursts', exposureColumn: 'exposure_100km_years' } },
+  { symbol: 'alert_uptake', file: 'leak-alert-survey.csv', name: 'Leak-alert pilot survey, 120 households', mapping: { model: 'binomial', binaryColumn: 'would_join' } },
+  { symbol: 'night_flow_cut', file: 'night-flow-pilot.csv', name: 'Pressure-management pilot, eight districts', mapping: { model: 'normal-known-sigma', valueColumn: 'reduction_l_per_s', sigma: 1.5 } },
+]
+
 /** Seeds the invented Kestrel Valley Water Board scenario; each part once, so a second run changes nothing. */
 export async function seedDemo(knex: Knex): Promise<boolean> {
   const existing = await knex('users').where({ email: 'admin@kestrel.example' }).first()
@@ -102,6 +113,21 @@ async function seedStudyContent(knex: Knex): Promise<boolean> {
   }
   if (!(await knex('calibration_questions').where({ study_id: study.id }).first('id'))) {
     await knex('calibration_questions').insert(DEMO_CALIBRATION.map((q, i) => ({ ...q, study_id: study.id, position: i + 1 })))
+    changed = true
+  }
+  if (!(await knex('pilot_datasets').where({ study_id: study.id }).first('id'))) {
+    const analyst = await knex('users').where({ email: 'analyst@kestrel.example' }).first('id')
+    for (const p of DEMO_PILOT) {
+      const quantity = await knex('quantities').where({ study_id: study.id, symbol: p.symbol }).first('id')
+      if (!quantity) continue
+      const csv = readFileSync(new URL(`./pilot/${p.file}`, import.meta.url), 'utf8')
+      const { data, summary } = extractPilotData(Papa.parse<string[]>(csv, { delimiter: ',', skipEmptyLines: 'greedy' }).data, p.mapping)
+      await knex('pilot_datasets').insert({
+        study_id: study.id, quantity_id: quantity.id, version: 1, name: p.name, filename: p.file, model: p.mapping.model,
+        mapping: JSON.stringify({ ...p.mapping, delimiter: ',' }), csv, sha256: createHash('sha256').update(csv).digest('hex'),
+        row_count: summary.rows, data: JSON.stringify(data), summary: JSON.stringify(summary), uploaded_by: analyst.id,
+      })
+    }
     changed = true
   }
   return changed

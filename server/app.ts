@@ -10,8 +10,10 @@ import type { AppContext } from './context'
 import type { SmtpFake } from './mail/smtp-fake'
 import { authRouter } from './routes/auth'
 import { calibrationRouter } from './routes/calibration'
+import { datasetsRouter } from './routes/datasets'
 import { devMailboxRouter } from './routes/dev-mailbox'
 import { healthRouter } from './routes/health'
+import { impactRouter } from './routes/impact'
 import { invitationsRouter } from './routes/invitations'
 import { judgementsRouter } from './routes/judgements'
 import { outboxRouter } from './routes/outbox'
@@ -94,6 +96,8 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   app.use('/api', roundsRouter(ctx))
   app.use('/api', judgementsRouter(db))
   app.use('/api', reconciliationRouter(db))
+  app.use('/api', datasetsRouter(db))
+  app.use('/api', impactRouter(db))
   app.use('/api', outboxRouter(db))
   app.use('/api', notFoundApi)
 

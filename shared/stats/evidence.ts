@@ -173,7 +173,10 @@ function validateData(prior: PriorDistribution, data: PilotData): void {
 // ─── Distributions built on the way ──────────────────────────────────────────────────────────────
 
 /** What a posterior summary needs: moments, CDF and quantiles on θ. */
-type PosteriorParts = Pick<Univariate, 'cdf' | 'quantile' | 'mean' | 'sd'> & { variance: number }
+type PosteriorParts = Posterior & { variance: number }
+
+/** A posterior on θ: CDF, quantiles and moments. */
+export type Posterior = Pick<Univariate, 'cdf' | 'quantile' | 'mean' | 'sd'>
 
 function normalUnivariate(m: number, s: number): Univariate {
   return {
@@ -301,10 +304,10 @@ function normalUnknownSigma(prior: PriorDistribution, st: NormalStats, sigmaPrio
   const sigmaHat = Math.sqrt(st.ss / Math.max(1, st.n - 1))
   const hints = priorHints(sScale, [sigmaHat > 0 ? hintOnU(sScale, sigmaHat, sigmaHat / Math.sqrt(2 * st.n)) : null])
   const li = new LogIntegral(h, hints)
-  const posterior = (): PosteriorSummary => {
+  const posteriorParts = (): Posterior => {
     if (prior.family !== 'normal' && prior.family !== 'uniform') {
       const fast = marginalOfMean(prior, st, sScale, li)
-      if (fast && Math.abs(fast.logValue - li.logValue) <= 1e-9 * Math.max(1, Math.abs(li.logValue))) return summarise(fast.posterior)
+      if (fast && Math.abs(fast.logValue - li.logValue) <= 1e-9 * Math.max(1, Math.abs(li.logValue))) return fast.posterior
     }
     const nodes = li.nodes().filter((nd) => nd.weight > 0)
     const top = Math.max(...nodes.map((nd) => nd.weight))
@@ -314,10 +317,15 @@ function normalUnknownSigma(prior: PriorDistribution, st: NormalStats, sigmaPrio
     const w = kept.map((nd) => nd.weight / total)
     const mean = comps.reduce((s, c, i) => s + w[i] * c.mean(), 0)
     const variance = comps.reduce((s, c, i) => s + w[i] * (c.variance + (c.mean() - mean) ** 2), 0)
-    const q = PROBS.map((p) => mixtureQuantile(comps, w, p))
-    return { mean, sd: Math.sqrt(variance), q025: q[0], q50: q[1], q975: q[2] }
+    return {
+      cdf: (x) => comps.reduce((s, c, i) => s + w[i] * c.cdf(x), 0),
+      quantile: (p) => mixtureQuantile(comps, w, p),
+      mean: () => mean,
+      sd: () => Math.sqrt(variance),
+    }
   }
-  return { logEvidence: li.logValue, posterior }
+  const posterior = (): PosteriorSummary => summarise(posteriorParts())
+  return { logEvidence: li.logValue, posterior, posteriorParts }
 }
 
 /**
@@ -497,6 +505,20 @@ function priorExpectation(scale: PriorScale, logValue: (u: number) => number, hi
   return Math.exp(new LogIntegral((u) => scale.logPrior(u) + logValue(u), priorHints(scale, hints)).logValue)
 }
 
+/** The binomial likelihood integrated against the prior on its u scale. */
+function binomialIntegral(prior: PriorDistribution, y: number, n: number) {
+  const scale = priorScale(prior)
+  const logLik = (u: number): number => {
+    const th = scale.theta(u)
+    const om = scale.oneMinusTheta(u)
+    return (y > 0 ? y * Math.log(th) : 0) + (n - y > 0 ? (n - y) * Math.log(om) : 0)
+  }
+  const pHat = (y + 0.5) / (n + 1)
+  const likHint = hintOnU(scale, pHat, Math.sqrt((pHat * (1 - pHat)) / n))
+  const li = new LogIntegral((u) => scale.logPrior(u) + logLik(u), priorHints(scale, [likHint]))
+  return { scale, li, likHint }
+}
+
 function binomialAnalysis(prior: PriorDistribution, y: number, n: number, opts: AnalyzeOptions): Analysis {
   const constant = lchoose(n, y)
   const asBeta = asStandardBeta(prior)
@@ -512,15 +534,7 @@ function binomialAnalysis(prior: PriorDistribution, y: number, n: number, opts: 
       priorEss: priorEffectiveSampleSize(prior, { model: 'binomial', successes: y, trials: n }),
     }
   }
-  const scale = priorScale(prior)
-  const logLik = (u: number): number => {
-    const th = scale.theta(u)
-    const om = scale.oneMinusTheta(u)
-    return (y > 0 ? y * Math.log(th) : 0) + (n - y > 0 ? (n - y) * Math.log(om) : 0)
-  }
-  const pHat = (y + 0.5) / (n + 1)
-  const likHint = hintOnU(scale, pHat, Math.sqrt((pHat * (1 - pHat)) / n))
-  const li = new LogIntegral((u) => scale.logPrior(u) + logLik(u), priorHints(scale, [likHint]))
+  const { scale, li, likHint } = binomialIntegral(prior, y, n)
   let p = NaN
   if (!opts.skipPredictiveCheck) {
     const lower =
@@ -535,6 +549,19 @@ function binomialAnalysis(prior: PriorDistribution, y: number, n: number, opts: 
     priorPredictiveP: p,
     priorEss: priorEffectiveSampleSize(prior, { model: 'binomial', successes: y, trials: n }),
   }
+}
+
+/** The Poisson likelihood of Y events in exposure T integrated against the prior on its u scale. */
+function poissonIntegral(prior: PriorDistribution, Y: number, T: number) {
+  const scale = priorScale(prior)
+  const logLik = (u: number): number => {
+    const lam = scale.theta(u)
+    return (Y > 0 ? Y * Math.log(lam) : 0) - lam * T
+  }
+  const lamHat = (Y + 0.5) / T
+  const likHint = hintOnU(scale, lamHat, Math.sqrt(Y + 0.5) / T)
+  const li = new LogIntegral((u) => scale.logPrior(u) + logLik(u), priorHints(scale, [likHint]))
+  return { scale, li, likHint }
 }
 
 function poissonAnalysis(prior: PriorDistribution, counts: number[], exposures: number[], opts: AnalyzeOptions): Analysis {
@@ -560,14 +587,7 @@ function poissonAnalysis(prior: PriorDistribution, counts: number[], exposures: 
       priorEss: priorEffectiveSampleSize(prior, { model: 'poisson', counts, exposures }),
     }
   }
-  const scale = priorScale(prior)
-  const logLik = (u: number): number => {
-    const lam = scale.theta(u)
-    return (Y > 0 ? Y * Math.log(lam) : 0) - lam * T
-  }
-  const lamHat = (Y + 0.5) / T
-  const likHint = hintOnU(scale, lamHat, Math.sqrt(Y + 0.5) / T)
-  const li = new LogIntegral((u) => scale.logPrior(u) + logLik(u), priorHints(scale, [likHint]))
+  const { scale, li, likHint } = poissonIntegral(prior, Y, T)
   let p = NaN
   if (!opts.skipPredictiveCheck) {
     const lower = priorExpectation(scale, (u) => Math.log(gammaPQ(Y + 1, scale.theta(u) * T).q), [likHint])
@@ -688,4 +708,32 @@ export function priorEffectiveSampleSize(prior: PriorDistribution, data: PilotDa
   if (data.model === 'normal-known-sigma' && prior.family === 'normal') return (data.sigma / prior.sigma) ** 2
   if (data.model === 'poisson' && prior.family === 'gamma') return prior.rate
   return null
+}
+
+/**
+ * The posterior of θ for one prior and one pilot data set, as a distribution (CDF, quantiles, moments): conjugate
+ * closed forms where they exist (BDA3 §2.4–2.6), otherwise from the same quadrature as the evidence.
+ */
+export function posteriorOf(prior: PriorDistribution, data: PilotData): Posterior {
+  validateData(prior, data)
+  switch (data.model) {
+    case 'normal-known-sigma':
+      return normalKnownSigma(prior, normalStats(data.values), data.sigma, false).posterior()
+    case 'normal':
+      return normalUnknownSigma(prior, normalStats(data.values), data.sigmaPrior, false).posteriorParts()
+    case 'binomial': {
+      const { successes: y, trials: n } = data
+      const asBeta = asStandardBeta(prior)
+      if (asBeta) return toUnivariate({ family: 'beta', alpha: asBeta.a + y, beta: asBeta.b + n - y })
+      const { scale, li } = binomialIntegral(prior, y, n)
+      return posteriorFromIntegral(li, scale)
+    }
+    case 'poisson': {
+      const Y = data.counts.reduce((s, c) => s + c, 0)
+      const T = data.exposures.reduce((s, t) => s + t, 0)
+      if (prior.family === 'gamma') return toUnivariate({ family: 'gamma', shape: prior.shape + Y, rate: prior.rate + T })
+      const { scale, li } = poissonIntegral(prior, Y, T)
+      return posteriorFromIntegral(li, scale)
+    }
+  }
 }

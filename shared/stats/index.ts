@@ -39,6 +39,8 @@ export {
   analyzePrior,
   boxCheckNormalNormal,
   normalInverseGamma,
+  posteriorOf,
+  type Posterior,
   priorEffectiveSampleSize,
   truncatedNormal,
   type AnalyzeOptions,

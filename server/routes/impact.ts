@@ -1,0 +1,31 @@
+import { Router } from 'express'
+import { impactSchema } from '../../shared/schemas/impact'
+import { currentUser } from '../auth/guards'
+import type { Db } from '../db/knex'
+import { idParam, validateBody } from '../http/errors'
+import { allow, studyAccess, studyIdOf } from '../services/access'
+import { latestImpact, runImpact, type ImpactInput } from '../services/impact'
+
+/** What each candidate prior does to the posterior and to the evidence on pilot data. */
+export function impactRouter(db: Db): Router {
+  const r = Router()
+
+  r.post('/quantities/:id/impact', async (req, res) => {
+    const user = currentUser(req)
+    const id = idParam(req.params.id, 'Quantity')
+    const access = await studyAccess(db, user, await studyIdOf(db, 'quantities', id, 'Quantity'))
+    allow(access, 'analyst')
+    const body = (await validateBody(impactSchema, req.body)) as ImpactInput
+    res.json(await runImpact(db, access.user, id, body))
+  })
+
+  r.get('/quantities/:id/impact', async (req, res) => {
+    const user = currentUser(req)
+    const id = idParam(req.params.id, 'Quantity')
+    const access = await studyAccess(db, user, await studyIdOf(db, 'quantities', id, 'Quantity'))
+    allow(access, 'analyst', 'reviewer')
+    res.json(await latestImpact(db, id))
+  })
+
+  return r
+}

@@ -1,0 +1,116 @@
+import { createHash } from 'node:crypto'
+import {
+  dataSize, evaluateCandidates, findings, sweepOf, SWEEP_FACTORS, type CandidateInput, type DecisionRule,
+} from '../../shared/elicitation/impact'
+import { combine, fitCombination, resolveWeights } from '../../shared/elicitation/reconcile'
+import { tippingPoint } from '../../shared/elicitation/tipping'
+import { EngineInputError, fitAll, validateDistribution, type Distribution, type FitResult, type PilotData, type PriorDistribution } from '../../shared/stats/index'
+import type { User } from '../../shared/types/index'
+import type { Db } from '../db/knex'
+import { HttpError } from '../http/errors'
+import { canonicalJson, recordAudit } from './audit'
+import { getDataset } from './datasets'
+import { getQuantity, supportOf } from './quantities'
+
+export interface ImpactInput {
+  datasetId: number
+  reference: Record<string, unknown>
+  mixtureWeight?: number | null
+  mixtureVague?: Record<string, unknown> | null
+  decision?: DecisionRule | null
+  factors?: number[]
+}
+
+function checkedDistribution(d: unknown, field: string): Distribution {
+  try {
+    validateDistribution(d as Distribution, field)
+    return d as Distribution
+  } catch (err) {
+    if (err instanceof EngineInputError) throw new HttpError(400, 'The distribution is not valid', { [field]: err.message })
+    throw err
+  }
+}
+
+/** Candidate priors for a quantity: each expert's fit, the pool, the consensus, the reconciled choice, the reference. */
+async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Promise<{ list: CandidateInput[]; reconciled: Distribution | null }> {
+  const quantity = await getQuantity(db, quantityId)
+  const support = supportOf({ support_kind: quantity.support.kind, support_lower: 'lower' in quantity.support ? quantity.support.lower : null, support_upper: 'upper' in quantity.support ? quantity.support.upper : null })
+  const rec = await db('reconciliations').where({ quantity_id: quantityId }).first()
+  const list: CandidateInput[] = []
+  const roundId = rec?.round_id ?? (await db('judgements').where({ quantity_id: quantityId, status: 'submitted' }).max('round_id as r'))[0]?.r
+  const experts: Distribution[] = []
+  if (roundId) {
+    const rows = await db('judgements').where({ round_id: roundId, quantity_id: quantityId, status: 'submitted' }).orderBy('expert_id').select('fits', 'chosen_family')
+    rows.forEach((r, i) => {
+      const fits = r.fits as FitResult[]
+      const fit = fits.find((f) => f.distribution.family === r.chosen_family) ?? fits[0]
+      if (!fit) return
+      experts.push(fit.distribution)
+      list.push({ key: `expert-${i + 1}`, label: `Expert ${String.fromCharCode(65 + i)}`, kind: 'expert', prior: fit.distribution })
+    })
+  }
+  if (experts.length > 1) {
+    const pool = combine('linear', experts.map((d, i) => ({ expertId: i, label: '', distribution: d })), resolveWeights('equal', experts.length))
+    const [best] = fitCombination(pool, support)
+    list.push({ key: 'pooled', label: 'Pooled (linear, equal weights)', kind: 'pooled', prior: best.distribution })
+  }
+  if (rec?.consensus) {
+    const [best] = fitAll(rec.consensus.points, support)
+    list.push({ key: 'consensus', label: 'Agreed consensus', kind: 'consensus', prior: best.distribution })
+  }
+  const reconciled: Distribution | null = rec?.distribution ?? null
+  if (reconciled) list.push({ key: 'reconciled', label: rec.status === 'reconciled' ? 'Reconciled prior' : 'Reconciled prior (draft)', kind: 'reconciled', prior: reconciled })
+  list.push({ key: 'reference', label: 'Reference prior', kind: 'reference', prior: checkedDistribution(input.reference, 'reference') })
+  if (input.mixtureWeight && reconciled) {
+    const vague = checkedDistribution(input.mixtureVague, 'mixtureVague')
+    const w = input.mixtureWeight
+    list.push({
+      key: 'mixture', label: `Robust mixture (${Math.round(w * 100)} % vague)`, kind: 'mixture', prior: reconciled,
+      mixture: { components: [reconciled, vague], weights: [1 - w, w] },
+    })
+  }
+  return { list, reconciled }
+}
+
+/** Runs (or returns the cached) impact analysis of every candidate prior on one pilot dataset. */
+export async function runImpact(db: Db, user: User, quantityId: number, input: ImpactInput) {
+  const dataset = await getDataset(db, input.datasetId)
+  if (dataset.quantityId !== quantityId) throw new HttpError(400, 'This dataset belongs to another quantity', { datasetId: 'Choose a dataset of this quantity' })
+  const quantity = await getQuantity(db, quantityId)
+  const support = supportOf({ support_kind: quantity.support.kind, support_lower: 'lower' in quantity.support ? quantity.support.lower : null, support_upper: 'upper' in quantity.support ? quantity.support.upper : null })
+  const { list, reconciled } = await candidatesFor(db, quantityId, input)
+  const data = dataset.data as PilotData
+  const factors = input.factors ?? SWEEP_FACTORS
+  const hashInput = { datasetSha: dataset.sha256, datasetId: dataset.id, candidates: list, decision: input.decision ?? null, factors, support }
+  const inputHash = createHash('sha256').update(canonicalJson(hashInput)).digest('hex')
+  const cached = await db('impact_analyses').where({ quantity_id: quantityId, input_hash: inputHash }).orderBy('id', 'desc').first()
+  if (cached) return { id: cached.id, cached: true, createdAt: cached.created_at.toISOString(), ...cached.result }
+
+  let result
+  try {
+    const started = Date.now()
+    const candidates = evaluateCandidates(list, data, input.decision ?? null)
+    const sweep = reconciled ? sweepOf(reconciled as PriorDistribution as Distribution, data, support, factors) : null
+    if (sweep?.priorDriven) candidates.find((c) => c.kind === 'reconciled')?.flags.push('prior-driven-bayes-factor')
+    const tipping = reconciled && input.decision ? tippingPoint(reconciled, data, input.decision, support) : null
+    result = {
+      quantityId, datasetId: dataset.id, dataset: { name: dataset.name, version: dataset.version, model: dataset.model, summary: dataset.summary },
+      n: dataSize(data), candidates, sweep, tipping, decision: input.decision ?? null,
+      findings: findings(candidates, sweep, dataSize(data)), computeMs: Date.now() - started,
+    }
+  } catch (err) {
+    if (err instanceof EngineInputError) throw new HttpError(400, 'The analysis cannot be run with these inputs', { [err.field]: err.message })
+    throw err
+  }
+  const [row] = await db('impact_analyses').insert({
+    quantity_id: quantityId, dataset_id: dataset.id, input_hash: inputHash, input: JSON.stringify(input), result: JSON.stringify(result), created_by: user.id,
+  }).returning(['id', 'created_at'])
+  await recordAudit(db, { actorId: user.id, studyId: quantity.studyId, action: 'impact.run', subject: `quantity:${quantityId}`, details: { analysisId: row.id, datasetId: dataset.id, candidates: list.length } })
+  return { id: row.id, cached: false, createdAt: row.created_at.toISOString(), ...result }
+}
+
+/** The newest analysis of a quantity, for the record and for reopening the page. */
+export async function latestImpact(db: Db, quantityId: number) {
+  const row = await db('impact_analyses').where({ quantity_id: quantityId }).orderBy('id', 'desc').first()
+  return row ? { id: row.id, cached: true, createdAt: row.created_at.toISOString(), input: row.input, ...row.result } : null
+}

@@ -1,0 +1,18 @@
+import { array, mixed, number, object, string } from 'yup'
+
+/** A candidate prior the analyst adds by hand: a distribution object the engine validates. */
+const distribution = mixed<Record<string, unknown>>().test('object', 'Give a distribution', (v) => v === undefined || v === null || (typeof v === 'object' && !Array.isArray(v)))
+
+export const impactSchema = object({
+  datasetId: number().typeError('Choose a pilot dataset').required('Choose a pilot dataset').integer().positive(),
+  reference: distribution.required('Set a reference prior (for example a wide one) to compare against'),
+  mixtureWeight: number().typeError('The weight must be a number').min(0.01, 'Between 0.01 and 0.99').max(0.99, 'Between 0.01 and 0.99').nullable().default(null),
+  mixtureVague: distribution.nullable().default(null)
+    .when('mixtureWeight', { is: (w: unknown) => typeof w === 'number', then: (s) => s.required('Give the vague component of the robust mixture') }),
+  decision: object({
+    direction: string().required().oneOf(['above', 'below'], 'Choose above or below'),
+    threshold: number().typeError('The threshold must be a number').required('Enter the threshold'),
+    probability: number().typeError('The probability must be a number').required('Enter the probability').moreThan(0, 'Between 0 and 1').lessThan(1, 'Between 0 and 1'),
+  }).nullable().default(null),
+  factors: array(number().required().moreThan(0, 'Width factors must be positive').max(100)).min(3).max(60).optional(),
+}).noUnknown('Unknown field: ${unknown}')

@@ -1,0 +1,182 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { analyzePrior, bayesFactor } from '../../shared/stats/index'
+import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
+
+let h: ApiHarness
+let analyst: Client
+let studyId: number
+let flowId: number
+let countsId: number
+let shareId: number
+
+const X = [2.2, 3.5, 2.8, 3.9, 2.6] // REFERENCE.md §4 data: n = 5, mean 3.0
+const csv = (text: string) => Buffer.from(text, 'utf8')
+
+function upload(fields: Record<string, string | number>, file: Buffer, filename = 'pilot.csv') {
+  let req = analyst.agent.post(`/api/studies/${studyId}/datasets`).set('x-csrf-token', analyst.token)
+  for (const [k, v] of Object.entries(fields)) req = req.field(k, String(v))
+  return req.attach('file', file, { filename, contentType: 'text/csv' })
+}
+
+beforeAll(async () => {
+  h = startApi()
+  analyst = await signedIn(h, 'analyst@kestrel.example')
+  studyId = (await analyst.post('/api/studies', { title: 'Impact test study', context: 'Testing pilot data and impact.' }).expect(201)).body.id
+  const q = async (symbol: string, kind: string) => (await analyst.post(`/api/studies/${studyId}/quantities`, {
+    name: symbol, symbol, unit: 'u', question: `What is ${symbol} for the Kestrel Valley network?`, support: { kind },
+  }).expect(201)).body.id as number
+  flowId = await q('flow', 'positive')
+  countsId = await q('bursts', 'positive')
+  shareId = await q('uptake', 'proportion')
+})
+afterAll(async () => {
+  await h.close()
+})
+
+describe('pilot data uploads', () => {
+  it('previews the first rows and the columns', async () => {
+    const res = await analyst.agent.post(`/api/studies/${studyId}/datasets/preview`).set('x-csrf-token', analyst.token)
+      .attach('file', csv('district,value\nA,1.5\nB,2.5\n'), { filename: 'p.csv', contentType: 'text/csv' })
+    expect(res.status).toBe(200)
+    expect(res.body).toEqual({ columns: ['district', 'value'], rows: [['A', '1.5'], ['B', '2.5']], rowCount: 2 })
+  })
+
+  it('stores a normal dataset with known σ, versioned per quantity', async () => {
+    const body = `district,reduction\n${X.map((x, i) => `D${i},${x}`).join('\n')}\n`
+    const first = await upload({ quantityId: flowId, name: 'Pilot districts', model: 'normal-known-sigma', valueColumn: 'reduction', sigma: 2 }, csv(body))
+    expect(first.status).toBe(201)
+    expect(first.body).toMatchObject({ version: 1, model: 'normal-known-sigma', rowCount: 5, data: { model: 'normal-known-sigma', sigma: 2, values: X } })
+    expect(first.body.preview[0]).toEqual(['district', 'reduction'])
+    const second = await upload({ quantityId: flowId, name: 'Pilot districts', model: 'normal-known-sigma', valueColumn: 'reduction', sigma: 2 }, csv(body))
+    expect(second.body.version).toBe(2)
+  })
+
+  it('reads a 0/1 column as binomial successes and trials', async () => {
+    const res = await upload({ quantityId: shareId, name: 'Survey', model: 'binomial', binomialLayout: 'binary', binaryColumn: 'joins' }, csv('id,joins\n1,1\n2,0\n3,1\n4,0\n5,0\n'))
+    expect(res.status).toBe(201)
+    expect(res.body.data).toEqual({ model: 'binomial', successes: 2, trials: 5 })
+  })
+
+  const badFiles: [string, Record<string, string | number>, string, string][] = [
+    ['wrong delimiter', { model: 'poisson', countColumn: 'bursts', exposureColumn: 'exposure' }, 'district;bursts;exposure\nA;3;1.2\n',
+      'Line 1: The file has a single column; its lines look separated by semicolons. Choose that delimiter, or save the file with the one chosen.'],
+    ['missing column', { model: 'poisson', countColumn: 'bursts', exposureColumn: 'km_years' }, 'district,bursts,exposure\nA,3,1.2\n',
+      'Line 1: There is no column "km_years". The columns are: "district", "bursts", "exposure".'],
+    ['non-numeric cell', { model: 'poisson', countColumn: 'bursts', exposureColumn: 'exposure' }, 'district,bursts,exposure\nA,3,1.2\nB,three,0.9\n',
+      'Line 3, column "bursts": expected a number, found "three"'],
+    ['negative count', { model: 'poisson', countColumn: 'bursts', exposureColumn: 'exposure' }, 'district,bursts,exposure\nA,-2,1.2\n',
+      'Line 2, column "bursts": expected a whole number 0 or more, found "-2"'],
+    ['successes above trials', { model: 'binomial', binomialLayout: 'counts', successesColumn: 's', trialsColumn: 't' }, 's,t\n3,10\n12,10\n',
+      'Line 3, column "s": 12 successes is more than the 10 trials on this line'],
+    ['header only', { model: 'poisson', countColumn: 'bursts', exposureColumn: 'exposure' }, 'district,bursts,exposure\n',
+      'Line 2: The file has a header but no data rows.'],
+  ]
+  for (const [name, fields, text, message] of badFiles) {
+    it(`refuses a file with a ${name}, with a located message, storing nothing`, async () => {
+      const before = (await h.db('pilot_datasets').where({ quantity_id: countsId })).length
+      const res = await upload({ quantityId: countsId, name: 'Burst logs', ...fields }, csv(text))
+      expect(res.status).toBe(400)
+      expect(res.body.error.fields).toEqual({ file: message })
+      expect(await h.db('pilot_datasets').where({ quantity_id: countsId })).toHaveLength(before)
+    })
+  }
+
+  it('refuses an empty file and one over 2 MB', async () => {
+    const fields = { quantityId: countsId, name: 'Burst logs', model: 'poisson', countColumn: 'bursts', exposureColumn: 'exposure' }
+    const empty = await upload(fields, Buffer.alloc(0))
+    expect(empty.body.error.fields).toEqual({ file: 'The file is empty.' })
+    const big = await upload(fields, Buffer.alloc(2 * 1024 * 1024 + 1, 0x31))
+    expect(big.body.error.fields).toEqual({ file: 'Pilot data files may be at most 2 MB.' })
+  })
+
+  it('answers 400 with field errors for a bad mapping form', async () => {
+    const res = await upload({ quantityId: countsId, name: '', model: 'normal-known-sigma', valueColumn: 'x', sigma: -1 }, csv('x\n1\n'))
+    expect(res.status).toBe(400)
+    expect(res.body.error.fields).toEqual({ name: 'Name the dataset', sigma: 'σ must be above 0' })
+  })
+})
+
+describe('impact analysis', () => {
+  let datasetId: number
+  beforeAll(async () => {
+    datasetId = (await h.db('pilot_datasets').where({ quantity_id: flowId, version: 1 }).first('id')).id
+    // The analyst's reconciled prior: U(0, 10) on the mean (REFERENCE.md §5).
+    await h.db('reconciliations').insert({
+      quantity_id: flowId, method: 'linear', weights_mode: 'equal', family: 'uniform', distribution: JSON.stringify({ family: 'uniform', lower: 0, upper: 10 }),
+      status: 'reconciled', rationale: 'Test fixture: a flat prior over the plausible range.',
+    })
+  })
+
+  it('stores the engine’s values: U(0,10) against a 4× wider reference gives BF 4, posterior unchanged (REFERENCE.md §5)', async () => {
+    const res = await analyst.post(`/api/quantities/${flowId}/impact`, {
+      datasetId, reference: { family: 'uniform', lower: 0, upper: 40 }, decision: { direction: 'above', threshold: 2.5, probability: 0.8 },
+    })
+    expect(res.status).toBe(200)
+    expect(res.body.cached).toBe(false)
+    const rec = res.body.candidates.find((c: { kind: string }) => c.kind === 'reconciled')
+    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'reference')
+    const data = { model: 'normal-known-sigma' as const, sigma: 2, values: X }
+    const engine = analyzePrior({ family: 'uniform', lower: 0, upper: 10 }, data)
+    expect(rec.logEvidence).toBe(engine.logEvidence)
+    expect(rec.posterior).toEqual(engine.posterior)
+    // REFERENCE.md §5: log p(x) = -9.79354509862 (A = 10) and -11.1798394597 (A = 40); ratio 3.99999999999998994; posterior mean 3.001287423796287.
+    expect(rec.logEvidence).toBeCloseTo(-9.79354509862, 9)
+    expect(ref.logEvidence).toBeCloseTo(-11.1798394597, 9)
+    expect(Math.exp(rec.bayesFactor.logBF)).toBeCloseTo(4, 10)
+    expect(rec.bayesFactor.twoLnBF).toBeCloseTo(2.77258872224, 9)
+    expect(rec.bayesFactor.label).toBe(bayesFactor(engine.logEvidence, ref.logEvidence).label)
+    expect(rec.bayesFactor.label).toMatch(/^positive/)
+    expect(rec.posterior.mean).toBeCloseTo(3.001287423796287, 9)
+    expect(rec.flags).toContain('prior-driven-bayes-factor')
+    expect(res.body.sweep.priorDriven).toBe(true)
+    // Over k in [0.5, 2] the sweep spans U(0, 5) to U(0, 20); U(0, 5) cuts off a little likelihood, so the ratio is just under 4.
+    const z5 = analyzePrior({ family: 'uniform', lower: 0, upper: 5 }, data).logEvidence
+    const z20 = analyzePrior({ family: 'uniform', lower: 0, upper: 20 }, data).logEvidence
+    expect(res.body.sweep.evidenceRatio).toBeCloseTo(Math.exp(z5 - z20), 9)
+    expect(res.body.sweep.evidenceRatio).toBeGreaterThan(3)
+    expect(res.body.findings[0]).toBe('Widening the reconciled prior 4× moves the posterior mean from 3.00 to 3.00 (barely) and divides the evidence by about 4.00.')
+    expect(rec.decision.probability).toBeGreaterThan(0.7)
+    expect(res.body.tipping.centreNote).toBe('A centre shift is not defined for the uniform family here; the spread test still applies.')
+  })
+
+  it('returns the cached analysis for the same inputs', async () => {
+    const again = await analyst.post(`/api/quantities/${flowId}/impact`, {
+      datasetId, reference: { family: 'uniform', lower: 0, upper: 40 }, decision: { direction: 'above', threshold: 2.5, probability: 0.8 },
+    })
+    expect(again.body.cached).toBe(true)
+    expect((await h.db('impact_analyses').where({ quantity_id: flowId })).length).toBe(1)
+  })
+
+  it('flags a prior that conflicts with the data and one that dominates it', async () => {
+    await h.db('reconciliations').where({ quantity_id: flowId }).update({ family: 'normal', distribution: JSON.stringify({ family: 'normal', mu: 10, sigma: 0.3 }) })
+    const res = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId, reference: { family: 'normal', mu: 3, sigma: 20 } })
+    const rec = res.body.candidates.find((c: { kind: string }) => c.kind === 'reconciled')
+    // ESS = σ²/τ² = 4/0.09 ≈ 44.4 > n = 5 (REFERENCE.md §8); Box p for N(10, 0.3²): z = (3 − 10)/√(0.09 + 0.8) ≈ −7.4.
+    expect(rec.priorEss).toBeCloseTo(4 / 0.09, 9)
+    expect(rec.flags).toEqual(expect.arrayContaining(['prior-dominates', 'prior-data-conflict']))
+    expect(res.body.findings.some((f: string) => f.startsWith('Reconciled prior: the prior carries more information than the pilot data'))).toBe(true)
+  })
+
+  it('adds a robust mixture whose evidence is the weighted sum of its parts', async () => {
+    const res = await analyst.post(`/api/quantities/${flowId}/impact`, {
+      datasetId, reference: { family: 'normal', mu: 3, sigma: 20 }, mixtureWeight: 0.2, mixtureVague: { family: 'normal', mu: 3, sigma: 20 },
+    })
+    const mix = res.body.candidates.find((c: { kind: string }) => c.kind === 'mixture')
+    const rec = res.body.candidates.find((c: { kind: string }) => c.kind === 'reconciled')
+    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'reference')
+    const expected = Math.log(0.8 * Math.exp(rec.logEvidence) + 0.2 * Math.exp(ref.logEvidence))
+    expect(mix.logEvidence).toBeCloseTo(expected, 10)
+    expect(mix.posterior.mean).toBeGreaterThan(ref.posterior.mean - 1)
+  })
+
+  it('refuses a dataset of another quantity and an invalid reference, and is closed to experts', async () => {
+    const other = (await h.db('pilot_datasets').where({ quantity_id: shareId }).first('id')).id
+    const wrong = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId: other, reference: { family: 'normal', mu: 0, sigma: 1 } })
+    expect(wrong.body.error.fields).toEqual({ datasetId: 'Choose a dataset of this quantity' })
+    const bad = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId, reference: { family: 'normal', mu: 0, sigma: -1 } })
+    expect(bad.status).toBe(400)
+    expect(Object.keys(bad.body.error.fields)[0]).toMatch(/^reference/)
+    const expert = await signedIn(h, 'expert1@kestrel.example')
+    expect((await expert.post(`/api/quantities/${flowId}/impact`, { datasetId, reference: { family: 'normal', mu: 0, sigma: 1 } })).status).toBe(403)
+  })
+})
