@@ -1,0 +1,187 @@
+import type { Distribution, Point, Support } from '@shared/stats'
+import type { DeclarationBody, ElicitationMethod } from '@shared/schemas/rounds'
+import { api } from './client'
+
+export type RoundStatus = 'draft' | 'open' | 'closed' | 'reconciled'
+
+/** A row of GET /api/studies/:id/rounds. */
+export interface RoundSummary {
+  id: number
+  number: number
+  title: string
+  status: RoundStatus
+  opensAt: string
+  closesAt: string
+  panelSize: number
+  submitted: number
+  itemCount: number
+}
+
+/** A quantity as the round form needs it (GET /api/studies/:id/quantities). */
+export interface StudyQuantity {
+  id: number
+  studyId: number
+  name: string
+  symbol: string
+  unit: string
+  question: string
+  support: Support
+  assumptions: string
+  evidenceNotes: string
+  position: number
+  version: number
+}
+
+export interface RoundQuantity {
+  id: number
+  name: string
+  symbol: string
+  unit: string
+  question: string
+  support: Support
+  assumptions: string
+  evidenceNotes: string
+  files: { id: number; filename: string; mimeType: string; sizeBytes: number }[]
+}
+
+export interface RoundItem {
+  quantityId: number
+  method: ElicitationMethod
+  edges?: number[]
+  chips?: number
+  askTails: boolean
+  quantity: RoundQuantity
+}
+
+export interface PanelInvitation {
+  id: number
+  invitedAt: string | null
+  expiresAt: string | null
+  acceptedAt: string | null
+  expired: boolean
+}
+
+export interface PanelMember {
+  id: number
+  email: string
+  name: string
+  userId: number | null
+  notifiedAt: string | null
+  firstOpenedAt: string | null
+  submittedAt: string | null
+  invitation: PanelInvitation | null
+}
+
+export interface Round {
+  id: number
+  studyId: number
+  number: number
+  title: string
+  briefing: string
+  opensAt: string
+  closesAt: string
+  status: RoundStatus
+  reminderHoursBefore: number | null
+  reminderSentAt: string | null
+  calibrationPosition: 'before' | 'after'
+  feedbackEnabled: boolean
+  /** `answer` is left out for experts. */
+  practice: { question: string; unit: string; answer?: number }
+  openedAt: string | null
+  closedAt: string | null
+  version: number
+  items: RoundItem[]
+  /** Empty for experts. */
+  panel: PanelMember[]
+}
+
+/** Body of POST /api/studies/:id/rounds (dates as Date or ISO text; JSON turns a Date into ISO). */
+export interface RoundWriteBody {
+  title: string
+  briefing?: string
+  opensAt: Date | string
+  closesAt: Date | string
+  items: { quantityId: number; method: ElicitationMethod; edges?: number[]; chips?: number; askTails?: boolean }[]
+  reminderHoursBefore?: number | null
+  calibrationPosition?: 'before' | 'after'
+  feedbackEnabled?: boolean
+  practiceQuestion?: string
+  practiceUnit?: string
+  practiceAnswer?: number
+}
+
+export type RoundPatchBody = Partial<RoundWriteBody> & { version: number }
+
+export type JudgementStatus = 'not started' | 'draft' | 'submitted'
+
+export interface RoundProgress {
+  quantities: { id: number; name: string; symbol: string }[]
+  experts: {
+    panelId: number
+    name: string
+    email: string
+    hasAccount: boolean
+    invitation: PanelInvitation | null
+    notifiedAt: string | null
+    firstOpenedAt: string | null
+    submittedAt: string | null
+    quantities: { quantityId: number; status: JudgementStatus; updatedAt: string | null }[]
+  }[]
+}
+
+/** GET /api/my/rounds row. */
+export interface MyRound {
+  id: number
+  title: string
+  status: RoundStatus
+  opensAt: string
+  closesAt: string
+  studyId: number
+  studyTitle: string
+  submittedAt: string | null
+}
+
+/** The practice feedback the server computes (also stored as `practice.fit`). */
+export interface PracticeFeedback {
+  distribution: Distribution
+  sse: number
+  q05: number
+  q50: number
+  q95: number
+  trueValue: number
+  truthProb: number
+  insideQuartiles: boolean
+  inside90: boolean
+}
+
+export interface RoundEntry {
+  declaration: {
+    expertise: string
+    interests: 'none' | 'described'
+    interestsText: string
+    seenPilotData: boolean
+    savedAt: string
+  } | null
+  practice: { points: Point[]; fit: PracticeFeedback | null; completedAt: string } | null
+  submittedAt: string | null
+}
+
+export const roundsApi = {
+  list: (studyId: number) => api.get<RoundSummary[]>(`/api/studies/${studyId}/rounds`),
+  studyQuantities: (studyId: number) => api.get<StudyQuantity[]>(`/api/studies/${studyId}/quantities`),
+  create: (studyId: number, body: RoundWriteBody) => api.post<Round>(`/api/studies/${studyId}/rounds`, body),
+  get: (id: number) => api.get<Round>(`/api/rounds/${id}`),
+  update: (id: number, body: RoundPatchBody) => api.patch<Round>(`/api/rounds/${id}`, body),
+  open: (id: number) => api.post<Round>(`/api/rounds/${id}/open`),
+  close: (id: number) => api.post<Round>(`/api/rounds/${id}/close`),
+  progress: (id: number) => api.get<RoundProgress>(`/api/rounds/${id}/progress`),
+  invite: (id: number, body: { email: string; name: string }) => api.post<Round>(`/api/rounds/${id}/invitations`, body),
+  removeMember: (id: number, panelId: number) => api.delete<Round>(`/api/rounds/${id}/panel/${panelId}`),
+  resend: (id: number, panelId: number) => api.post<Round>(`/api/rounds/${id}/panel/${panelId}/resend`),
+  revoke: (id: number, panelId: number) => api.post<Round>(`/api/rounds/${id}/panel/${panelId}/revoke`),
+  mine: () => api.get<MyRound[]>('/api/my/rounds'),
+  entry: (id: number) => api.get<RoundEntry>(`/api/rounds/${id}/entry`),
+  saveDeclaration: (id: number, body: DeclarationBody) => api.put<RoundEntry>(`/api/rounds/${id}/declaration`, body),
+  practice: (id: number, points: Point[]) =>
+    api.post<RoundEntry & { feedback: PracticeFeedback }>(`/api/rounds/${id}/practice`, { points }),
+}

@@ -1,0 +1,108 @@
+import { computed, type Ref } from 'vue'
+import type { ChartData, ChartOptions } from 'chart.js'
+
+/** One density drawn as a line: a function of x, its look, and its quantile function to choose the x range. */
+export interface DensityCurve {
+  id: string
+  label: string
+  pdf: (x: number) => number
+  quantile?: (p: number) => number
+  color: string
+  width?: number
+  /** Line dash pattern, e.g. [6, 4]; solid when absent. */
+  dash?: number[]
+  /** Drawn above the others (higher number on top). */
+  order?: number
+}
+
+export interface DensityChartOptions {
+  xLabel: string
+  /** Values outside [min, max] are not drawn (the support). */
+  min?: number
+  max?: number
+  points?: number
+}
+
+/** Range that holds the central 99 % of every curve, padded a little, clipped to the support. */
+export function densityRange(curves: DensityCurve[], min = -Infinity, max = Infinity): [number, number] {
+  let lo = Infinity
+  let hi = -Infinity
+  for (const c of curves) {
+    if (!c.quantile) continue
+    const a = c.quantile(0.005)
+    const b = c.quantile(0.995)
+    if (Number.isFinite(a)) lo = Math.min(lo, a)
+    if (Number.isFinite(b)) hi = Math.max(hi, b)
+  }
+  if (!(lo < hi)) return [Number.isFinite(min) ? min : 0, Number.isFinite(max) ? max : 1]
+  const pad = (hi - lo) * 0.04
+  return [Math.max(min, lo - pad), Math.min(max, hi + pad)]
+}
+
+/** Evaluates each curve on an even grid (non-finite densities leave a gap). */
+export function densityData(curves: DensityCurve[], range: [number, number], n = 240): ChartData<'line', { x: number; y: number | null }[]> {
+  const [lo, hi] = range
+  const xs = Array.from({ length: n + 1 }, (_, i) => lo + ((hi - lo) * i) / n)
+  return {
+    datasets: curves.map((c) => ({
+      label: c.label,
+      data: xs.map((x) => {
+        const y = c.pdf(x)
+        return { x, y: Number.isFinite(y) ? y : null }
+      }),
+      borderColor: c.color,
+      backgroundColor: c.color,
+      borderWidth: c.width ?? 1.5,
+      borderDash: c.dash ?? [],
+      pointRadius: 0,
+      pointHoverRadius: 0,
+      tension: 0,
+      spanGaps: false,
+      order: -(c.order ?? 0),
+    })),
+  }
+}
+
+/** Chart data and options for a set of densities on one linear x axis; recomputed when the curves change. */
+export function useDensityChart(curves: Ref<DensityCurve[]>, options: Ref<DensityChartOptions>) {
+  const range = computed(() => densityRange(curves.value, options.value.min, options.value.max))
+  const data = computed(() => densityData(curves.value, range.value, options.value.points))
+  const chartOptions = computed<ChartOptions<'line'>>(() => ({
+    responsive: true,
+    maintainAspectRatio: false,
+    animation: false,
+    parsing: false,
+    normalized: true,
+    interaction: { mode: 'index', intersect: false },
+    scales: {
+      x: {
+        type: 'linear',
+        min: range.value[0],
+        max: range.value[1],
+        title: { display: true, text: options.value.xLabel, color: '#3d4753' },
+        grid: { color: '#ece9e1' },
+        ticks: { color: '#5f6873', maxTicksLimit: 10 },
+      },
+      y: {
+        type: 'linear',
+        beginAtZero: true,
+        title: { display: true, text: 'Density', color: '#3d4753' },
+        grid: { color: '#ece9e1' },
+        ticks: { color: '#5f6873', maxTicksLimit: 6 },
+      },
+    },
+    plugins: {
+      legend: {
+        position: 'bottom',
+        labels: { usePointStyle: true, pointStyle: 'line', color: '#1d2733', boxWidth: 28, padding: 14 },
+      },
+      tooltip: {
+        callbacks: {
+          title: (items) => (items.length ? `x = ${Number(items[0].parsed.x).toPrecision(4)}` : ''),
+          label: (item) => `${item.dataset.label}: ${item.parsed.y === null ? '—' : Number(item.parsed.y).toPrecision(3)}`,
+        },
+      },
+    },
+  }))
+  return { range, data, options: chartOptions }
+}

@@ -1,0 +1,87 @@
+import type { Support } from '@shared/stats'
+
+/** Lowest and highest value a quantity can take. */
+export function supportRange(support: Support): { lower: number; upper: number } {
+  switch (support.kind) {
+    case 'positive':
+      return { lower: 0, upper: Infinity }
+    case 'proportion':
+      return { lower: 0, upper: 1 }
+    case 'bounded':
+      return { lower: support.lower, upper: support.upper }
+    default:
+      return { lower: -Infinity, upper: Infinity }
+  }
+}
+
+/** "positive (0 to ∞)", "proportion (0 to 1)", "bounded (2 to 9)", "any real number". */
+export function supportLabel(support: Support): string {
+  const { lower, upper } = supportRange(support)
+  if (support.kind === 'real') return 'any real number'
+  return `${support.kind} (${formatEdge(lower)} to ${upper === Infinity ? '∞' : formatEdge(upper)})`
+}
+
+export function formatEdge(value: number): string {
+  if (value === Infinity) return '∞'
+  if (value === -Infinity) return '−∞'
+  return String(value)
+}
+
+/** Edges as the editor shows them: "0, 0.1, 0.25". */
+export function formatEdges(edges: readonly number[] | undefined): string {
+  return (edges ?? []).map(formatEdge).join(', ')
+}
+
+export type EdgesParse = { ok: true; edges: number[] } | { ok: false; message: string }
+
+/** The same limits as the shared round schema. */
+export const MIN_EDGES = 3
+export const MAX_EDGES = 31
+
+/**
+ * Reads interval edges typed as numbers separated by commas, semicolons or spaces
+ * ("0, 5, 10, 20"). Checks what the server checks: numbers, at least 3 edges (2 intervals),
+ * at most 30 intervals, strictly increasing, inside the quantity's support.
+ */
+export function parseEdges(text: string, support?: Support): EdgesParse {
+  const parts = text
+    .split(/[,;\s]+/)
+    .map((part) => part.trim())
+    .filter((part) => part.length > 0)
+  if (parts.length === 0) return { ok: false, message: 'Enter the interval edges' }
+  const edges: number[] = []
+  for (const part of parts) {
+    const value = Number(part)
+    if (!/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(part) || !Number.isFinite(value)) {
+      return { ok: false, message: `“${part}” is not a number; separate the edges with commas` }
+    }
+    edges.push(value)
+  }
+  if (edges.length < MIN_EDGES) return { ok: false, message: 'Give at least 3 edges (2 intervals)' }
+  if (edges.length > MAX_EDGES) return { ok: false, message: 'Use at most 30 intervals' }
+  for (let i = 1; i < edges.length; i++) {
+    if (!(edges[i] > edges[i - 1])) return { ok: false, message: 'Interval edges must be strictly increasing' }
+  }
+  if (support) {
+    const { lower, upper } = supportRange(support)
+    if (edges[0] < lower || edges[edges.length - 1] > upper) {
+      return { ok: false, message: `Interval edges must lie within the quantity's support [${formatEdge(lower)}, ${formatEdge(upper)}]` }
+    }
+  }
+  return { ok: true, edges }
+}
+
+/** A starting grid for a quantity whose support fixes both ends; otherwise the analyst types the edges. */
+export function suggestEdges(support: Support): number[] | undefined {
+  if (support.kind === 'proportion') return [0, 0.1, 0.2, 0.4, 0.6, 0.8, 1]
+  if (support.kind === 'bounded') {
+    const step = (support.upper - support.lower) / 5
+    return Array.from({ length: 6 }, (_, i) => Number((support.lower + i * step).toPrecision(10)))
+  }
+  return undefined
+}
+
+/** "[0, 5)", "[5, 10)" … the intervals the edges make (the last one closed). */
+export function intervalLabels(edges: readonly number[]): string[] {
+  return edges.slice(1).map((upper, i) => `[${formatEdge(edges[i])}, ${formatEdge(upper)}${i === edges.length - 2 ? ']' : ')'}`)
+}
