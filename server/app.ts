@@ -19,6 +19,7 @@ import { judgementsRouter } from './routes/judgements'
 import { outboxRouter } from './routes/outbox'
 import { quantitiesRouter } from './routes/quantities'
 import { reconciliationRouter } from './routes/reconciliation'
+import { recordsRouter } from './routes/records'
 import { roundsRouter } from './routes/rounds'
 import { studiesRouter } from './routes/studies'
 import { usersRouter } from './routes/users'
@@ -67,7 +68,7 @@ export function createApp(opts: AppOptions): PriorsmithApp {
       strictTransportSecurity: opts.secureCookies ? undefined : false,
     }),
   )
-  app.use(express.json({ limit: '1mb' }))
+  app.use(express.json({ limit: '4mb' }))
 
   const sessions = createSessionMiddleware({ databaseUrl: opts.databaseUrl, secret: opts.sessionSecret, secure: !!opts.secureCookies })
   app.use('/api', sessions.middleware)
@@ -98,6 +99,7 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   app.use('/api', reconciliationRouter(db))
   app.use('/api', datasetsRouter(db))
   app.use('/api', impactRouter(db))
+  app.use('/api', recordsRouter(db))
   app.use('/api', outboxRouter(db))
   app.use('/api', notFoundApi)
 

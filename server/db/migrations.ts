@@ -5,6 +5,7 @@ import * as m003 from '../../migrations/20261202_003_studies_rounds'
 import * as m004 from '../../migrations/20261202_004_answers'
 import * as m005 from '../../migrations/20261202_005_reconciliation'
 import * as m006 from '../../migrations/20261202_006_pilot_impact'
+import * as m007 from '../../migrations/20261202_007_records'
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> }
 
@@ -16,6 +17,7 @@ const migrations: Record<string, Migration> = {
   '20261202_004_answers': m004,
   '20261202_005_reconciliation': m005,
   '20261202_006_pilot_impact': m006,
+  '20261202_007_records': m007,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {
