@@ -2,14 +2,19 @@ import { Router } from 'express'
 import { declarationSchema, invitationSchema, practiceSchema, roundSchema, roundUpdateSchema } from '../../shared/schemas/rounds'
 import { currentUser } from '../auth/guards'
 import type { AppContext } from '../context'
-import { idParam, validateBody } from '../http/errors'
-import { allow, studyAccess, studyIdOf } from '../services/access'
+import { HttpError, idParam, validateBody } from '../http/errors'
+import { allow, studyAccess, studyIdOf, type StudyAccess } from '../services/access'
 import { roundEntry, saveDeclaration, savePractice } from '../services/invitations'
 import { practiceFeedback } from '../services/practice'
 import {
   addPanelMember, closeRound, createRound, getRound, listMyRounds, listRounds, openRound, removePanelMember,
   resendInvitation, revokeInvitation, roundProgress, roundRow, updateRound,
 } from '../services/rounds'
+
+/** Only the panel's experts enter a round; admins sit on no panel. */
+function expertOnly(access: StudyAccess) {
+  if (access.role !== 'expert') throw new HttpError(403, 'Only the experts on the panel enter a round')
+}
 
 /** Elicitation rounds: scheduling, panel and invitations (analysts); entry, declaration and practice (experts). */
 export function roundsRouter(ctx: AppContext): Router {
@@ -106,20 +111,20 @@ export function roundsRouter(ctx: AppContext): Router {
   // The expert's own entry into a round: declaration first, then the practice question.
   r.get('/rounds/:id/entry', async (req, res) => {
     const { id, access } = await roundAccess(req)
-    allow(access, 'expert')
+    expertOnly(access)
     res.json(await roundEntry(db, access.user, id))
   })
 
   r.put('/rounds/:id/declaration', async (req, res) => {
     const { id, access } = await roundAccess(req)
-    allow(access, 'expert')
+    expertOnly(access)
     const body = await validateBody(declarationSchema, req.body)
     res.json(await saveDeclaration(db, access.user, id, access.studyId, body))
   })
 
   r.post('/rounds/:id/practice', async (req, res) => {
     const { id, access } = await roundAccess(req)
-    allow(access, 'expert')
+    expertOnly(access)
     const body = await validateBody(practiceSchema, req.body)
     const round = await roundRow(db, id)
     const feedback = practiceFeedback(body.points, round.practice_answer)
