@@ -5,12 +5,14 @@
 //   node scripts/stack.mjs test    same bootstrap, then type-check, build and every test suite
 //   node scripts/stack.mjs db      only start PostgreSQL and prepare the development database
 //   node scripts/stack.mjs stop    stop the project's PostgreSQL cluster
+//   node scripts/stack.mjs backup [file]          pg_dump of the development database (default .data/backups/…)
+//   node scripts/stack.mjs restore <file> [name]  pg_restore into a new database (default priorsmith_restored)
 import { spawn, spawnSync } from 'node:child_process'
 import { createHash, randomBytes } from 'node:crypto'
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
 import path from 'node:path'
 import { fileURLToPath } from 'node:url'
-import { ensureCluster, ensureDatabase, stopCluster } from './lib/postgres.mjs'
+import { backupDatabase, ensureCluster, ensureDatabase, restoreDatabase, stopCluster } from './lib/postgres.mjs'
 import { log, run } from './lib/util.mjs'
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..')
@@ -99,9 +101,16 @@ async function test() {
   await step('type-check (vue-tsc)', () => tool('vue-tsc', ['--noEmit', '-p', 'tsconfig.json']))
   await step('client build', () => tool('vite', ['build', '--logLevel', 'warn']))
   const extra = process.argv.slice(3)
+  const report = path.join(root, 'artifacts', 'vitest-report.json')
+  mkdirSync(path.dirname(report), { recursive: true })
   const result = await step('vitest (unit, api, e2e)', () =>
-    spawnSync(bin('vitest'), ['run', ...extra], { cwd: root, stdio: 'inherit', env: { ...process.env, PRIORSMITH_ROOT: root } }))
+    spawnSync(bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...extra], { cwd: root, stdio: 'inherit', env: { ...process.env, PRIORSMITH_ROOT: root } }))
   printTimings()
+  if (existsSync(report)) {
+    const r = JSON.parse(readFileSync(report, 'utf8'))
+    // A plain closing line that any CI can read.
+    process.stdout.write(`tests: ${r.numPassedTests} passed, ${r.numFailedTests} failed, ${r.numPendingTests + r.numTodoTests} skipped\n`)
+  }
   process.exit(result.status ?? 1)
 }
 
@@ -111,7 +120,21 @@ try {
   else if (command === 'test') await test()
   else if (command === 'db') { await step('npm dependencies', ensureDependencies); await loadDotEnv(); await prepareDevDatabase(); printTimings() }
   else if (command === 'stop') stopCluster(root)
-  else { console.error('usage: node scripts/stack.mjs start|test|db|stop'); process.exit(2) }
+  else if (command === 'backup') {
+    await loadDotEnv()
+    const cluster = ensureCluster(root)
+    const url = process.env.DATABASE_URL ?? ensureDatabase(cluster, process.env.DB_NAME ?? 'priorsmith')
+    const file = process.argv[3] ?? path.join(root, '.data', 'backups', `priorsmith-${new Date().toISOString().replace(/[:.]/g, '-')}.dump`)
+    mkdirSync(path.dirname(file), { recursive: true })
+    log(`backup written to ${backupDatabase(cluster, url, file)}`)
+  } else if (command === 'restore') {
+    await loadDotEnv()
+    const file = process.argv[3]
+    if (!file || !existsSync(file)) throw new Error('usage: npm run db:restore -- <backup file> [database name]')
+    const url = restoreDatabase(ensureCluster(root), file, process.argv[4] ?? 'priorsmith_restored')
+    log(`restored into ${url.replace(/:[^:@/]+@/, ':***@')}; point DATABASE_URL at it to use it`)
+  }
+  else { console.error('usage: node scripts/stack.mjs start|test|db|stop|backup|restore'); process.exit(2) }
 } catch (err) {
   console.error(`[priorsmith] ${err instanceof Error ? err.message : err}`)
   process.exit(1)

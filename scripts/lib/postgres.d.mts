@@ -14,3 +14,5 @@ export function ensureServerBinaries(): string
 export function ensureCluster(projectRoot: string, options?: { fast?: boolean }): Cluster
 export function stopCluster(projectRoot: string): void
 export function ensureDatabase(cluster: Cluster, dbName: string, options?: { recreate?: boolean }): string
+export function backupDatabase(cluster: Cluster, databaseUrl: string, file: string): string
+export function restoreDatabase(cluster: Cluster, file: string, dbName: string): string

@@ -8,11 +8,56 @@ export class HttpError extends Error {
   }
 }
 
+interface Description {
+  type: string
+  fields?: Record<string, Description>
+  innerType?: Description
+}
+
+const SHAPE_MESSAGES: Record<string, string> = { string: 'Must be text', object: 'Must be an object', array: 'Must be a list', number: 'Must be a number', boolean: 'Must be true or false' }
+
+/**
+ * Finds values whose JSON shape cannot be what the schema expects (an array where text belongs, an object where a
+ * number belongs…) before yup sees them: yup's transforms assume the right shape and would throw instead of reporting.
+ */
+function shapeErrors(d: Description, value: unknown, path: string, out: Record<string, string>): void {
+  if (value === undefined || value === null) return
+  const isObject = typeof value === 'object' && !Array.isArray(value)
+  const ok = d.type === 'string' ? typeof value !== 'object' : d.type === 'number' || d.type === 'boolean' || d.type === 'date' ? typeof value !== 'object'
+    : d.type === 'object' ? isObject : d.type === 'array' ? Array.isArray(value) : true
+  if (!ok) {
+    out[path || '_'] ??= SHAPE_MESSAGES[d.type] ?? 'Has the wrong type'
+    return
+  }
+  if (d.type === 'object' && d.fields) {
+    for (const [k, child] of Object.entries(d.fields)) shapeErrors(child, (value as Record<string, unknown>)[k], path ? `${path}.${k}` : k, out)
+  } else if (d.type === 'array' && d.innerType) {
+    ;(value as unknown[]).forEach((v, i) => shapeErrors(d.innerType!, v, `${path}[${i}]`, out))
+  }
+}
+
+const FORBIDDEN_KEYS = new Set(['__proto__', 'constructor', 'prototype'])
+
+/** Keys that could reach an object's prototype are refused wherever they appear (prototype pollution). */
+function forbiddenKeys(value: unknown, path: string, out: Record<string, string>, depth = 0): void {
+  if (depth > 20 || value === null || typeof value !== 'object') return
+  for (const key of Object.keys(value)) {
+    const where = Array.isArray(value) ? `${path}[${key}]` : path ? `${path}.${key}` : key
+    if (FORBIDDEN_KEYS.has(key)) out[where] = 'This field name is not accepted'
+    else forbiddenKeys((value as Record<string, unknown>)[key], where, out, depth + 1)
+  }
+}
+
 /** Validates a body with a shared yup schema; throws 400 with one message per field. */
 export async function validateBody<S extends AnyObjectSchema>(schema: S, body: unknown): Promise<InferType<S>> {
   if (body === null || typeof body !== 'object' || Array.isArray(body)) {
     throw new HttpError(400, 'The request body must be a JSON object')
   }
+  const shape: Record<string, string> = {}
+  forbiddenKeys(body, '', shape)
+  if (Object.keys(shape).length) throw new HttpError(400, 'Some fields need attention', shape)
+  shapeErrors(schema.describe() as unknown as Description, body, '', shape)
+  if (Object.keys(shape).length) throw new HttpError(400, 'Some fields need attention', shape)
   try {
     return await schema.validate(body, { abortEarly: false, stripUnknown: false })
   } catch (err) {
