@@ -11,8 +11,8 @@ export interface Cluster extends ClusterSettings { bin: string }
 export function pgSettings(projectRoot: string, env?: NodeJS.ProcessEnv): ClusterSettings
 export function findServerBin(): string | null
 export function ensureServerBinaries(): string
-export function ensureCluster(projectRoot: string, options?: { fast?: boolean }): Cluster
-export function stopCluster(projectRoot: string): void
+export function ensureCluster(projectRoot: string, options?: { fast?: boolean; env?: NodeJS.ProcessEnv }): Cluster
+export function stopCluster(projectRoot: string, options?: { env?: NodeJS.ProcessEnv }): void
 export function ensureDatabase(cluster: Cluster, dbName: string, options?: { recreate?: boolean }): string
 export function backupDatabase(cluster: Cluster, databaseUrl: string, file: string): string
 export function restoreDatabase(cluster: Cluster, file: string, dbName: string): string

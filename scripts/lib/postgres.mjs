@@ -87,8 +87,8 @@ function removeStalePidFile(dataDir) {
 }
 
 /** Creates the cluster if needed and starts it; a running cluster is reused. */
-export function ensureCluster(projectRoot, { fast = false } = {}) {
-  const s = pgSettings(projectRoot)
+export function ensureCluster(projectRoot, { fast = false, env = process.env } = {}) {
+  const s = pgSettings(projectRoot, env)
   const bin = ensureServerBinaries()
   mkdirSync(s.base, { recursive: true })
   mkdirSync(s.socketDir, { recursive: true })
@@ -109,8 +109,8 @@ export function ensureCluster(projectRoot, { fast = false } = {}) {
   return { ...s, bin }
 }
 
-export function stopCluster(projectRoot) {
-  const s = pgSettings(projectRoot)
+export function stopCluster(projectRoot, { env = process.env } = {}) {
+  const s = pgSettings(projectRoot, env)
   const bin = findServerBin()
   if (!bin || !existsSync(path.join(s.dataDir, 'PG_VERSION'))) return
   if (statusOf(bin, s.dataDir)) asServerUser(path.join(bin, 'pg_ctl'), ['-D', s.dataDir, '-m', 'fast', '-w', 'stop'], { quiet: true })

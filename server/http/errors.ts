@@ -82,6 +82,13 @@ export function idParam(value: unknown, what = 'Resource'): number {
 
 export const notFoundApi: RequestHandler = (_req, _res, next) => next(new HttpError(404, 'No such API route'))
 
+/** Connection-level failures (server down, restarting, or dropping connections), as opposed to a bad query. */
+function isDatabaseUnavailable(err: { code?: string; message?: string } | undefined): boolean {
+  const code = err?.code ?? ''
+  return ['ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT', '57P01', '57P02', '57P03', '08000', '08003', '08006', '08001', '08004'].includes(code)
+    || /Connection terminated|connect ECONNREFUSED|Knex: Timeout acquiring a connection|the database system is (starting up|shutting down)/i.test(err?.message ?? '')
+}
+
 /** The one error handler: every error leaves as `{ error: { message, fields? } }`. */
 export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   if (err instanceof HttpError) {
@@ -103,6 +110,10 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   }
   if (status >= 400 && status < 500) {
     res.status(status).json({ error: { message: String(err.message || 'Bad request') } })
+    return
+  }
+  if (isDatabaseUnavailable(err)) {
+    res.status(503).setHeader('Retry-After', '2').json({ error: { message: 'The database is unavailable for a moment; nothing was saved. Try again shortly.' } })
     return
   }
   console.error(err)
