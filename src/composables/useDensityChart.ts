@@ -81,7 +81,7 @@ export function useDensityChart(curves: Ref<DensityCurve[]>, options: Ref<Densit
         max: range.value[1],
         title: { display: true, text: options.value.xLabel, color: '#3d4753' },
         grid: { color: '#ece9e1' },
-        ticks: { color: '#5f6873', maxTicksLimit: 10 },
+        ticks: { color: '#5f6873', maxTicksLimit: 10, includeBounds: false },
       },
       y: {
         type: 'linear',
@@ -94,7 +94,7 @@ export function useDensityChart(curves: Ref<DensityCurve[]>, options: Ref<Densit
     plugins: {
       legend: {
         position: 'bottom',
-        labels: { usePointStyle: true, pointStyle: 'line', color: '#1d2733', boxWidth: 28, padding: 14 },
+        labels: { usePointStyle: true, pointStyle: 'line', color: '#1d2733', boxWidth: 28, padding: 14, sort: (a, b) => (a.datasetIndex ?? 0) - (b.datasetIndex ?? 0) },
       },
       tooltip: {
         callbacks: {

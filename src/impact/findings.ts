@@ -1,0 +1,42 @@
+import type { ImpactResult } from '@/api/impact'
+import { bfText, fmt, pct } from './format'
+
+const withUnit = (x: string, unit: string) => (unit ? `${x} ${unit}` : x)
+
+/**
+ * Sentences the browser adds before the server's findings: where the posterior lands under the
+ * reconciled prior, how far the candidates disagree, the Bayes factor in words, and the decisions.
+ */
+export function extraFindings(result: ImpactResult, unit: string, symbol: string): string[] {
+  const out: string[] = []
+  const rec = result.candidates.find((c) => c.kind === 'reconciled')
+  if (rec) {
+    out.push(
+      `Under the reconciled prior the posterior mean of ${symbol} is ${withUnit(fmt(rec.posterior.mean), unit)} ` +
+      `(95 % interval ${fmt(rec.posterior.q025)} to ${fmt(rec.posterior.q975)}); the prior alone said ${fmt(rec.priorSummary.mean)} ` +
+      `(${fmt(rec.priorSummary.q025)} to ${fmt(rec.priorSummary.q975)}).`,
+    )
+    if (rec.bayesFactor) {
+      const favours = rec.bayesFactor.logBF >= 0 ? 'favour the reconciled prior over the reference' : 'favour the reference over the reconciled prior'
+      out.push(`The pilot data ${favours} by a Bayes factor of ${bfText(Math.abs(rec.bayesFactor.logBF))} (${rec.bayesFactor.label}); read it with the width sweep below.`)
+    }
+  } else {
+    out.push('No reconciled prior is saved for this quantity yet, so there is no width sweep or tipping point; reconcile the experts’ judgements first.')
+  }
+  const others = result.candidates.filter((c) => c.kind !== 'reference')
+  if (others.length > 1) {
+    const means = others.map((c) => c.posterior.mean)
+    out.push(`Across the ${others.length} candidate priors other than the reference the posterior mean ranges from ${fmt(Math.min(...means))} to ${withUnit(fmt(Math.max(...means)), unit)}.`)
+  }
+  if (result.decision) {
+    const decided = result.candidates.filter((c) => c.decision)
+    const acting = decided.filter((c) => c.decision!.act).length
+    out.push(
+      acting === decided.length ? `All ${decided.length} candidate priors lead to acting under the decision rule.`
+        : acting === 0 ? `None of the ${decided.length} candidate priors leads to acting under the decision rule.`
+          : `${acting} of ${decided.length} candidate priors lead to acting under the decision rule; the choice of prior decides it.`,
+    )
+    if (result.tipping) out.push(`Under the reconciled prior the probability in the rule is ${pct(result.tipping.probabilityNow)}, so the decision is to ${result.tipping.actNow ? 'act' : 'not act'}.`)
+  }
+  return out
+}

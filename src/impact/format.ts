@@ -1,0 +1,154 @@
+import type { PilotMapping } from '@shared/elicitation/pilot'
+import type { Distribution, Family, PriorDistribution } from '@shared/stats'
+import type { CandidateFlag, CandidateKind } from '@/api/impact'
+
+export const FAMILY_LABELS: Record<Family, string> = {
+  normal: 'Normal',
+  'student-t': 'Student-t',
+  lognormal: 'Lognormal',
+  gamma: 'Gamma',
+  beta: 'Beta',
+  'scaled-beta': 'Scaled beta',
+  uniform: 'Uniform',
+}
+
+export interface ParamSpec {
+  key: string
+  symbol: string
+  label: string
+  positive: boolean
+}
+
+/** Parameters in the engine's parameterisation (gamma uses the rate; Student-t σ is the scale). */
+export const FAMILY_PARAMS: Record<Family, ParamSpec[]> = {
+  normal: [
+    { key: 'mu', symbol: 'μ', label: 'Mean μ', positive: false },
+    { key: 'sigma', symbol: 'σ', label: 'SD σ', positive: true },
+  ],
+  'student-t': [
+    { key: 'mu', symbol: 'μ', label: 'Location μ', positive: false },
+    { key: 'sigma', symbol: 'σ', label: 'Scale σ', positive: true },
+    { key: 'df', symbol: 'ν', label: 'Degrees of freedom ν', positive: true },
+  ],
+  lognormal: [
+    { key: 'meanlog', symbol: 'μ_log', label: 'Mean of ln X', positive: false },
+    { key: 'sdlog', symbol: 'σ_log', label: 'SD of ln X', positive: true },
+  ],
+  gamma: [
+    { key: 'shape', symbol: 'shape', label: 'Shape', positive: true },
+    { key: 'rate', symbol: 'rate', label: 'Rate', positive: true },
+  ],
+  beta: [
+    { key: 'alpha', symbol: 'α', label: 'α', positive: true },
+    { key: 'beta', symbol: 'β', label: 'β', positive: true },
+  ],
+  'scaled-beta': [
+    { key: 'alpha', symbol: 'α', label: 'α', positive: true },
+    { key: 'beta', symbol: 'β', label: 'β', positive: true },
+    { key: 'lower', symbol: 'L', label: 'Lower bound', positive: false },
+    { key: 'upper', symbol: 'U', label: 'Upper bound', positive: false },
+  ],
+  uniform: [
+    { key: 'lower', symbol: 'L', label: 'Lower bound', positive: false },
+    { key: 'upper', symbol: 'U', label: 'Upper bound', positive: false },
+  ],
+}
+
+/** Numbers in tables: 4 significant digits, exponent only for extreme magnitudes; '—' for none. */
+export function fmt(value: number | null | undefined, digits = 4): string {
+  if (value === null || value === undefined) return '—'
+  if (!Number.isFinite(value)) return value > 0 ? '∞' : value < 0 ? '−∞' : '—'
+  const abs = Math.abs(value)
+  if (abs !== 0 && (abs >= 1e7 || abs < 1e-4)) return value.toExponential(2).replace('-', '−')
+  if (abs >= 1000) return new Intl.NumberFormat('en-GB', { maximumFractionDigits: 0 }).format(value).replace('-', '−')
+  return new Intl.NumberFormat('en-GB', { maximumSignificantDigits: digits }).format(value).replace('-', '−')
+}
+
+/** Probabilities and p-values as decimals in tables (0.034, 0.0012 → 1.2e-3). */
+export function fmtP(value: number | null | undefined): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return '—'
+  if (value === 0) return '0'
+  if (value >= 0.995) return value >= 1 ? '1' : value.toFixed(3)
+  if (value < 1e-3) return value.toExponential(1).replace('-', '−')
+  return value.toFixed(3)
+}
+
+/** Probabilities in prose: "83 %", "< 1 %", "> 99 %". */
+export function pct(value: number): string {
+  if (value < 0.01) return '< 1 %'
+  if (value > 0.99) return '> 99 %'
+  return `${Math.round(value * 100)} %`
+}
+
+/** "[1.23, 4.56]". */
+export function interval(lo: number, hi: number): string {
+  return `[${fmt(lo)}, ${fmt(hi)}]`
+}
+
+export function paramOf(d: PriorDistribution, key: string): number {
+  return (d as unknown as Record<string, number>)[key]
+}
+
+/** "Gamma (shape = 1, rate = 0.01)". */
+export function distributionText(d: PriorDistribution): string {
+  if (d.family === 'half-normal') return `Half-normal (scale = ${fmt(d.scale)})`
+  return `${FAMILY_LABELS[d.family]} (${FAMILY_PARAMS[d.family].map((p) => `${p.symbol} = ${fmt(paramOf(d, p.key))}`).join(', ')})`
+}
+
+/** Which columns a stored dataset read: "bursts / exposure_100km_years". */
+export function mappingText(m: PilotMapping & { delimiter?: string }): string {
+  switch (m.model) {
+    case 'normal-known-sigma':
+      return `“${m.valueColumn}”, σ = ${fmt(m.sigma)}`
+    case 'normal':
+      return `“${m.valueColumn}”, σ ~ ${distributionText(m.sigmaPrior)}`
+    case 'binomial':
+      return 'binaryColumn' in m ? `0/1 in “${m.binaryColumn}”` : `“${m.successesColumn}” of “${m.trialsColumn}”`
+    case 'poisson':
+      return `“${m.countColumn}” over “${m.exposureColumn}”`
+  }
+}
+
+export const KIND_LABELS: Record<CandidateKind, string> = {
+  expert: 'Expert',
+  pooled: 'Pooled',
+  consensus: 'Consensus',
+  reconciled: 'Reconciled',
+  reference: 'Reference',
+  mixture: 'Robust mixture',
+}
+
+/** Each caution: a short name for tags, and what it means, for the cautions panel. */
+export const FLAG_INFO: Record<CandidateFlag, { tag: string; title: string; meaning: string }> = {
+  'prior-dominates': {
+    tag: 'prior dominates',
+    title: 'The prior dominates the data',
+    meaning: 'Its prior effective sample size is larger than the pilot n: the prior carries more information than the data, so the posterior mostly repeats it.',
+  },
+  'prior-data-conflict': {
+    tag: 'prior–data conflict',
+    title: 'Prior–data conflict',
+    meaning: 'Box’s prior predictive p-value is below 0.05: data like the pilot data would be surprising if this prior were right. Check the prior and the data before using either.',
+  },
+  'prior-driven-bayes-factor': {
+    tag: 'prior-driven BF',
+    title: 'Prior-driven Bayes factor',
+    meaning: 'The evidence for this prior changes with its width while the posterior does not; a Bayes factor built on it reflects how wide the prior was drawn.',
+  },
+}
+
+export const FLAG_ORDER: CandidateFlag[] = ['prior-dominates', 'prior-data-conflict', 'prior-driven-bayes-factor']
+
+/** Bayes factor as a plain number: "4.00", "1/12.3", "3.1e+05". */
+export function bfText(logBF: number): string {
+  const bf = Math.exp(logBF)
+  if (!Number.isFinite(bf)) return logBF > 0 ? '> 1e300' : '< 1e-300'
+  if (bf >= 1) return fmt(bf, 3)
+  return `1/${fmt(1 / bf, 3)}`
+}
+
+/** The quantity's unit in a column header: " (L/s)". */
+export const unitSuffix = (unit: string | undefined) => (unit ? ` (${unit})` : '')
+
+/** Convenience for distributions typed as the fitted families only. */
+export const isFitted = (d: PriorDistribution): d is Distribution => d.family !== 'half-normal'

@@ -1,0 +1,63 @@
+import type { RecordComment, RecordContent } from '@/api/record'
+
+/** Comments the server accepts name their section in at most 80 characters (shared/schemas/records.ts). */
+export const SECTION_MAX = 80
+
+export type SectionKind = 'study' | 'panel' | 'calibration' | 'quantity' | 'cautions' | 'review' | 'history'
+
+export interface RecordSectionInfo {
+  /** The heading without its number: what comments name as their section. */
+  key: string
+  number: number
+  kind: SectionKind
+  /** Index into content.quantities for quantity sections. */
+  quantityIndex?: number
+  /** Other names a comment may use for this section (a quantity's name or symbol). */
+  aliases: string[]
+}
+
+const clip = (text: string) => (text.length > SECTION_MAX ? `${text.slice(0, SECTION_MAX - 1)}…` : text)
+
+export const quantityHeading = (q: { name: string; symbol: string }) => clip(`${q.name} (${q.symbol})`)
+
+/** The record's sections in order, numbered as in the .docx: 1 study, 2 panel, 3 calibration, one per quantity, then the rest. */
+export function recordSections(content: Pick<RecordContent, 'quantities'>): RecordSectionInfo[] {
+  const list: RecordSectionInfo[] = [
+    { key: 'Study and decision', number: 1, kind: 'study', aliases: [] },
+    { key: 'Expert panel', number: 2, kind: 'panel', aliases: ['Panel'] },
+    { key: 'Calibration questions', number: 3, kind: 'calibration', aliases: ['Calibration'] },
+  ]
+  content.quantities.forEach((q, i) => {
+    list.push({ key: quantityHeading(q), number: 4 + i, kind: 'quantity', quantityIndex: i, aliases: [q.name, q.symbol] })
+  })
+  const n = 4 + content.quantities.length
+  list.push(
+    { key: 'Cautions', number: n, kind: 'cautions', aliases: [] },
+    { key: 'Review and sign-off', number: n + 1, kind: 'review', aliases: ['Review'] },
+    { key: 'Change history', number: n + 2, kind: 'history', aliases: [] },
+  )
+  return list
+}
+
+const norm = (s: string) => s.trim().replace(/^\d+\.?\s+/, '').toLowerCase()
+
+/** The section a comment belongs to (by heading, with or without its number, or a quantity's name or symbol); null when none matches. */
+export function sectionOf(comment: Pick<RecordComment, 'section'>, sections: RecordSectionInfo[]): string | null {
+  const wanted = norm(comment.section)
+  for (const s of sections) {
+    if (norm(s.key) === wanted || s.aliases.some((a) => norm(a) === wanted)) return s.key
+  }
+  return null
+}
+
+/** Comments by section key, oldest first; comments naming no section of this version ("General", a renamed quantity) under `other`. */
+export function groupComments(comments: RecordComment[], sections: RecordSectionInfo[]): { bySection: Record<string, RecordComment[]>; other: RecordComment[] } {
+  const bySection: Record<string, RecordComment[]> = {}
+  const other: RecordComment[] = []
+  for (const c of [...comments].sort((a, b) => a.createdAt.localeCompare(b.createdAt) || a.id - b.id)) {
+    const key = sectionOf(c, sections)
+    if (key === null) other.push(c)
+    else (bySection[key] ??= []).push(c)
+  }
+  return { bySection, other }
+}

@@ -1,0 +1,42 @@
+import { ref } from 'vue'
+import { defineStore } from 'pinia'
+import { impactApi, type ImpactRequest, type ImpactResult } from '@/api/impact'
+
+/** Impact analyses: the result shown for each quantity, and which quantity is being computed. */
+export const useImpactStore = defineStore('impact', () => {
+  /** Latest result per quantity id (null: none run yet). */
+  const results = ref<Record<number, ImpactResult | null>>({})
+  /** Where each shown result came from: this page's run, or the latest stored analysis. */
+  const origin = ref<Record<number, 'run' | 'stored'>>({})
+  /** Quantity whose analysis is running on the server, or null. */
+  const running = ref<number | null>(null)
+
+  /** GET the newest stored analysis of a quantity (analysts and reviewers). */
+  async function fetchLatest(quantityId: number): Promise<ImpactResult | null> {
+    const result = await impactApi.latest(quantityId)
+    results.value = { ...results.value, [quantityId]: result }
+    origin.value = { ...origin.value, [quantityId]: 'stored' }
+    return result
+  }
+
+  /** POST a run; the server answers from its cache when the same inputs were run before (`cached`). */
+  async function run(quantityId: number, body: ImpactRequest): Promise<ImpactResult> {
+    running.value = quantityId
+    try {
+      const result = await impactApi.run(quantityId, body)
+      results.value = { ...results.value, [quantityId]: { ...result, input: body } }
+      origin.value = { ...origin.value, [quantityId]: 'run' }
+      return result
+    } finally {
+      if (running.value === quantityId) running.value = null
+    }
+  }
+
+  function clear(): void {
+    results.value = {}
+    origin.value = {}
+    running.value = null
+  }
+
+  return { results, origin, running, fetchLatest, run, clear }
+})

@@ -1,0 +1,231 @@
+import { readFileSync } from 'node:fs'
+import path from 'node:path'
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { DEMO_PASSWORD } from '../../seeds/demo'
+import { openBrowser, signInAs, type BrowserSession } from '../support/browser'
+
+/**
+ * Pilot data and impact analysis in chromium: the analyst uploads the demo burst logs for the burst
+ * rate (after a bad file is refused with a located message), runs the impact analysis of every
+ * candidate prior, sees the table, the findings, the cautions and both width-sweep charts, and
+ * downloads the table as CSV and a chart as PNG.
+ *
+ * The e2e database holds only the seeded demo study, which has no elicitation round: the reconciled
+ * prior the analysis needs is set up first through the API from the page (a study of its own, so the
+ * demo study stays as the other browser tests expect it).
+ */
+
+const BURST_LOGS = path.resolve(import.meta.dirname, '../../seeds/pilot/burst-logs.csv')
+const QUANTITY_NAME = 'Burst rate of old cast-iron mains'
+
+let s: BrowserSession
+let studyId = 0
+let quantityId = 0
+
+/** The text field under a test id (the id sits on the form item around the input). */
+function field(page: Page, testId: string) {
+  return page.getByTestId(testId).locator('input, textarea').first()
+}
+
+/** Opens an el-select by its test id and picks the option with exactly this label. */
+async function choose(page: Page, testId: string, label: string) {
+  await page.getByTestId(testId).click()
+  // The dropdown opened last is the last in the page (an earlier one may still be fading out).
+  await page.getByRole('option', { name: label, exact: true }).last().click()
+}
+
+/**
+ * In the page, through the API with each session's CSRF token: the analyst creates a study with the
+ * burst rate and a quantile round for the three demo experts, each expert answers and submits, and the
+ * analyst saves the equal-weight linear pool as the reconciled prior. Ends signed out.
+ */
+async function setUpReconciledPrior(page: Page): Promise<{ studyId: number; quantityId: number }> {
+  return page.evaluate(async ({ password, quantityName }) => {
+    async function call<T>(method: string, url: string, body?: unknown): Promise<T> {
+      const headers: Record<string, string> = { accept: 'application/json' }
+      if (method !== 'GET') {
+        const { token } = await (await fetch('/api/auth/csrf')).json() as { token: string }
+        headers['x-csrf-token'] = token
+      }
+      if (body !== undefined) headers['content-type'] = 'application/json'
+      const res = await fetch(url, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) })
+      const text = await res.text()
+      if (!res.ok) throw new Error(`${method} ${url} → ${res.status} ${text}`)
+      return (text ? JSON.parse(text) : undefined) as T
+    }
+    const signIn = (email: string) => call('POST', '/api/auth/sign-in', { email, password })
+    const signOut = () => call('POST', '/api/auth/sign-out')
+
+    await signIn('analyst@kestrel.example')
+    const study = await call<{ id: number }>('POST', '/api/studies', {
+      title: 'Kestrel Valley burst-rate impact check', context: 'Pilot burst logs against the elicited priors for the burst rate.',
+    })
+    const quantity = await call<{ id: number }>('POST', `/api/studies/${study.id}/quantities`, {
+      name: quantityName, symbol: 'burst_rate', unit: 'bursts per 100 km per year', support: { kind: 'positive' },
+      question: 'Over 2027–2031, what will be the average number of bursts per 100 km per year on the cast-iron mains laid before 1960?',
+    })
+    const round = await call<{ id: number }>('POST', `/api/studies/${study.id}/rounds`, {
+      title: 'Round 1: burst rate', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * 864e5).toISOString(),
+      items: [{ quantityId: quantity.id, method: 'quantile' }], askCalibration: false,
+    })
+    const experts = ['expert1@kestrel.example', 'expert2@kestrel.example', 'expert3@kestrel.example']
+    for (const email of experts) await call('POST', `/api/rounds/${round.id}/invitations`, { email, name: 'Panel member' })
+    await call('POST', `/api/rounds/${round.id}/open`)
+    await signOut()
+
+    // Plausible bounds, then quartiles (bursts per 100 km per year).
+    const answers: [number, number, number, number, number][] = [[6, 30, 11, 14, 18], [5, 25, 9, 11.5, 14], [8, 45, 13, 17, 22]]
+    for (const [i, email] of experts.entries()) {
+      await signIn(email)
+      const [lower, upper, q1, median, q3] = answers[i]
+      await call('PUT', `/api/rounds/${round.id}/judgements/${quantity.id}`, {
+        method: 'quantile', lower, upper, points: [{ value: q1, prob: 0.25 }, { value: median, prob: 0.5 }, { value: q3, prob: 0.75 }],
+        rationale: 'Burst logs of the last ten years and the neighbouring boards’ figures.', version: 0,
+      })
+      await call('POST', `/api/rounds/${round.id}/submit`)
+      await signOut()
+    }
+
+    await signIn('analyst@kestrel.example')
+    const view = await call<{ fits: { distribution: { family: string } }[] }>('GET', `/api/quantities/${quantity.id}/reconciliation?roundId=${round.id}`)
+    await call('PUT', `/api/quantities/${quantity.id}/reconciliation`, {
+      roundId: round.id, method: 'linear', weights: 'equal', family: view.fits[0].distribution.family, reconciled: true,
+      rationale: 'Equal-weight linear pool of the three experts, fitted with the best family.', version: 0,
+    })
+    await signOut()
+    return { studyId: study.id, quantityId: quantity.id }
+  }, { password: DEMO_PASSWORD, quantityName: QUANTITY_NAME })
+}
+
+beforeAll(async () => {
+  s = await openBrowser()
+})
+afterEach(async (ctx) => {
+  if (ctx.task.result?.state !== 'fail') return
+  await s?.shot('impact-failed')
+  if (s?.consoleErrors.length) console.log(s.consoleErrors.join('\n'))
+})
+afterAll(async () => {
+  await s?.close()
+})
+
+describe('pilot data and impact analysis', () => {
+  it('sets up a reconciled prior for the burst rate through the API', async () => {
+    await s.page.goto(`${s.baseUrl}/sign-in`)
+    ;({ studyId, quantityId } = await setUpReconciledPrior(s.page))
+    expect(studyId).toBeGreaterThan(0)
+    expect(quantityId).toBeGreaterThan(0)
+  })
+
+  it('refuses a bad file with its line and column, storing nothing, and keeps the form filled', async () => {
+    const { page } = s
+    await signInAs(s, 'analyst@kestrel.example')
+    await page.waitForURL(/\/studies$/)
+    await page.goto(`${s.baseUrl}/studies/${studyId}`)
+    await page.getByTestId('nav-pilot-data').click()
+    await page.waitForURL(new RegExp(`/studies/${studyId}/pilot-data$`))
+    await page.getByText('No pilot data yet.').waitFor()
+
+    await page.getByTestId('pilot-upload-open').click()
+    await choose(page, 'pilot-quantity', QUANTITY_NAME)
+    await field(page, 'pilot-name').fill('Burst logs 2025, eight districts')
+    await page.getByTestId('pilot-file').setInputFiles({
+      name: 'burst-logs-typo.csv', mimeType: 'text/csv', buffer: Buffer.from('district,bursts,exposure_100km_years\nKV-01,11,1.10\nKV-02,seven,0.85\n'),
+    })
+    // The browser reads the file at once: the column names and the first rows.
+    const preview = page.getByTestId('pilot-preview')
+    await preview.waitFor()
+    expect(await page.getByTestId('pilot-preview-columns').innerText()).toBe('“district”, “bursts”, “exposure_100km_years”')
+    await choose(page, 'pilot-model', 'Poisson with exposure')
+    await choose(page, 'pilot-count-column', 'bursts')
+    await choose(page, 'pilot-exposure-column', 'exposure_100km_years')
+    await s.shot('impact-01-upload-form')
+
+    await page.getByTestId('pilot-submit').click()
+    const error = page.getByTestId('pilot-error')
+    await error.getByText('Line 3, column "bursts": expected a number, found "seven"').waitFor()
+    await s.shot('impact-02-upload-refused')
+    await expect(field(page, 'pilot-name').inputValue()).resolves.toBe('Burst logs 2025, eight districts')
+    await expect(page.getByTestId('dataset-row').count()).resolves.toBe(0)
+  })
+
+  it('stores the demo burst logs as version 1 of the burst rate’s data', async () => {
+    const { page } = s
+    await page.getByTestId('pilot-file').setInputFiles(BURST_LOGS)
+    await page.getByTestId('pilot-preview').getByText('8 data rows', { exact: false }).waitFor()
+    expect(await page.getByTestId('pilot-preview').innerText()).toContain('KV-01')
+    await page.getByTestId('pilot-submit').click()
+    const row = page.locator(`[data-testid="dataset-row"][data-quantity-id="${quantityId}"][data-version="1"]`)
+    await row.waitFor()
+    const text = await row.innerText()
+    expect(text).toContain('Burst logs 2025, eight districts')
+    expect(text).toContain('Poisson with exposure')
+    expect(text).toContain('81 events over 8.000 exposure units')
+    await s.shot('impact-03-dataset-stored')
+  })
+
+  it('runs the impact analysis: candidates table, findings, cautions, both sweep charts and the decision', async () => {
+    const { page } = s
+    await page.getByTestId('pilot-impact-link').click()
+    await page.waitForURL(new RegExp(`/studies/${studyId}/impact/${quantityId}$`))
+    await page.getByTestId('impact-run').waitFor()
+    expect(await page.getByTestId('impact-dataset').innerText()).toContain('v1 · Burst logs 2025, eight districts')
+    expect(await page.getByTestId('impact-reference-family').innerText()).toContain('Gamma')
+
+    await page.getByTestId('impact-mixture-on').click()
+    await field(page, 'mixture-weight').fill('0.2')
+    await page.getByTestId('impact-decision-on').click()
+    await page.getByTestId('decision-direction').getByText('above', { exact: true }).click()
+    await field(page, 'decision-threshold').fill('12')
+    await field(page, 'decision-probability').fill('0.8')
+    await s.shot('impact-04-settings')
+
+    await page.getByTestId('impact-run').click()
+    const table = page.getByTestId('impact-table')
+    await table.waitFor({ timeout: 30_000 })
+    const kinds = await page.getByTestId('candidate-row').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-kind')))
+    expect(kinds).toEqual(['expert', 'expert', 'expert', 'pooled', 'reconciled', 'reference', 'mixture'])
+    expect(await page.locator('[data-testid="candidate-row"][data-kind="reconciled"]').innerText()).toMatch(/\d/)
+    await expect(page.getByTestId('impact-progress').count()).resolves.toBe(0)
+
+    expect(await page.getByTestId('impact-findings').innerText()).toContain('Widening the reconciled prior 4×')
+    expect(await page.getByTestId('impact-cautions').innerText()).toContain('qualified statistician')
+    await page.getByTestId('sweep-mean-chart').locator('canvas').waitFor()
+    await page.getByTestId('sweep-evidence-chart').locator('canvas').waitFor()
+    await page.getByTestId('density-chart').locator('canvas').waitFor()
+    const tipping = await page.getByTestId('tipping-panel').innerText()
+    expect(tipping).toContain('act if P(burst_rate > 12')
+    expect(tipping).toMatch(/spread|centre|median/)
+    await s.shot('impact-05-result')
+  })
+
+  it('downloads the table as CSV and a chart as PNG', async () => {
+    const { page } = s
+    const [csv] = await Promise.all([page.waitForEvent('download'), page.getByTestId('download-csv').click()])
+    expect(csv.suggestedFilename()).toBe('impact-burst_rate-v1-candidates.csv')
+    const text = readFileSync((await csv.path())!, 'utf8').replace(/^\uFEFF/, '')
+    const lines = text.trimEnd().split('\r\n')
+    expect(lines[0].startsWith('candidate,kind,prior,prior mean (bursts per 100 km per year)')).toBe(true)
+    expect(lines).toHaveLength(8)
+    expect(lines.find((l) => l.startsWith('"Pooled (linear, equal weights)",pooled,'))).toBeTruthy()
+
+    const [png] = await Promise.all([page.waitForEvent('download'), page.getByTestId('sweep-evidence-chart').getByTestId('download-png').click()])
+    expect(png.suggestedFilename()).toBe('impact-burst_rate-v1-sweep-evidence.png')
+    const bytes = readFileSync((await png.path())!)
+    expect([...bytes.subarray(0, 4)]).toEqual([0x89, 0x50, 0x4e, 0x47])
+  })
+
+  it('answers the same inputs from the cache', async () => {
+    const { page } = s
+    await page.getByTestId('impact-run').click()
+    await page.getByTestId('impact-cached').waitFor()
+    await s.shot('impact-06-cached')
+  })
+
+  it('logged no console errors beyond the refused upload and loaded nothing from another origin', async () => {
+    const errors = s.consoleErrors.filter((e) => !/status of 40[01]/.test(e))
+    expect(errors).toEqual([])
+    expect(s.foreignRequests).toEqual([])
+  })
+})
