@@ -1,6 +1,7 @@
 import path from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { createApp } from './app'
+import { stopComputePool } from './compute/pool'
 import { loadConfig } from './config'
 import { createDb } from './db/knex'
 import { createMailer } from './mail/mailer'
@@ -48,6 +49,7 @@ const server = app.listen(config.port, () => {
 async function shutdown() {
   clearInterval(schedule)
   server.close()
+  stopComputePool()
   await mailer.stop()
   await mailFake?.stop()
   await close()

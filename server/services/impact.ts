@@ -1,10 +1,8 @@
 import { createHash } from 'node:crypto'
-import {
-  dataSize, evaluateCandidates, findings, sweepOf, SWEEP_FACTORS, type CandidateInput, type DecisionRule,
-} from '../../shared/elicitation/impact'
+import { dataSize, SWEEP_FACTORS, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
 import { combine, fitCombination, resolveWeights } from '../../shared/elicitation/reconcile'
-import { tippingPoint } from '../../shared/elicitation/tipping'
-import { EngineInputError, fitAll, validateDistribution, type Distribution, type FitResult, type PilotData, type PriorDistribution } from '../../shared/stats/index'
+import { EngineInputError, fitAll, validateDistribution, type Distribution, type FitResult, type PilotData } from '../../shared/stats/index'
+import { runImpactTask } from '../compute/pool'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
@@ -88,15 +86,10 @@ export async function runImpact(db: Db, user: User, quantityId: number, input: I
 
   let result
   try {
-    const started = Date.now()
-    const candidates = evaluateCandidates(list, data, input.decision ?? null)
-    const sweep = reconciled ? sweepOf(reconciled as PriorDistribution as Distribution, data, support, factors) : null
-    if (sweep?.priorDriven) candidates.find((c) => c.kind === 'reconciled')?.flags.push('prior-driven-bayes-factor')
-    const tipping = reconciled && input.decision ? tippingPoint(reconciled, data, input.decision, support) : null
+    const computed = await runImpactTask({ candidates: list, data, decision: input.decision ?? null, reconciled, support, factors, n: dataSize(data) })
     result = {
       quantityId, datasetId: dataset.id, dataset: { name: dataset.name, version: dataset.version, model: dataset.model, summary: dataset.summary },
-      n: dataSize(data), candidates, sweep, tipping, decision: input.decision ?? null,
-      findings: findings(candidates, sweep, dataSize(data)), computeMs: Date.now() - started,
+      n: dataSize(data), decision: input.decision ?? null, ...computed,
     }
   } catch (err) {
     if (err instanceof EngineInputError) throw new HttpError(400, 'The analysis cannot be run with these inputs', { [err.field]: err.message })

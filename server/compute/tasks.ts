@@ -1,0 +1,23 @@
+import { evaluateCandidates, findings, sweepOf, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
+import { tippingPoint } from '../../shared/elicitation/tipping'
+import type { Distribution, PilotData, Support } from '../../shared/stats/index'
+
+export interface ImpactTask {
+  candidates: CandidateInput[]
+  data: PilotData
+  decision: DecisionRule | null
+  reconciled: Distribution | null
+  support: Support
+  factors: number[]
+  n: number
+}
+
+/** The heavy part of an impact analysis: every candidate's evidence and posterior, the width sweep, the tipping point. */
+export function computeImpact(t: ImpactTask) {
+  const started = Date.now()
+  const candidates = evaluateCandidates(t.candidates, t.data, t.decision)
+  const sweep = t.reconciled ? sweepOf(t.reconciled, t.data, t.support, t.factors) : null
+  if (sweep?.priorDriven) candidates.find((c) => c.kind === 'reconciled')?.flags.push('prior-driven-bayes-factor')
+  const tipping = t.reconciled && t.decision ? tippingPoint(t.reconciled, t.data, t.decision, t.support) : null
+  return { candidates, sweep, tipping, findings: findings(candidates, sweep, t.n), computeMs: Date.now() - started }
+}
