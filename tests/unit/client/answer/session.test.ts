@@ -1,0 +1,133 @@
+// @vitest-environment happy-dom
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest'
+import { ref } from 'vue'
+import { createPinia, setActivePinia } from 'pinia'
+import { fitAnswer } from '@shared/elicitation/answers'
+import type { Judgement } from '@/api/judgements'
+import { useAnswerSession, shownFits, sameFit, type AnswerRound } from '@/composables/useAnswerSession'
+import { mockFetch, type RecordedCall, type Reply } from '../fetch-mock'
+
+const quantity = (id: number, name: string, support: object) => ({ id, name, symbol: `q${id}`, unit: 'u', question: `${name}?`, support, assumptions: '', evidenceNotes: '', files: [] })
+const round = {
+  id: 9, studyId: 2, number: 1, title: 'Round', briefing: '', opensAt: '2026-01-01T00:00:00Z', closesAt: '2099-01-01T00:00:00Z', status: 'open',
+  reminderHoursBefore: null, reminderSentAt: null, calibrationPosition: 'after', feedbackEnabled: false, askCalibration: true,
+  practice: { question: 'Practice', unit: 'km' }, openedAt: null, closedAt: null, version: 1, panel: [],
+  items: [
+    { quantityId: 1, method: 'quantile', askTails: false, quantity: quantity(1, 'Burst rate', { kind: 'positive' }) },
+    { quantityId: 2, method: 'fixed-interval', edges: [0, 0.5, 1], askTails: false, quantity: quantity(2, 'Uptake', { kind: 'proportion' }) },
+  ],
+} as unknown as AnswerRound
+
+const judgement = (over: Partial<Judgement>): Judgement => ({
+  id: 40, roundId: 9, quantityId: 1, expertId: 3, method: 'quantile', answer: { lower: 4, upper: 25, points: [] }, rationale: '', fits: [], chosenFamily: null,
+  status: 'draft', version: 1, submittedAt: null, updatedAt: '2026-03-03T09:00:00Z', ...over,
+})
+
+let server: { judgements: Judgement[]; put: (c: RecordedCall) => Reply; submit: () => Reply }
+function setup() {
+  const mock = mockFetch((c) => {
+    if (c.url === '/api/auth/csrf') return { status: 200, body: { token: 't' } }
+    if (c.url === '/api/rounds/9/judgements' && c.method === 'GET') return { status: 200, body: server.judgements }
+    if (c.url === '/api/studies/2/calibration-questions') return { status: 200, body: [{ id: 7, studyId: 2, question: 'How many bursts in 2024?', unit: 'bursts', position: 1, version: 1 }] }
+    if (c.url === '/api/rounds/9/calibration-answers') return { status: 200, body: [] }
+    if (c.url.startsWith('/api/rounds/9/judgements/') && c.method === 'PUT') return server.put(c)
+    if (c.url === '/api/rounds/9/submit') return server.submit()
+  })
+  vi.stubGlobal('fetch', mock.fetch)
+  setActivePinia(createPinia())
+  return { session: useAnswerSession(ref(round)), calls: mock.calls }
+}
+
+describe('the answering session', () => {
+  beforeEach(() => {
+    vi.useFakeTimers()
+    server = { judgements: [judgement({})], put: () => ({ status: 500 }), submit: () => ({ status: 500 }) }
+  })
+  afterEach(() => {
+    vi.useRealTimers()
+    vi.unstubAllGlobals()
+  })
+
+  it('loads the saved draft, saves changes with the version, and keeps the server’s fits for the saved input', async () => {
+    const { session, calls } = setup()
+    await session.load()
+    const burst = session.quantities.value[0]
+    expect(burst.data.draft.texts.lower).toBe('4')
+    expect(burst.status.value).toBe('in-progress')
+    server.put = (c) => {
+      const body = c.body as { points: { value: number; prob: number }[]; lower: number; upper: number }
+      const local = fitAnswer({ method: 'quantile' }, { lower: body.lower, upper: body.upper, points: body.points }, { kind: 'positive' })
+      // The server's engine (another JavaScript engine) may differ in the last digits.
+      const fits = local.fits.map((f, i) => (i === 0 ? { ...f, sse: f.sse * (1 + 1e-12) } : f))
+      return { status: 200, body: { judgement: judgement({ version: 2, answer: body, fits }), fits, complete: true, fitMessage: null } }
+    }
+    session.edit(burst, (d) => Object.assign(d.texts, { median: '10', q1: '8', q3: '13' }))
+    await vi.advanceTimersByTimeAsync(800)
+    const put = calls.find((c) => c.method === 'PUT')!
+    expect(put.url).toBe('/api/rounds/9/judgements/1')
+    expect(put.body).toMatchObject({ method: 'quantile', lower: 4, upper: 25, version: 1, points: [{ value: 8, prob: 0.25 }, { value: 10, prob: 0.5 }, { value: 13, prob: 0.75 }] })
+    expect(burst.data.version).toBe(2)
+    const reading = burst.reading.value
+    const shown = shownFits(reading.result.fits, burst.data.serverFits, true)
+    expect(shown.source).toBe('server')
+    expect(shown.differs).toBe(false)
+    expect(shown.fits[0].sse).toBe(burst.data.serverFits![0].sse)
+  })
+
+  it('on 409 stops saving, then reloads the saved answer and lists what was typed', async () => {
+    const { session, calls } = setup()
+    await session.load()
+    const burst = session.quantities.value[0]
+    server.put = () => ({ status: 409, body: { error: { message: 'This answer was saved from another window or device since you loaded it; reload to continue from the newer version' } } })
+    session.edit(burst, (d) => (d.texts.median = '9'))
+    await vi.advanceTimersByTimeAsync(800)
+    expect(burst.autosave.status.value.state).toBe('conflict')
+    expect(burst.data.conflict?.reloaded).toBe(false)
+    session.edit(burst, (d) => (d.texts.median = '11'))
+    expect(burst.data.draft.texts.median).toBe('9')
+    server.judgements = [judgement({ version: 3, answer: { lower: 5, upper: 30, points: [{ value: 12, prob: 0.5 }] } })]
+    await session.reloadQuantity(burst)
+    expect(burst.data.conflict).toMatchObject({ reloaded: true, typed: ['Plausible lower bound: 4', 'Plausible upper bound: 25', 'Median (50 %): 9'] })
+    expect(burst.data.draft.texts).toMatchObject({ lower: '5', upper: '30', median: '12' })
+    expect(burst.data.version).toBe(3)
+    server.put = () => ({ status: 200, body: { judgement: judgement({ version: 4 }), fits: [], complete: false, fitMessage: null } })
+    session.edit(burst, (d) => (d.texts.median = '13'))
+    await vi.advanceTimersByTimeAsync(800)
+    expect(calls.filter((c) => c.method === 'PUT').at(-1)?.body).toMatchObject({ version: 3, points: [{ value: 13, prob: 0.5 }] })
+  })
+
+  it('orders the rail with the calibration block and maps the submit’s field errors onto it', async () => {
+    const { session } = setup()
+    await session.load()
+    expect(session.railItems.value.map((i) => [i.key, i.status])).toEqual([['q-1', 'in-progress'], ['q-2', 'not-started'], ['calibration', 'not-started']])
+    server.submit = () => ({
+      status: 400,
+      body: { error: { message: 'Some answers are not complete yet', fields: { 'quantity.1': 'Burst rate: complete your answer', 'calibration.7': 'Calibration question 1: give your 5 %, 50 % and 95 % values' } } },
+    })
+    expect(await session.submit()).toBe(false)
+    expect(session.railItems.value.map((i) => i.problem)).toEqual(['Burst rate: complete your answer', null, 'Calibration question 1: give your 5 %, 50 % and 95 % values'])
+    expect(session.submitError.value).toBe('Some answers are not complete yet')
+  })
+
+  it('freezes everything once submitted', async () => {
+    server.judgements = [judgement({ status: 'submitted', submittedAt: '2026-03-03T10:00:00Z' })]
+    const { session, calls } = setup()
+    await session.load()
+    expect(session.readOnly.value).toBe(true)
+    session.edit(session.quantities.value[0], (d) => (d.texts.lower = '1'))
+    await vi.advanceTimersByTimeAsync(2000)
+    expect(session.quantities.value[0].data.draft.texts.lower).toBe('4')
+    expect(calls.some((c) => c.method === 'PUT')).toBe(false)
+  })
+
+  it('tells fits apart by family and parameters, not by key order', () => {
+    const a = { distribution: { family: 'beta', alpha: 2.42071034714, beta: 7.2110700692 }, sse: 0.0036 } as const
+    const reordered = JSON.parse('{"sse":0.0036,"distribution":{"beta":7.2110700692,"alpha":2.42071034714,"family":"beta"}}')
+    expect(sameFit(a, reordered)).toBe(true)
+    expect(sameFit(a, { ...a, sse: 0.0036000001 })).toBe(false)
+    expect(sameFit(a, { ...a, sse: 0.0036000001 }, 1e-4)).toBe(true)
+    expect(shownFits([a], [reordered], true).source).toBe('browser')
+    expect(shownFits([a], [{ distribution: { family: 'uniform', lower: 0, upper: 1 }, sse: 0.01 }], false).source).toBe('browser')
+    expect(shownFits([a], [{ distribution: { family: 'uniform', lower: 0, upper: 1 }, sse: 0.01 }], true)).toMatchObject({ source: 'server', differs: true })
+  })
+})
