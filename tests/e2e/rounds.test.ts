@@ -72,13 +72,14 @@ describe('scheduling and opening a round, and an expert entering it', () => {
     await analyst.shot('rounds-01-quantity-created')
   })
 
-  it('shows the rounds of the study, none yet, from the study navigation', async () => {
+  it('shows the rounds of the study from the study navigation', async () => {
     const { page } = analyst
     await page.getByTestId('nav-rounds').click()
     await page.waitForURL(new RegExp(`/studies/${studyId}/rounds$`))
-    await page.getByTestId('rounds-empty').waitFor()
+    // Other browser suites may have scheduled rounds in the demo study already: an empty state or a list both count.
+    await page.getByTestId('rounds-empty').or(page.getByTestId('rounds-table')).first().waitFor()
     expect(await page.getByTestId('nav-rounds').getAttribute('aria-current')).toBe('page')
-    await analyst.shot('rounds-02-list-empty')
+    await analyst.shot('rounds-02-list')
   })
 
   it('schedules a round: three quantities, three methods, edges checked inline', async () => {
