@@ -8,7 +8,7 @@ export function createDb(databaseUrl: string): Db {
   return knexFactory({
     client: 'pg',
     connection: databaseUrl,
-    pool: { min: 0, max: 10 },
+    pool: { min: 0, max: 16 },
     migrations: { migrationSource, tableName: 'knex_migrations' },
   })
 }

@@ -2,12 +2,11 @@
 // analyses, against an app instance served on loopback from the development database. Run with `npm run bench:load`
 // after `npm run db:up` (and `npm run build` for the bundle figures).
 import { readdirSync, readFileSync, existsSync } from 'node:fs'
-import type { AddressInfo } from 'node:net'
+import { spawn } from 'node:child_process'
 import path from 'node:path'
 import { gzipSync } from 'node:zlib'
 import autocannon from 'autocannon'
 import { ensureCluster, ensureDatabase } from '../../scripts/lib/postgres.mjs'
-import { createApp } from '../../server/app'
 import { createDb } from '../../server/db/knex'
 
 const root = path.resolve(import.meta.dirname, '../..')
@@ -17,10 +16,19 @@ const PASSWORD = 'load-test-pass-1'
 
 const databaseUrl = process.env.DATABASE_URL ?? ensureDatabase(ensureCluster(root), 'priorsmith')
 const db = createDb(databaseUrl)
-const { app, close } = createApp({ db, databaseUrl, sessionSecret: 'load-bench', signInLimitPerWindow: 100_000 })
-const server = app.listen(0, '127.0.0.1')
-await new Promise((r) => server.once('listening', r))
-const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`
+// The app runs in a process of its own, as `npm start` runs it, so the load generator does not share its event loop.
+const port = Number(process.env.LOAD_PORT ?? 3917)
+const server = spawn(path.join(root, 'node_modules/.bin/tsx'), ['server/index.ts'], {
+  cwd: root, stdio: ['ignore', 'ignore', 'inherit'],
+  env: { ...process.env, NODE_ENV: 'production', PORT: String(port), PUBLIC_URL: `http://localhost:${port}`, DATABASE_URL: databaseUrl, SESSION_SECRET: 'load-bench', SIGN_IN_LIMIT: '100000' },
+})
+const base = `http://127.0.0.1:${port}`
+for (let i = 0; ; i++) {
+  const up = await fetch(`${base}/api/health`).then((r) => r.ok, () => false)
+  if (up) break
+  if (i > 120) throw new Error('the app did not start')
+  await new Promise((r) => setTimeout(r, 250))
+}
 
 interface Session { cookie: string; token: string }
 async function session(email: string, password: string): Promise<Session> {
@@ -64,23 +72,34 @@ function summary(label: string, r: autocannon.Result) {
 }
 
 let connection = 0
+let firstFailure = ''
 const autosave = autocannon({
   url: base, connections: EXPERTS, duration: SECONDS,
   setupClient: (client) => {
     const s = sessions[connection++ % sessions.length]
     client.setHeaders({ cookie: s.cookie, 'x-csrf-token': s.token, 'content-type': 'application/json' })
   },
-  requests: [{
-    method: 'PUT', path: `/api/rounds/${round.id}/judgements/${quantity.id}`,
-    setupRequest: (req, ctx) => {
-      const context = ctx as Record<string, unknown>
-      const m = 3 + Math.random() * 2
-      return { ...req, body: JSON.stringify({ method: 'quantile', lower: 0.5, upper: 12, points: [{ value: m - 0.8, prob: 0.25 }, { value: m, prob: 0.5 }, { value: m + 1.1, prob: 0.75 }], rationale: 'Load benchmark answer.', version: (context.version as number) ?? 0 }) }
+  // autocannon resets a connection's context each time its request list starts over, so each cycle first reads the
+  // expert's current draft version (as a reloaded page would) and then saves with it.
+  requests: [
+    {
+      method: 'GET', path: `/api/rounds/${round.id}/judgements`,
+      onResponse: (status, body, ctx) => {
+        if (status === 200) (ctx as Record<string, unknown>).version = (JSON.parse(body)[0]?.version as number | undefined) ?? 0
+      },
     },
-    onResponse: (status, body, ctx) => {
-      if (status === 200) (ctx as Record<string, unknown>).version = JSON.parse(body).judgement.version
+    {
+      method: 'PUT', path: `/api/rounds/${round.id}/judgements/${quantity.id}`,
+      setupRequest: (req, ctx) => {
+        const context = ctx as Record<string, unknown>
+        const m = 3 + Math.random() * 2
+        return { ...req, body: JSON.stringify({ method: 'quantile', lower: 0.5, upper: 12, points: [{ value: m - 0.8, prob: 0.25 }, { value: m, prob: 0.5 }, { value: m + 1.1, prob: 0.75 }], rationale: 'Load benchmark answer.', version: (context.version as number) ?? 0 }) }
+      },
+      onResponse: (status, body) => {
+        if (status !== 200 && !firstFailure) firstFailure = `${status} ${body.slice(0, 200)}`
+      },
     },
-  }],
+  ],
 })
 let k = 0
 const impact = autocannon({
@@ -93,7 +112,8 @@ const impact = autocannon({
 })
 console.log(`running ${SECONDS} s: ${EXPERTS} experts autosaving, 1 analyst running uncached impact analyses…`)
 const [a, b] = await Promise.all([autosave, impact])
-summary('autosave (PUT judgement)', a)
+summary('autosave cycle (GET own draft + PUT judgement)', a)
+if (firstFailure) console.log(`first autosave refusal: ${firstFailure}`)
 summary('impact analysis (POST, uncached)', b)
 
 const assets = path.join(root, 'dist', 'assets')
@@ -108,7 +128,6 @@ if (existsSync(assets)) {
 } else {
   console.log('no dist/ build: run `npm run build` for the bundle figures')
 }
-server.close()
-await close()
+server.kill('SIGTERM')
 await db.destroy()
 process.exit(0)
