@@ -10,7 +10,7 @@ export type SaveStatus =
   | { state: 'saved'; at: Date }
   /** Not saved because the answer has a problem the expert must fix first. */
   | { state: 'blocked'; message: string }
-  /** The save failed (network, server); the next change or retry() tries again. */
+  /** The save failed (network, server); it is retried automatically with growing pauses, or at the next change. */
   | { state: 'failed'; message: string }
   /** 409: saved elsewhere since loaded, or frozen. No more saves until resume() after a reload. */
   | { state: 'conflict'; message: string }
@@ -24,6 +24,8 @@ export interface AutosaveOptions {
   save: () => Promise<void>
   /** Called once on a 409. */
   onConflict?: (error: ApiError) => void
+  /** First pause before retrying a save that failed for a network or server reason (ms); it doubles up to 30 s. */
+  retryBase?: number
 }
 
 export interface Autosave {
@@ -52,6 +54,8 @@ export function useAutosave(options: AutosaveOptions): Autosave {
   let timer: ReturnType<typeof setTimeout> | null = null
   let dirty = false
   let running: Promise<void> | null = null
+  let failures = 0
+  const retryBase = options.retryBase ?? 2000
 
   const clearTimer = () => {
     if (timer !== null) clearTimeout(timer)
@@ -87,6 +91,7 @@ export function useAutosave(options: AutosaveOptions): Autosave {
     running = (async () => {
       try {
         await options.save()
+        failures = 0
         status.value = { state: 'saved', at: new Date() }
       } catch (error) {
         if (error instanceof ApiError && error.status === 409) {
@@ -97,9 +102,18 @@ export function useAutosave(options: AutosaveOptions): Autosave {
         }
         dirty = true
         const fields = error instanceof ApiError ? Object.values(error.fields) : []
-        status.value = error instanceof ApiError && error.status === 400 && fields.length
-          ? { state: 'blocked', message: fields[0] }
-          : { state: 'failed', message: errorMessage(error) }
+        if (error instanceof ApiError && error.status === 400 && fields.length) {
+          status.value = { state: 'blocked', message: fields[0] }
+        } else {
+          // Network down or server unavailable: keep the typed values and try again with growing pauses.
+          status.value = { state: 'failed', message: errorMessage(error) }
+          failures += 1
+          clearTimer()
+          timer = setTimeout(() => {
+            timer = null
+            void run()
+          }, Math.min(30_000, retryBase * 2 ** (failures - 1)))
+        }
       } finally {
         running = null
       }

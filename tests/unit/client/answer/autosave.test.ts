@@ -118,6 +118,29 @@ describe('useAutosave', () => {
     expect(a.status.value.state).toBe('saved')
   })
 
+  it('retries a save that failed while the server was unavailable, with growing pauses, until it lands', async () => {
+    let calls = 0
+    const save = vi.fn(async (): Promise<void> => {
+      calls += 1
+      if (calls <= 2) throw new ApiError(503, 'The database is unavailable for a moment; nothing was saved. Try again shortly.')
+    })
+    const a = useAutosave({ blockedBy: () => null, save, retryBase: 1000 })
+    a.changed()
+    await vi.advanceTimersByTimeAsync(800)
+    expect(save).toHaveBeenCalledTimes(1)
+    expect(a.status.value.state).toBe('failed')
+    await vi.advanceTimersByTimeAsync(999)
+    expect(save).toHaveBeenCalledTimes(1)
+    await vi.advanceTimersByTimeAsync(1)
+    expect(save).toHaveBeenCalledTimes(2)
+    await vi.advanceTimersByTimeAsync(1999)
+    expect(save).toHaveBeenCalledTimes(2)
+    await vi.advanceTimersByTimeAsync(1)
+    expect(save).toHaveBeenCalledTimes(3)
+    expect(a.status.value.state).toBe('saved')
+    expect(a.isDirty()).toBe(false)
+  })
+
   it('flush saves at once without waiting for the pause', async () => {
     const save = vi.fn(async () => {})
     const a = useAutosave({ blockedBy: () => null, save })
