@@ -1,58 +1,9 @@
 import type { PilotMapping } from '@shared/elicitation/pilot'
-import type { Distribution, Family, PriorDistribution } from '@shared/stats'
+import type { Distribution, PriorDistribution } from '@shared/stats'
 import type { CandidateFlag, CandidateKind } from '@/api/impact'
+import { FAMILY_LABELS, FAMILY_PARAMS, paramOf } from '@/utils/families'
 
-export const FAMILY_LABELS: Record<Family, string> = {
-  normal: 'Normal',
-  'student-t': 'Student-t',
-  lognormal: 'Lognormal',
-  gamma: 'Gamma',
-  beta: 'Beta',
-  'scaled-beta': 'Scaled beta',
-  uniform: 'Uniform',
-}
-
-export interface ParamSpec {
-  key: string
-  symbol: string
-  label: string
-  positive: boolean
-}
-
-/** Parameters in the engine's parameterisation (gamma uses the rate; Student-t σ is the scale). */
-export const FAMILY_PARAMS: Record<Family, ParamSpec[]> = {
-  normal: [
-    { key: 'mu', symbol: 'μ', label: 'Mean μ', positive: false },
-    { key: 'sigma', symbol: 'σ', label: 'SD σ', positive: true },
-  ],
-  'student-t': [
-    { key: 'mu', symbol: 'μ', label: 'Location μ', positive: false },
-    { key: 'sigma', symbol: 'σ', label: 'Scale σ', positive: true },
-    { key: 'df', symbol: 'ν', label: 'Degrees of freedom ν', positive: true },
-  ],
-  lognormal: [
-    { key: 'meanlog', symbol: 'μ_log', label: 'Mean of ln X', positive: false },
-    { key: 'sdlog', symbol: 'σ_log', label: 'SD of ln X', positive: true },
-  ],
-  gamma: [
-    { key: 'shape', symbol: 'shape', label: 'Shape', positive: true },
-    { key: 'rate', symbol: 'rate', label: 'Rate', positive: true },
-  ],
-  beta: [
-    { key: 'alpha', symbol: 'α', label: 'α', positive: true },
-    { key: 'beta', symbol: 'β', label: 'β', positive: true },
-  ],
-  'scaled-beta': [
-    { key: 'alpha', symbol: 'α', label: 'α', positive: true },
-    { key: 'beta', symbol: 'β', label: 'β', positive: true },
-    { key: 'lower', symbol: 'L', label: 'Lower bound', positive: false },
-    { key: 'upper', symbol: 'U', label: 'Upper bound', positive: false },
-  ],
-  uniform: [
-    { key: 'lower', symbol: 'L', label: 'Lower bound', positive: false },
-    { key: 'upper', symbol: 'U', label: 'Upper bound', positive: false },
-  ],
-}
+export { FAMILY_LABELS, FAMILY_PARAMS, paramOf, type ParamSpec } from '@/utils/families'
 
 /** Numbers in tables: 4 significant digits, exponent only for extreme magnitudes; '—' for none. */
 export function fmt(value: number | null | undefined, digits = 4): string {
@@ -83,10 +34,6 @@ export function pct(value: number): string {
 /** "[1.23, 4.56]". */
 export function interval(lo: number, hi: number): string {
   return `[${fmt(lo)}, ${fmt(hi)}]`
-}
-
-export function paramOf(d: PriorDistribution, key: string): number {
-  return (d as unknown as Record<string, number>)[key]
 }
 
 /** "Gamma (shape = 1, rate = 0.01)". */

@@ -1,64 +1,7 @@
-import type { Distribution, Family } from '@shared/stats'
+import type { Distribution } from '@shared/stats'
+import { FAMILY_PARAMS, paramOf } from '@/utils/families'
 
-export const FAMILY_LABELS: Record<Family, string> = {
-  normal: 'Normal',
-  'student-t': 'Student-t',
-  lognormal: 'Lognormal',
-  gamma: 'Gamma',
-  beta: 'Beta',
-  'scaled-beta': 'Scaled beta',
-  uniform: 'Uniform',
-}
-
-export interface ParamSpec {
-  key: string
-  /** Short symbol shown in tables ("μ", "σ"). */
-  symbol: string
-  /** Spoken label for inputs. */
-  label: string
-  /** Must be above 0. */
-  positive: boolean
-}
-
-/** Parameters of each family in the engine's parameterisation (gamma uses the rate; Student-t σ is the scale). */
-export const FAMILY_PARAMS: Record<Family, ParamSpec[]> = {
-  normal: [
-    { key: 'mu', symbol: 'μ', label: 'mean μ', positive: false },
-    { key: 'sigma', symbol: 'σ', label: 'standard deviation σ', positive: true },
-  ],
-  'student-t': [
-    { key: 'mu', symbol: 'μ', label: 'location μ', positive: false },
-    { key: 'sigma', symbol: 'σ', label: 'scale σ', positive: true },
-    { key: 'df', symbol: 'ν', label: 'degrees of freedom ν', positive: true },
-  ],
-  lognormal: [
-    { key: 'meanlog', symbol: 'μ_log', label: 'mean of ln X (meanlog)', positive: false },
-    { key: 'sdlog', symbol: 'σ_log', label: 'sd of ln X (sdlog)', positive: true },
-  ],
-  gamma: [
-    { key: 'shape', symbol: 'shape', label: 'shape', positive: true },
-    { key: 'rate', symbol: 'rate', label: 'rate', positive: true },
-  ],
-  beta: [
-    { key: 'alpha', symbol: 'α', label: 'α', positive: true },
-    { key: 'beta', symbol: 'β', label: 'β', positive: true },
-  ],
-  'scaled-beta': [
-    { key: 'alpha', symbol: 'α', label: 'α', positive: true },
-    { key: 'beta', symbol: 'β', label: 'β', positive: true },
-    { key: 'lower', symbol: 'L', label: 'lower bound L', positive: false },
-    { key: 'upper', symbol: 'U', label: 'upper bound U', positive: false },
-  ],
-  uniform: [
-    { key: 'lower', symbol: 'L', label: 'lower bound', positive: false },
-    { key: 'upper', symbol: 'U', label: 'upper bound', positive: false },
-  ],
-}
-
-/** A parameter value of a distribution by key. */
-export function paramOf(d: Distribution, key: string): number {
-  return (d as unknown as Record<string, number>)[key]
-}
+export { FAMILY_LABELS, FAMILY_PARAMS, paramOf, type ParamSpec } from '@/utils/families'
 
 /** Values and parameters in tables: 4 significant digits, exponent only for extreme magnitudes. */
 export function fmt(value: number | null | undefined, digits = 4): string {
