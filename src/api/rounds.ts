@@ -1,6 +1,7 @@
 import type { Distribution, Point, Support } from '@shared/stats'
 import type { DeclarationBody, ElicitationMethod } from '@shared/schemas/rounds'
 import { api } from './client'
+import type { Quantity } from './quantities'
 
 export type RoundStatus = 'draft' | 'open' | 'closed' | 'reconciled'
 
@@ -18,19 +19,7 @@ export interface RoundSummary {
 }
 
 /** A quantity as the round form needs it (GET /api/studies/:id/quantities). */
-export interface StudyQuantity {
-  id: number
-  studyId: number
-  name: string
-  symbol: string
-  unit: string
-  question: string
-  support: Support
-  assumptions: string
-  evidenceNotes: string
-  position: number
-  version: number
-}
+export type StudyQuantity = Omit<Quantity, 'files' | 'createdAt' | 'updatedAt'>
 
 export interface RoundQuantity {
   id: number
