@@ -3,7 +3,7 @@ import { calibrationQuestionSchema, calibrationQuestionUpdateSchema } from '../.
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { idParam, validateBody } from '../http/errors'
-import { allow, canAnalyse, studyAccess, studyIdOf } from '../services/access'
+import { allow, canAnalyse, studyAccess, accessVia } from '../services/access'
 import { createCalibrationQuestion, listCalibrationQuestions, updateCalibrationQuestion } from '../services/quantities'
 
 /** Calibration questions; true values are never sent to experts. */
@@ -26,7 +26,7 @@ export function calibrationRouter(db: Db): Router {
   r.patch('/calibration-questions/:id', async (req, res) => {
     const user = currentUser(req)
     const id = idParam(req.params.id, 'Calibration question')
-    const access = await studyAccess(db, user, await studyIdOf(db, 'calibration_questions', id, 'Calibration question'))
+    const access = await accessVia(db, user, 'calibration_questions', id, 'Calibration question')
     allow(access, 'analyst')
     const body = await validateBody(calibrationQuestionUpdateSchema, req.body)
     res.json(await updateCalibrationQuestion(db, access.user, id, body))

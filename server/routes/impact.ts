@@ -3,7 +3,7 @@ import { impactSchema } from '../../shared/schemas/impact'
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { idParam, validateBody } from '../http/errors'
-import { allow, studyAccess, studyIdOf } from '../services/access'
+import { allow, accessVia } from '../services/access'
 import { latestImpact, runImpact, type ImpactInput } from '../services/impact'
 
 /** What each candidate prior does to the posterior and to the evidence on pilot data. */
@@ -13,7 +13,7 @@ export function impactRouter(db: Db): Router {
   r.post('/quantities/:id/impact', async (req, res) => {
     const user = currentUser(req)
     const id = idParam(req.params.id, 'Quantity')
-    const access = await studyAccess(db, user, await studyIdOf(db, 'quantities', id, 'Quantity'))
+    const access = await accessVia(db, user, 'quantities', id, 'Quantity')
     allow(access, 'analyst')
     const body = (await validateBody(impactSchema, req.body)) as ImpactInput
     res.json(await runImpact(db, access.user, id, body))
@@ -22,7 +22,7 @@ export function impactRouter(db: Db): Router {
   r.get('/quantities/:id/impact', async (req, res) => {
     const user = currentUser(req)
     const id = idParam(req.params.id, 'Quantity')
-    const access = await studyAccess(db, user, await studyIdOf(db, 'quantities', id, 'Quantity'))
+    const access = await accessVia(db, user, 'quantities', id, 'Quantity')
     allow(access, 'analyst', 'reviewer')
     res.json(await latestImpact(db, id))
   })

@@ -3,7 +3,7 @@ import { calibrationAnswerSchema, judgementSchema, reopenSchema } from '../../sh
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { HttpError, idParam, validateBody } from '../http/errors'
-import { allow, canAnalyse, studyAccess, studyIdOf } from '../services/access'
+import { allow, canAnalyse, studyAccess, accessVia } from '../services/access'
 import { recordAudit } from '../services/audit'
 import {
   feedbackFor, judgementHistory, listCalibrationAnswers, listJudgements, reopenSubmission, saveCalibrationAnswer, saveJudgement, submitRound,
@@ -16,7 +16,7 @@ export function judgementsRouter(db: Db): Router {
   const roundAccess = async (req: Request) => {
     const user = currentUser(req)
     const id = idParam(req.params.id, 'Round')
-    const access = await studyAccess(db, user, await studyIdOf(db, 'rounds', id, 'Round'))
+    const access = await accessVia(db, user, 'rounds', id, 'Round')
     return { id, access }
   }
 

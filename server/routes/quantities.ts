@@ -4,7 +4,7 @@ import { EVIDENCE_MAX_BYTES, quantitySchema, quantityUpdateSchema } from '../../
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { HttpError, idParam, validateBody } from '../http/errors'
-import { allow, studyAccess, studyIdOf } from '../services/access'
+import { allow, studyAccess, accessVia } from '../services/access'
 import { addEvidenceFile, createQuantity, deleteEvidenceFile, getEvidenceFile, getQuantity, listQuantities, updateQuantity } from '../services/quantities'
 
 const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: EVIDENCE_MAX_BYTES, files: 1, fields: 5 } })
@@ -29,14 +29,14 @@ export function quantitiesRouter(db: Db): Router {
   r.get('/quantities/:id', async (req, res) => {
     const user = currentUser(req)
     const id = idParam(req.params.id, 'Quantity')
-    await studyAccess(db, user, await studyIdOf(db, 'quantities', id, 'Quantity'))
+    await accessVia(db, user, 'quantities', id, 'Quantity')
     res.json(await getQuantity(db, id))
   })
 
   r.patch('/quantities/:id', async (req, res) => {
     const user = currentUser(req)
     const id = idParam(req.params.id, 'Quantity')
-    const access = await studyAccess(db, user, await studyIdOf(db, 'quantities', id, 'Quantity'))
+    const access = await accessVia(db, user, 'quantities', id, 'Quantity')
     allow(access, 'analyst')
     const body = await validateBody(quantityUpdateSchema, req.body)
     res.json(await updateQuantity(db, access.user, id, body))
@@ -45,7 +45,7 @@ export function quantitiesRouter(db: Db): Router {
   r.post('/quantities/:id/files', async (req, res) => {
     const user = currentUser(req)
     const id = idParam(req.params.id, 'Quantity')
-    const access = await studyAccess(db, user, await studyIdOf(db, 'quantities', id, 'Quantity'))
+    const access = await accessVia(db, user, 'quantities', id, 'Quantity')
     allow(access, 'analyst')
     await new Promise<void>((resolve, reject) => {
       upload.single('file')(req, res, (err: unknown) => {

@@ -3,7 +3,7 @@ import { reconciliationSchema } from '../../shared/schemas/reconciliation'
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { HttpError, idParam, validateBody } from '../http/errors'
-import { allow, studyAccess, studyIdOf } from '../services/access'
+import { allow, accessVia } from '../services/access'
 import { getReconciliation, saveReconciliation } from '../services/reconciliation'
 
 function optionalNumber(v: unknown, field: string, min: number, max: number): number | undefined {
@@ -20,7 +20,7 @@ export function reconciliationRouter(db: Db): Router {
   r.get('/quantities/:id/reconciliation', async (req, res) => {
     const user = currentUser(req)
     const id = idParam(req.params.id, 'Quantity')
-    const access = await studyAccess(db, user, await studyIdOf(db, 'quantities', id, 'Quantity'))
+    const access = await accessVia(db, user, 'quantities', id, 'Quantity')
     allow(access, 'analyst', 'reviewer')
     const roundId = optionalNumber(req.query.roundId, 'roundId', 1, Number.MAX_SAFE_INTEGER)
     const cutoff = optionalNumber(req.query.cutoff, 'cutoff', 0, 1)
@@ -30,7 +30,7 @@ export function reconciliationRouter(db: Db): Router {
   r.put('/quantities/:id/reconciliation', async (req, res) => {
     const user = currentUser(req)
     const id = idParam(req.params.id, 'Quantity')
-    const access = await studyAccess(db, user, await studyIdOf(db, 'quantities', id, 'Quantity'))
+    const access = await accessVia(db, user, 'quantities', id, 'Quantity')
     allow(access, 'analyst')
     const body = await validateBody(reconciliationSchema, req.body)
     res.json(await saveReconciliation(db, access.user, id, body))

@@ -3,7 +3,7 @@ import { declarationSchema, invitationSchema, practiceSchema, roundSchema, round
 import { currentUser } from '../auth/guards'
 import type { AppContext } from '../context'
 import { HttpError, idParam, validateBody } from '../http/errors'
-import { allow, studyAccess, studyIdOf, type StudyAccess } from '../services/access'
+import { allow, studyAccess, accessVia, type StudyAccess } from '../services/access'
 import { roundEntry, saveDeclaration, savePractice } from '../services/invitations'
 import { practiceFeedback } from '../services/practice'
 import {
@@ -25,7 +25,7 @@ export function roundsRouter(ctx: AppContext): Router {
   const roundAccess = async (req: import('express').Request) => {
     const user = currentUser(req)
     const id = idParam(req.params.id, 'Round')
-    const access = await studyAccess(db, user, await studyIdOf(db, 'rounds', id, 'Round'))
+    const access = await accessVia(db, user, 'rounds', id, 'Round')
     return { id, access }
   }
 

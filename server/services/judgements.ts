@@ -43,12 +43,23 @@ function toJudgement(r: JudgementRow, withName: boolean) {
   }
 }
 
-async function roundItem(db: Db, roundId: number, quantityId: number) {
-  const row = await db('round_items as i').join('quantities as q', 'q.id', 'i.quantity_id').where({ 'i.round_id': roundId, 'i.quantity_id': quantityId })
-    .first('i.method', 'i.edges', 'i.chips', 'i.ask_tails', 'q.support_kind', 'q.support_lower', 'q.support_upper')
-  if (!row) throw new HttpError(404, 'This quantity is not part of the round')
+/**
+ * Everything a save checks before writing, in one query (autosave runs it every few seconds per expert): the round
+ * is open, the user is on its panel, the quantity is one of its items. Same refusals and order as assertAnswering.
+ */
+async function answeringItem(db: Db, user: User, roundId: number, quantityId: number) {
+  const row = await db('rounds as r')
+    .leftJoin('round_panel as p', (j) => j.on('p.round_id', '=', 'r.id').andOn('p.user_id', '=', db.raw('?', [user.id])))
+    .leftJoin('round_items as i', (j) => j.on('i.round_id', '=', 'r.id').andOn('i.quantity_id', '=', db.raw('?', [quantityId])))
+    .leftJoin('quantities as q', 'q.id', 'i.quantity_id')
+    .where('r.id', roundId)
+    .first('r.status', 'r.closes_at', 'r.study_id', 'p.id as panel_id', 'i.method', 'i.edges', 'i.chips', 'i.ask_tails', 'q.support_kind', 'q.support_lower', 'q.support_upper')
+  if (!row) throw new HttpError(404, 'Round not found')
+  if (row.status !== 'open' || row.closes_at.getTime() <= Date.now()) throw new HttpError(409, 'This round is closed; answers can no longer change')
+  if (!row.panel_id) throw new HttpError(403, 'You are not on the panel of this round')
+  if (!row.method) throw new HttpError(404, 'This quantity is not part of the round')
   const item: AnswerItem = { method: row.method, edges: row.edges ?? undefined, chips: row.chips ?? undefined, askTails: row.ask_tails }
-  return { item, support: supportOf(row) }
+  return { studyId: row.study_id as number, item, support: supportOf(row) }
 }
 
 async function assertAnswering(db: Db, user: User, roundId: number) {
@@ -72,8 +83,7 @@ export async function listJudgements(db: Db, roundId: number, viewer: { user: Us
  * answer is frozen. The fits are recomputed here with the same engine the browser ran.
  */
 export async function saveJudgement(db: Db, user: User, roundId: number, quantityId: number, body: JudgementBody) {
-  const { round } = await assertAnswering(db, user, roundId)
-  const { item, support } = await roundItem(db, roundId, quantityId)
+  const { studyId, item, support } = await answeringItem(db, user, roundId, quantityId)
   if (body.method !== item.method) throw new HttpError(400, 'This quantity uses another method in this round', { method: `This round uses the ${item.method} method here` })
   const input: AnswerInput = item.method === 'quantile'
     ? { lower: body.lower, upper: body.upper, points: body.points }
@@ -85,24 +95,43 @@ export async function saveJudgement(db: Db, user: User, roundId: number, quantit
     throw new HttpError(400, 'That family was not fitted to this answer', { chosenFamily: 'Choose one of the fitted families' })
   }
   const stored = { method: item.method, answer: JSON.stringify(input), rationale: body.rationale ?? '', fits: JSON.stringify(fits), chosen_family: chosen }
+  const saved = await writeDraft(db, { roundId, quantityId, expertId: user.id }, stored, body.version)
+  if (!saved) throw await refusalFor(db, { roundId, quantityId, expertId: user.id })
+  return { judgement: toJudgement(saved, false), fits, complete: check.complete, fitMessage, studyId }
+}
 
-  const saved = await db.transaction(async (trx) => {
-    const existing: JudgementRow | undefined = await trx('judgements').where({ round_id: roundId, quantity_id: quantityId, expert_id: user.id }).forUpdate().first()
-    let row: JudgementRow
-    if (!existing) {
-      if (body.version !== 0) throw new HttpError(409, 'This answer was removed or never saved; reload')
-      ;[row] = await trx('judgements').insert({ ...stored, round_id: roundId, quantity_id: quantityId, expert_id: user.id, version: 1 }).returning('*')
-    } else {
-      if (existing.status === 'submitted') throw new HttpError(409, 'You have submitted this round; ask the analyst to reopen it to change an answer')
-      if (existing.version !== body.version) throw new HttpError(409, 'This answer was saved from another window or device since you loaded it; reload to continue from the newer version')
-      ;[row] = await trx('judgements').where({ id: existing.id }).update({ ...stored, version: existing.version + 1, updated_at: trx.fn.now() }).returning('*')
-    }
-    await trx('judgement_versions').insert({
-      judgement_id: row.id, version: row.version, answer: stored.answer, rationale: stored.rationale, fits: stored.fits, chosen_family: chosen, status: 'draft', saved_by: user.id,
-    })
-    return row
-  })
-  return { judgement: toJudgement(saved, false), fits, complete: check.complete, fitMessage, studyId: round.study_id }
+interface DraftKey { roundId: number; quantityId: number; expertId: number }
+interface DraftValues { method: string; answer: string; rationale: string; fits: string; chosen_family: string | null }
+
+/**
+ * Writes the draft and its version row in one statement, so a save is atomic without a transaction's extra round
+ * trips: version 0 inserts (nothing if the row already exists), version n updates only a draft still at version n.
+ * Returns undefined when nothing was written; refusalFor says why.
+ */
+async function writeDraft(db: Db, key: DraftKey, v: DraftValues, version: number): Promise<JudgementRow | undefined> {
+  const values = [v.method, v.answer, v.rationale, v.fits, v.chosen_family]
+  const keep = `INSERT INTO judgement_versions (judgement_id, version, answer, rationale, fits, chosen_family, status, saved_by)
+    SELECT id, version, answer, rationale, fits, chosen_family, 'draft', ? FROM saved`
+  const result = version === 0
+    ? await db.raw(`WITH saved AS (
+        INSERT INTO judgements (method, answer, rationale, fits, chosen_family, round_id, quantity_id, expert_id, version)
+        VALUES (?, ?::jsonb, ?, ?::jsonb, ?, ?, ?, ?, 1)
+        ON CONFLICT (round_id, quantity_id, expert_id) DO NOTHING RETURNING *
+      ), kept AS (${keep}) SELECT * FROM saved`, [...values, key.roundId, key.quantityId, key.expertId, key.expertId])
+    : await db.raw(`WITH saved AS (
+        UPDATE judgements SET method = ?, answer = ?::jsonb, rationale = ?, fits = ?::jsonb, chosen_family = ?, version = version + 1, updated_at = now()
+        WHERE round_id = ? AND quantity_id = ? AND expert_id = ? AND status = 'draft' AND version = ?
+        RETURNING *
+      ), kept AS (${keep}) SELECT * FROM saved`, [...values, key.roundId, key.quantityId, key.expertId, version, key.expertId])
+  return result.rows[0]
+}
+
+/** Why writeDraft wrote nothing: the answer is submitted, was saved elsewhere since, or does not exist. */
+async function refusalFor(db: Db, key: DraftKey): Promise<HttpError> {
+  const current: Pick<JudgementRow, 'status'> | undefined = await db('judgements').where({ round_id: key.roundId, quantity_id: key.quantityId, expert_id: key.expertId }).first('status')
+  if (!current) return new HttpError(409, 'This answer was removed or never saved; reload')
+  if (current.status === 'submitted') return new HttpError(409, 'You have submitted this round; ask the analyst to reopen it to change an answer')
+  return new HttpError(409, 'This answer was saved from another window or device since you loaded it; reload to continue from the newer version')
 }
 
 /** Freezes every answer of the expert in this round; all must be complete, with a rationale. */

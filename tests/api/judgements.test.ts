@@ -198,3 +198,30 @@ describe('feedback round', () => {
     expect(JSON.stringify(fb.body)).not.toContain('Tomasz')
   })
 })
+
+describe('saves racing each other', () => {
+  it('lets exactly one of several simultaneous saves of the same version through, and keeps a gapless history', async () => {
+    // Two windows (or a retried autosave) sending the same version at once: optimistic concurrency must pick one.
+    const race = await analyst.post(`/api/studies/${studyId}/rounds`, {
+      title: 'Race round', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + day).toISOString(),
+      items: [{ quantityId: q.burst, method: 'quantile' }],
+    }).expect(201)
+    await analyst.post(`/api/rounds/${race.body.id}/invitations`, { email: 'expert1@kestrel.example', name: 'Tomasz' }).expect(201)
+    await analyst.post(`/api/rounds/${race.body.id}/open`).expect(200)
+    const url = `/api/rounds/${race.body.id}/judgements/${q.burst}`
+    const put = (median: number, version: number) => expert1.put(url, quantile({ lower: 1, upper: 40, q25: median - 2, q50: median, q75: median + 3 }, version))
+
+    const firsts = await Promise.all([8, 9, 10, 11, 12, 13].map((m) => put(m, 0)))
+    expect(firsts.map((r) => r.status).sort()).toEqual([200, 409, 409, 409, 409, 409])
+    const seconds = await Promise.all([14, 15, 16, 17, 18, 19].map((m) => put(m, 1)))
+    expect(seconds.map((r) => r.status).sort()).toEqual([200, 409, 409, 409, 409, 409])
+    expect(seconds.find((r) => r.status === 409)!.body.error.message).toMatch(/saved from another window or device/)
+
+    const winner = seconds.find((r) => r.status === 200)!.body.judgement
+    const [stored] = (await expert1.get(`/api/rounds/${race.body.id}/judgements`)).body
+    expect(stored.version).toBe(2)
+    expect(stored.answer).toEqual(winner.answer)
+    const history = (await expert1.get(`/api/judgements/${stored.id}/history`)).body
+    expect(history.map((v: { version: number }) => v.version)).toEqual([1, 2])
+  })
+})
