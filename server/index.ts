@@ -46,9 +46,23 @@ const server = app.listen(config.port, () => {
   console.log(`[priorsmith] serving app and API on ${config.publicUrl}`)
 })
 
+let stopping = false
 async function shutdown() {
+  if (stopping) return
+  stopping = true
   clearInterval(schedule)
-  server.close()
+  // Finish the requests in flight before the pools they use are closed; idle keep-alive connections go at once,
+  // and any left after 10 s are cut.
+  const closed = new Promise((resolve) => server.close(resolve))
+  server.closeIdleConnections()
+  const cut = setTimeout(() => server.closeAllConnections(), 10_000)
+  await closed
+  clearTimeout(cut)
+  // A handler whose client hung up may still be running its queries: let them finish before the pool closes.
+  const pool = db.client.pool as { numUsed(): number; numPendingAcquires(): number }
+  for (let waited = 0; waited < 10_000 && pool.numUsed() + pool.numPendingAcquires() > 0; waited += 50) {
+    await new Promise((r) => setTimeout(r, 50))
+  }
   stopComputePool()
   await mailer.stop()
   await mailFake?.stop()

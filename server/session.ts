@@ -9,7 +9,9 @@ export function createSessionMiddleware(opts: { databaseUrl: string; secret: str
   const PgStore = connectPgSimple(session)
   const pool = new pg.Pool({ connectionString: opts.databaseUrl, max: 10 })
   pool.on('error', (err) => console.error('session pool error:', err.message))
-  const store = new PgStore({ pool, tableName: 'session', pruneSessionInterval: 15 * 60 })
+  // rolling is off, so a session's expiry is fixed at sign-in and the store's touch would rewrite the same expiry on
+  // every request: one UPDATE per autosave for nothing.
+  const store = new PgStore({ pool, tableName: 'session', pruneSessionInterval: 15 * 60, disableTouch: true })
   const middleware = session({
     name: SESSION_COOKIE,
     store,
@@ -19,5 +21,13 @@ export function createSessionMiddleware(opts: { databaseUrl: string; secret: str
     rolling: false,
     cookie: { httpOnly: true, sameSite: 'lax', secure: opts.secure, maxAge: 8 * 60 * 60 * 1000, path: '/' },
   })
-  return { middleware, close: async () => { await store.close(); await pool.end() } }
+  async function close() {
+    // Requests already past the HTTP server may still be reading their session: let them finish first.
+    for (let waited = 0; waited < 5000 && (pool.waitingCount > 0 || pool.idleCount < pool.totalCount); waited += 50) {
+      await new Promise((r) => setTimeout(r, 50))
+    }
+    await store.close()
+    await pool.end()
+  }
+  return { middleware, close }
 }

@@ -1,4 +1,5 @@
 import { fork, type ChildProcess } from 'node:child_process'
+import { setPriority } from 'node:os'
 import path from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { EngineInputError } from '../../shared/stats/index'
@@ -14,6 +15,14 @@ const pending = new Map<number, Pending>()
 function worker(): ChildProcess {
   if (child && child.connected) return child
   const c = fork(path.join(root, 'server/compute/worker.ts'), [], { cwd: root, execArgv: ['--import', 'tsx'], serialization: 'advanced', stdio: ['ignore', 'inherit', 'inherit', 'ipc'] })
+  // Below the web process in the scheduler's order, so that a long sweep yields the CPU to experts' autosaves.
+  if (c.pid) {
+    try {
+      setPriority(c.pid, 10)
+    } catch {
+      // Not permitted here: the analysis still runs, at normal priority.
+    }
+  }
   c.on('message', (m: { id: number; ok: boolean; result?: ReturnType<typeof computeImpact>; error?: { message: string; field?: string; engine: boolean } }) => {
     const p = pending.get(m.id)
     if (!p) return
