@@ -23,6 +23,8 @@ const server = spawn(path.join(root, 'node_modules/.bin/tsx'), ['server/index.ts
   env: { ...process.env, NODE_ENV: 'production', PORT: String(port), PUBLIC_URL: `http://localhost:${port}`, DATABASE_URL: databaseUrl, SESSION_SECRET: 'load-bench', SIGN_IN_LIMIT: '100000' },
 })
 const base = `http://127.0.0.1:${port}`
+// A failed run must not leave the app holding the port.
+process.on('exit', () => server.kill('SIGTERM'))
 for (let i = 0; ; i++) {
   const up = await fetch(`${base}/api/health`).then((r) => r.ok, () => false)
   if (up) break
@@ -66,55 +68,134 @@ const dataset = await (await fetch(`${base}/api/studies/${study.id}/datasets`, {
 await db('reconciliations').insert({ quantity_id: quantity.id, round_id: round.id, method: 'linear', weights_mode: 'equal', family: 'gamma', distribution: JSON.stringify({ family: 'gamma', shape: 6, rate: 1.6 }), status: 'reconciled', rationale: 'Load benchmark fixture.' })
 const sessions = await Promise.all(emails.map((e) => session(e, PASSWORD)))
 
-function summary(label: string, r: autocannon.Result) {
-  const errors = r.errors + r.timeouts + r.non2xx
-  console.log(`${label}: ${r.requests.total} requests, ${r.requests.average.toFixed(0)} req/s, latency p50 ${r.latency.p50} ms, p95 ${(r.latency as any).p95 ?? r.latency.p97_5} ms, p99 ${r.latency.p99} ms, errors ${errors} (non-2xx ${r.non2xx})`)
+/** Nearest-rank percentile of sorted values (common practice). */
+function percentile(sorted: number[], p: number): number {
+  return sorted.length ? sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)] : NaN
 }
 
-let connection = 0
+interface Measured {
+  requests: number
+  seconds: number
+  errors: number
+  non2xx: number
+  /** Every response's own latency (ms), sorted. */
+  latencies: number[]
+}
+
+/**
+ * Runs autocannon and keeps every response's own latency: autocannon's histogram has no p95, and when requests are
+ * paced it corrects for coordinated omission with an expected interval of 1/rate taken as milliseconds (autocannon
+ * 8.0.0, lib/run.js), which fills the histogram with made-up short samples. The raw times are the honest figures.
+ */
+async function measured(opts: autocannon.Options): Promise<Measured> {
+  const latencies: number[] = []
+  const r = await new Promise<autocannon.Result>((resolve, reject) => {
+    const instance = autocannon({ ...opts, ignoreCoordinatedOmission: Boolean(opts.connectionRate ?? opts.overallRate) }, (err, res) => (err ? reject(err) : resolve(res)))
+    instance.on('response', (_client, _status, _bytes, ms) => latencies.push(ms))
+  })
+  return { requests: r.requests.total, seconds: r.duration, errors: r.errors + r.timeouts + r.non2xx, non2xx: r.non2xx, latencies: latencies.sort((x, y) => x - y) }
+}
+
+/** Several runs side by side as one: requests and errors add up over the same stretch of time. */
+function together(runs: Measured[]): Measured {
+  const sum = (f: (m: Measured) => number) => runs.reduce((s, m) => s + f(m), 0)
+  return { requests: sum((m) => m.requests), seconds: Math.max(...runs.map((m) => m.seconds)), errors: sum((m) => m.errors), non2xx: sum((m) => m.non2xx), latencies: runs.flatMap((m) => m.latencies).sort((x, y) => x - y) }
+}
+
+function summary(label: string, m: Measured) {
+  const ms = (p: number) => percentile(m.latencies, p).toFixed(1)
+  console.log(`${label}: ${m.requests} requests, ${(m.requests / m.seconds).toFixed(1)} req/s, latency p50 ${ms(50)} ms, p95 ${ms(95)} ms, p99 ${ms(99)} ms, max ${ms(100)} ms, errors ${m.errors} (non-2xx ${m.non2xx})`)
+}
+
+// Each expert's current draft version, by session cookie: a save sends the version the previous save returned, as
+// the client does. autocannon resets a connection's context before each new cycle of its request list, so the
+// version is kept here, and the context only carries which expert the request in flight belongs to.
+const versions = new Map<string, number>(sessions.map((s) => [s.cookie, 0]))
 let firstFailure = ''
-const autosave = autocannon({
-  url: base, connections: EXPERTS, duration: SECONDS,
-  setupClient: (client) => {
-    const s = sessions[connection++ % sessions.length]
-    client.setHeaders({ cookie: s.cookie, 'x-csrf-token': s.token, 'content-type': 'application/json' })
-  },
-  // autocannon resets a connection's context each time its request list starts over, so each cycle first reads the
-  // expert's current draft version (as a reloaded page would) and then saves with it.
-  requests: [
-    {
-      method: 'GET', path: `/api/rounds/${round.id}/judgements`,
-      onResponse: (status, body, ctx) => {
-        if (status === 200) (ctx as Record<string, unknown>).version = (JSON.parse(body)[0]?.version as number | undefined) ?? 0
-      },
+
+/** Autosaves of the given experts, one connection each, at `rate` saves per second each or back to back. */
+function autosaves(experts: Session[], rate: number | undefined, seconds = SECONDS) {
+  let connection = 0
+  return measured({
+    url: base, connections: experts.length, duration: seconds, ...(rate ? { connectionRate: rate } : {}),
+    setupClient: (client) => {
+      const s = experts[connection++ % experts.length]
+      client.setHeaders({ cookie: s.cookie, 'x-csrf-token': s.token, 'content-type': 'application/json' })
     },
-    {
+    requests: [{
       method: 'PUT', path: `/api/rounds/${round.id}/judgements/${quantity.id}`,
       setupRequest: (req, ctx) => {
-        const context = ctx as Record<string, unknown>
+        const cookie = String((req.headers as Record<string, string>).cookie)
+        ;(ctx as Record<string, unknown>).cookie = cookie
         const m = 3 + Math.random() * 2
-        return { ...req, body: JSON.stringify({ method: 'quantile', lower: 0.5, upper: 12, points: [{ value: m - 0.8, prob: 0.25 }, { value: m, prob: 0.5 }, { value: m + 1.1, prob: 0.75 }], rationale: 'Load benchmark answer.', version: (context.version as number) ?? 0 }) }
+        const answer = { method: 'quantile', lower: 0.5, upper: 12, points: [{ value: m - 0.8, prob: 0.25 }, { value: m, prob: 0.5 }, { value: m + 1.1, prob: 0.75 }] }
+        return { ...req, body: JSON.stringify({ ...answer, rationale: 'Load benchmark answer.', version: versions.get(cookie) ?? 0 }) }
       },
-      onResponse: (status, body) => {
-        if (status !== 200 && !firstFailure) firstFailure = `${status} ${body.slice(0, 200)}`
+      onResponse: (status, body, ctx) => {
+        if (status === 200) versions.set(String((ctx as Record<string, unknown>).cookie), JSON.parse(body).judgement.version as number)
+        else if (!firstFailure) firstFailure = `${status} ${body.slice(0, 200)}`
       },
-    },
-  ],
-})
+    }],
+  })
+}
+
+/**
+ * Experts saving at their own pace: autocannon's rate limit lets each connection send its quota at the top of every
+ * second, all connections together, which would make 50 experts save in lock step. Real experts are not in step,
+ * so each expert is a run of its own, started at a random moment within the first second.
+ */
+async function pacedAutosaves(rate: number, seconds = SECONDS) {
+  return together(await Promise.all(sessions.map(async (s) => {
+    await new Promise((r) => setTimeout(r, Math.random() * 1000))
+    return autosaves([s], rate, seconds)
+  })))
+}
+
+/** The analyst at the same time: one impact analysis after another, each with a new decision threshold (no cache hit). */
 let k = 0
-const impact = autocannon({
-  url: base, connections: 1, duration: SECONDS,
-  headers: { cookie: analyst.cookie, 'x-csrf-token': analyst.token, 'content-type': 'application/json' },
-  requests: [{
-    method: 'POST', path: `/api/quantities/${quantity.id}/impact`,
-    setupRequest: (req) => ({ ...req, body: JSON.stringify({ datasetId: dataset.id, reference: { family: 'gamma', shape: 1, rate: 0.05 }, decision: { direction: 'above', threshold: 3 + (k++ % 1000) / 1000, probability: 0.8 } }) }),
-  }],
-})
-console.log(`running ${SECONDS} s: ${EXPERTS} experts autosaving, 1 analyst running uncached impact analyses…`)
-const [a, b] = await Promise.all([autosave, impact])
-summary('autosave cycle (GET own draft + PUT judgement)', a)
+function impactLoad(seconds = SECONDS) {
+  return measured({
+    url: base, connections: 1, duration: seconds,
+    headers: { cookie: analyst.cookie, 'x-csrf-token': analyst.token, 'content-type': 'application/json' },
+    requests: [{
+      method: 'POST', path: `/api/quantities/${quantity.id}/impact`,
+      setupRequest: (req) => ({ ...req, body: JSON.stringify({ datasetId: dataset.id, reference: { family: 'gamma', shape: 1, rate: 0.05 }, decision: { direction: 'above', threshold: 3 + (k++ % 1000) / 1000, probability: 0.8 } }) }),
+    }],
+  })
+}
+
+// A run stops with saves in flight whose answers the bench never read; like a reloaded page, start from the server's.
+async function reloadVersions() {
+  for (const s of sessions) {
+    const [draft] = await call(s, 'GET', `/api/rounds/${round.id}/judgements`)
+    versions.set(s.cookie, draft?.version ?? 0)
+  }
+}
+// Paced: an expert typing without pause saves at most about once a second (the client saves 800 ms after the last
+// keystroke, one save at a time), so 50 experts all typing at once send about 50 saves a second. This is the aim.
+const RATE = Number(process.env.LOAD_RATE ?? 1)
+// A few seconds first that are not counted, so the figures are of a warm server (JIT-compiled code, open pools, the
+// impact worker started), as a server is after its first minutes of a round.
+const WARMUP = Number(process.env.LOAD_WARMUP ?? 3)
+if (WARMUP > 0) {
+  console.log(`warming up ${WARMUP} s (not counted)…`)
+  await Promise.all([pacedAutosaves(RATE, WARMUP), impactLoad(WARMUP)])
+  await reloadVersions()
+}
+console.log(`running ${SECONDS} s: ${EXPERTS} experts each autosaving ${RATE}/s, 1 analyst running uncached impact analyses…`)
+const [paced, pacedImpact] = await Promise.all([pacedAutosaves(RATE), impactLoad()])
+summary(`autosave, paced (PUT judgement, ${EXPERTS} × ${RATE}/s)`, paced)
+summary('impact analysis alongside (POST, uncached)', pacedImpact)
+
+await reloadVersions()
+
+// Saturation: every expert saves again the moment the previous save returns. Shows the capacity, and the latency
+// once requests queue behind each other.
+console.log(`running ${SECONDS} s: ${EXPERTS} experts autosaving back to back, 1 analyst running impact analyses…`)
+const [flat, flatImpact] = await Promise.all([autosaves(sessions, undefined), impactLoad()])
+summary(`autosave, saturated (PUT judgement, ${EXPERTS} connections back to back)`, flat)
+summary('impact analysis alongside (POST, uncached)', flatImpact)
 if (firstFailure) console.log(`first autosave refusal: ${firstFailure}`)
-summary('impact analysis (POST, uncached)', b)
 
 const assets = path.join(root, 'dist', 'assets')
 if (existsSync(assets)) {
