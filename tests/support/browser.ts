@@ -18,8 +18,11 @@ export interface BrowserSession {
   close(): Promise<void>
 }
 
-/** Debian's chromium driven by playwright-core; never a downloaded browser. */
-export async function openBrowser(): Promise<BrowserSession> {
+/**
+ * Debian's chromium driven by playwright-core; never a downloaded browser. `baseUrl` points it at an app other than
+ * the one the global setup serves (a suite that runs its own server and database).
+ */
+export async function openBrowser(opts: { baseUrl?: string } = {}): Promise<BrowserSession> {
   // playwright-core gives each launch a new, empty profile of its own.
   const browser = await chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
@@ -35,7 +38,7 @@ export async function openBrowser(): Promise<BrowserSession> {
   page.on('console', (msg) => {
     if (msg.type() === 'error') consoleErrors.push(msg.text())
   })
-  const baseUrl = inject('baseUrl')
+  const baseUrl = opts.baseUrl ?? inject('baseUrl')
   const foreignRequests: string[] = []
   page.on('request', (req) => {
     const url = req.url()
