@@ -104,6 +104,15 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
     res.status(413).json({ error: { message: 'The request body is too large' } })
     return
   }
+  // zlib's own words ("incorrect header check") mean nothing to the sender.
+  if (typeof err?.code === 'string' && err.code.startsWith('Z_')) {
+    res.status(400).json({ error: { message: 'The request body is marked as compressed but could not be decompressed' } })
+    return
+  }
+  if (err?.type === 'encoding.unsupported') {
+    res.status(415).json({ error: { message: 'The request body’s Content-Encoding is not supported; send it plain, or gzip or deflate encoded' } })
+    return
+  }
   if (err?.code === 'EBADCSRFTOKEN' || (status === 403 && /csrf/i.test(String(err?.message)))) {
     res.status(403).json({ error: { message: 'Invalid or missing CSRF token; reload the page and try again' } })
     return
