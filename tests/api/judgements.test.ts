@@ -203,7 +203,7 @@ describe('saves racing each other', () => {
   it('lets exactly one of several simultaneous saves of the same version through, and keeps a gapless history', async () => {
     // Two windows (or a retried autosave) sending the same version at once: optimistic concurrency must pick one.
     const race = await analyst.post(`/api/studies/${studyId}/rounds`, {
-      title: 'Race round', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + day).toISOString(),
+      title: 'Race round', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * day).toISOString(),
       items: [{ quantityId: q.burst, method: 'quantile' }],
     }).expect(201)
     await analyst.post(`/api/rounds/${race.body.id}/invitations`, { email: 'expert1@kestrel.example', name: 'Tomasz' }).expect(201)

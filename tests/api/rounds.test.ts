@@ -229,12 +229,14 @@ describe('reminders and automatic closing', () => {
     await h.db('round_panel').where({ round_id: r.body.id, email: 'expert1@kestrel.example' }).update({ submitted_at: new Date() })
     const ctx = { db: h.db, publicUrl: 'http://localhost:3000', kickMail: async () => {} }
 
+    // The schedule covers every round in the database, and other suites share it: count this round's reminders.
     const first = await runRoundSchedule(ctx)
-    expect(first.reminders).toBe(1)
+    expect(first.reminders).toBeGreaterThanOrEqual(1)
     const reminders = await h.db('outbox_messages').where({ round_id: r.body.id, kind: 'reminder' })
     expect(reminders.map((m) => m.to_address)).toEqual(['expert2@kestrel.example'])
     expect(reminders[0].subject).toMatch(/^Reminder:/)
     expect((await runRoundSchedule(ctx)).reminders).toBe(0)
+    expect(await h.db('outbox_messages').where({ round_id: r.body.id, kind: 'reminder' })).toHaveLength(1)
 
     const closed = await runRoundSchedule(ctx, new Date(Date.now() + 31 * 3600 * 1000))
     expect(closed.closed).toBeGreaterThanOrEqual(1)
