@@ -6,7 +6,6 @@
 import { spawn, type ChildProcess } from 'node:child_process'
 import net, { type AddressInfo } from 'node:net'
 import path from 'node:path'
-import PgBoss from 'pg-boss'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { AppContext } from '../../server/context'
 import { createDb, type Db } from '../../server/db/knex'
@@ -226,31 +225,38 @@ afterAll(async () => {
   await db?.destroy()
 }, 40_000)
 
-describe('instances starting together on a database without the mail queue', () => {
+describe('instances starting together on a new database', () => {
   it('all start, none a deadlock victim over creating the queue', async () => {
-    // As on the first deployment: no queue yet (dropping it also drops any jobs other suites left, whose rows are
-    // failed above). Before the advisory lock in createMailer().start(), PostgreSQL picked one of the concurrent
-    // create_queue calls as a deadlock victim and that instance failed to start: measured, 5 attempts in 10 with two
-    // instances and 9 in 10 with four, so four instances three times make a pass without the lock very unlikely.
-    const admin = new PgBoss({ connectionString: databaseUrl, schema: PGBOSS_SCHEMA, supervise: false, schedule: false })
-    await admin.start()
+    // As on the first deployment: a migrated database with no pg-boss schema and no queue yet. A database of its
+    // own, so no other suite's jobs or workers are in the way. Before the advisory lock in createMailer().start(),
+    // PostgreSQL picked one of the concurrent create_queue calls as a deadlock victim and that instance failed to
+    // start: measured, 5 attempts in 10 with two instances and 9 in 10 with four, so four instances three times make
+    // a pass without the lock very unlikely.
+    const name = 'priorsmith_test_first_start'
+    const url = new URL(databaseUrl)
+    url.pathname = `/${name}`
+    const fresh = url.toString()
     try {
       for (let attempt = 0; attempt < 3; attempt++) {
-        await admin.deleteQueue(MAIL_QUEUE)
-        expect(await admin.getQueue(MAIL_QUEUE)).toBeNull()
-        const handles = Array.from({ length: 4 }, () => createDb(databaseUrl))
-        const mailers = handles.map((h) => createMailer({ databaseUrl, db: h, transport: localMailConfig(fake.port, {}), log: () => {} }))
+        await db.raw('DROP DATABASE IF EXISTS ?? WITH (FORCE)', [name])
+        await db.raw('CREATE DATABASE ??', [name])
+        const migrator = createDb(fresh)
+        await migrator.migrate.latest()
+        await migrator.destroy()
+        const handles = Array.from({ length: 4 }, () => createDb(fresh))
+        const mailers = handles.map((h) => createMailer({ databaseUrl: fresh, db: h, transport: localMailConfig(fake.port, {}), log: () => {} }))
         try {
           const started = await Promise.allSettled(mailers.map((m) => m.start()))
           expect(started.map((r) => (r.status === 'rejected' ? String(r.reason) : 'started'))).toEqual(handles.map(() => 'started'))
-          expect(await admin.getQueue(MAIL_QUEUE)).toMatchObject({ name: MAIL_QUEUE, policy: 'short' })
+          const { rows } = await handles[0].raw('SELECT name, policy FROM ??.queue WHERE name = ?', [PGBOSS_SCHEMA, MAIL_QUEUE])
+          expect(rows).toEqual([{ name: MAIL_QUEUE, policy: 'short' }])
         } finally {
           await Promise.all(mailers.map((m) => m.stop()))
           await Promise.all(handles.map((h) => h.destroy()))
         }
       }
     } finally {
-      await admin.stop({ graceful: false, wait: true })
+      await db.raw('DROP DATABASE IF EXISTS ?? WITH (FORCE)', [name])
     }
   })
 })
@@ -313,7 +319,8 @@ describe('two app processes on one database and queue', () => {
       }
       await analyst.ok(B, 'POST', `/api/rounds/${round.id}/open`, undefined, 200)
 
-      const rows = () => db('outbox_messages').where({ round_id: round.id }).orderBy('id')
+      // By address as well: mail.test.ts queues a message under a made-up round id that can be this round's.
+      const rows = () => db('outbox_messages').where({ round_id: round.id }).whereIn('to_address', emails).orderBy('id')
       const ids = (await rows()).map((r) => r.id as number)
       expect(ids).toHaveLength(12)
       // Settled: every row sent and every pg-boss job for it completed, so no delivery is still in flight.
