@@ -14,6 +14,7 @@ import { startSmtpFake, type SmtpFake } from '../../server/mail/smtp-fake'
 import { localMailConfig } from '../../server/mail/transport'
 import { runRoundSchedule } from '../../server/services/rounds'
 import { DEMO_PASSWORD } from '../../seeds/demo'
+import { waitFor } from '../support/wait'
 
 const root = path.resolve(import.meta.dirname, '../..')
 const databaseUrl = inject('databaseUrl')
@@ -199,16 +200,6 @@ let A: Instance
 let B: Instance
 /** Signed in on A before the tests, for the ones that only need an analyst. */
 const analyst = new Browser()
-
-async function waitFor<T>(what: string, probe: () => Promise<T | false | null | undefined>, deadlineMs = 20_000): Promise<T> {
-  const until = Date.now() + deadlineMs
-  for (;;) {
-    const value = await probe()
-    if (value) return value
-    if (Date.now() > until) throw new Error(`timed out after ${deadlineMs} ms waiting for ${what}`)
-    await new Promise((r) => setTimeout(r, 200))
-  }
-}
 
 beforeAll(async () => {
   db = createDb(databaseUrl)

@@ -11,6 +11,7 @@ import { startSmtpFake, type SmtpFake } from '../../server/mail/smtp-fake'
 import { invitationMessage } from '../../server/mail/templates'
 import { localMailConfig } from '../../server/mail/transport'
 import { devMailboxRouter } from '../../server/routes/dev-mailbox'
+import { waitFor } from '../support/wait'
 
 const databaseUrl = inject('databaseUrl')
 const dbs: Db[] = []
@@ -42,16 +43,6 @@ async function newMailer(options: Partial<MailerOptions> & { port: number; db?: 
   mailers.push(m)
   await m.start()
   return m
-}
-
-async function waitFor<T>(what: string, probe: () => Promise<T | false | null | undefined>, deadlineMs = 30_000): Promise<T> {
-  const until = Date.now() + deadlineMs
-  for (;;) {
-    const value = await probe()
-    if (value) return value
-    if (Date.now() > until) throw new Error(`timed out after ${deadlineMs} ms waiting for ${what}`)
-    await new Promise((r) => setTimeout(r, 200))
-  }
 }
 
 const rowsOf = (ids: number[]) => db('outbox_messages').whereIn('id', ids).orderBy('id')

@@ -1,10 +1,10 @@
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
-import type { Locator, Page } from 'playwright-core'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
 import { quantile } from '../../shared/stats'
 import type { FitResult } from '../../shared/stats'
 import { DEMO_PASSWORD, DEMO_STUDY_TITLE } from '../../seeds/demo'
 import { formatValue } from '../../src/rounds/numbers'
-import { openBrowser, signInAs, type BrowserSession } from '../support/browser'
+import { openBrowser, signInAs, type BrowserSession, completeEntry, field, inPage, type Call, keepFailureEvidence } from '../support/browser'
 
 /**
  * The expert answering screen in chromium. The analyst sets up a round on the demo study through the API (from the
@@ -14,30 +14,6 @@ import { openBrowser, signInAs, type BrowserSession } from '../support/browser'
  * save from another window (409), fills the calibration questions and submits; expert 2 completes the quantile method
  * with the keyboard alone. A second round with feedback then shows expert 1 the others' round-1 distributions.
  */
-
-/** The text field under a test id (the id sits on the form item around the input). */
-function field(scope: Page | Locator, testId: string): Locator {
-  return scope.getByTestId(testId).locator('input, textarea').first()
-}
-
-type Call = <T = unknown>(method: string, url: string, body?: unknown) => Promise<T>
-
-/**
- * Runs `fn` in the page with a `call` helper for the API: the session's cookie, and a fresh CSRF token from
- * /api/auth/csrf for every write. The function travels as source text, so it may only use its arguments.
- */
-async function inPage<A, T>(page: Page, fn: (call: Call, args: A) => Promise<T>, args: A): Promise<T> {
-  const call = async (method: string, url: string, body?: unknown) => {
-    const headers: Record<string, string> = { accept: 'application/json' }
-    if (method !== 'GET') headers['x-csrf-token'] = ((await (await fetch('/api/auth/csrf')).json()) as { token: string }).token
-    if (body !== undefined) headers['content-type'] = 'application/json'
-    const res = await fetch(url, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) })
-    const text = await res.text()
-    if (!res.ok) throw new Error(`${method} ${url} → ${res.status} ${text}`)
-    return text ? JSON.parse(text) : undefined
-  }
-  return page.evaluate(`(${fn.toString()})(${call.toString()}, ${JSON.stringify(args)})`) as Promise<T>
-}
 
 interface Setup {
   studyId: number
@@ -83,22 +59,6 @@ async function createRound(page: Page, options: { title: string; feedback?: bool
       return { studyId: study.id, roundId: round.id, burst: id('burst_rate'), uptake: id('alert_uptake'), flow: id('night_flow_cut') }
     },
     { studyTitle: DEMO_STUDY_TITLE, title: options.title, feedback: options.feedback ?? false, only: options.onlyBurstRate ?? false },
-  )
-}
-
-/** The signed-in expert's declaration and practice answer, through the API (the entry flow has its own test). */
-async function completeEntry(page: Page, roundId: number): Promise<void> {
-  await inPage(
-    page,
-    async (call: Call, args: { roundId: number }) => {
-      await call('PUT', `/api/rounds/${args.roundId}/declaration`, {
-        expertise: 'Twenty years on the Kestrel Valley distribution network, keeping the burst records.', interests: 'none', interestsText: '', seenPilotData: false,
-      })
-      await call('POST', `/api/rounds/${args.roundId}/practice`, {
-        points: [{ value: 1000, prob: 0.05 }, { value: 1300, prob: 0.25 }, { value: 1600, prob: 0.5 }, { value: 2000, prob: 0.75 }, { value: 2600, prob: 0.95 }],
-      })
-    },
-    { roundId },
   )
 }
 
@@ -150,12 +110,7 @@ beforeAll(async () => {
   expert1 = await openBrowser()
   expert2 = await openBrowser()
 })
-afterEach(async (ctx) => {
-  if (ctx.task.result?.state !== 'fail') return
-  await expert1?.shot('answer-failed-expert1')
-  await expert2?.shot('answer-failed-expert2')
-  for (const s of [analyst, expert1, expert2]) if (s?.consoleErrors.length) console.log(s.consoleErrors.join('\n'))
-})
+keepFailureEvidence('answer', () => ({ analyst, expert1, expert2 }))
 afterAll(async () => {
   await analyst?.close()
   await expert1?.close()

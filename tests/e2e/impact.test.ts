@@ -1,9 +1,9 @@
 import { readFileSync } from 'node:fs'
 import path from 'node:path'
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { DEMO_PASSWORD } from '../../seeds/demo'
-import { openBrowser, signInAs, type BrowserSession } from '../support/browser'
+import { openBrowser, signInAs, type BrowserSession, field, keepFailureEvidence } from '../support/browser'
 
 /**
  * Pilot data and impact analysis in chromium: the analyst uploads the demo burst logs for the burst
@@ -22,11 +22,6 @@ const QUANTITY_NAME = 'Burst rate of old cast-iron mains'
 let s: BrowserSession
 let studyId = 0
 let quantityId = 0
-
-/** The text field under a test id (the id sits on the form item around the input). */
-function field(page: Page, testId: string) {
-  return page.getByTestId(testId).locator('input, textarea').first()
-}
 
 /** Opens an el-select by its test id and picks the option with exactly this label. */
 async function choose(page: Page, testId: string, label: string) {
@@ -101,11 +96,7 @@ async function setUpReconciledPrior(page: Page): Promise<{ studyId: number; quan
 beforeAll(async () => {
   s = await openBrowser()
 })
-afterEach(async (ctx) => {
-  if (ctx.task.result?.state !== 'fail') return
-  await s?.shot('impact-failed')
-  if (s?.consoleErrors.length) console.log(s.consoleErrors.join('\n'))
-})
+keepFailureEvidence('impact', () => ({ analyst: s }))
 afterAll(async () => {
   await s?.close()
 })

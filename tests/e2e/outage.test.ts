@@ -1,13 +1,13 @@
 import { existsSync, rmSync } from 'node:fs'
 import type { AddressInfo } from 'node:net'
 import path from 'node:path'
-import type { Locator, Page } from 'playwright-core'
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { ensureCluster, ensureDatabase, stopCluster } from '../../scripts/lib/postgres.mjs'
 import { DEMO_STUDY_TITLE, seedDemo } from '../../seeds/demo'
 import { createApp, type PriorsmithApp } from '../../server/app'
 import { createDb, type Db } from '../../server/db/knex'
-import { openBrowser, signInAs, type BrowserSession } from '../support/browser'
+import { openBrowser, signInAs, type BrowserSession, completeEntry, field, inPage, type Call, keepFailureEvidence } from '../support/browser'
 
 /**
  * PostgreSQL restarts while an expert types. The suite runs its own cluster, database and server (as the API fault
@@ -20,30 +20,6 @@ import { openBrowser, signInAs, type BrowserSession } from '../support/browser'
 const root = path.resolve(import.meta.dirname, '../..')
 const clusterDir = `/tmp/priorsmith-outage-${process.pid}`
 const env = { ...process.env, PG_CLUSTER_DIR: clusterDir, PGPORT_LOCAL: String(56000 + (process.pid % 1000)) }
-
-/** The text field under a test id (the id sits on the form item around the input). */
-function field(scope: Page | Locator, testId: string): Locator {
-  return scope.getByTestId(testId).locator('input, textarea').first()
-}
-
-type Call = <T = unknown>(method: string, url: string, body?: unknown) => Promise<T>
-
-/**
- * Runs `fn` in the page with a `call` helper for the API: the session's cookie, and a fresh CSRF token from
- * /api/auth/csrf for every write. The function travels as source text, so it may only use its arguments.
- */
-async function inPage<A, T>(page: Page, fn: (call: Call, args: A) => Promise<T>, args: A): Promise<T> {
-  const call = async (method: string, url: string, body?: unknown) => {
-    const headers: Record<string, string> = { accept: 'application/json' }
-    if (method !== 'GET') headers['x-csrf-token'] = ((await (await fetch('/api/auth/csrf')).json()) as { token: string }).token
-    if (body !== undefined) headers['content-type'] = 'application/json'
-    const res = await fetch(url, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) })
-    const text = await res.text()
-    if (!res.ok) throw new Error(`${method} ${url} → ${res.status} ${text}`)
-    return text ? JSON.parse(text) : undefined
-  }
-  return page.evaluate(`(${fn.toString()})(${call.toString()}, ${JSON.stringify(args)})`) as Promise<T>
-}
 
 interface Answer {
   lower: number
@@ -102,11 +78,7 @@ beforeAll(async () => {
     if (res.request().method() === 'PUT' && /\/api\/rounds\/\d+\/judgements\/\d+$/.test(res.url())) saves.push(res.status())
   })
 }, 60_000)
-afterEach(async (ctx) => {
-  if (ctx.task.result?.state !== 'fail') return
-  await expert?.shot('outage-failed')
-  if (expert?.consoleErrors.length) console.log(expert.consoleErrors.join('\n'))
-})
+keepFailureEvidence('outage', () => ({ expert }))
 afterAll(async () => {
   await analyst?.close()
   await expert?.close()
@@ -148,18 +120,7 @@ describe('PostgreSQL restarted while an expert types', () => {
 
     await signInAs(expert, 'expert1@kestrel.example')
     await expert.page.waitForURL(/\/studies$/)
-    await inPage(
-      expert.page,
-      async (call: Call, args: { roundId: number }) => {
-        await call('PUT', `/api/rounds/${args.roundId}/declaration`, {
-          expertise: 'Twenty years on the Kestrel Valley distribution network, keeping the burst records.', interests: 'none', interestsText: '', seenPilotData: false,
-        })
-        await call('POST', `/api/rounds/${args.roundId}/practice`, {
-          points: [{ value: 1000, prob: 0.05 }, { value: 1300, prob: 0.25 }, { value: 1600, prob: 0.5 }, { value: 2000, prob: 0.75 }, { value: 2600, prob: 0.95 }],
-        })
-      },
-      { roundId },
-    )
+    await completeEntry(expert.page, roundId)
   })
 
   it('saves a complete first answer', async () => {

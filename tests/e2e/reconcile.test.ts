@@ -1,7 +1,7 @@
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { DEMO_PASSWORD, DEMO_STUDY_TITLE } from '../../seeds/demo'
-import { openBrowser, signInAs, type BrowserSession } from '../support/browser'
+import { openBrowser, signInAs, type BrowserSession, field, inPage, keepFailureEvidence } from '../support/browser'
 
 /**
  * The reconciliation workspace in chromium: a quantity of the demo study gets a round answered by the three demo
@@ -9,11 +9,6 @@ import { openBrowser, signInAs, type BrowserSession } from '../support/browser'
  * the workspace from the quantity card, pools the panel with Cooke performance weights, sees the cutoff drop the
  * badly calibrated expert, picks the best-fitting family and marks the quantity reconciled.
  */
-
-/** The text field under a test id (the id sits on the form item around the input). */
-function field(page: Page, testId: string) {
-  return page.getByTestId(testId).locator('input, textarea').first()
-}
 
 const QUANTITY = {
   name: 'Burst rate of relined cast-iron mains',
@@ -31,19 +26,10 @@ interface Setup {
 /**
  * Runs in the page: the analyst creates the quantity and a round, puts the three demo experts on the panel and opens
  * it; each expert then signs in (through the API), answers the quantity and the calibration questions and submits;
- * finally the analyst signs in again. Every write carries a fresh CSRF token from /api/auth/csrf.
+ * finally the analyst signs in again.
  */
 async function setUpRound(page: Page): Promise<Setup> {
-  return page.evaluate(async ({ password, studyTitle, quantity }) => {
-    async function call<T>(method: string, url: string, body?: unknown): Promise<T> {
-      const headers: Record<string, string> = { accept: 'application/json' }
-      if (method !== 'GET') headers['x-csrf-token'] = ((await (await fetch('/api/auth/csrf')).json()) as { token: string }).token
-      if (body !== undefined) headers['content-type'] = 'application/json'
-      const res = await fetch(url, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) })
-      const text = await res.text()
-      if (!res.ok) throw new Error(`${method} ${url} → ${res.status} ${text}`)
-      return (text ? JSON.parse(text) : undefined) as T
-    }
+  return inPage(page, async (call, { password, studyTitle, quantity }) => {
     async function signIn(email: string): Promise<void> {
       await call('POST', '/api/auth/sign-out').catch(() => undefined)
       await call('POST', '/api/auth/sign-in', { email, password })
@@ -103,11 +89,7 @@ let setup: Setup
 beforeAll(async () => {
   s = await openBrowser()
 })
-afterEach(async (ctx) => {
-  if (ctx.task.result?.state !== 'fail') return
-  await s?.shot('reconcile-failed')
-  if (s?.consoleErrors.length) console.log(s.consoleErrors.join('\n'))
-})
+keepFailureEvidence('reconcile', () => ({ analyst: s }))
 afterAll(async () => {
   await s?.close()
 })

@@ -1,9 +1,9 @@
 import { readFileSync, statSync } from 'node:fs'
 import mammoth from 'mammoth'
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
-import type { Locator, Page } from 'playwright-core'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
 import { DEMO_PASSWORD } from '../../seeds/demo'
-import { openBrowser, signInAs, type BrowserSession } from '../support/browser'
+import { openBrowser, signInAs, type BrowserSession, field, keepFailureEvidence } from '../support/browser'
 
 /**
  * The prior record's review workflow in chromium: a study with two reconciled quantities is set up through the API
@@ -16,11 +16,6 @@ const STUDY_TITLE = `Record workflow ${Date.now().toString(36)}`
 const FLOW_SECTION = 'Night-flow reduction (flow)'
 const RETURN_COMMENT = 'Explain why the pool was weighted equally rather than by calibration.'
 const PANEL_COMMENT = 'Please state how the declared consulting interest was managed.'
-
-/** The text field under a test id (the id sits on the form item around the input). */
-function field(scope: Page | Locator, testId: string) {
-  return scope.getByTestId(testId).locator('input, textarea').first()
-}
 
 /** Creates the study through the API from inside the page (same origin, session cookie, CSRF header). */
 async function setUpReconciledStudy(page: Page): Promise<number> {
@@ -124,12 +119,7 @@ beforeAll(async () => {
     if (r.url().endsWith(`/api/studies/${studyId}/record/charts`) && r.request().method() === 'POST' && r.status() === 204) chartPosts++
   })
 })
-afterEach(async (ctx) => {
-  if (ctx.task.result?.state !== 'fail') return
-  await analyst?.shot('record-failed-analyst')
-  await reviewer?.shot('record-failed-reviewer')
-  for (const s of [analyst, reviewer]) if (s?.consoleErrors.length) console.log(s.consoleErrors.join('\n'))
-})
+keepFailureEvidence('record', () => ({ analyst, reviewer }))
 afterAll(async () => {
   await setup?.close()
   await analyst?.close()

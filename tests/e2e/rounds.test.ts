@@ -1,7 +1,6 @@
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
-import type { Locator, Page } from 'playwright-core'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DEMO_STUDY_TITLE } from '../../seeds/demo'
-import { openBrowser, signInAs, type BrowserSession } from '../support/browser'
+import { openBrowser, signInAs, type BrowserSession, field, keepFailureEvidence } from '../support/browser'
 
 /**
  * The round flow of issue 4 in chromium: the analyst frames a quantity, schedules a round with three
@@ -9,11 +8,6 @@ import { openBrowser, signInAs, type BrowserSession } from '../support/browser'
  * dev mailbox; the expert follows the link in a fresh browser, sets a password, completes the
  * declaration and the practice question and sees the feedback; the analyst sees the progress.
  */
-
-/** The text field under a test id (the id sits on the form item around the input). */
-function field(scope: Page | Locator, testId: string) {
-  return scope.getByTestId(testId).locator('input, textarea').first()
-}
 
 const EXPERT = { name: 'Mara Lindqvist', email: 'mara.lindqvist@example.org', password: 'kestrel-valley-42' }
 const QUANTITY = {
@@ -36,14 +30,7 @@ beforeAll(async () => {
   admin = await openBrowser()
   expert = await openBrowser()
 })
-afterEach(async (ctx) => {
-  // A failed step leaves a picture of every browser behind, to see what the page showed.
-  if (ctx.task.result?.state !== 'fail') return
-  await analyst?.shot('rounds-failed-analyst')
-  await admin?.shot('rounds-failed-admin')
-  await expert?.shot('rounds-failed-expert')
-  for (const s of [analyst, admin, expert]) if (s?.consoleErrors.length) console.log(s.consoleErrors.join('\n'))
-})
+keepFailureEvidence('rounds', () => ({ analyst, admin, expert }))
 afterAll(async () => {
   await analyst?.close()
   await admin?.close()
