@@ -1,6 +1,7 @@
 // Load benchmark (prints figures; not a test): 50 experts autosaving judgements while the analyst runs impact
-// analyses, against an app instance served on loopback from the development database. Run with `npm run bench:load`
-// after `npm run db:up` (and `npm run build` for the bundle figures).
+// analyses, against an app instance served on loopback. Its data goes to a database of its own, `priorsmith_load`,
+// made anew (migrated and seeded) each run, so the development database is left as it was. Run with
+// `npm run bench:load` after `npm run db:up` (and `npm run build` for the bundle figures).
 import { readdirSync, readFileSync, existsSync } from 'node:fs'
 import { spawn } from 'node:child_process'
 import path from 'node:path'
@@ -8,14 +9,17 @@ import { gzipSync } from 'node:zlib'
 import autocannon from 'autocannon'
 import { ensureCluster, ensureDatabase } from '../../scripts/lib/postgres.mjs'
 import { createDb } from '../../server/db/knex'
+import { seedDemo } from '../../seeds/demo'
 
 const root = path.resolve(import.meta.dirname, '../..')
 const EXPERTS = Number(process.env.LOAD_EXPERTS ?? 50)
 const SECONDS = Number(process.env.LOAD_SECONDS ?? 20)
 const PASSWORD = 'load-test-pass-1'
 
-const databaseUrl = process.env.DATABASE_URL ?? ensureDatabase(ensureCluster(root), 'priorsmith')
+const databaseUrl = process.env.DATABASE_URL ?? ensureDatabase(ensureCluster(root), 'priorsmith_load', { recreate: true })
 const db = createDb(databaseUrl)
+await db.migrate.latest()
+await seedDemo(db)
 // The app runs in a process of its own, as `npm start` runs it, so the load generator does not share its event loop.
 const port = Number(process.env.LOAD_PORT ?? 3917)
 const server = spawn(path.join(root, 'node_modules/.bin/tsx'), ['server/index.ts'], {
@@ -164,8 +168,10 @@ function impactLoad(seconds = SECONDS) {
   })
 }
 
-// A run stops with saves in flight whose answers the bench never read; like a reloaded page, start from the server's.
+// A run stops with saves in flight whose answers the bench never reads; once the server has finished them, start
+// from its versions, as a reloaded page would (a save still in flight at the reload would 409 that expert for good).
 async function reloadVersions() {
+  await new Promise((r) => setTimeout(r, 1000))
   for (const s of sessions) {
     const [draft] = await call(s, 'GET', `/api/rounds/${round.id}/judgements`)
     versions.set(s.cookie, draft?.version ?? 0)
