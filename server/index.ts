@@ -4,6 +4,7 @@ import { createApp } from './app'
 import { stopComputePool } from './compute/pool'
 import { loadConfig } from './config'
 import { createDb } from './db/knex'
+import { waitUntilIdle } from './idle'
 import { createMailer } from './mail/mailer'
 import { startSmtpFake, type SmtpFake } from './mail/smtp-fake'
 import { localMailConfig, mailConfigFromEnv } from './mail/transport'
@@ -60,9 +61,7 @@ async function shutdown() {
   clearTimeout(cut)
   // A handler whose client hung up may still be running its queries: let them finish before the pool closes.
   const pool = db.client.pool as { numUsed(): number; numPendingAcquires(): number }
-  for (let waited = 0; waited < 10_000 && pool.numUsed() + pool.numPendingAcquires() > 0; waited += 50) {
-    await new Promise((r) => setTimeout(r, 50))
-  }
+  await waitUntilIdle(() => pool.numUsed() + pool.numPendingAcquires() === 0, 10_000)
   stopComputePool()
   await mailer.stop()
   await mailFake?.stop()

@@ -1,6 +1,7 @@
 import connectPgSimple from 'connect-pg-simple'
 import session from 'express-session'
 import pg from 'pg'
+import { waitUntilIdle } from './idle'
 
 export const SESSION_COOKIE = 'priorsmith.sid'
 
@@ -23,9 +24,7 @@ export function createSessionMiddleware(opts: { databaseUrl: string; secret: str
   })
   async function close() {
     // Requests already past the HTTP server may still be reading their session: let them finish first.
-    for (let waited = 0; waited < 5000 && (pool.waitingCount > 0 || pool.idleCount < pool.totalCount); waited += 50) {
-      await new Promise((r) => setTimeout(r, 50))
-    }
+    await waitUntilIdle(() => pool.waitingCount === 0 && pool.idleCount === pool.totalCount, 5000)
     await store.close()
     await pool.end()
   }

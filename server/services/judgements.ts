@@ -45,7 +45,7 @@ function toJudgement(r: JudgementRow, withName: boolean) {
 
 /**
  * Everything a save checks before writing, in one query (autosave runs it every few seconds per expert): the round
- * is open, the user is on its panel, the quantity is one of its items. Same refusals and order as assertAnswering.
+ * is open, the user is on its panel, the quantity is one of its items.
  */
 async function answeringItem(db: Db, user: User, roundId: number, quantityId: number) {
   const row = await db('rounds as r')
@@ -55,19 +55,23 @@ async function answeringItem(db: Db, user: User, roundId: number, quantityId: nu
     .where('r.id', roundId)
     .first('r.status', 'r.closes_at', 'r.study_id', 'p.id as panel_id', 'i.method', 'i.edges', 'i.chips', 'i.ask_tails', 'q.support_kind', 'q.support_lower', 'q.support_upper')
   if (!row) throw new HttpError(404, 'Round not found')
-  if (row.status !== 'open' || row.closes_at.getTime() <= Date.now()) throw new HttpError(409, 'This round is closed; answers can no longer change')
-  if (!row.panel_id) throw new HttpError(403, 'You are not on the panel of this round')
+  refuseUnlessAnswering(row, !!row.panel_id)
   if (!row.method) throw new HttpError(404, 'This quantity is not part of the round')
   const item: AnswerItem = { method: row.method, edges: row.edges ?? undefined, chips: row.chips ?? undefined, askTails: row.ask_tails }
   return { studyId: row.study_id as number, item, support: supportOf(row) }
 }
 
+/** The refusals of every answering call, in their order: a closed round first, then a user not on its panel. */
+function refuseUnlessAnswering(round: { status: string; closes_at: Date }, onPanel: boolean): void {
+  if (round.status !== 'open' || round.closes_at.getTime() <= Date.now()) throw new HttpError(409, 'This round is closed; answers can no longer change')
+  if (!onPanel) throw new HttpError(403, 'You are not on the panel of this round')
+}
+
 async function assertAnswering(db: Db, user: User, roundId: number) {
   const round = await roundRow(db, roundId)
-  if (round.status !== 'open' || round.closes_at.getTime() <= Date.now()) throw new HttpError(409, 'This round is closed; answers can no longer change')
   const member = await db('round_panel').where({ round_id: roundId, user_id: user.id }).first('id', 'submitted_at')
-  if (!member) throw new HttpError(403, 'You are not on the panel of this round')
-  return { round, member }
+  refuseUnlessAnswering(round, !!member)
+  return { round, member: member! }
 }
 
 /** The expert's own judgements, or every judgement with names for the study's analysts. */
