@@ -4,6 +4,7 @@ import { csrfSync } from 'csrf-sync'
 import express, { type Express } from 'express'
 import helmet from 'helmet'
 import { createPassport } from './auth/passport'
+import { createSignInGuard } from './auth/sign-in-guard'
 import type { Db } from './db/knex'
 import { errorHandler, notFoundApi } from './http/errors'
 import type { AppContext } from './context'
@@ -30,6 +31,7 @@ export interface AppOptions {
   databaseUrl: string
   sessionSecret: string
   secureCookies?: boolean
+  /** Sign-in attempts per client address and account in 15 minutes; an address (over every account) or an account (over every address) may fail five times as often. */
   signInLimitPerWindow?: number
   /** Folder of the built client (vite build); served with a fallback to index.html for client routes. */
   clientDir?: string
@@ -86,7 +88,8 @@ export function createApp(opts: AppOptions): PriorsmithApp {
     res.json({ devMailbox: !!opts.mailFake?.running })
   })
   app.use('/api', csrf.csrfSynchronisedProtection)
-  app.use('/api/auth', authRouter(db, passport, { signInLimitPerWindow: opts.signInLimitPerWindow ?? 20, generateCsrfToken: csrf.generateToken }))
+  const signInGuard = createSignInGuard({ databaseUrl: opts.databaseUrl, limitPerWindow: opts.signInLimitPerWindow ?? 20 })
+  app.use('/api/auth', authRouter(db, passport, { guard: signInGuard, generateCsrfToken: csrf.generateToken }))
   app.use('/api/users', usersRouter(db))
   const ctx: AppContext = { db, publicUrl: opts.publicUrl ?? 'http://localhost:3000', kickMail: opts.kickMail ?? (async () => {}) }
   app.use('/api/studies', studiesRouter(db))
@@ -116,6 +119,7 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   return {
     app,
     close: async () => {
+      await signInGuard.close()
       await sessions.close()
     },
   }

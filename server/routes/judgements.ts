@@ -4,7 +4,7 @@ import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { HttpError, idParam, validateBody } from '../http/errors'
 import { allow, canAnalyse, studyAccess, accessVia } from '../services/access'
-import { recordAudit } from '../services/audit'
+import { recordAuditAlone } from '../services/audit'
 import {
   feedbackFor, judgementHistory, listCalibrationAnswers, listJudgements, reopenSubmission, saveCalibrationAnswer, saveJudgement, submitRound,
 } from '../services/judgements'
@@ -77,7 +77,7 @@ export function judgementsRouter(db: Db): Router {
     if (access.role !== 'expert') throw new HttpError(403, 'Feedback is shown to the panel’s experts')
     const onPanel = await db('round_panel').where({ round_id: id, user_id: access.user.id }).first('id')
     if (!onPanel) throw new HttpError(403, 'You are not on the panel of this round')
-    await recordAudit(db, { actorId: access.user.id, studyId: access.studyId, action: 'feedback.view', subject: `round:${id}` })
+    await recordAuditAlone(db, { actorId: access.user.id, studyId: access.studyId, action: 'feedback.view', subject: `round:${id}` })
     res.json(await feedbackFor(db, access.user, id))
   })
 

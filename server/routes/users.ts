@@ -24,8 +24,11 @@ export function usersRouter(db: Db): Router {
 
   r.post('/', async (req, res) => {
     const body = await validateBody(userCreateSchema, req.body)
-    const user = await createUser(db, { ...body, role: body.role as Role })
-    await recordAudit(db, { actorId: currentUser(req).id, action: 'user.create', subject: `user:${user.id}`, details: { email: user.email, role: user.role } })
+    const user = await db.transaction(async (trx) => {
+      const created = await createUser(trx, { ...body, role: body.role as Role })
+      await recordAudit(trx, { actorId: currentUser(req).id, action: 'user.create', subject: `user:${created.id}`, details: { email: created.email, role: created.role } })
+      return created
+    })
     res.status(201).json(user)
   })
 
@@ -36,12 +39,15 @@ export function usersRouter(db: Db): Router {
     if (id === me.id && (body.disabled === true || (body.role && body.role !== 'admin'))) {
       throw new HttpError(400, 'You cannot disable your own account or remove your own admin role', body.disabled ? { disabled: 'Not for your own account' } : { role: 'Not for your own account' })
     }
-    const user = await updateUser(db, id, { displayName: body.displayName, role: body.role as Role | undefined, disabled: body.disabled })
-    if (body.disabled === true) {
-      // Signing a disabled user out everywhere: drop their stored sessions.
-      await db('session').whereRaw(`(sess->'passport'->>'user')::int = ?`, [id]).delete()
-    }
-    await recordAudit(db, { actorId: me.id, action: 'user.update', subject: `user:${id}`, details: body })
+    const user = await db.transaction(async (trx) => {
+      const updated = await updateUser(trx, id, { displayName: body.displayName, role: body.role as Role | undefined, disabled: body.disabled })
+      if (body.disabled === true) {
+        // Signing a disabled user out everywhere: drop their stored sessions.
+        await trx('session').whereRaw(`(sess->'passport'->>'user')::int = ?`, [id]).delete()
+      }
+      await recordAudit(trx, { actorId: me.id, action: 'user.update', subject: `user:${id}`, details: body })
+      return updated
+    })
     res.json(user)
   })
 

@@ -93,9 +93,9 @@ export async function createDataset(db: Db, user: User, studyId: number, fields:
       model: fields.model, mapping: JSON.stringify({ ...mapping, delimiter: fields.delimiter }), csv: text, sha256: createHash('sha256').update(file.buffer).digest('hex'),
       row_count: extracted.summary.rows, data: JSON.stringify(extracted.data), summary: JSON.stringify(extracted.summary), uploaded_by: user.id,
     }).returning('*')
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'dataset.upload', subject: `quantity:${fields.quantityId}`, details: { datasetId: r.id, version: r.version, model: r.model, rows: r.row_count, sha256: r.sha256 } })
     return r
   })
-  await recordAudit(db, { actorId: user.id, studyId, action: 'dataset.upload', subject: `quantity:${fields.quantityId}`, details: { datasetId: row.id, version: row.version, model: row.model, rows: row.row_count, sha256: row.sha256 } })
   return toDataset(row, true)
 }
 

@@ -95,10 +95,13 @@ export async function runImpact(db: Db, user: User, quantityId: number, input: I
     if (err instanceof EngineInputError) throw new HttpError(400, 'The analysis cannot be run with these inputs', { [err.field]: err.message })
     throw err
   }
-  const [row] = await db('impact_analyses').insert({
-    quantity_id: quantityId, dataset_id: dataset.id, input_hash: inputHash, input: JSON.stringify(input), result: JSON.stringify(result), created_by: user.id,
-  }).returning(['id', 'created_at'])
-  await recordAudit(db, { actorId: user.id, studyId: quantity.studyId, action: 'impact.run', subject: `quantity:${quantityId}`, details: { analysisId: row.id, datasetId: dataset.id, candidates: list.length } })
+  const row = await db.transaction(async (trx) => {
+    const [r] = await trx('impact_analyses').insert({
+      quantity_id: quantityId, dataset_id: dataset.id, input_hash: inputHash, input: JSON.stringify(input), result: JSON.stringify(result), created_by: user.id,
+    }).returning(['id', 'created_at'])
+    await recordAudit(trx, { actorId: user.id, studyId: quantity.studyId, action: 'impact.run', subject: `quantity:${quantityId}`, details: { analysisId: r.id, datasetId: dataset.id, candidates: list.length } })
+    return r
+  })
   return { id: row.id, cached: false, createdAt: row.created_at.toISOString(), ...result }
 }
 

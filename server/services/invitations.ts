@@ -58,9 +58,9 @@ export async function acceptInvitation(db: Db, token: string, body: { name: stri
     await trx('invitations').where({ id: inv.id }).update({ accepted_at: trx.fn.now(), accepted_user_id: user.id })
     await trx('round_panel').where({ id: inv.panel_id }).update({ user_id: user.id, name: body.name })
     await trx('study_members').insert({ study_id: round.study_id, user_id: user.id, study_role: 'expert' }).onConflict(['study_id', 'user_id']).ignore()
-    return { userId: user.id as number, roundId: inv.round_id as number, studyId: round.study_id as number }
+    await recordAudit(trx, { actorId: user.id, studyId: round.study_id, action: 'invitation.accept', subject: `round:${inv.round_id}` })
+    return { userId: user.id as number, roundId: inv.round_id as number }
   })
-  await recordAudit(db, { actorId: result.userId, studyId: result.studyId, action: 'invitation.accept', subject: `round:${result.roundId}` })
   const user = await findUserById(db, result.userId)
   return { user: user!, roundId: result.roundId }
 }
@@ -81,18 +81,22 @@ export async function roundEntry(db: Db, user: User, roundId: number) {
 export async function saveDeclaration(db: Db, user: User, roundId: number, studyId: number, body: DeclarationBody) {
   const member = await db('round_panel').where({ round_id: roundId, user_id: user.id }).first('id')
   if (!member) throw new HttpError(403, 'You are not on the panel of this round')
-  await db('declarations').insert({
-    round_id: roundId, user_id: user.id, expertise: body.expertise, interests: body.interests,
-    interests_text: body.interests === 'described' ? body.interestsText : '', seen_pilot_data: body.seenPilotData,
-  }).onConflict(['round_id', 'user_id']).merge(['expertise', 'interests', 'interests_text', 'seen_pilot_data', 'updated_at'])
-  await recordAudit(db, { actorId: user.id, studyId, action: 'declaration.save', subject: `round:${roundId}`, details: { interests: body.interests, seenPilotData: body.seenPilotData } })
+  await db.transaction(async (trx) => {
+    await trx('declarations').insert({
+      round_id: roundId, user_id: user.id, expertise: body.expertise, interests: body.interests,
+      interests_text: body.interests === 'described' ? body.interestsText : '', seen_pilot_data: body.seenPilotData,
+    }).onConflict(['round_id', 'user_id']).merge(['expertise', 'interests', 'interests_text', 'seen_pilot_data', 'updated_at'])
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'declaration.save', subject: `round:${roundId}`, details: { interests: body.interests, seenPilotData: body.seenPilotData } })
+  })
   return roundEntry(db, user, roundId)
 }
 
 export async function savePractice(db: Db, user: User, roundId: number, studyId: number, points: { value: number; prob: number }[], fit: unknown) {
-  const n = await db('declarations').where({ round_id: roundId, user_id: user.id })
-    .update({ practice_points: JSON.stringify(points), practice_fit: JSON.stringify(fit), practice_completed_at: db.fn.now(), updated_at: db.fn.now() })
-  if (n === 0) throw new HttpError(400, 'Complete the declaration first', { declaration: 'Complete the declaration first' })
-  await recordAudit(db, { actorId: user.id, studyId, action: 'practice.complete', subject: `round:${roundId}` })
+  await db.transaction(async (trx) => {
+    const n = await trx('declarations').where({ round_id: roundId, user_id: user.id })
+      .update({ practice_points: JSON.stringify(points), practice_fit: JSON.stringify(fit), practice_completed_at: trx.fn.now(), updated_at: trx.fn.now() })
+    if (n === 0) throw new HttpError(400, 'Complete the declaration first', { declaration: 'Complete the declaration first' })
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'practice.complete', subject: `round:${roundId}` })
+  })
   return roundEntry(db, user, roundId)
 }

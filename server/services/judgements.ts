@@ -159,6 +159,9 @@ export async function submitRound(db: Db, user: User, roundId: number) {
   }
   if (Object.keys(fields).length) throw new HttpError(400, 'Some answers are not complete yet', fields)
   await db.transaction(async (trx) => {
+    // Two submits at once: the second waits here and finds the round already submitted.
+    const locked = await trx('round_panel').where({ id: member.id }).forUpdate().first('submitted_at')
+    if (locked.submitted_at) throw new HttpError(409, 'You have already submitted this round')
     for (const j of judgements) {
       await trx('judgements').where({ id: j.id }).update({ status: 'submitted', submitted_at: trx.fn.now(), version: j.version + 1, updated_at: trx.fn.now() })
       await trx('judgement_versions').insert({
@@ -166,8 +169,8 @@ export async function submitRound(db: Db, user: User, roundId: number) {
       })
     }
     await trx('round_panel').where({ id: member.id }).update({ submitted_at: trx.fn.now() })
+    await recordAudit(trx, { actorId: user.id, studyId: round.study_id, action: 'round.submit', subject: `round:${roundId}`, details: { judgements: judgements.length } })
   })
-  await recordAudit(db, { actorId: user.id, studyId: round.study_id, action: 'round.submit', subject: `round:${roundId}`, details: { judgements: judgements.length } })
 }
 
 /** The analyst reopens an expert's submitted answers (history kept; the reason is audited). */
@@ -180,8 +183,8 @@ export async function reopenSubmission(db: Db, analyst: User, roundId: number, e
   await db.transaction(async (trx) => {
     await trx('judgements').where({ round_id: roundId, expert_id: expertId }).update({ status: 'draft', submitted_at: null, version: trx.raw('version + 1'), updated_at: trx.fn.now() })
     await trx('round_panel').where({ id: member.id }).update({ submitted_at: null })
+    await recordAudit(trx, { actorId: analyst.id, studyId: round.study_id, action: 'round.reopen', subject: `round:${roundId}`, details: { expertId, reason } })
   })
-  await recordAudit(db, { actorId: analyst.id, studyId: round.study_id, action: 'round.reopen', subject: `round:${roundId}`, details: { expertId, reason } })
 }
 
 /** Every saved version of one judgement, oldest first. */

@@ -100,9 +100,12 @@ async function assertSymbolFree(db: Db, studyId: number, symbol: string, exceptI
 
 export async function createQuantity(db: Db, user: User, studyId: number, body: QuantityBody): Promise<Quantity> {
   await assertSymbolFree(db, studyId, body.symbol)
-  const [{ max }] = await db('quantities').where({ study_id: studyId }).max('position as max')
-  const [row] = await db('quantities').insert({ ...columns(body), study_id: studyId, position: (max ?? 0) + 1 }).returning('*')
-  await recordAudit(db, { actorId: user.id, studyId, action: 'quantity.create', subject: `quantity:${row.id}`, details: { name: body.name, symbol: body.symbol, support: body.support } })
+  const row = await db.transaction(async (trx) => {
+    const [{ max }] = await trx('quantities').where({ study_id: studyId }).max('position as max')
+    const [r] = await trx('quantities').insert({ ...columns(body), study_id: studyId, position: (max ?? 0) + 1 }).returning('*')
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'quantity.create', subject: `quantity:${r.id}`, details: { name: body.name, symbol: body.symbol, support: body.support } })
+    return r
+  })
   return toQuantity(row)
 }
 
@@ -111,12 +114,14 @@ export async function updateQuantity(db: Db, user: User, id: number, body: Quant
   const before: QuantityRow | undefined = await db('quantities').where({ id }).first()
   if (!before) throw new HttpError(404, 'Quantity not found')
   await assertSymbolFree(db, before.study_id, body.symbol, id)
-  const n = await db('quantities').where({ id, version: body.version }).update({ ...columns(body), version: db.raw('version + 1'), updated_at: db.fn.now() })
-  if (n === 0) throw new HttpError(409, 'Someone else changed this quantity since you opened it; reload to see their version')
-  const changed = Object.entries(columns(body)).filter(([k, v]) => (before as unknown as Record<string, unknown>)[k] !== v).map(([k]) => k)
-  await recordAudit(db, {
-    actorId: user.id, studyId: before.study_id, action: 'quantity.update', subject: `quantity:${id}`,
-    details: { changed, before: { name: before.name, question: before.question, support: supportOf(before) }, after: { name: body.name, question: body.question, support: body.support } },
+  await db.transaction(async (trx) => {
+    const n = await trx('quantities').where({ id, version: body.version }).update({ ...columns(body), version: trx.raw('version + 1'), updated_at: trx.fn.now() })
+    if (n === 0) throw new HttpError(409, 'Someone else changed this quantity since you opened it; reload to see their version')
+    const changed = Object.entries(columns(body)).filter(([k, v]) => (before as unknown as Record<string, unknown>)[k] !== v).map(([k]) => k)
+    await recordAudit(trx, {
+      actorId: user.id, studyId: before.study_id, action: 'quantity.update', subject: `quantity:${id}`,
+      details: { changed, before: { name: before.name, question: before.question, support: supportOf(before) }, after: { name: body.name, question: body.question, support: body.support } },
+    })
   })
   return getQuantity(db, id)
 }
@@ -147,11 +152,14 @@ export async function addEvidenceFile(db: Db, user: User, quantityId: number, fi
   const mime = sniffEvidenceType(file.buffer, file.originalname)
   if (!mime) throw new HttpError(400, `Only ${Object.values(EVIDENCE_TYPES).join(', ')} files are accepted`, { file: 'Upload a PDF, CSV, PNG or JPEG file' })
   const filename = file.originalname.replace(/[\\/\u0000-\u001f]/g, '_').slice(0, 200)
-  const [row] = await db('evidence_files').insert({
-    quantity_id: quantityId, filename, mime_type: mime, size_bytes: file.buffer.length, content: file.buffer,
-    sha256: createHash('sha256').update(file.buffer).digest('hex'), uploaded_by: user.id,
-  }).returning(['id', 'filename', 'mime_type', 'size_bytes', 'created_at'])
-  await recordAudit(db, { actorId: user.id, studyId: q.study_id, action: 'evidence.upload', subject: `quantity:${quantityId}`, details: { fileId: row.id, filename, mime, bytes: file.buffer.length } })
+  const row = await db.transaction(async (trx) => {
+    const [r] = await trx('evidence_files').insert({
+      quantity_id: quantityId, filename, mime_type: mime, size_bytes: file.buffer.length, content: file.buffer,
+      sha256: createHash('sha256').update(file.buffer).digest('hex'), uploaded_by: user.id,
+    }).returning(['id', 'filename', 'mime_type', 'size_bytes', 'created_at'])
+    await recordAudit(trx, { actorId: user.id, studyId: q.study_id, action: 'evidence.upload', subject: `quantity:${quantityId}`, details: { fileId: r.id, filename, mime, bytes: file.buffer.length } })
+    return r
+  })
   return { id: row.id, filename: row.filename, mimeType: row.mime_type, sizeBytes: row.size_bytes, createdAt: row.created_at.toISOString() }
 }
 
@@ -164,8 +172,10 @@ export async function getEvidenceFile(db: Db, fileId: number) {
 
 export async function deleteEvidenceFile(db: Db, user: User, fileId: number) {
   const file = await getEvidenceFile(db, fileId)
-  await db('evidence_files').where({ id: fileId }).delete()
-  await recordAudit(db, { actorId: user.id, studyId: file.study_id, action: 'evidence.delete', subject: `quantity:${file.quantity_id}`, details: { fileId, filename: file.filename } })
+  await db.transaction(async (trx) => {
+    await trx('evidence_files').where({ id: fileId }).delete()
+    await recordAudit(trx, { actorId: user.id, studyId: file.study_id, action: 'evidence.delete', subject: `quantity:${file.quantity_id}`, details: { fileId, filename: file.filename } })
+  })
 }
 
 export async function listCalibrationQuestions(db: Db, studyId: number, withTrueValues: boolean) {
@@ -177,19 +187,24 @@ export async function listCalibrationQuestions(db: Db, studyId: number, withTrue
 }
 
 export async function createCalibrationQuestion(db: Db, user: User, studyId: number, body: { question: string; unit: string; trueValue: number | null }) {
-  const [{ max }] = await db('calibration_questions').where({ study_id: studyId }).max('position as max')
-  const [row] = await db('calibration_questions').insert({ study_id: studyId, question: body.question, unit: body.unit ?? '', true_value: body.trueValue, position: (max ?? 0) + 1 }).returning('*')
-  await recordAudit(db, { actorId: user.id, studyId, action: 'calibration.create', subject: `calibration:${row.id}`, details: { question: body.question, hasTrueValue: body.trueValue !== null } })
+  const row = await db.transaction(async (trx) => {
+    const [{ max }] = await trx('calibration_questions').where({ study_id: studyId }).max('position as max')
+    const [r] = await trx('calibration_questions').insert({ study_id: studyId, question: body.question, unit: body.unit ?? '', true_value: body.trueValue, position: (max ?? 0) + 1 }).returning('*')
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'calibration.create', subject: `calibration:${r.id}`, details: { question: body.question, hasTrueValue: body.trueValue !== null } })
+    return r
+  })
   return { id: row.id, studyId, question: row.question, unit: row.unit, trueValue: row.true_value, position: row.position, version: row.version }
 }
 
 export async function updateCalibrationQuestion(db: Db, user: User, id: number, body: { question: string; unit: string; trueValue: number | null; version: number }) {
   const before = await db('calibration_questions').where({ id }).first()
   if (!before) throw new HttpError(404, 'Calibration question not found')
-  const n = await db('calibration_questions').where({ id, version: body.version })
-    .update({ question: body.question, unit: body.unit ?? '', true_value: body.trueValue, version: db.raw('version + 1'), updated_at: db.fn.now() })
-  if (n === 0) throw new HttpError(409, 'Someone else changed this question since you opened it; reload to see their version')
-  await recordAudit(db, { actorId: user.id, studyId: before.study_id, action: 'calibration.update', subject: `calibration:${id}`, details: { trueValueBefore: before.true_value, trueValueAfter: body.trueValue, questionChanged: before.question !== body.question } })
+  await db.transaction(async (trx) => {
+    const n = await trx('calibration_questions').where({ id, version: body.version })
+      .update({ question: body.question, unit: body.unit ?? '', true_value: body.trueValue, version: trx.raw('version + 1'), updated_at: trx.fn.now() })
+    if (n === 0) throw new HttpError(409, 'Someone else changed this question since you opened it; reload to see their version')
+    await recordAudit(trx, { actorId: user.id, studyId: before.study_id, action: 'calibration.update', subject: `calibration:${id}`, details: { trueValueBefore: before.true_value, trueValueAfter: body.trueValue, questionChanged: before.question !== body.question } })
+  })
   const row = await db('calibration_questions').where({ id }).first()
   return { id: row.id, studyId: row.study_id, question: row.question, unit: row.unit, trueValue: row.true_value, position: row.position, version: row.version }
 }

@@ -183,7 +183,7 @@ export async function saveReconciliation(db: Db, user: User, quantityId: number,
     status: body.reconciled ? 'reconciled' : 'draft', reconciled_at: body.reconciled ? new Date() : null, reconciled_by: body.reconciled ? user.id : null,
   }
   const studyId = view.quantity.studyId
-  const saved = await db.transaction(async (trx) => {
+  await db.transaction(async (trx) => {
     const existing = await trx('reconciliations').where({ quantity_id: quantityId }).forUpdate().first()
     let r
     if (!existing) {
@@ -194,11 +194,10 @@ export async function saveReconciliation(db: Db, user: User, quantityId: number,
       ;[r] = await trx('reconciliations').where({ id: existing.id }).update({ ...row, version: existing.version + 1, updated_at: trx.fn.now() }).returning('*')
     }
     await trx('reconciliation_versions').insert({ reconciliation_id: r.id, version: r.version, snapshot: JSON.stringify({ ...row, weights: view.weights }), saved_by: user.id })
-    return r
-  })
-  await recordAudit(db, {
-    actorId: user.id, studyId, action: body.reconciled ? 'reconciliation.reconciled' : 'reconciliation.save', subject: `quantity:${quantityId}`,
-    details: { method: body.method, weights: row.weights_mode, family: row.family, adjusted: row.adjusted, version: saved.version },
+    await recordAudit(trx, {
+      actorId: user.id, studyId, action: body.reconciled ? 'reconciliation.reconciled' : 'reconciliation.save', subject: `quantity:${quantityId}`,
+      details: { method: body.method, weights: row.weights_mode, family: row.family, adjusted: row.adjusted, version: r.version },
+    })
   })
   return getReconciliation(db, quantityId, { roundId: body.roundId })
 }

@@ -3,7 +3,7 @@ import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import type { StudyAccess } from './access'
-import { canonicalJson, recordAudit, verifyAuditChain } from './audit'
+import { auditHead, canonicalJson, recordAudit, verifyAuditChain } from './audit'
 import { assembleRecord } from './record-content'
 
 export const contentHash = (content: unknown) => createHash('sha256').update(canonicalJson(content)).digest('hex')
@@ -51,7 +51,7 @@ export async function getRecord(db: Db, access: StudyAccess, version?: number) {
   const people = await db('users').whereIn('id', [row.signed_off_by].filter((x): x is number => x !== null)).select('id', 'display_name')
   const versions = await db('prior_records').where({ study_id: access.studyId }).select('version', 'status', 'content_hash', 'signed_off_at').orderBy('version', 'desc')
   const charts = await db('record_charts').where({ record_id: row.id }).pluck('symbol')
-  const chain = await verifyAuditChain(db)
+  const chain = await verifyAuditChain(db, access.studyId)
   const history = await db('audit_events as a').leftJoin('users as u', 'u.id', 'a.actor_id').where('a.study_id', access.studyId)
     .select('a.at', 'a.action', 'a.subject', 'u.display_name as actor', 'a.hash').orderBy('a.id')
   return {
@@ -79,8 +79,10 @@ async function transition(db: Db, row: RecordRow, from: RecordRow['status'][], c
 
 export async function setShowNames(db: Db, user: User, studyId: number, showNames: boolean) {
   const row = await ensureRecord(db, studyId)
-  await transition(db, row, ['draft'], { show_names: showNames })
-  await recordAudit(db, { actorId: user.id, studyId, action: 'record.names', subject: `record:v${row.version}`, details: { showNames } })
+  await db.transaction(async (trx) => {
+    await transition(trx, row, ['draft'], { show_names: showNames })
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'record.names', subject: `record:v${row.version}`, details: { showNames } })
+  })
 }
 
 /** draft → in review: the content is frozen into a snapshot with its SHA-256. */
@@ -92,8 +94,10 @@ export async function submitRecord(db: Db, user: User, studyId: number) {
   if (quantities.length === 0) throw new HttpError(400, 'The study has no quantities yet')
   if (missing.length) throw new HttpError(400, `Reconcile every quantity first: ${missing.join(', ')}`, { quantities: `Not reconciled: ${missing.join(', ')}` })
   const hash = contentHash(content)
-  await transition(db, row, ['draft'], { status: 'in_review', content: JSON.stringify(content), content_hash: hash, submitted_at: db.fn.now(), submitted_by: user.id })
-  await recordAudit(db, { actorId: user.id, studyId, action: 'record.submit', subject: `record:v${row.version}`, details: { contentHash: hash } })
+  await db.transaction(async (trx) => {
+    await transition(trx, row, ['draft'], { status: 'in_review', content: JSON.stringify(content), content_hash: hash, submitted_at: trx.fn.now(), submitted_by: user.id })
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'record.submit', subject: `record:v${row.version}`, details: { contentHash: hash } })
+  })
 }
 
 /** in review → draft, with the reviewer's reasons as a comment. */
@@ -105,15 +109,17 @@ export async function returnRecord(db: Db, user: User, studyId: number, comment:
     const n = await trx('prior_records').where({ id: row.id, row_version: row.row_version })
       .update({ status: 'draft', content: null, content_hash: null, row_version: row.row_version + 1, updated_at: trx.fn.now() })
     if (n === 0) throw new HttpError(409, 'The record changed since you loaded it; reload')
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'record.return', subject: `record:v${row.version}`, details: { section } })
   })
-  await recordAudit(db, { actorId: user.id, studyId, action: 'record.return', subject: `record:v${row.version}`, details: { section } })
 }
 
 export async function addComment(db: Db, user: User, studyId: number, section: string, body: string) {
   const row = await ensureRecord(db, studyId)
   if (row.status === 'signed_off') throw new HttpError(409, 'A signed-off record takes no more comments; start a new version')
-  await db('record_comments').insert({ record_id: row.id, section, body, author_id: user.id })
-  await recordAudit(db, { actorId: user.id, studyId, action: 'record.comment', subject: `record:v${row.version}`, details: { section } })
+  await db.transaction(async (trx) => {
+    await trx('record_comments').insert({ record_id: row.id, section, body, author_id: user.id })
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'record.comment', subject: `record:v${row.version}`, details: { section } })
+  })
 }
 
 /**
@@ -125,17 +131,20 @@ export async function signOffRecord(db: Db, user: User, studyId: number) {
   if (row.status !== 'in_review') throw new HttpError(409, 'Only a record in review can be signed off')
   const check = contentHash(row.content)
   if (check !== row.content_hash) throw new HttpError(409, 'The stored snapshot does not match its hash; it has been altered')
-  await recordAudit(db, { actorId: user.id, studyId, action: 'record.sign-off', subject: `record:v${row.version}`, details: { contentHash: row.content_hash } })
-  const head = (await db('audit_events').orderBy('id', 'desc').first('hash')).hash
-  await transition(db, row, ['in_review'], { status: 'signed_off', signed_off_at: db.fn.now(), signed_off_by: user.id, audit_head: head })
+  await db.transaction(async (trx) => {
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'record.sign-off', subject: `record:v${row.version}`, details: { contentHash: row.content_hash } })
+    await transition(trx, row, ['in_review'], { status: 'signed_off', signed_off_at: trx.fn.now(), signed_off_by: user.id, audit_head: await auditHead(trx, studyId) })
+  })
 }
 
 /** A signed-off version stays as it is; work continues in a new draft version. */
 export async function newVersion(db: Db, user: User, studyId: number) {
   const row = await ensureRecord(db, studyId)
   if (row.status !== 'signed_off') throw new HttpError(409, 'A new version starts from a signed-off record')
-  await db('prior_records').insert({ study_id: studyId, version: row.version + 1, based_on: row.id, show_names: row.show_names })
-  await recordAudit(db, { actorId: user.id, studyId, action: 'record.new-version', subject: `record:v${row.version + 1}`, details: { basedOn: row.version } })
+  await db.transaction(async (trx) => {
+    await trx('prior_records').insert({ study_id: studyId, version: row.version + 1, based_on: row.id, show_names: row.show_names })
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'record.new-version', subject: `record:v${row.version + 1}`, details: { basedOn: row.version } })
+  })
 }
 
 export async function saveChart(db: Db, studyId: number, symbol: string, png: Buffer) {

@@ -92,9 +92,9 @@ export async function createRound(db: Db, user: User, studyId: number, body: Rou
       practice_answer: body.practiceAnswer,
     }).returning('id')
     await trx('round_items').insert(itemRows(row.id, body.items))
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'round.create', subject: `round:${row.id}`, details: { title: body.title, quantities: body.items.map((i) => i.quantityId) } })
     return row.id as number
   })
-  await recordAudit(db, { actorId: user.id, studyId, action: 'round.create', subject: `round:${id}`, details: { title: body.title, quantities: body.items.map((i) => i.quantityId) } })
   return id
 }
 
@@ -224,6 +224,7 @@ export async function updateRound(db: Db, user: User, id: number, body: RoundUpd
   for (const [k, col] of map) if (body[k] !== undefined) changes[col] = body[k]
   if (body.closesAt && r.reminder_sent_at && body.closesAt > r.closes_at) changes.reminder_sent_at = null
 
+  const extended = r.status === 'open' && body.closesAt && body.closesAt.getTime() !== r.closes_at.getTime()
   await db.transaction(async (trx) => {
     const n = await trx('rounds').where({ id, version: body.version }).update({ ...changes, version: trx.raw('version + 1'), updated_at: trx.fn.now() })
     if (n === 0) throw new HttpError(409, 'Someone else changed this round since you opened it; reload to see their version')
@@ -231,11 +232,10 @@ export async function updateRound(db: Db, user: User, id: number, body: RoundUpd
       await trx('round_items').where({ round_id: id }).delete()
       await trx('round_items').insert(itemRows(id, body.items))
     }
-  })
-  const extended = r.status === 'open' && body.closesAt && body.closesAt.getTime() !== r.closes_at.getTime()
-  await recordAudit(db, {
-    actorId: user.id, studyId: r.study_id, action: extended ? 'round.extend' : 'round.update', subject: `round:${id}`,
-    details: { changed: Object.keys(changes), ...(extended ? { closesAtBefore: r.closes_at.toISOString(), closesAtAfter: body.closesAt!.toISOString() } : {}) },
+    await recordAudit(trx, {
+      actorId: user.id, studyId: r.study_id, action: extended ? 'round.extend' : 'round.update', subject: `round:${id}`,
+      details: { changed: Object.keys(changes), ...(extended ? { closesAtBefore: r.closes_at.toISOString(), closesAtAfter: body.closesAt!.toISOString() } : {}) },
+    })
   })
 }
 
@@ -253,17 +253,20 @@ export async function openRound(ctx: AppContext, user: User, id: number) {
     await trx('studies').where({ id: r.study_id, status: 'framing' }).update({ status: 'eliciting', updated_at: trx.fn.now() })
     const ids: number[] = []
     for (const member of panel) ids.push(await sendPanelInvitation(trx, ctx, user, r, member))
+    await recordAudit(trx, { actorId: user.id, studyId: r.study_id, action: 'round.open', subject: `round:${id}`, details: { notified: ids.length } })
     return ids
   })
-  await recordAudit(db, { actorId: user.id, studyId: r.study_id, action: 'round.open', subject: `round:${id}`, details: { notified: outboxIds.length } })
   await ctx.kickMail(outboxIds)
 }
 
 export async function closeRound(db: Db, user: User, id: number) {
   const r = await roundRow(db, id)
   if (r.status !== 'open') throw new HttpError(409, r.status === 'draft' ? 'The round has not been opened' : `The round is already ${r.status}`)
-  await db('rounds').where({ id }).update({ status: 'closed', closed_at: db.fn.now(), version: db.raw('version + 1'), updated_at: db.fn.now() })
-  await recordAudit(db, { actorId: user.id, studyId: r.study_id, action: 'round.close', subject: `round:${id}`, details: { early: r.closes_at.getTime() > Date.now() } })
+  await db.transaction(async (trx) => {
+    const n = await trx('rounds').where({ id, status: 'open' }).update({ status: 'closed', closed_at: trx.fn.now(), version: trx.raw('version + 1'), updated_at: trx.fn.now() })
+    if (n === 0) throw new HttpError(409, 'The round was closed at the same moment')
+    await recordAudit(trx, { actorId: user.id, studyId: r.study_id, action: 'round.close', subject: `round:${id}`, details: { early: r.closes_at.getTime() > Date.now() } })
+  })
 }
 
 /** Adds an expert to the panel by e-mail. When the round is open they are notified at once. */
@@ -281,9 +284,10 @@ export async function addPanelMember(ctx: AppContext, user: User, roundId: numbe
     if (account) {
       await trx('study_members').insert({ study_id: r.study_id, user_id: account.id, study_role: 'expert' }).onConflict(['study_id', 'user_id']).ignore()
     }
-    return r.status === 'open' ? [await sendPanelInvitation(trx, ctx, user, r, member)] : []
+    const ids = r.status === 'open' ? [await sendPanelInvitation(trx, ctx, user, r, member)] : []
+    await recordAudit(trx, { actorId: user.id, studyId: r.study_id, action: 'panel.add', subject: `round:${roundId}`, details: { email, hasAccount: !!account, notified: ids.length > 0 } })
+    return ids
   })
-  await recordAudit(db, { actorId: user.id, studyId: r.study_id, action: 'panel.add', subject: `round:${roundId}`, details: { email, hasAccount: !!account, notified: outboxIds.length > 0 } })
   await ctx.kickMail(outboxIds)
 }
 
@@ -294,8 +298,10 @@ export async function removePanelMember(db: Db, user: User, roundId: number, pan
   if (member.user_id && (await db('judgements').where({ round_id: roundId, expert_id: member.user_id }).first('id'))) {
     throw new HttpError(409, 'This expert has already answered; their judgements stay in the record')
   }
-  await db('round_panel').where({ id: panelId }).delete()
-  await recordAudit(db, { actorId: user.id, studyId: r.study_id, action: 'panel.remove', subject: `round:${roundId}`, details: { email: member.email } })
+  await db.transaction(async (trx) => {
+    await trx('round_panel').where({ id: panelId }).delete()
+    await recordAudit(trx, { actorId: user.id, studyId: r.study_id, action: 'panel.remove', subject: `round:${roundId}`, details: { email: member.email } })
+  })
 }
 
 /** Resend: a new single-use link replaces the old one (or a fresh notice for an account holder). */
@@ -305,16 +311,21 @@ export async function resendInvitation(ctx: AppContext, user: User, roundId: num
   if (r.status !== 'open') throw new HttpError(409, 'Invitations are sent while the round is open')
   const member = await db('round_panel').where({ id: panelId, round_id: roundId }).first()
   if (!member) throw new HttpError(404, 'Panel member not found')
-  const ids = await db.transaction(async (trx) => [await sendPanelInvitation(trx, ctx, user, r, member)])
-  await recordAudit(db, { actorId: user.id, studyId: r.study_id, action: 'invitation.resend', subject: `round:${roundId}`, details: { email: member.email } })
+  const ids = await db.transaction(async (trx) => {
+    const id = await sendPanelInvitation(trx, ctx, user, r, member)
+    await recordAudit(trx, { actorId: user.id, studyId: r.study_id, action: 'invitation.resend', subject: `round:${roundId}`, details: { email: member.email } })
+    return [id]
+  })
   await ctx.kickMail(ids)
 }
 
 export async function revokeInvitation(db: Db, user: User, roundId: number, panelId: number) {
   const r = await roundRow(db, roundId)
-  const n = await db('invitations').where({ panel_id: panelId, round_id: roundId }).whereNull('revoked_at').whereNull('accepted_at').update({ revoked_at: db.fn.now() })
-  if (n === 0) throw new HttpError(404, 'No open invitation for this panel member')
-  await recordAudit(db, { actorId: user.id, studyId: r.study_id, action: 'invitation.revoke', subject: `round:${roundId}`, details: { panelId } })
+  await db.transaction(async (trx) => {
+    const n = await trx('invitations').where({ panel_id: panelId, round_id: roundId }).whereNull('revoked_at').whereNull('accepted_at').update({ revoked_at: trx.fn.now() })
+    if (n === 0) throw new HttpError(404, 'No open invitation for this panel member')
+    await recordAudit(trx, { actorId: user.id, studyId: r.study_id, action: 'invitation.revoke', subject: `round:${roundId}`, details: { panelId } })
+  })
 }
 
 /** Who opened, who submitted, per quantity. */
@@ -344,12 +355,14 @@ export async function roundProgress(db: Db, roundId: number) {
 /** Sends due reminders and closes rounds past their closing time; safe to run from several instances. */
 export async function runRoundSchedule(ctx: AppContext, now = new Date()) {
   const { db } = ctx
-  const closed = await db('rounds').where('status', 'open').where('closes_at', '<=', now)
-    .update({ status: 'closed', closed_at: now, version: db.raw('version + 1'), updated_at: now }).returning(['id', 'study_id'])
-  for (const r of closed) await recordAudit(db, { actorId: null, studyId: r.study_id, action: 'round.close', subject: `round:${r.id}`, details: { automatic: true } })
+  const closed = await db.transaction(async (trx) => {
+    const rows = await trx('rounds').where('status', 'open').where('closes_at', '<=', now)
+      .update({ status: 'closed', closed_at: now, version: trx.raw('version + 1'), updated_at: now }).returning(['id', 'study_id'])
+    for (const r of rows) await recordAudit(trx, { actorId: null, studyId: r.study_id, action: 'round.close', subject: `round:${r.id}`, details: { automatic: true } })
+    return rows
+  })
 
   const outboxIds: number[] = []
-  const reminded: { id: number; study_id: number; count: number }[] = []
   await db.transaction(async (trx) => {
     const due: RoundRow[] = await trx('rounds').where('status', 'open').whereNull('reminder_sent_at').whereNotNull('reminder_hours_before')
       .whereRaw(`closes_at - make_interval(hours => reminder_hours_before) <= ?`, [now]).forUpdate().skipLocked().select('*')
@@ -357,10 +370,9 @@ export async function runRoundSchedule(ctx: AppContext, now = new Date()) {
       const pending = await trx('round_panel').where({ round_id: r.id }).whereNull('submitted_at').select('*')
       for (const member of pending) outboxIds.push(await sendReminder(trx, ctx, r, member))
       await trx('rounds').where({ id: r.id }).update({ reminder_sent_at: now })
-      reminded.push({ id: r.id, study_id: r.study_id, count: pending.length })
+      await recordAudit(trx, { actorId: null, studyId: r.study_id, action: 'round.reminders', subject: `round:${r.id}`, details: { sent: pending.length } })
     }
   })
-  for (const r of reminded) await recordAudit(db, { actorId: null, studyId: r.study_id, action: 'round.reminders', subject: `round:${r.id}`, details: { sent: r.count } })
   await ctx.kickMail(outboxIds)
   return { closed: closed.length, reminders: outboxIds.length }
 }

@@ -89,20 +89,22 @@ export async function createStudy(db: Db, user: User, body: { title: string; con
   const id = await db.transaction(async (trx) => {
     const [row] = await trx('studies').insert({ title: body.title, context: body.context, owner_id: user.id }).returning('id')
     await trx('study_members').insert({ study_id: row.id, user_id: user.id, study_role: 'analyst' })
+    await recordAudit(trx, { actorId: user.id, studyId: row.id, action: 'study.create', subject: `study:${row.id}`, details: { title: body.title } })
     return row.id as number
   })
-  await recordAudit(db, { actorId: user.id, studyId: id, action: 'study.create', subject: `study:${id}`, details: { title: body.title } })
   return getStudySummary(db, user, id)
 }
 
 /** Optimistic update: a stale version answers 409 and changes nothing. */
 export async function updateStudy(db: Db, user: User, id: number, body: { title: string; context: string; version: number }): Promise<StudySummary> {
-  const before = await db('studies').where({ id }).first('title', 'context', 'version')
-  if (!before) throw new HttpError(404, 'Study not found')
-  const n = await db('studies').where({ id, version: body.version })
-    .update({ title: body.title, context: body.context, version: db.raw('version + 1'), updated_at: db.fn.now() })
-  if (n === 0) throw new HttpError(409, 'Someone else changed this study since you opened it; reload to see their version')
-  await recordAudit(db, { actorId: user.id, studyId: id, action: 'study.update', subject: `study:${id}`, details: { before: { title: before.title }, after: { title: body.title }, contextChanged: before.context !== body.context } })
+  await db.transaction(async (trx) => {
+    const before = await trx('studies').where({ id }).first('title', 'context', 'version')
+    if (!before) throw new HttpError(404, 'Study not found')
+    const n = await trx('studies').where({ id, version: body.version })
+      .update({ title: body.title, context: body.context, version: trx.raw('version + 1'), updated_at: trx.fn.now() })
+    if (n === 0) throw new HttpError(409, 'Someone else changed this study since you opened it; reload to see their version')
+    await recordAudit(trx, { actorId: user.id, studyId: id, action: 'study.update', subject: `study:${id}`, details: { before: { title: before.title }, after: { title: body.title }, contextChanged: before.context !== body.context } })
+  })
   return getStudySummary(db, user, id)
 }
 
@@ -114,17 +116,21 @@ export async function addMember(db: Db, actor: User, studyId: number, userId: nu
   if (!allowed[studyRole].includes(target.role)) {
     throw new HttpError(400, `A ${target.role} account cannot be this study's ${studyRole}`, { studyRole: `Not for a ${target.role} account` })
   }
-  const before = await db('study_members').where({ study_id: studyId, user_id: userId }).first('study_role')
-  await db('study_members').insert({ study_id: studyId, user_id: userId, study_role: studyRole }).onConflict(['study_id', 'user_id']).merge(['study_role'])
-  await recordAudit(db, { actorId: actor.id, studyId, action: 'study.member', subject: `user:${userId}`, details: { before: before?.study_role ?? null, after: studyRole } })
+  await db.transaction(async (trx) => {
+    const before = await trx('study_members').where({ study_id: studyId, user_id: userId }).first('study_role')
+    await trx('study_members').insert({ study_id: studyId, user_id: userId, study_role: studyRole }).onConflict(['study_id', 'user_id']).merge(['study_role'])
+    await recordAudit(trx, { actorId: actor.id, studyId, action: 'study.member', subject: `user:${userId}`, details: { before: before?.study_role ?? null, after: studyRole } })
+  })
 }
 
 export async function removeMember(db: Db, actor: User, studyId: number, userId: number) {
   const study = await db('studies').where({ id: studyId }).first('owner_id')
   if (study?.owner_id === userId) throw new HttpError(400, 'The study owner cannot be removed')
-  const n = await db('study_members').where({ study_id: studyId, user_id: userId }).delete()
-  if (n === 0) throw new HttpError(404, 'Not a member of this study')
-  await recordAudit(db, { actorId: actor.id, studyId, action: 'study.member-remove', subject: `user:${userId}` })
+  await db.transaction(async (trx) => {
+    const n = await trx('study_members').where({ study_id: studyId, user_id: userId }).delete()
+    if (n === 0) throw new HttpError(404, 'Not a member of this study')
+    await recordAudit(trx, { actorId: actor.id, studyId, action: 'study.member-remove', subject: `user:${userId}` })
+  })
 }
 
 /** The study's audit trail, newest first. */

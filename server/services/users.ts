@@ -1,4 +1,5 @@
 import bcrypt from 'bcryptjs'
+import { normaliseEmail } from '../../shared/schemas/auth'
 import type { Role, User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
@@ -15,6 +16,8 @@ interface UserRow {
 }
 
 const BCRYPT_COST = 10
+/** A hash of no one's password at the same cost: unknown and disabled accounts take as long to refuse as a wrong password. */
+const DUMMY_HASH = '$2b$10$fZqvjp3eClntf3TNw635fOllKOXt.O74VD.t8cr9iwIzsupSAwkwe'
 
 export function toUser(r: UserRow): User {
   return {
@@ -35,10 +38,9 @@ export async function findUserById(db: Db, id: number): Promise<User | null> {
 
 /** Returns the user when the password matches an enabled account, else null (no hint which part failed). */
 export async function verifyCredentials(db: Db, email: string, password: string): Promise<User | null> {
-  const row = await db<UserRow>('users').whereRaw('lower(email) = lower(?)', [email.trim()]).first()
-  if (!row || row.disabled) return null
-  const ok = await bcrypt.compare(password, row.password_hash)
-  return ok ? toUser(row) : null
+  const row = await db<UserRow>('users').whereRaw('lower(email) = lower(?)', [normaliseEmail(email)]).first()
+  const ok = await bcrypt.compare(password, row && !row.disabled ? row.password_hash : DUMMY_HASH)
+  return ok && row && !row.disabled ? toUser(row) : null
 }
 
 export async function listUsers(db: Db): Promise<User[]> {

@@ -1,6 +1,6 @@
 import { array, boolean, date, number, object, string, type InferType } from 'yup'
 import { displayNameRule } from './users'
-import { passwordRule } from './auth'
+import { emailRule, passwordRule } from './auth'
 import { versionRule } from './quantities'
 
 export const ELICITATION_METHODS = ['quantile', 'fixed-interval', 'chip-grid'] as const
@@ -81,7 +81,7 @@ export const roundUpdateSchema = object({
 export type RoundUpdateBody = InferType<typeof roundUpdateSchema>
 
 export const invitationSchema = object({
-  email: string().trim().lowercase().required('Enter an e-mail address').email('Enter a valid e-mail address').max(254),
+  email: emailRule('Enter an e-mail address'),
   name: displayNameRule,
 }).noUnknown('Unknown field: ${unknown}')
 

@@ -1,11 +1,11 @@
 import { boolean, object, string, type InferType } from 'yup'
 import { ROLES } from '../types/index'
-import { passwordRule } from './auth'
+import { emailRule, passwordRule } from './auth'
 
 export const displayNameRule = string().trim().required('Enter a display name').min(2, 'Use at least 2 characters').max(100, 'Use at most 100 characters')
 
 export const userCreateSchema = object({
-  email: string().trim().lowercase().required('Enter an e-mail address').email('Enter a valid e-mail address').max(254),
+  email: emailRule('Enter an e-mail address'),
   displayName: displayNameRule,
   role: string().required('Choose a role').oneOf([...ROLES], 'Choose one of: admin, analyst, expert, reviewer'),
   password: passwordRule,

@@ -1,0 +1,118 @@
+import { createHash } from 'node:crypto'
+import type { Request, RequestHandler } from 'express'
+import rateLimit, { ipKeyGenerator, type ClientRateLimitInfo, type Options, type Store } from 'express-rate-limit'
+import pg from 'pg'
+import { normaliseEmail } from '../../shared/schemas/auth'
+import { waitUntilIdle } from '../idle'
+
+const WINDOW_MS = 15 * 60 * 1000
+/** Failed sign-ins are kept this long for review, then deleted. */
+const FAILURE_RETENTION_DAYS = 90
+/** How many times the per-account-and-address limit an address (over all accounts) or an account (over all addresses) may fail. */
+export const CEILING_FACTOR = 5
+const TOO_MANY = 'Too many sign-in attempts. Wait 15 minutes and try again.'
+
+/**
+ * express-rate-limit's counters in PostgreSQL, so that every app instance counts the same attempts. One statement per
+ * hit: it starts a new window when the old one has passed.
+ */
+class PostgresStore implements Store {
+  localKeys = false
+  private windowMs = WINDOW_MS
+  constructor(private pool: pg.Pool, readonly prefix: string) {}
+
+  init(options: Options) {
+    this.windowMs = options.windowMs
+  }
+
+  private key(raw: string) {
+    return this.prefix + createHash('sha256').update(raw).digest('hex')
+  }
+
+  async increment(raw: string): Promise<ClientRateLimitInfo> {
+    const { rows } = await this.pool.query(
+      `INSERT INTO rate_limit_hits (key, hits, reset_at) VALUES ($1, 1, now() + make_interval(secs => $2))
+       ON CONFLICT (key) DO UPDATE SET
+         hits = CASE WHEN rate_limit_hits.reset_at <= now() THEN 1 ELSE rate_limit_hits.hits + 1 END,
+         reset_at = CASE WHEN rate_limit_hits.reset_at <= now() THEN EXCLUDED.reset_at ELSE rate_limit_hits.reset_at END
+       RETURNING hits, reset_at`,
+      [this.key(raw), this.windowMs / 1000],
+    )
+    return { totalHits: rows[0].hits, resetTime: rows[0].reset_at }
+  }
+
+  async decrement(raw: string) {
+    await this.pool.query('UPDATE rate_limit_hits SET hits = greatest(hits - 1, 0) WHERE key = $1 AND reset_at > now()', [this.key(raw)])
+  }
+
+  async resetKey(raw: string) {
+    await this.pool.query('DELETE FROM rate_limit_hits WHERE key = $1', [this.key(raw)])
+  }
+}
+
+/** The sign-in form's e-mail in its normal form (what the limits count and the account look-up uses). */
+const emailOf = (req: Request) => normaliseEmail(typeof req.body?.email === 'string' ? req.body.email : '')
+const addressOf = (req: Request) => ipKeyGenerator(req.ip ?? '')
+
+export interface SignInGuard {
+  /** Run before the sign-in handler; the first limit reached answers 429 and the others are not counted. */
+  limiters: RequestHandler[]
+  /** Counts one failed sign-in in the bounded failure log (not the audit chain). */
+  recordFailure(req: Request): Promise<void>
+  close(): Promise<void>
+}
+
+/**
+ * Sign-in limits over three keys: the address and account together (a typo-prone user does not lock out a shared
+ * office), the address over every account (one client trying many e-mails), and the account over every address
+ * (many clients guessing one password). Counters and the failure log live in PostgreSQL on a small pool of their own,
+ * so a flood of sign-ins waits there and not on the connections everyone else's requests use.
+ */
+export function createSignInGuard(opts: { databaseUrl: string; limitPerWindow: number }): SignInGuard {
+  const pool = new pg.Pool({ connectionString: opts.databaseUrl, max: 3 })
+  pool.on('error', (err) => console.error('sign-in guard pool error:', err.message))
+  const limiter = (prefix: string, limit: number, key: (req: Request) => string, onlyFailures: boolean) => rateLimit({
+    windowMs: WINDOW_MS,
+    limit,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    identifier: prefix,
+    store: new PostgresStore(pool, prefix),
+    keyGenerator: key,
+    skipSuccessfulRequests: onlyFailures,
+    handler: (_req, res) => {
+      res.status(429).json({ error: { message: TOO_MANY } })
+    },
+  })
+  const ceiling = opts.limitPerWindow * CEILING_FACTOR
+  const limiters = [
+    limiter('address:', ceiling, addressOf, true),
+    limiter('account:', ceiling, emailOf, true),
+    limiter('pair:', opts.limitPerWindow, (req) => `${addressOf(req)}|${emailOf(req)}`, false),
+  ]
+
+  async function recordFailure(req: Request) {
+    await pool.query(
+      `INSERT INTO sign_in_failures (hour, address, email, attempts, last_at) VALUES (date_trunc('hour', now()), $1, $2, 1, now())
+       ON CONFLICT (hour, address, email) DO UPDATE SET attempts = sign_in_failures.attempts + 1, last_at = now()`,
+      [addressOf(req).slice(0, 64), emailOf(req).slice(0, 254)],
+    )
+  }
+
+  const prune = () => Promise.all([
+    pool.query('DELETE FROM rate_limit_hits WHERE reset_at < now()'),
+    pool.query(`DELETE FROM sign_in_failures WHERE hour < now() - make_interval(days => $1)`, [FAILURE_RETENTION_DAYS]),
+  ]).catch((err) => console.error('[priorsmith] sign-in guard prune:', err.message))
+  const pruning = setInterval(prune, WINDOW_MS)
+  pruning.unref()
+
+  return {
+    limiters,
+    recordFailure,
+    close: async () => {
+      clearInterval(pruning)
+      await waitUntilIdle(() => pool.waitingCount === 0 && pool.idleCount === pool.totalCount, 5000)
+      await pool.end()
+    },
+  }
+}
