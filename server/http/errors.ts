@@ -1,5 +1,6 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express'
 import { ValidationError, type AnyObjectSchema, type InferType } from 'yup'
+import { EngineInputError } from '../../shared/stats/errors'
 
 /** An error with an HTTP status and, for 400s, messages per field. */
 export class HttpError extends Error {
@@ -48,13 +49,33 @@ function forbiddenKeys(value: unknown, path: string, out: Record<string, string>
   }
 }
 
+/** A NUL, or half of a UTF-16 surrogate pair: PostgreSQL cannot store the first, and JSON/UTF-8 cannot carry the second. */
+const UNSTORABLE = /\u0000|[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/
+export const UNSTORABLE_MESSAGE = 'Contains a character that cannot be stored (a NUL or a broken Unicode character); remove it and try again'
+
+/** Finds text, in values and in key names, that the database would refuse: refused here, before anything is written. */
+function unstorableText(value: unknown, path: string, out: Record<string, string>, depth = 0): void {
+  if (typeof value === 'string') {
+    if (UNSTORABLE.test(value)) out[path || '_'] = UNSTORABLE_MESSAGE
+    return
+  }
+  if (depth > 20 || value === null || typeof value !== 'object') return
+  for (const [key, child] of Object.entries(value)) {
+    const where = Array.isArray(value) ? `${path}[${key}]` : path ? `${path}.${key}` : key
+    if (UNSTORABLE.test(key)) out[where] = UNSTORABLE_MESSAGE
+    else unstorableText(child, where, out, depth + 1)
+  }
+}
+
 /** Validates a body with a shared yup schema; throws 400 with one message per field. */
 export async function validateBody<S extends AnyObjectSchema>(schema: S, body: unknown): Promise<InferType<S>> {
   if (body === null || typeof body !== 'object' || Array.isArray(body)) {
     throw new HttpError(400, 'The request body must be a JSON object')
   }
-  const shape: Record<string, string> = {}
+  // No prototype: a top-level "__proto__" key must become a field of the report, not its prototype.
+  const shape: Record<string, string> = Object.create(null)
   forbiddenKeys(body, '', shape)
+  unstorableText(body, '', shape)
   if (Object.keys(shape).length) throw new HttpError(400, 'Some fields need attention', shape)
   shapeErrors(schema.describe() as unknown as Description, body, '', shape)
   if (Object.keys(shape).length) throw new HttpError(400, 'Some fields need attention', shape)
@@ -89,6 +110,21 @@ function isDatabaseUnavailable(err: { code?: string; message?: string } | undefi
     || /Connection terminated|connect ECONNREFUSED|Knex: Timeout acquiring a connection|the database system is (starting up|shutting down)/i.test(err?.message ?? '')
 }
 
+const UNIQUE_VIOLATION = '23505'
+/** PostgreSQL refusing text: an invalid byte sequence (a NUL) or a character it cannot represent. */
+const UNSTORABLE_CODES = ['22021', '22P05']
+
+/** Two requests racing past a check-then-insert meet a unique key: the loser hears why, by constraint. */
+const UNIQUE_MESSAGES: Record<string, { message: string; field?: string }> = {
+  quantities_study_symbol_ci_idx: { message: 'Another quantity in this study uses this symbol', field: 'symbol' },
+  quantities_study_id_symbol_unique: { message: 'Another quantity in this study uses this symbol', field: 'symbol' },
+  round_panel_round_id_email_unique: { message: 'This expert was added to the panel at the same moment', field: 'email' },
+  calibration_answers_round_id_question_id_expert_id_unique: { message: 'This answer was saved from another window or device at the same moment; reload to continue from it' },
+  judgements_round_id_quantity_id_expert_id_unique: { message: 'This answer was saved from another window or device at the same moment; reload to continue from it' },
+  judgement_versions_judgement_id_version_unique: { message: 'Your answers were submitted from another window or device at the same moment' },
+  users_email_lower_idx: { message: 'This e-mail address is already registered', field: 'email' },
+}
+
 /** The one error handler: every error leaves as `{ error: { message, fields? } }`. */
 export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   if (err instanceof HttpError) {
@@ -119,6 +155,19 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   }
   if (status >= 400 && status < 500) {
     res.status(status).json({ error: { message: String(err.message || 'Bad request') } })
+    return
+  }
+  if (err instanceof EngineInputError) {
+    res.status(400).json({ error: { message: err.message, fields: { [err.field]: err.message } } })
+    return
+  }
+  if (err?.code === UNIQUE_VIOLATION) {
+    const known = UNIQUE_MESSAGES[String(err.constraint)]
+    res.status(409).json({ error: { message: known?.message ?? 'The same thing was saved by another request at the same moment; reload and try again', ...(known?.field ? { fields: { [known.field]: known.message } } : {}) } })
+    return
+  }
+  if (UNSTORABLE_CODES.includes(err?.code)) {
+    res.status(400).json({ error: { message: UNSTORABLE_MESSAGE } })
     return
   }
   if (isDatabaseUnavailable(err)) {

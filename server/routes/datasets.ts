@@ -1,26 +1,14 @@
-import { Router, type Request, type Response } from 'express'
-import multer from 'multer'
+import { Router } from 'express'
 import { PILOT_MAX_BYTES } from '../../shared/elicitation/pilot'
 import { pilotUploadSchema } from '../../shared/schemas/pilot'
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { HttpError, idParam, validateBody } from '../http/errors'
+import { fileReceiver } from '../http/upload'
 import { allow, studyAccess } from '../services/access'
 import { createDataset, getDataset, listDatasets, previewCsv, type UploadFields } from '../services/datasets'
 
-const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: PILOT_MAX_BYTES, files: 1, fields: 20 } })
-
-function receiveFile(req: Request, res: Response): Promise<void> {
-  return new Promise((resolve, reject) => {
-    upload.single('file')(req, res, (err: unknown) => {
-      if (err instanceof multer.MulterError) {
-        const message = err.code === 'LIMIT_FILE_SIZE' ? 'Pilot data files may be at most 2 MB.' : `Upload refused: ${err.message}`
-        reject(new HttpError(400, message, { file: message }))
-      } else if (err) reject(err)
-      else resolve()
-    })
-  })
-}
+const receiveFile = fileReceiver({ maxBytes: PILOT_MAX_BYTES, fields: 20, tooLarge: 'Pilot data files may be at most 2 MB.' })
 
 /** Pilot data: CSV uploads mapped to a likelihood model, versioned per quantity. */
 export function datasetsRouter(db: Db): Router {

@@ -1,13 +1,13 @@
 import { Router } from 'express'
-import multer from 'multer'
 import { EVIDENCE_MAX_BYTES, quantitySchema, quantityUpdateSchema } from '../../shared/schemas/quantities'
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { HttpError, idParam, validateBody } from '../http/errors'
+import { fileReceiver } from '../http/upload'
 import { allow, studyAccess, accessVia } from '../services/access'
 import { addEvidenceFile, createQuantity, deleteEvidenceFile, getEvidenceFile, getQuantity, listQuantities, updateQuantity } from '../services/quantities'
 
-const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: EVIDENCE_MAX_BYTES, files: 1, fields: 5 } })
+const receiveFile = fileReceiver({ maxBytes: EVIDENCE_MAX_BYTES, fields: 5, tooLarge: 'Files may be at most 5 MB' })
 
 /** Quantities of a study and their evidence files. */
 export function quantitiesRouter(db: Db): Router {
@@ -47,15 +47,7 @@ export function quantitiesRouter(db: Db): Router {
     const id = idParam(req.params.id, 'Quantity')
     const access = await accessVia(db, user, 'quantities', id, 'Quantity')
     allow(access, 'analyst')
-    await new Promise<void>((resolve, reject) => {
-      upload.single('file')(req, res, (err: unknown) => {
-        if (err instanceof multer.MulterError) {
-          const message = err.code === 'LIMIT_FILE_SIZE' ? 'Files may be at most 5 MB' : `Upload refused: ${err.message}`
-          reject(new HttpError(400, message, { file: message }))
-        } else if (err) reject(err)
-        else resolve()
-      })
-    })
+    await receiveFile(req, res)
     if (!req.file) throw new HttpError(400, 'Choose a file to upload', { file: 'Choose a file to upload' })
     res.status(201).json(await addEvidenceFile(db, access.user, id, req.file))
   })

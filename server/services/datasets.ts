@@ -89,7 +89,7 @@ export async function createDataset(db: Db, user: User, studyId: number, fields:
     await trx.raw('SELECT id FROM quantities WHERE id = ? FOR UPDATE', [fields.quantityId])
     const [{ max }] = await trx('pilot_datasets').where({ quantity_id: fields.quantityId }).max('version as max')
     const [r] = await trx('pilot_datasets').insert({
-      study_id: studyId, quantity_id: fields.quantityId, version: (max ?? 0) + 1, name: fields.name, filename: file.originalname.slice(0, 200),
+      study_id: studyId, quantity_id: fields.quantityId, version: (max ?? 0) + 1, name: fields.name, filename: file.originalname,
       model: fields.model, mapping: JSON.stringify({ ...mapping, delimiter: fields.delimiter }), csv: text, sha256: createHash('sha256').update(file.buffer).digest('hex'),
       row_count: extracted.summary.rows, data: JSON.stringify(extracted.data), summary: JSON.stringify(extracted.summary), uploaded_by: user.id,
     }).returning('*')

@@ -151,7 +151,7 @@ export async function addEvidenceFile(db: Db, user: User, quantityId: number, fi
   if (file.buffer.length > EVIDENCE_MAX_BYTES) throw new HttpError(400, 'The file is larger than 5 MB', { file: 'Files may be at most 5 MB' })
   const mime = sniffEvidenceType(file.buffer, file.originalname)
   if (!mime) throw new HttpError(400, `Only ${Object.values(EVIDENCE_TYPES).join(', ')} files are accepted`, { file: 'Upload a PDF, CSV, PNG or JPEG file' })
-  const filename = file.originalname.replace(/[\\/\u0000-\u001f]/g, '_').slice(0, 200)
+  const filename = file.originalname
   const row = await db.transaction(async (trx) => {
     const [r] = await trx('evidence_files').insert({
       quantity_id: quantityId, filename, mime_type: mime, size_bytes: file.buffer.length, content: file.buffer,

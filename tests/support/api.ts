@@ -33,8 +33,10 @@ export function startApi(options: Partial<Pick<AppOptions, 'signInLimitPerWindow
 export class Client {
   readonly agent: TestAgent
   token = ''
-  constructor(h: ApiHarness) {
+  /** `address` poses as that client address (the app trusts X-Forwarded-For from loopback, as behind a local proxy). */
+  constructor(h: ApiHarness, address?: string) {
     this.agent = request.agent(h.built.app)
+    if (address) this.agent.set('X-Forwarded-For', address)
   }
   async csrf(): Promise<string> {
     const res = await this.agent.get('/api/auth/csrf').expect(200)
