@@ -17,6 +17,7 @@ export interface ImpactInput {
   mixtureVague?: Record<string, unknown> | null
   decision?: DecisionRule | null
   factors?: number[]
+  excludedExperts?: number[]
 }
 
 function checkedDistribution(d: unknown, field: string): Distribution {
@@ -30,21 +31,29 @@ function checkedDistribution(d: unknown, field: string): Distribution {
 }
 
 /** Candidate priors for a quantity: each expert's fit, the pool, the consensus, the reconciled choice, the reference. */
-async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Promise<{ list: CandidateInput[]; reconciled: Distribution | null }> {
+async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Promise<{ list: CandidateInput[]; reconciled: Distribution | null; excluded: { expertId: number; label: string }[] }> {
   const quantity = await getQuantity(db, quantityId)
   const support = supportOf({ support_kind: quantity.support.kind, support_lower: 'lower' in quantity.support ? quantity.support.lower : null, support_upper: 'upper' in quantity.support ? quantity.support.upper : null })
   const rec = await db('reconciliations').where({ quantity_id: quantityId }).first()
   const list: CandidateInput[] = []
   const roundId = rec?.round_id ?? (await db('judgements').where({ quantity_id: quantityId, status: 'submitted' }).max('round_id as r'))[0]?.r
   const experts: Distribution[] = []
+  const excluded: { expertId: number; label: string }[] = []
+  const leftOut = new Set(input.excludedExperts ?? [])
   if (roundId) {
-    const rows = await db('judgements').where({ round_id: roundId, quantity_id: quantityId, status: 'submitted' }).orderBy('expert_id').select('fits', 'chosen_family')
+    const rows = await db('judgements').where({ round_id: roundId, quantity_id: quantityId, status: 'submitted' }).orderBy('expert_id').select('expert_id', 'fits', 'chosen_family')
     rows.forEach((r, i) => {
+      // Letters follow the whole panel's order, so leaving one expert out does not rename the others.
+      const label = `Expert ${String.fromCharCode(65 + i)}`
+      if (leftOut.has(r.expert_id)) {
+        excluded.push({ expertId: r.expert_id, label })
+        return
+      }
       const fits = r.fits as FitResult[]
       const fit = fits.find((f) => f.distribution.family === r.chosen_family) ?? fits[0]
       if (!fit) return
       experts.push(fit.distribution)
-      list.push({ key: `expert-${i + 1}`, label: `Expert ${String.fromCharCode(65 + i)}`, kind: 'expert', prior: fit.distribution })
+      list.push({ key: `expert-${i + 1}`, label, kind: 'expert', prior: fit.distribution })
     })
   }
   if (experts.length > 1) {
@@ -67,7 +76,7 @@ async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Pr
       mixture: { components: [reconciled, vague], weights: [1 - w, w] },
     })
   }
-  return { list, reconciled }
+  return { list, reconciled, excluded }
 }
 
 /** Runs (or returns the cached) impact analysis of every candidate prior on one pilot dataset. */
@@ -76,7 +85,7 @@ export async function runImpact(db: Db, user: User, quantityId: number, input: I
   if (dataset.quantityId !== quantityId) throw new HttpError(400, 'This dataset belongs to another quantity', { datasetId: 'Choose a dataset of this quantity' })
   const quantity = await getQuantity(db, quantityId)
   const support = supportOf({ support_kind: quantity.support.kind, support_lower: 'lower' in quantity.support ? quantity.support.lower : null, support_upper: 'upper' in quantity.support ? quantity.support.upper : null })
-  const { list, reconciled } = await candidatesFor(db, quantityId, input)
+  const { list, reconciled, excluded } = await candidatesFor(db, quantityId, input)
   const data = dataset.data as PilotData
   const factors = input.factors ?? SWEEP_FACTORS
   const hashInput = { datasetSha: dataset.sha256, datasetId: dataset.id, candidates: list, decision: input.decision ?? null, factors, support }
@@ -89,7 +98,7 @@ export async function runImpact(db: Db, user: User, quantityId: number, input: I
     const computed = await runImpactTask({ candidates: list, data, decision: input.decision ?? null, reconciled, support, factors, n: dataSize(data) })
     result = {
       quantityId, datasetId: dataset.id, dataset: { name: dataset.name, version: dataset.version, model: dataset.model, summary: dataset.summary },
-      n: dataSize(data), decision: input.decision ?? null, ...computed,
+      n: dataSize(data), decision: input.decision ?? null, excludedExperts: excluded, ...computed,
     }
   } catch (err) {
     if (err instanceof EngineInputError) throw new HttpError(400, 'The analysis cannot be run with these inputs', { [err.field]: err.message })

@@ -94,6 +94,11 @@ export async function saveJudgement(db: Db, user: User, roundId: number, quantit
     : item.method === 'fixed-interval' ? { edges: body.edges ?? item.edges, probs: body.probs ?? [] } : { edges: body.edges ?? item.edges, chips: body.chips ?? [] }
   const { check, fits, fitMessage } = fitAnswer(item, input, support)
   if (Object.keys(check.problems).length) throw new HttpError(400, 'Some values need attention', check.problems)
+  // A complete answer whose values no distribution can be fitted to (values near ±1e308) is refused, not stored fitless.
+  if (check.complete && fits.length === 0 && (check.points?.length ?? 0) >= 2) {
+    const field = item.method === 'quantile' ? 'points' : item.method === 'fixed-interval' ? 'probs' : 'chips'
+    throw new HttpError(400, fitMessage ?? 'No distribution can be fitted to these values', { [field]: fitMessage ?? 'No distribution can be fitted to these values' })
+  }
   const chosen = body.chosenFamily ?? null
   if (chosen && !fits.some((f) => f.distribution.family === chosen)) {
     throw new HttpError(400, 'That family was not fitted to this answer', { chosenFamily: 'Choose one of the fitted families' })

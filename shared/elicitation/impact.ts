@@ -1,5 +1,5 @@
 import {
-  analyzePrior, bayesFactor, cdf as cdfOf, mean as distMean, posteriorOf, PRIOR_DRIVEN_RULE, quantile, widthSweep,
+  analyzePrior, bayesFactor, EngineInputError, cdf as cdfOf, mean as distMean, posteriorOf, PRIOR_DRIVEN_RULE, quantile, widthSweep,
   type Analysis, type PilotData, type Posterior, type PriorDistribution, type Support,
 } from '../stats/index'
 
@@ -112,7 +112,7 @@ export function dataSize(data: PilotData): number {
 export function evaluateCandidates(candidates: CandidateInput[], data: PilotData, rule: DecisionRule | null): CandidateResult[] {
   const n = dataSize(data)
   const results: CandidateResult[] = candidates.map((c): CandidateResult => {
-    const { analysis, post } = c.mixture ? mixtureAnalysis(c.mixture, data) : { analysis: analyzePrior(c.prior, data), post: posteriorOf(c.prior, data) }
+    const { analysis, post } = namedFor(c, () => (c.mixture ? mixtureAnalysis(c.mixture, data) : { analysis: analyzePrior(c.prior, data), post: posteriorOf(c.prior, data) }))
     const flags: string[] = []
     if (analysis.priorEss !== null && analysis.priorEss > n) flags.push('prior-dominates')
     if (analysis.priorPredictiveP < 0.05) flags.push('prior-data-conflict')
@@ -133,6 +133,16 @@ export function evaluateCandidates(candidates: CandidateInput[], data: PilotData
     }
   }
   return results
+}
+
+/** Runs one candidate's computation; an input error names the candidate (its key as the field, its label in the message). */
+function namedFor<T>(c: CandidateInput, run: () => T): T {
+  try {
+    return run()
+  } catch (err) {
+    if (err instanceof EngineInputError) throw new EngineInputError(c.key, `${c.label}: ${err.message}`)
+    throw err
+  }
 }
 
 export interface SweepSummary {

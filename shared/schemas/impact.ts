@@ -15,4 +15,6 @@ export const impactSchema = object({
     probability: number().typeError('The probability must be a number').required('Enter the probability').moreThan(0, 'Between 0 and 1').lessThan(1, 'Between 0 and 1'),
   }).nullable().default(null),
   factors: array(number().required().moreThan(0, 'Width factors must be positive').max(100)).min(3).max(60).optional(),
+  /** Experts (user ids) whose priors the analysis leaves out, e.g. one whose answer cannot be computed with. */
+  excludedExperts: array(number().typeError('Choose experts by their id').required().integer().positive()).max(100).default([]),
 }).noUnknown('Unknown field: ${unknown}')

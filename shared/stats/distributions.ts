@@ -17,8 +17,22 @@ import type { PriorDistribution, Univariate } from './types'
 
 const LN_PI = Math.log(Math.PI)
 
-/** Throws EngineInputError unless every parameter of d is finite and in range. */
+/**
+ * Throws EngineInputError unless d is a distribution one can compute with: every parameter finite and in range, and its
+ * 5 % and 95 % points finite and apart in floating point (common practice: a spread lost to rounding, such as
+ * Normal(1e308, 1e13) or Lognormal(700, 1e-300), is a point, and every later integral or fit of it fails).
+ */
 export function validateDistribution(d: PriorDistribution, field = 'distribution'): void {
+  validateParameters(d, field)
+  const q05 = quantile(d, 0.05)
+  const q95 = quantile(d, 0.95)
+  if (!Number.isFinite(q05) || !Number.isFinite(q95) || !(q95 > q05)) {
+    throw new EngineInputError(field, 'This distribution is too narrow for its location, or too far out, to compute with: its 5 % and 95 % points cannot be told apart or are not finite. Rescale the quantity (for example to thousands) or widen it.')
+  }
+}
+
+/** Throws EngineInputError unless every parameter of d is finite and in range. */
+function validateParameters(d: PriorDistribution, field: string): void {
   if (d === null || typeof d !== 'object') throw new EngineInputError(field, 'A distribution is required.')
   switch (d.family) {
     case 'normal':

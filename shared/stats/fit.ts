@@ -1,5 +1,5 @@
 import { levenbergMarquardt } from 'ml-levenberg-marquardt'
-import { cdf, normalQuantile, studentTCdf, studentTLogPdf, studentTQuantile } from './distributions'
+import { cdf, normalQuantile, studentTCdf, studentTLogPdf, studentTQuantile, validateDistribution } from './distributions'
 import { EngineInputError } from './errors'
 import { requireInside, supportBounds, validatePoints, validateSupport } from './points'
 import { betaPQ, digamma, gammaPQ, lbeta, logGammaPrefactor, normCdf, normPdf } from './special'
@@ -711,11 +711,29 @@ export function fitAll(points: Point[], support: Support): FitResult[] {
   const { lower, upper } = supportBounds(support)
   requireInside(points, lower, upper, 'points', 'the quantity’s support')
   if (points.length < 2) throw new EngineInputError('points', 'At least two points are needed to fit a distribution.')
+  if (!Number.isFinite(points[points.length - 1].value - points[0].value)) throw new EngineInputError('points', UNFITTABLE)
   const results: FitResult[] = []
   for (const family of familiesFor(support)) {
     if (family === 'uniform') results.push(fitUniformInside(points, lower, upper))
     else if (family === 'scaled-beta') results.push(fitDistribution(points, family, { lower, upper }))
     else results.push(fitDistribution(points, family))
   }
-  return results.map((r, i) => ({ r, i })).sort((a, b) => a.r.sse - b.r.sse || a.i - b.i).map(({ r }) => r)
+  // Values far out (near ±1e308) can make a least-squares fit collapse to a point: such a "fit" is never offered or stored.
+  const proper = results.filter((r) => Number.isFinite(r.sse) && isComputable(r.distribution))
+  if (proper.length === 0) {
+    throw new EngineInputError('points', UNFITTABLE)
+  }
+  return proper.map((r, i) => ({ r, i })).sort((a, b) => a.r.sse - b.r.sse || a.i - b.i).map(({ r }) => r)
+}
+
+const UNFITTABLE = 'No distribution can be fitted to values this large or this close together. Give the values in a larger unit (for example thousands or millions) and try again.'
+
+function isComputable(d: Distribution): boolean {
+  try {
+    validateDistribution(d)
+    return true
+  } catch (err) {
+    if (err instanceof EngineInputError) return false
+    throw err
+  }
 }

@@ -2,6 +2,8 @@
 // estimate, QUADPACK's error estimate) after Piessens, de Doncker-Kapenga, Überhuber & Kahaner (1983),
 // QUADPACK: A Subroutine Package for Automatic Integration, Springer (routines QK21 and QAG).
 
+import { EngineInputError } from './errors'
+
 const XGK = [
   0.995657163025808080735527280689003, 0.973906528517171720077964012084452, 0.930157491355708226001207180059508,
   0.865063366688984510732096688423493, 0.780817726586416897063717578345042, 0.679409568299024406234327365114874,
@@ -326,7 +328,8 @@ export class LogIntegral {
     this.h = h
     const modes = findModes(h, hints)
     let logMax = Math.max(...modes.map((m) => m.h))
-    if (!Number.isFinite(logMax)) throw new Error('LogIntegral: the integrand is zero or infinite at every trial point.')
+    // Zero everywhere: the prior puts no mass where the data have any likelihood (or the reverse), in floating point.
+    if (!Number.isFinite(logMax)) throw new EngineInputError('prior', 'The prior and the data do not overlap anywhere that can be computed: the prior puts no probability where the data lie.')
     const { lower, upper } = cutRange(h, modes, logMax)
     const points = [lower, upper]
     for (const m of modes) {
