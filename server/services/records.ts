@@ -66,6 +66,7 @@ export async function getRecord(db: Db, access: StudyAccess, version?: number) {
   const history = await db('audit_events as a').leftJoin('users as u', 'u.id', 'a.actor_id').where('a.study_id', access.studyId)
     .select('a.at', 'a.action', 'a.subject', 'a.actor_id', 'u.display_name as actor', 'a.hash').orderBy('a.id')
   const people = await historyNames(db, access.studyId, row.show_names)
+  const quantityIds = await db('quantities').where({ study_id: access.studyId }).select('id', 'symbol')
   return {
     record: {
       version: row.version, status: row.status, showNames: row.show_names, rowVersion: row.row_version,
@@ -78,6 +79,8 @@ export async function getRecord(db: Db, access: StudyAccess, version?: number) {
       chartsFor: charts,
     },
     content,
+    /** The study's quantities by symbol, for leaving one out (the content itself names no database ids). */
+    quantityIds: Object.fromEntries(quantityIds.map((q) => [q.symbol, q.id])),
     comments: comments.map((c) => ({
       id: c.id, section: c.section, body: c.body, kind: c.kind, replyTo: c.reply_to, outcome: c.outcome, author: c.author, createdAt: c.created_at.toISOString(),
     })),

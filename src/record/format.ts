@@ -18,6 +18,9 @@ export function fmtTiny(x: number): string {
   return x.toExponential(0).replace('e+', 'e')
 }
 
+/** How a returned draft is shown in place of "Draft". */
+export const RETURNED_STATUS = { label: 'Returned with comments', tag: 'danger' as const, meaning: 'a draft again: a reviewer returned it with comments, which the analyst answers when submitting it again' }
+
 /** A value with its unit: "3.389 L/s"; no unit, just the number. */
 export function withUnit(x: number | null | undefined, unit: string, digits = 4): string {
   const text = fmt(x, digits)
