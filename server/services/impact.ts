@@ -8,6 +8,7 @@ import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import { canonicalJson, recordAudit } from './audit'
 import { getDataset } from './datasets'
+import { studyExpertLabels } from './expert-labels'
 import { getQuantity, supportOf } from './quantities'
 
 export interface ImpactInput {
@@ -42,9 +43,9 @@ async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Pr
   const leftOut = new Set(input.excludedExperts ?? [])
   if (roundId) {
     const rows = await db('judgements').where({ round_id: roundId, quantity_id: quantityId, status: 'submitted' }).orderBy('expert_id').select('expert_id', 'fits', 'chosen_family')
+    const labels = await studyExpertLabels(db, quantity.studyId)
     rows.forEach((r, i) => {
-      // Letters follow the whole panel's order, so leaving one expert out does not rename the others.
-      const label = `Expert ${String.fromCharCode(65 + i)}`
+      const label = labels.ofUser(r.expert_id)
       if (leftOut.has(r.expert_id)) {
         excluded.push({ expertId: r.expert_id, label })
         return
