@@ -16,14 +16,31 @@ type Json = Record<string, any>
 export interface DocxOptions {
   timeZone: string
 }
-const p = (text: string, opts: { bold?: boolean; italics?: boolean; size?: number; color?: string } = {}) =>
-  new Paragraph({ spacing: { after: 120 }, children: [new TextRun({ text, ...opts })] })
-const h = (text: string, level: (typeof HeadingLevel)[keyof typeof HeadingLevel]) => new Paragraph({ text, heading: level, spacing: { before: 240, after: 120 } })
+/**
+ * Text as a .docx can hold it. XML 1.0 refuses C0 controls other than tab and line ends, U+FFFE, U+FFFF and unpaired
+ * surrogates: they are dropped (a broken surrogate becomes U+FFFD). Every kind of line end — CR LF, CR, U+000B (what
+ * Word's Shift+Enter leaves in pasted text), form feed, U+0085, U+2028/9 — becomes one newline, which `runs` writes as
+ * a line break. Every text that enters the document goes through here.
+ */
+export function docxText(text: unknown): string {
+  return String(text ?? '')
+    .replace(/\r\n?|[\v\f\u0085\u2028\u2029]/g, '\n')
+    .replace(/[\u0000-\u0008\u000e-\u001f\u007f\ufffe\uffff]/g, '')
+    .replace(/[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g, '\ufffd')
+}
+
+type RunStyle = { bold?: boolean; italics?: boolean; size?: number; color?: string }
+/** Text runs of one paragraph: cleaned, each line after the first starting with a line break. */
+const runs = (text: unknown, style: RunStyle = {}) => docxText(text).split('\n').map((line, i) => new TextRun({ text: line, ...(i > 0 ? { break: 1 } : {}), ...style }))
+
+const p = (text: string, opts: RunStyle = {}) =>
+  new Paragraph({ spacing: { after: 120 }, children: runs(text, opts) })
+const h = (text: string, level: (typeof HeadingLevel)[keyof typeof HeadingLevel]) => new Paragraph({ children: runs(text), heading: level, spacing: { before: 240, after: 120 } })
 
 function table(header: string[], rows: string[][], numericFrom = 1): Table {
   const cell = (text: string, i: number, head: boolean) => new TableCell({
     shading: head ? { type: ShadingType.CLEAR, color: 'auto', fill: 'E8EFEC' } : undefined,
-    children: [new Paragraph({ alignment: !head && i >= numericFrom && /^[-\d.,e+%—]+$/.test(text) ? AlignmentType.RIGHT : AlignmentType.LEFT, children: [new TextRun({ text, bold: head, size: 18 })] })],
+    children: [new Paragraph({ alignment: !head && i >= numericFrom && /^[-\d.,e+%—]+$/.test(text) ? AlignmentType.RIGHT : AlignmentType.LEFT, children: runs(text, { bold: head, size: 18 }) })],
   })
   return new Table({
     width: { size: 100, type: WidthType.PERCENTAGE },
@@ -51,7 +68,7 @@ class Outline {
   contents(): Paragraph[] {
     return this.entries.map((e) => new Paragraph({
       indent: { left: e.level === 1 ? 0 : 360 }, spacing: { after: 60 },
-      children: [new TextRun({ text: e.text, size: e.level === 1 ? 22 : 20, bold: e.level === 1 })],
+      children: runs(e.text, { size: e.level === 1 ? 22 : 20, bold: e.level === 1 }),
     }))
   }
 }
@@ -186,16 +203,16 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
   ]
 
   const doc = new Document({
-    creator: content.study.owner,
-    lastModifiedBy: meta.signedOffBy ?? content.study.owner,
-    title: `Prior record: ${content.study.title}`,
+    creator: docxText(content.study.owner),
+    lastModifiedBy: docxText(meta.signedOffBy ?? content.study.owner),
+    title: docxText(`Prior record: ${content.study.title}`),
     subject: `Prior record, version ${meta.version}`,
-    description: `Prior record of the study “${content.study.title}”, version ${meta.version} (${STATUS[meta.status] ?? meta.status}), content SHA-256 ${meta.contentHash}.`,
+    description: docxText(`Prior record of the study “${content.study.title}”, version ${meta.version} (${STATUS[meta.status] ?? meta.status}), content SHA-256 ${meta.contentHash}.`),
     styles: { default: { document: { run: { font: 'Open Sans', size: 21 } } } },
     sections: [{
       footers: {
         default: new Footer({
-          children: [new Paragraph({ alignment: AlignmentType.CENTER, children: [new TextRun({ size: 16, color: '5B6B7A', children: [`${content.study.title} · prior record v${meta.version} · page `, PageNumber.CURRENT, ' of ', PageNumber.TOTAL_PAGES] })] })],
+          children: [new Paragraph({ alignment: AlignmentType.CENTER, children: [new TextRun({ size: 16, color: '5B6B7A', children: [docxText(`${content.study.title} · prior record v${meta.version} · page `).replace(/\n/g, ' '), PageNumber.CURRENT, ' of ', PageNumber.TOTAL_PAGES] })] })],
         }),
       },
       children: [...title, ...sections],

@@ -49,7 +49,11 @@ function forbiddenKeys(value: unknown, path: string, out: Record<string, string>
   }
 }
 
-/** A NUL, or half of a UTF-16 surrogate pair: PostgreSQL cannot store the first, and JSON/UTF-8 cannot carry the second. */
+/**
+ * A NUL, or half of a UTF-16 surrogate pair: PostgreSQL cannot store the first, and JSON/UTF-8 cannot carry the second.
+ * Other control characters are accepted: U+000B and the like arrive invisibly in text pasted from Word, and refusing
+ * them would block a person for a character they cannot see; the .docx export cleans them (`docxText`).
+ */
 const UNSTORABLE = /\u0000|[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/
 export const UNSTORABLE_MESSAGE = 'Contains a character that cannot be stored (a NUL or a broken Unicode character); remove it and try again'
 
