@@ -1,6 +1,7 @@
 import bcrypt from 'bcryptjs'
 import { normaliseEmail } from '../../shared/schemas/auth'
 import type { Role, User } from '../../shared/types/index'
+import { checkPassword } from '../auth/passwords'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 
@@ -39,7 +40,7 @@ export async function findUserById(db: Db, id: number): Promise<User | null> {
 /** Returns the user when the password matches an enabled account, else null (no hint which part failed). */
 export async function verifyCredentials(db: Db, email: string, password: string): Promise<User | null> {
   const row = await db<UserRow>('users').whereRaw('lower(email) = lower(?)', [normaliseEmail(email)]).first()
-  const ok = await bcrypt.compare(password, row && !row.disabled ? row.password_hash : DUMMY_HASH)
+  const ok = await checkPassword(password, row && !row.disabled ? row.password_hash : DUMMY_HASH)
   return ok && row && !row.disabled ? toUser(row) : null
 }
 
