@@ -14,8 +14,11 @@ parentPort.on('message', ({ id, password, hash }) => {
   try { ok = bcrypt.compareSync(password, hash) } catch {}
   parentPort.postMessage({ id, ok })
 })`
-/** Comparisons waiting at most; more at once answer 429 (about 5 s of work at 80 ms each). */
-const MAX_WAITING = 64
+/**
+ * Comparisons in hand at most (under a second of work at 80 ms each); more at once answer 429 at no cost, and those
+ * refusals count towards the address's sign-in limit, so a flood reaches it within a second or two.
+ */
+const MAX_WAITING = 8
 
 let worker: Worker | null = null
 let nextId = 1
