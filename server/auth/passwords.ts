@@ -15,10 +15,10 @@ parentPort.on('message', ({ id, password, hash }) => {
   parentPort.postMessage({ id, ok })
 })`
 /**
- * Comparisons in hand at most (under a second of work at 80 ms each); more at once answer 429 at no cost, and those
+ * Comparisons in hand at most (about a second of work at 80 ms each); more at once answer 429 at no cost, and those
  * refusals count towards the address's sign-in limit, so a flood reaches it within a second or two.
  */
-const MAX_WAITING = 8
+const MAX_WAITING = 16
 
 let worker: Worker | null = null
 let nextId = 1

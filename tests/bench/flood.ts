@@ -62,7 +62,8 @@ const quantity = await call(analyst, 'POST', `/api/studies/${study.id}/quantitie
 const round = await call(analyst, 'POST', `/api/studies/${study.id}/rounds`, { title: 'Flood round', opensAt: new Date(stamp - 3600e3).toISOString(), closesAt: new Date(stamp + 86400e3).toISOString(), items: [{ quantityId: quantity.id, method: 'quantile' }] })
 for (const email of emails) await call(analyst, 'POST', `/api/rounds/${round.id}/invitations`, { email, name: 'Flood expert' })
 await call(analyst, 'POST', `/api/rounds/${round.id}/open`)
-const experts = await Promise.all(emails.map((e) => session(e, PASSWORD)))
+const experts: Session[] = []
+for (const e of emails) experts.push(await session(e, PASSWORD))
 
 /** Nearest-rank percentile of sorted values (common practice). */
 const percentile = (sorted: number[], p: number) => (sorted.length ? sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)] : NaN)
