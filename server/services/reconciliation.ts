@@ -1,9 +1,9 @@
 import {
-  combine, consensusNarrowerThanSpread, disagreements, fitCombination, leaveOneOut, resolveWeights, summarise, type Component,
+  combine, consensusNarrowerThanSpread, disagreements, fitCombination, fitConsensus, leaveOneOut, resolveWeights, summarise, type Component,
 } from '../../shared/elicitation/reconcile'
 import type { ReconciliationBody } from '../../shared/schemas/reconciliation'
 import {
-  cookeClassical, EngineInputError, fitAll, quantile, validateDistribution, type Distribution, type FitResult,
+  cookeClassical, EngineInputError, quantile, validateDistribution, type Distribution, type FitResult,
 } from '../../shared/stats/index'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
@@ -88,7 +88,7 @@ async function evaluate(db: Db, quantityId: number, settings: Settings) {
     if (components.length === 0 && settings.method !== 'consensus') throw new EngineInputError('roundId', 'No submitted judgements to combine in this round')
     if (settings.method === 'consensus') {
       if (!settings.consensus) throw new EngineInputError('consensus', 'Enter the agreed values')
-      fits = fitAll(settings.consensus.points, support)
+      fits = fitConsensus(settings.consensus.points, support)
       const best = fits[0].distribution
       pool = { q05: quantile(best, 0.05), q50: quantile(best, 0.5), q95: quantile(best, 0.95) }
       consensusCheck = consensusNarrowerThanSpread(best, components)
