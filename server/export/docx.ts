@@ -92,7 +92,8 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
         ? [table(['Round', 'Expert', 'Fitted distribution', 'SSE', '5 %', '50 %', '95 %'], q.judgements.map((j: Json) => [
           String(j.round), j.expert.name ? `${j.expert.code} (${j.expert.name})` : j.expert.code, describe(j.fit?.distribution), fmt(j.fit?.sse, 3), fmt(j.fit?.q05), fmt(j.fit?.q50), fmt(j.fit?.q95),
         ]), 3),
-        ...q.judgements.map((j: Json) => p(`${j.expert.code}, round ${j.round}: ${j.rationale || '—'}`, { size: 20 }))]
+        ...q.judgements.map((j: Json) => p(`${j.expert.code}, round ${j.round}: ${j.rationale || '—'}`, { size: 20 })),
+        ...q.judgements.flatMap((j: Json) => (j.fit?.warnings ?? []).map((w: string) => p(`${j.expert.code}, round ${j.round}, fitted shape: ${w}`, { size: 20, color: '8A5A12' })))]
         : [p('No submitted judgements.')]),
       h(`${n}.3 Combination`, HeadingLevel.HEADING_2),
       ...(q.combination
