@@ -99,6 +99,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       ...(q.combination
         ? [
           p(`Method: ${q.combination.method}; weights: ${q.combination.weightsMode}${q.combination.weightsReason ? ` (${q.combination.weightsReason})` : ''}; Cooke cutoff ${fmt(q.combination.cutoff)}.`),
+          ...(q.combination.weightCautions ?? []).map((c: string) => p(`Caution: ${c}`, { color: '8A5A12' })),
           ...(q.combination.adjusted ? [p(`Parameters adjusted by hand: ${q.combination.adjustReason}`)] : []),
           p(`Rationale: ${q.combination.rationale || '—'}`),
         ]

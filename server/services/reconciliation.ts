@@ -1,6 +1,7 @@
 import {
   combine, consensusNarrowerThanSpread, disagreements, fitCombination, fitConsensus, leaveOneOut, resolveWeights, summarise, type Component,
 } from '../../shared/elicitation/reconcile'
+import { performanceWeightCautions } from '../../shared/elicitation/weights'
 import type { ReconciliationBody } from '../../shared/schemas/reconciliation'
 import {
   cookeClassical, EngineInputError, quantile, validateDistribution, type Distribution, type FitResult,
@@ -52,6 +53,17 @@ async function calibrationData(db: Db, studyId: number, expertIds: number[]) {
     realizations: usable.map((q) => q.true_value as number),
     experts: expertIds.map((e) => ({ id: String(e), assessments: usable.map((q) => latest.get(`${q.id}:${e}`)!) })),
   }
+}
+
+/**
+ * How many calibration questions and experts a saved reconciliation's performance weights rest on, and the cautions
+ * that follow (for the record; the same rule as the reconciliation screen).
+ */
+export async function savedWeightCautions(db: Db, rec: { quantity_id: number; round_id: number; weights_mode: string; excluded_experts: number[] }, studyId: number): Promise<string[]> {
+  if (rec.weights_mode !== 'performance') return []
+  const experts = (await expertFits(db, rec.round_id, rec.quantity_id)).filter((e) => !rec.excluded_experts.includes(e.expertId))
+  const cal = await calibrationData(db, studyId, experts.map((e) => e.expertId))
+  return performanceWeightCautions(cal.questionCount, experts.length)
 }
 
 function performanceScores(cal: Awaited<ReturnType<typeof calibrationData>>, cutoff: number) {
@@ -109,6 +121,7 @@ async function evaluate(db: Db, quantityId: number, settings: Settings) {
   return {
     quantity, support, experts, included: components.map((c) => c.expertId), weights, pool, fits, leaveOneOut: loo,
     disagreements: disagreements(components), consensusCheck, problems,
+    weightCautions: settings.method !== 'consensus' && settings.weights === 'performance' ? performanceWeightCautions(cal.questionCount, components.length) : [],
     calibration: { questionCount: cal.questionCount, cutoff: settings.cutoff, scores: performance, realizations: cal.realizations, assessments: cal.experts },
   }
 }

@@ -2,6 +2,7 @@ import { modelCodeWithCheck } from '../../shared/elicitation/model-code'
 import { mean, quantile, sd, type Distribution, type FitResult } from '../../shared/stats/index'
 import type { Db } from '../db/knex'
 import { supportOf } from './quantities'
+import { savedWeightCautions } from './reconciliation'
 
 export const RECORD_SCHEMA_ID = 'https://priorsmith.example/schemas/prior-record-1.json'
 export const RECORD_SCHEMA_VERSION = '1.0'
@@ -52,6 +53,9 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
 
   const calibrationQuestions = await db('calibration_questions').where({ study_id: studyId }).orderBy(['position', 'id'])
 
+  const weightCautions = new Map<number, string[]>()
+  for (const rec of recs) weightCautions.set(rec.quantity_id, await savedWeightCautions(db, rec, studyId))
+
   const quantityRecords = quantities.map((q) => {
     const rec = recs.find((r) => r.quantity_id === q.id)
     const final: Distribution | null = rec?.status === 'reconciled' ? rec.distribution : null
@@ -83,6 +87,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
         round: rounds.find((r) => r.id === rec.round_id)?.number ?? null, method: rec.method, weightsMode: rec.weights_mode, weights: rec.weights,
         weightsReason: rec.weights_reason, cutoff: rec.cutoff, excludedExperts: (rec.excluded_experts as number[]).map((id) => who(id).code),
         consensus: rec.consensus, fitsOfCombination: rec.fits, adjusted: rec.adjusted, adjustReason: rec.adjust_reason, rationale: rec.rationale, status: rec.status,
+        weightCautions: weightCautions.get(q.id) ?? [],
       } : null,
       finalPrior: final ? {
         distribution: final, ...summary(final),
@@ -116,6 +121,6 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       method: 'Cooke’s classical model (Cooke 1991, ch. 12): calibration as the χ² p-value of the bin frequencies, information against a uniform background on the intrinsic range with 10 % overshoot',
     },
     quantities: quantityRecords,
-    cautions: RECORD_CAUTIONS,
+    cautions: [...RECORD_CAUTIONS, ...quantities.flatMap((q) => (weightCautions.get(q.id) ?? []).map((c) => `${q.name}: ${c}`))],
   }
 }

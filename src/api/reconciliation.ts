@@ -110,6 +110,8 @@ export interface ReconciliationView {
   disagreements: { a: string; b: string }[]
   consensusCheck: { narrow: boolean; width: number; spread: number } | null
   problems: Record<string, string>
+  /** Cautions on performance weights from too few calibration questions or experts (shared/elicitation/weights.ts). */
+  weightCautions: string[]
   calibration: {
     questionCount: number
     cutoff: number

@@ -39,6 +39,7 @@ export function viewFixture(overrides: Partial<ReconciliationView> = {}): Reconc
     disagreements: [],
     consensusCheck: null,
     problems: {},
+    weightCautions: [],
     calibration: {
       questionCount: 10, cutoff: 0, scores: null, realizations: REALISATIONS,
       assessments: [{ id: '3', assessments: EXPERT_A }, { id: '4', assessments: EXPERT_B }],

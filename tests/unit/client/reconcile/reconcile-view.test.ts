@@ -127,6 +127,17 @@ describe('ReconcileView', { timeout: 15000 }, () => {
     expect(wrapper.findAll('[data-testid="expert-weight"]').map((c) => c.text())).toEqual(['1', '0'])
   })
 
+  it('cautions in plain words when performance weights rest on fewer calibration questions or experts than the minimums', async () => {
+    const { wrapper } = await mountView([{ status: 200, body: viewFixture({ calibration: { ...viewFixture().calibration, questionCount: 4 } }) }])
+    expect(wrapper.find('[data-testid="weight-caution"]').exists()).toBe(false)
+    await radio(wrapper, 'weights-performance').setValue(true)
+    await settle()
+    expect(wrapper.findAll('[data-testid="weight-caution"]').map((c) => c.text())).toEqual([
+      'Performance weights here rest on 4 calibration questions; common practice asks for at least 10. With so few, one more question could change the weights a lot: compare the result with equal weights before relying on it.',
+      'Performance weights here compare 2 experts; this tool asks for at least 4 before the weights say much. With so few, the weights mostly pick one person: compare the result with equal weights before relying on it.',
+    ])
+  })
+
   it('does not save weights set by hand without a reason; with one, sends one weight per included expert', async () => {
     const { wrapper, calls } = await mountView([{ status: 200, body: viewFixture() }], (c) => ({ status: 200, body: savedView(c.body as Record<string, unknown>, 1) }))
     await radio(wrapper, 'weights-custom').setValue(true)
