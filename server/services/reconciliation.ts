@@ -28,14 +28,14 @@ async function expertFits(db: Db, roundId: number, quantityId: number) {
     .where({ 'j.round_id': roundId, 'j.quantity_id': quantityId, 'j.status': 'submitted' })
     .select('j.id', 'j.expert_id', 'u.display_name', 'j.fits', 'j.chosen_family', 'j.rationale', 'j.answer', 'j.method').orderBy('j.expert_id')
   return rows.flatMap((r, i) => {
-    const fits = r.fits as FitResult[]
+    const fits = r.fits as (FitResult & { warnings?: string[] })[]
     const fit = fits.find((f) => f.distribution.family === r.chosen_family) ?? fits[0]
     if (!fit) return []
     const d = fit.distribution
     return [{
       judgementId: r.id as number, expertId: r.expert_id as number, name: r.display_name as string, label: `Expert ${String.fromCharCode(65 + i)}`,
       distribution: d, sse: fit.sse, method: r.method as string, answer: r.answer, rationale: r.rationale as string,
-      q05: quantile(d, 0.05), q50: quantile(d, 0.5), q95: quantile(d, 0.95),
+      q05: quantile(d, 0.05), q50: quantile(d, 0.5), q95: quantile(d, 0.95), warnings: fit.warnings ?? [],
     }]
   })
 }

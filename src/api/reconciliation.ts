@@ -27,6 +27,8 @@ export interface ReconcileExpert {
   q05: number
   q50: number
   q95: number
+  /** Where the expert's fit contradicts their plausible range (shared/elicitation/fits.ts); empty when it does not. */
+  warnings: string[]
 }
 
 export interface PoolSummary {
