@@ -2,54 +2,15 @@
 // client address floods the sign-in with failed attempts under invented e-mails, 32 at a time. The app runs in a
 // process of its own on loopback, with the production sign-in limits, on a database of its own (`priorsmith_flood`,
 // made anew each run). Run with `npm run bench:flood` after `npm run db:up`.
-import { spawn } from 'node:child_process'
-import path from 'node:path'
-import { ensureCluster, ensureDatabase } from '../../scripts/lib/postgres.mjs'
-import { seedDemo } from '../../seeds/demo'
-import { createDb } from '../../server/db/knex'
+import { percentile, serveBenchApp, type Session } from './served-app'
 
-const root = path.resolve(import.meta.dirname, '../..')
 const EXPERTS = Number(process.env.FLOOD_EXPERTS ?? 10)
 const SECONDS = Number(process.env.FLOOD_SECONDS ?? 15)
 const FLOOD_CONCURRENCY = 32
 const FLOOD_MAX = 20_000
 const PASSWORD = 'flood-test-pass-1'
 
-const databaseUrl = process.env.DATABASE_URL ?? ensureDatabase(ensureCluster(root), 'priorsmith_flood', { recreate: true })
-const db = createDb(databaseUrl)
-await db.migrate.latest()
-await seedDemo(db)
-const port = Number(process.env.FLOOD_PORT ?? 3918)
-const server = spawn(path.join(root, 'node_modules/.bin/tsx'), ['server/index.ts'], {
-  cwd: root, stdio: ['ignore', 'ignore', 'inherit'],
-  env: { ...process.env, NODE_ENV: 'production', PORT: String(port), PUBLIC_URL: `http://localhost:${port}`, DATABASE_URL: databaseUrl, SESSION_SECRET: 'flood-bench', SIGN_IN_LIMIT: '20' },
-})
-const base = `http://127.0.0.1:${port}`
-process.on('exit', () => server.kill('SIGTERM'))
-for (let i = 0; ; i++) {
-  if (await fetch(`${base}/api/health`).then((r) => r.ok, () => false)) break
-  if (i > 120) throw new Error('the app did not start')
-  await new Promise((r) => setTimeout(r, 250))
-}
-
-interface Session { cookie: string; token: string }
-async function session(email?: string, password?: string): Promise<Session> {
-  const r1 = await fetch(`${base}/api/auth/csrf`)
-  let cookie = (r1.headers.get('set-cookie') ?? '').split(';')[0]
-  const { token: t1 } = await r1.json()
-  if (!email) return { cookie, token: t1 }
-  const r2 = await fetch(`${base}/api/auth/sign-in`, { method: 'POST', headers: { cookie, 'x-csrf-token': t1, 'content-type': 'application/json' }, body: JSON.stringify({ email, password }) })
-  if (r2.status !== 200) throw new Error(`sign-in ${email}: ${r2.status} ${await r2.text()}`)
-  cookie = (r2.headers.get('set-cookie') ?? '').split(';')[0]
-  const { token } = await (await fetch(`${base}/api/auth/csrf`, { headers: { cookie } })).json()
-  return { cookie, token }
-}
-async function call(s: Session, method: string, url: string, body?: unknown) {
-  const res = await fetch(`${base}${url}`, { method, headers: { cookie: s.cookie, 'x-csrf-token': s.token, 'content-type': 'application/json' }, body: body === undefined ? undefined : JSON.stringify(body) })
-  const text = await res.text()
-  if (res.status >= 400) throw new Error(`${method} ${url}: ${res.status} ${text}`)
-  return text ? JSON.parse(text) : null
-}
+const { db, base, session, call, stop } = await serveBenchApp({ database: 'priorsmith_flood', port: Number(process.env.FLOOD_PORT ?? 3918), env: { SESSION_SECRET: 'flood-bench', SIGN_IN_LIMIT: '20' } })
 
 const stamp = Date.now()
 console.log(`setting up: ${EXPERTS} experts on an open round…`)
@@ -64,9 +25,6 @@ for (const email of emails) await call(analyst, 'POST', `/api/rounds/${round.id}
 await call(analyst, 'POST', `/api/rounds/${round.id}/open`)
 const experts: Session[] = []
 for (const e of emails) experts.push(await session(e, PASSWORD))
-
-/** Nearest-rank percentile of sorted values (common practice). */
-const percentile = (sorted: number[], p: number) => (sorted.length ? sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)] : NaN)
 
 /** Each expert saves once a second (a typing expert's pace), starting at a random moment; returns every save's latency. */
 async function autosaves(seconds: number): Promise<{ latencies: number[]; errors: number }> {
@@ -135,6 +93,5 @@ console.log(`save median under the flood / quiet: ${(percentile(loud.latencies, 
 const auditAfter = Number((await db('audit_events').count({ n: '*' }))[0].n)
 const logged = await db('sign_in_failures').sum({ n: 'attempts' }).count({ rows: '*' })
 console.log(`audit events added during the flood: ${auditAfter - auditBefore}; failure log: ${logged[0].rows} rows holding ${logged[0].n} failed attempts`)
-server.kill('SIGTERM')
-await db.destroy()
+await stop()
 process.exit(0)

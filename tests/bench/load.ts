@@ -3,56 +3,16 @@
 // made anew (migrated and seeded) each run, so the development database is left as it was. Run with
 // `npm run bench:load` after `npm run db:up` (and `npm run build` for the bundle figures).
 import { readdirSync, readFileSync, existsSync } from 'node:fs'
-import { spawn } from 'node:child_process'
 import path from 'node:path'
 import { gzipSync } from 'node:zlib'
 import autocannon from 'autocannon'
-import { ensureCluster, ensureDatabase } from '../../scripts/lib/postgres.mjs'
-import { createDb } from '../../server/db/knex'
-import { seedDemo } from '../../seeds/demo'
+import { percentile, serveBenchApp, type Session } from './served-app'
 
-const root = path.resolve(import.meta.dirname, '../..')
 const EXPERTS = Number(process.env.LOAD_EXPERTS ?? 50)
 const SECONDS = Number(process.env.LOAD_SECONDS ?? 20)
 const PASSWORD = 'load-test-pass-1'
 
-const databaseUrl = process.env.DATABASE_URL ?? ensureDatabase(ensureCluster(root), 'priorsmith_load', { recreate: true })
-const db = createDb(databaseUrl)
-await db.migrate.latest()
-await seedDemo(db)
-// The app runs in a process of its own, as `npm start` runs it, so the load generator does not share its event loop.
-const port = Number(process.env.LOAD_PORT ?? 3917)
-const server = spawn(path.join(root, 'node_modules/.bin/tsx'), ['server/index.ts'], {
-  cwd: root, stdio: ['ignore', 'ignore', 'inherit'],
-  env: { ...process.env, NODE_ENV: 'production', PORT: String(port), PUBLIC_URL: `http://localhost:${port}`, DATABASE_URL: databaseUrl, SESSION_SECRET: 'load-bench', SIGN_IN_LIMIT: '100000' },
-})
-const base = `http://127.0.0.1:${port}`
-// A failed run must not leave the app holding the port.
-process.on('exit', () => server.kill('SIGTERM'))
-for (let i = 0; ; i++) {
-  const up = await fetch(`${base}/api/health`).then((r) => r.ok, () => false)
-  if (up) break
-  if (i > 120) throw new Error('the app did not start')
-  await new Promise((r) => setTimeout(r, 250))
-}
-
-interface Session { cookie: string; token: string }
-async function session(email: string, password: string): Promise<Session> {
-  const r1 = await fetch(`${base}/api/auth/csrf`)
-  let cookie = (r1.headers.get('set-cookie') ?? '').split(';')[0]
-  const { token: t1 } = await r1.json()
-  const r2 = await fetch(`${base}/api/auth/sign-in`, { method: 'POST', headers: { cookie, 'x-csrf-token': t1, 'content-type': 'application/json' }, body: JSON.stringify({ email, password }) })
-  if (r2.status !== 200) throw new Error(`sign-in ${email}: ${r2.status} ${await r2.text()}`)
-  cookie = (r2.headers.get('set-cookie') ?? '').split(';')[0]
-  const { token } = await (await fetch(`${base}/api/auth/csrf`, { headers: { cookie } })).json()
-  return { cookie, token }
-}
-async function call(s: Session, method: string, url: string, body?: unknown) {
-  const res = await fetch(`${base}${url}`, { method, headers: { cookie: s.cookie, 'x-csrf-token': s.token, 'content-type': 'application/json' }, body: body === undefined ? undefined : JSON.stringify(body) })
-  const text = await res.text()
-  if (res.status >= 400) throw new Error(`${method} ${url}: ${res.status} ${text}`)
-  return text ? JSON.parse(text) : null
-}
+const { root, db, base, session, call, stop } = await serveBenchApp({ database: 'priorsmith_load', port: Number(process.env.LOAD_PORT ?? 3917), env: { SESSION_SECRET: 'load-bench', SIGN_IN_LIMIT: '100000' } })
 
 const stamp = Date.now()
 console.log(`setting up: ${EXPERTS} expert accounts, a study, a round, a pilot dataset and a reconciled prior…`)
@@ -71,11 +31,6 @@ form.append('file', new Blob(['v\n3.1\n4.6\n2.4\n3.8\n5.2\n2.9\n4.1\n3.5\n']), '
 const dataset = await (await fetch(`${base}/api/studies/${study.id}/datasets`, { method: 'POST', headers: { cookie: analyst.cookie, 'x-csrf-token': analyst.token }, body: form })).json()
 await db('reconciliations').insert({ quantity_id: quantity.id, round_id: round.id, method: 'linear', weights_mode: 'equal', family: 'gamma', distribution: JSON.stringify({ family: 'gamma', shape: 6, rate: 1.6 }), status: 'reconciled', rationale: 'Load benchmark fixture.' })
 const sessions = await Promise.all(emails.map((e) => session(e, PASSWORD)))
-
-/** Nearest-rank percentile of sorted values (common practice). */
-function percentile(sorted: number[], p: number): number {
-  return sorted.length ? sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)] : NaN
-}
 
 interface Measured {
   requests: number
@@ -215,6 +170,5 @@ if (existsSync(assets)) {
 } else {
   console.log('no dist/ build: run `npm run build` for the bundle figures')
 }
-server.kill('SIGTERM')
-await db.destroy()
+await stop()
 process.exit(0)
