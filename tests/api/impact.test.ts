@@ -81,6 +81,26 @@ describe('pilot data uploads', () => {
     })
   }
 
+  it('refuses every line whose field count differs from the header, with its line and column as data', async () => {
+    const fields = { quantityId: countsId, name: 'Burst logs', model: 'poisson', countColumn: 'bursts', exposureColumn: 'exposure' }
+    const before = (await h.db('pilot_datasets').where({ quantity_id: countsId })).length
+    // An exposure written with a thousands separator splits into an extra field on line 3.
+    const extra = await upload(fields, csv('district,bursts,exposure\nKV-01,11,1.10\nEast,4,1,250.5\nKV-03,16,1.40\n'))
+    expect(extra.status).toBe(400)
+    expect(extra.body.error).toMatchObject({ line: 3, column: 4, fields: { file: 'Line 3: expected 3 fields like the header, found 4.' } })
+    // A short line after a blank line and a quoted value spanning two lines keeps its own line number.
+    const short = await upload(fields, csv('district,bursts,exposure\n"KV\n01",11,1.10\n\nKV-02,7\n'))
+    expect(short.status).toBe(400)
+    expect(short.body.error).toMatchObject({ line: 5, column: 3, fields: { file: 'Line 5: expected 3 fields like the header, found 2.' } })
+    const cell = await upload(fields, csv('district,bursts,exposure\nA,3,1.2\nB,three,0.9\n'))
+    expect(cell.body.error).toMatchObject({ line: 3, column: 2 })
+    expect(await h.db('pilot_datasets').where({ quantity_id: countsId })).toHaveLength(before)
+    const preview = await analyst.agent.post(`/api/studies/${studyId}/datasets/preview`).set('x-csrf-token', analyst.token)
+      .attach('file', csv('a,b\n1,2\n3,4,5\n'), { filename: 'p.csv', contentType: 'text/csv' })
+    expect(preview.status).toBe(400)
+    expect(preview.body.error).toMatchObject({ line: 3, column: 3 })
+  })
+
   it('refuses an empty file and one over 2 MB', async () => {
     const fields = { quantityId: countsId, name: 'Burst logs', model: 'poisson', countColumn: 'bursts', exposureColumn: 'exposure' }
     const empty = await upload(fields, Buffer.alloc(0))
