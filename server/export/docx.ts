@@ -2,6 +2,7 @@ import {
   AlignmentType, BorderStyle, Document, Footer, HeadingLevel, ImageRun, Packer, PageBreak, PageNumber, Paragraph, ShadingType,
   Table, TableCell, TableOfContents, TableRow, TextRun, WidthType,
 } from 'docx'
+import { cautionText } from '../../shared/elicitation/record-cautions'
 
 type Json = Record<string, any>
 
@@ -46,6 +47,17 @@ function table(header: string[], rows: string[][], numericFrom = 1): Table {
 
 const STATUS: Record<string, string> = { draft: 'Draft', in_review: 'In review', signed_off: 'Signed off' }
 
+/** What produced the record (application, engine, commit); records stored before schema 1.1 do not say. */
+function producedBySection(produced: Json | undefined, n: number): Paragraph[] {
+  if (!produced) return []
+  return [
+    h(`${n}. Software that produced this record`, HeadingLevel.HEADING_1),
+    p(`${produced.application} ${produced.version}`),
+    p(`Statistical engine ${produced.engineVersion}`),
+    p(produced.commit ? `Repository commit ${produced.commit}` : 'Repository commit not known (the application was not run from a git checkout).'),
+  ]
+}
+
 /** The prior record as a Word document: title page, contents, one section per quantity, sign-off, cautions, history. */
 export async function recordDocx(content: Json, meta: Json, charts: Map<string, Buffer>, comments: Json[], history: Json[]): Promise<Buffer> {
   const body: (Paragraph | Table | TableOfContents)[] = []
@@ -55,7 +67,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
     p(`Version ${meta.version} · ${STATUS[meta.status] ?? meta.status}`, { size: 24 }),
     p(meta.signedOffAt ? `Signed off by ${meta.signedOffBy} on ${meta.signedOffAt}` : 'Not signed off', { size: 22 }),
     p(`Content SHA-256: ${meta.contentHash}`, { size: 18, color: '5B6B7A' }),
-    p(content.cautions[0], { italics: true, size: 20, color: '8A5A12' }),
+    p(cautionText(content.cautions[0]), { italics: true, size: 20, color: '8A5A12' }),
     new Paragraph({ children: [new PageBreak()] }),
     h('Contents', HeadingLevel.HEADING_1),
     new TableOfContents('Contents', { hyperlink: true, headingStyleRange: '1-2' }),
@@ -130,20 +142,25 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
         ...q.impact.findings.map((f: string) => p(f)),
         ...(q.impact.sweep ? [p(`Width sweep: evidence ratio over k in [0.5, 2] = ${fmt(q.impact.sweep.evidenceRatio, 4)}; ${q.impact.sweep.priorDriven ? 'Bayes factors built on this prior are prior-driven.' : 'not prior-driven.'} ${q.impact.sweep.rule}`, { size: 20 })] : []),
       )
+    } else if (q.finalPrior) {
+      body.push(p(q.impactNotRunReason
+        ? `No impact analysis of the final prior was run. The analyst’s reason: ${q.impactNotRunReason}`
+        : 'No impact analysis of the final prior exists.'))
     } else {
-      body.push(p('No impact analysis has been run.'))
+      body.push(p('No impact analysis: there is no final prior yet.'))
     }
   })
   const last = (content.quantities as Json[]).length + 4
   body.push(
     h(`${last}. Cautions`, HeadingLevel.HEADING_1),
-    ...(content.cautions as string[]).map((c) => p(c)),
+    ...(content.cautions as Json[]).map((c) => p(cautionText(c))),
     h(`${last + 1}. Review and sign-off`, HeadingLevel.HEADING_1),
     p(`Status: ${STATUS[meta.status] ?? meta.status}.`),
     p(meta.signedOffAt ? `Signed off by ${meta.signedOffBy} at ${meta.signedOffAt}. Audit chain head at sign-off: ${meta.auditHead}.` : 'Awaiting sign-off by a reviewer of the study.'),
     ...(comments.length ? [table(['When', 'Who', 'Section', 'Comment'], comments.map((c) => [c.createdAt, c.author, c.section, c.body]), 9)] : []),
     h(`${last + 2}. Change history`, HeadingLevel.HEADING_1),
     table(['When', 'Who', 'What', 'Event hash'], history.map((e) => [e.at, e.actor, e.action + (e.subject ? ` (${e.subject})` : ''), e.hash.slice(0, 16)]), 9),
+    ...producedBySection(content.producedBy, last + 3),
   )
 
   const doc = new Document({

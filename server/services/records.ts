@@ -87,10 +87,16 @@ export async function setShowNames(db: Db, user: User, studyId: number, showName
 export async function submitRecord(db: Db, user: User, studyId: number) {
   const row = await ensureRecord(db, studyId)
   const content = await assembleRecord(db, studyId, { showNames: row.show_names, version: row.version })
-  const quantities = content.quantities as { finalPrior: unknown; name: string }[]
+  const quantities = content.quantities
   const missing = quantities.filter((q) => !q.finalPrior).map((q) => q.name)
   if (quantities.length === 0) throw new HttpError(400, 'The study has no quantities yet')
   if (missing.length) throw new HttpError(400, `Reconcile every quantity first: ${missing.join(', ')}`, { quantities: `Not reconciled: ${missing.join(', ')}` })
+  const unanalysed = quantities.filter((q) => q.finalPrior && !q.impact && !q.impactNotRunReason).map((q) => q.name)
+  if (unanalysed.length) {
+    throw new HttpError(400, `No impact analysis of the final prior: ${unanalysed.join(', ')}`, {
+      impact: `Run an impact analysis of the final prior, or record why none was run: ${unanalysed.join(', ')}`,
+    })
+  }
   const hash = contentHash(content)
   await transition(db, row, ['draft'], { status: 'in_review', content: JSON.stringify(content), content_hash: hash, submitted_at: db.fn.now(), submitted_by: user.id })
   await recordAudit(db, { actorId: user.id, studyId, action: 'record.submit', subject: `record:v${row.version}`, details: { contentHash: hash } })

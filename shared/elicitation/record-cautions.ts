@@ -1,0 +1,91 @@
+/**
+ * The cautions a prior record states: the two that hold for every record, then those raised by this record's own
+ * facts. One function, run by the server when it assembles the record (so the cautions are in its content and hash)
+ * and by the browser for a stored record that predates them.
+ */
+
+export interface RecordCaution {
+  /** Which rule raised it: 'statistician-review', 'prior-influence', 'not-reconciled', 'seen-pilot-data', a flag of the final prior, 'hand-adjusted', 'few-calibration-questions', 'no-impact-analysis'. */
+  rule: string
+  /** The quantity it concerns, by name; null for the record as a whole. */
+  quantity: string | null
+  text: string
+}
+
+export const GENERAL_CAUTIONS: readonly RecordCaution[] = [
+  {
+    rule: 'statistician-review',
+    quantity: null,
+    text: 'The priors in this record can decide the result of the analyses that use them. Before they inform a decision that affects people, they must be reviewed under the regulatory or professional guidance that applies to that decision, and by a qualified statistician.',
+  },
+  {
+    rule: 'prior-influence',
+    quantity: null,
+    text: 'A prior that carries more information than the data (prior effective sample size larger than n) dominates the posterior; a prior–data conflict (Box p < 0.05) needs an explanation; a Bayes factor that changes more than 3× across the width sweep reflects the prior’s width rather than the data.',
+  },
+]
+
+/** Caution flags of a candidate prior, in words. */
+export const FLAG_LABELS: Record<string, string> = {
+  'prior-dominates': 'Prior dominates the data (prior ESS larger than n)',
+  'prior-data-conflict': 'Prior–data conflict (Box p < 0.05)',
+  'prior-driven-bayes-factor': 'Bayes factor driven by the prior’s width',
+}
+
+export const flagLabel = (flag: string): string => FLAG_LABELS[flag] ?? flag.replace(/-/g, ' ')
+
+/**
+ * Fewest calibration questions with known answers behind performance weights before the record cautions that the
+ * weights rest on little evidence: about ten seed questions is the usual practice for Cooke's classical model (common practice).
+ */
+export const MIN_CALIBRATION_QUESTIONS = 10
+
+/** The parts of a record the cautions read (the record content has this shape). */
+export interface CautionFacts {
+  panel: { code: string; name?: string | null; declarations: { seenPilotData: boolean }[] }[]
+  calibration: { questions: { trueValue: number | null }[] }
+  quantities: {
+    name: string
+    finalPrior: unknown | null
+    combination: { weightsMode: string; adjusted: boolean; adjustReason: string } | null
+    impact: { candidates: { kind: string; flags: string[] }[]; sweep: { priorDriven: boolean } | null } | null
+    impactNotRunReason?: string | null
+  }[]
+}
+
+const expertName = (e: { code: string; name?: string | null }) => (e.name ? `${e.code} (${e.name})` : e.code)
+
+/** The general cautions, then each one this record's facts raise, in the order of the record. */
+export function recordCautions(facts: CautionFacts): RecordCaution[] {
+  const out: RecordCaution[] = [...GENERAL_CAUTIONS]
+  for (const e of facts.panel) {
+    if (e.declarations.some((d) => d.seenPilotData)) {
+      out.push({ rule: 'seen-pilot-data', quantity: null, text: `${expertName(e)} had seen the pilot data before answering: the same evidence may count twice, in the prior and in the data.` })
+    }
+  }
+  const known = facts.calibration.questions.filter((q) => q.trueValue !== null).length
+  for (const q of facts.quantities) {
+    const add = (rule: string, text: string) => out.push({ rule, quantity: q.name, text: `${q.name}: ${text}` })
+    if (!q.finalPrior) {
+      add('not-reconciled', 'no final prior yet (not reconciled).')
+      continue
+    }
+    const final = q.impact?.candidates.find((c) => c.kind === 'reconciled')
+    const flags = [...(final?.flags ?? [])]
+    if (q.impact?.sweep?.priorDriven && !flags.includes('prior-driven-bayes-factor')) flags.push('prior-driven-bayes-factor')
+    for (const f of flags) add(f, `the final prior is flagged: ${flagLabel(f)}.`)
+    if (q.combination?.adjusted) add('hand-adjusted', `the final prior was adjusted by hand (${q.combination.adjustReason || 'no reason given'}).`)
+    if (q.combination?.weightsMode === 'performance' && known < MIN_CALIBRATION_QUESTIONS) {
+      add('few-calibration-questions', `the performance weights rest on ${known} calibration question${known === 1 ? '' : 's'} with known answers, fewer than the ${MIN_CALIBRATION_QUESTIONS} usual for Cooke’s classical model; they may reflect chance more than skill.`)
+    }
+    if (!q.impact) {
+      add('no-impact-analysis', q.impactNotRunReason
+        ? `no impact analysis of the final prior was run; the analyst’s reason: ${q.impactNotRunReason}`
+        : 'no impact analysis of the final prior exists.')
+    }
+  }
+  return out
+}
+
+/** A caution's words: records stored before schema 1.1 hold plain text. */
+export const cautionText = (c: string | RecordCaution): string => (typeof c === 'string' ? c : c.text)
