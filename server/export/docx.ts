@@ -2,7 +2,7 @@ import {
   AlignmentType, BorderStyle, Document, Footer, HeadingLevel, ImageRun, Packer, PageBreak, PageNumber, Paragraph, ShadingType,
   Table, TableCell, TableOfContents, TableRow, TextRun, WidthType,
 } from 'docx'
-import { cautionText } from '../../shared/elicitation/record-cautions'
+import { cautionText, type RecordCaution } from '../../shared/elicitation/record-cautions'
 
 type Json = Record<string, any>
 
@@ -153,7 +153,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
   const last = (content.quantities as Json[]).length + 4
   body.push(
     h(`${last}. Cautions`, HeadingLevel.HEADING_1),
-    ...(content.cautions as Json[]).map((c) => p(cautionText(c))),
+    ...(content.cautions as (string | RecordCaution)[]).map((c) => p(cautionText(c))),
     h(`${last + 1}. Review and sign-off`, HeadingLevel.HEADING_1),
     p(`Status: ${STATUS[meta.status] ?? meta.status}.`),
     p(meta.signedOffAt ? `Signed off by ${meta.signedOffBy} at ${meta.signedOffAt}. Audit chain head at sign-off: ${meta.auditHead}.` : 'Awaiting sign-off by a reviewer of the study.'),

@@ -51,6 +51,7 @@ export async function getRecord(db: Db, access: StudyAccess, version?: number) {
   const people = await db('users').whereIn('id', [row.signed_off_by].filter((x): x is number => x !== null)).select('id', 'display_name')
   const versions = await db('prior_records').where({ study_id: access.studyId }).select('version', 'status', 'content_hash', 'signed_off_at').orderBy('version', 'desc')
   const charts = await db('record_charts').where({ record_id: row.id }).pluck('symbol')
+  const quantityIds = await db('quantities').where({ study_id: access.studyId }).select('id', 'symbol')
   const chain = await verifyAuditChain(db)
   const history = await db('audit_events as a').leftJoin('users as u', 'u.id', 'a.actor_id').where('a.study_id', access.studyId)
     .select('a.at', 'a.action', 'a.subject', 'u.display_name as actor', 'a.hash').orderBy('a.id')
@@ -62,6 +63,7 @@ export async function getRecord(db: Db, access: StudyAccess, version?: number) {
       submittedAt: row.submitted_at?.toISOString() ?? null, signedOffAt: row.signed_off_at?.toISOString() ?? null,
       signedOffBy: people.find((p) => p.id === row.signed_off_by)?.display_name ?? null, auditHead: row.audit_head, basedOn: row.based_on,
       chartsFor: charts,
+      quantityIds: Object.fromEntries(quantityIds.map((q) => [q.symbol, q.id])),
     },
     content,
     comments: comments.map((c) => ({ id: c.id, section: c.section, body: c.body, kind: c.kind, author: c.author, createdAt: c.created_at.toISOString() })),

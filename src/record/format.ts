@@ -100,14 +100,8 @@ export const WEIGHTS_LABELS: Record<RecordCombination['weightsMode'], string> = 
 
 export const LANGUAGE_LABELS: Record<string, string> = { stan: 'Stan', pymc: 'PyMC', jags: 'JAGS', brms: 'brms' }
 
-/** Caution flags of a candidate prior, in words. */
-export const FLAG_LABELS: Record<string, string> = {
-  'prior-dominates': 'Prior dominates the data (prior ESS larger than n)',
-  'prior-data-conflict': 'Prior–data conflict (Box p < 0.05)',
-  'prior-driven-bayes-factor': 'Bayes factor driven by the prior’s width',
-}
-
-export const flagLabel = (flag: string): string => FLAG_LABELS[flag] ?? flag.replace(/-/g, ' ')
+/** Caution flags of a candidate prior, in words (the record's cautions use the same). */
+export { FLAG_LABELS, flagLabel } from '@shared/elicitation/record-cautions'
 
 /** Audit actions of the change history in words ("record.sign-off" → "Record signed off"). */
 const ACTION_LABELS: Record<string, string> = {

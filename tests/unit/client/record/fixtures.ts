@@ -56,6 +56,7 @@ export function recordView(status: RecordStatus = 'draft', overrides: Partial<Re
       version: 1, status, showNames: false, rowVersion: 1, contentHash: status === 'draft' ? null : hash, liveHash: hash,
       submittedAt: status === 'draft' ? null : '2026-03-10T10:00:00.000Z', signedOffAt: status === 'signed_off' ? '2026-03-11T10:00:00.000Z' : null,
       signedOffBy: status === 'signed_off' ? 'Ingrid Solberg' : null, auditHead: status === 'signed_off' ? 'b'.repeat(64) : null, basedOn: null, chartsFor: [],
+      quantityIds: { flow: 11, uptake: 12 },
     },
     content: {
       $schema: 'https://priorsmith.example/schemas/prior-record-1.json', schemaVersion: '1.0',
