@@ -1,5 +1,7 @@
 import { createHash } from 'node:crypto'
 import type { Knex } from 'knex'
+import { readCsvTable } from '../shared/elicitation/csv'
+import { extractPilotData, type PilotMapping } from '../shared/elicitation/pilot'
 import { canonicalJson } from '../server/services/audit'
 
 const sha256 = (value: unknown) => createHash('sha256').update(canonicalJson(value)).digest('hex')
@@ -14,6 +16,18 @@ export async function up(knex: Knex): Promise<void> {
   for (const r of rows) {
     const reconciled = (r.result?.candidates ?? []).find((c: { kind: string }) => c.kind === 'reconciled')
     if (reconciled) await knex('impact_analyses').where({ id: r.id }).update({ prior_hash: sha256(reconciled.prior) })
+  }
+  // Binomial pilot data keep their rows, so the evidence carries the per-row coefficients: read again from the stored file.
+  const binomial = await knex('pilot_datasets').where({ model: 'binomial' }).select('id', 'csv', 'mapping')
+  for (const d of binomial) {
+    const { delimiter = ',', ...mapping } = d.mapping as PilotMapping & { delimiter?: string }
+    const { rows, lines } = readCsvTable(d.csv, delimiter)
+    try {
+      const { data } = extractPilotData(rows, mapping as PilotMapping, lines)
+      await knex('pilot_datasets').where({ id: d.id }).update({ data: JSON.stringify(data) })
+    } catch {
+      // A file stored before today's checks that they now refuse keeps its totals (the evidence then uses C(n, y)).
+    }
   }
   // The analyst's reason for stating a final prior without an impact analysis, tied to that prior.
   await knex.schema.createTable('impact_not_run', (t) => {

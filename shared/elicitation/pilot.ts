@@ -87,21 +87,25 @@ export function extractPilotData(table: string[][], mapping: PilotMapping, fileL
         const c = columnIndex(names, mapping.binaryColumn)
         const ys = body.map((r, i) => numberAt(r, c, line(i), mapping.binaryColumn, 'binary'))
         const successes = ys.reduce((s, v) => s + v, 0)
-        return { data: { model: 'binomial', successes, trials: ys.length }, summary: { rows: ys.length, n: ys.length, description: `${successes} of ${ys.length}` } }
+        const rows = { successes: ys, trials: ys.map(() => 1) }
+        return { data: { model: 'binomial', successes, trials: ys.length, rows }, summary: { rows: ys.length, n: ys.length, description: `${successes} of ${ys.length}` } }
       }
       const cs = columnIndex(names, mapping.successesColumn)
       const ct = columnIndex(names, mapping.trialsColumn)
       let successes = 0
       let trials = 0
+      const rows = { successes: [] as number[], trials: [] as number[] }
       body.forEach((r, i) => {
         const s = numberAt(r, cs, line(i), mapping.successesColumn, 'count')
         const t = numberAt(r, ct, line(i), mapping.trialsColumn, 'count')
         if (s > t) throw new PilotDataError(`${s} successes is more than the ${t} trials on this line`, line(i), mapping.successesColumn, cs + 1)
         successes += s
         trials += t
+        rows.successes.push(s)
+        rows.trials.push(t)
       })
       if (trials === 0) throw new PilotDataError('The trials add up to 0; there is nothing to learn from.')
-      return { data: { model: 'binomial', successes, trials }, summary: { rows: body.length, n: trials, description: `${successes} of ${trials}` } }
+      return { data: { model: 'binomial', successes, trials, rows }, summary: { rows: body.length, n: trials, description: `${successes} of ${trials}` } }
     }
     case 'poisson': {
       const cc = columnIndex(names, mapping.countColumn)

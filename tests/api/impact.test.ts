@@ -54,7 +54,7 @@ describe('pilot data uploads', () => {
   it('reads a 0/1 column as binomial successes and trials', async () => {
     const res = await upload({ quantityId: shareId, name: 'Survey', model: 'binomial', binomialLayout: 'binary', binaryColumn: 'joins' }, csv('id,joins\n1,1\n2,0\n3,1\n4,0\n5,0\n'))
     expect(res.status).toBe(201)
-    expect(res.body.data).toEqual({ model: 'binomial', successes: 2, trials: 5 })
+    expect(res.body.data).toEqual({ model: 'binomial', successes: 2, trials: 5, rows: { successes: [1, 0, 1, 0, 0], trials: [1, 1, 1, 1, 1] } })
   })
 
   const badFiles: [string, Record<string, string | number>, string, string][] = [
