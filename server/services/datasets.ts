@@ -21,6 +21,7 @@ export interface UploadFields {
   binaryColumn?: string
   countColumn?: string
   exposureColumn?: string
+  allowDuplicate?: boolean
 }
 
 export function mappingFrom(f: UploadFields): PilotMapping {
@@ -81,12 +82,19 @@ export async function createDataset(db: Db, user: User, studyId: number, fields:
     if (err instanceof PilotDataError) throw new HttpError(400, 'The file does not fit the chosen model', { file: err.message }, { line: err.line, column: err.columnNumber })
     throw err
   }
+  const sha256 = createHash('sha256').update(file.buffer).digest('hex')
   const row = await db.transaction(async (trx) => {
     await trx.raw('SELECT id FROM quantities WHERE id = ? FOR UPDATE', [fields.quantityId])
+    const same = await trx('pilot_datasets').where({ quantity_id: fields.quantityId, sha256 }).orderBy('version', 'desc').first('id', 'version', 'name', 'created_at')
+    if (same && !fields.allowDuplicate) {
+      throw new HttpError(409, `This file is the same as version ${same.version} (“${same.name}”) already stored for this quantity. Keep that version, or upload again with allowDuplicate to store it as a new version.`, undefined, {
+        code: 'duplicate-file', duplicateOfId: same.id, duplicateOfVersion: same.version, duplicateOfName: same.name, duplicateOfCreatedAt: same.created_at.toISOString(),
+      })
+    }
     const [{ max }] = await trx('pilot_datasets').where({ quantity_id: fields.quantityId }).max('version as max')
     const [r] = await trx('pilot_datasets').insert({
       study_id: studyId, quantity_id: fields.quantityId, version: (max ?? 0) + 1, name: fields.name, filename: file.originalname.slice(0, 200),
-      model: fields.model, mapping: JSON.stringify({ ...mapping, delimiter: fields.delimiter }), csv: text, sha256: createHash('sha256').update(file.buffer).digest('hex'),
+      model: fields.model, mapping: JSON.stringify({ ...mapping, delimiter: fields.delimiter }), csv: text, sha256,
       row_count: extracted.summary.rows, data: JSON.stringify(extracted.data), summary: JSON.stringify(extracted.summary), uploaded_by: user.id,
     }).returning('*')
     return r

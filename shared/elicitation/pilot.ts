@@ -1,4 +1,4 @@
-import type { PilotData, PriorDistribution } from '../stats/index'
+import { decimalSum, type PilotData, type PriorDistribution } from '../stats/index'
 
 export const PILOT_MODELS = ['normal-known-sigma', 'normal', 'binomial', 'poisson'] as const
 export type PilotModel = (typeof PILOT_MODELS)[number]
@@ -76,7 +76,7 @@ export function extractPilotData(table: string[][], mapping: PilotMapping, fileL
     case 'normal': {
       const c = columnIndex(names, mapping.valueColumn)
       const values = body.map((r, i) => numberAt(r, c, line(i), mapping.valueColumn, 'real'))
-      const mean = values.reduce((s, v) => s + v, 0) / values.length
+      const mean = decimalSum(values) / values.length
       const data: PilotData = mapping.model === 'normal-known-sigma'
         ? { model: 'normal-known-sigma', sigma: mapping.sigma, values }
         : { model: 'normal', values, sigmaPrior: mapping.sigmaPrior }
@@ -113,8 +113,8 @@ export function extractPilotData(table: string[][], mapping: PilotMapping, fileL
       const counts = body.map((r, i) => numberAt(r, cc, line(i), mapping.countColumn, 'count'))
       const exposures = body.map((r, i) => numberAt(r, ce, line(i), mapping.exposureColumn, 'positive'))
       const total = counts.reduce((s, v) => s + v, 0)
-      const exposure = exposures.reduce((s, v) => s + v, 0)
-      return { data: { model: 'poisson', counts, exposures }, summary: { rows: counts.length, n: exposure, description: `${total} events over ${exposure.toPrecision(4)} exposure units` } }
+      const exposure = decimalSum(exposures)
+      return { data: { model: 'poisson', counts, exposures }, summary: { rows: counts.length, n: exposure, description: `${total} events over ${exposure} exposure units` } }
     }
   }
 }

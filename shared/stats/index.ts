@@ -48,3 +48,4 @@ export {
 export { bayesFactor, JEFFREYS_SCALE, KASS_RAFTERY_SCALE } from './bayes-factor'
 export { PRIOR_DRIVEN_RULE, scaleSpread, widthSweep } from './sweep'
 export { ENGINE_VERSION } from './version'
+export { decimalSum } from './sum'
