@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { canonicalJson } from '../../server/services/audit'
 import { contentHash } from '../../server/services/records'
 import { ENGINE_VERSION } from '../../shared/stats/index'
-import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
+import { Client, normalQuantileAnswer as normalAnswer, openQuantileRound, signedIn, startApi, type ApiHarness } from '../support/api'
 
 /**
  * What the prior record states must be true of the prior it records: the impact analysis of that very prior (never one
@@ -20,14 +20,6 @@ let studyId: number
 let quantityId: number
 let roundId: number
 let datasetId: number
-const day = 24 * 3600 * 1000
-const Z75 = 0.674489750196081743 // standard normal 0.75 quantile (from memory)
-
-const normalAnswer = (mu: number, sigma: number) => ({
-  method: 'quantile', lower: mu - 5 * sigma, upper: mu + 5 * sigma,
-  points: [{ value: mu - sigma * Z75, prob: 0.25 }, { value: mu, prob: 0.5 }, { value: mu + sigma * Z75, prob: 0.75 }],
-  chosenFamily: 'normal', rationale: 'Night-flow records of the eight pilot districts.',
-})
 const FINAL = { family: 'student-t', mu: 12, sigma: 2.5, df: 6 }
 const REFERENCE = { family: 'normal', mu: 10, sigma: 20 }
 const PACKAGE_VERSION = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')).version as string
@@ -69,12 +61,7 @@ beforeAll(async () => {
   for (const [i, truth] of [61, 7.4, 230].entries()) {
     questions.push((await analyst.post(`/api/studies/${studyId}/calibration-questions`, { question: `Seed question ${i + 1} with a known answer`, unit: 'u', trueValue: truth }).expect(201)).body.id)
   }
-  roundId = (await analyst.post(`/api/studies/${studyId}/rounds`, {
-    title: 'Round 1', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * day).toISOString(),
-    items: [{ quantityId, method: 'quantile' }],
-  }).expect(201)).body.id
-  for (const email of ['expert1@kestrel.example', 'expert2@kestrel.example']) await analyst.post(`/api/rounds/${roundId}/invitations`, { email, name: 'Panel member' }).expect(201)
-  await analyst.post(`/api/rounds/${roundId}/open`).expect(200)
+  roundId = await openQuantileRound(analyst, studyId, [quantityId], ['expert1@kestrel.example', 'expert2@kestrel.example'])
   const answers = [normalAnswer(10, 2), normalAnswer(14, 3)]
   for (const [k, c] of experts.entries()) {
     await c.put(`/api/rounds/${roundId}/declaration`, { expertise: 'Leakage control at a regional water utility.', interests: 'none', seenPilotData: k === 1 }).expect(200)
