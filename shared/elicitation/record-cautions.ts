@@ -1,3 +1,5 @@
+import { flagLabel } from '../record/format'
+
 /**
  * The cautions a prior record states: the two that hold for every record, then those raised by this record's own
  * facts. One function, run by the server when it assembles the record (so the cautions are in its content and hash)
@@ -5,7 +7,7 @@
  */
 
 export interface RecordCaution {
-  /** Which rule raised it: 'statistician-review', 'prior-influence', 'not-reconciled', 'seen-pilot-data', a flag of the final prior, 'hand-adjusted', 'few-calibration-questions', 'no-impact-analysis'. */
+  /** Which rule raised it: 'statistician-review', 'prior-influence', 'left-out', 'not-reconciled', 'seen-pilot-data', a flag of the final prior, 'hand-adjusted', 'few-calibration-questions', 'no-impact-analysis'. */
   rule: string
   /** The quantity it concerns, by name; null for the record as a whole. */
   quantity: string | null
@@ -25,15 +27,6 @@ export const GENERAL_CAUTIONS: readonly RecordCaution[] = [
   },
 ]
 
-/** Caution flags of a candidate prior, in words. */
-export const FLAG_LABELS: Record<string, string> = {
-  'prior-dominates': 'Prior dominates the data (prior ESS larger than n)',
-  'prior-data-conflict': 'Prior–data conflict (Box p < 0.05)',
-  'prior-driven-bayes-factor': 'Bayes factor driven by the prior’s width',
-}
-
-export const flagLabel = (flag: string): string => FLAG_LABELS[flag] ?? flag.replace(/-/g, ' ')
-
 /**
  * Fewest calibration questions with known answers behind performance weights before the record cautions that the
  * weights rest on little evidence: about ten seed questions is the usual practice for Cooke's classical model (common practice).
@@ -46,6 +39,8 @@ export interface CautionFacts {
   calibration: { questions: { trueValue: number | null }[] }
   quantities: {
     name: string
+    /** Left out of the record with a reason: the record says so and states nothing else about it. */
+    leftOut?: { reason: string } | null
     finalPrior: unknown | null
     combination: { weightsMode: string; adjusted: boolean; adjustReason: string } | null
     impact: { candidates: { kind: string; flags: string[] }[]; sweep: { priorDriven: boolean } | null } | null
@@ -66,6 +61,10 @@ export function recordCautions(facts: CautionFacts): RecordCaution[] {
   const known = facts.calibration.questions.filter((q) => q.trueValue !== null).length
   for (const q of facts.quantities) {
     const add = (rule: string, text: string) => out.push({ rule, quantity: q.name, text: `${q.name}: ${text}` })
+    if (q.leftOut) {
+      add('left-out', `left out of this record (${q.leftOut.reason}).`)
+      continue
+    }
     if (!q.finalPrior) {
       add('not-reconciled', 'no final prior yet (not reconciled).')
       continue
