@@ -145,7 +145,7 @@ describe('the record states its own cautions and what produced it', () => {
     expect(content.quantities[0].impact.sweep.priorDriven).toBe(true)
     expect(content.cautions[3]).toEqual({ rule: 'prior-driven-bayes-factor', quantity: 'Night-flow reduction', text: 'Night-flow reduction: the final prior is flagged: Bayes factor driven by the prior’s width.' })
     const seen = content.cautions.find((c: { rule: string }) => c.rule === 'seen-pilot-data')
-    expect(seen.text).toBe('E2 had seen the pilot data before answering: the same evidence may count twice, in the prior and in the data.')
+    expect(seen.text).toBe('Expert B had seen the pilot data before answering: the same evidence may count twice, in the prior and in the data.')
     expect(content.cautions.find((c: { rule: string }) => c.rule === 'few-calibration-questions').text).toContain('rest on 3 calibration questions with known answers, fewer than the 10')
     expect(content.cautions.find((c: { rule: string }) => c.rule === 'hand-adjusted').text).toBe('Night-flow reduction: the final prior was adjusted by hand (Heavier tails than the pool: the 2019 burst season is not in the records.).')
 
