@@ -6,6 +6,7 @@ import { BUILD_INFO } from '../build-info'
 import { studyExpertLabels } from './expert-labels'
 import { priorHash } from './impact'
 import { supportOf } from './quantities'
+import { savedWeightCautions } from './reconciliation'
 
 export const RECORD_SCHEMA_ID = 'https://priorsmith.example/schemas/prior-record-1.json'
 export const RECORD_SCHEMA_VERSION = '1.1'
@@ -56,6 +57,9 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
 
   const calibrationQuestions = await db('calibration_questions').where({ study_id: studyId }).orderBy(['position', 'id'])
 
+  const weightCautions = new Map<number, string[]>()
+  for (const rec of recs) weightCautions.set(rec.quantity_id, await savedWeightCautions(db, rec, studyId))
+
   const quantityRecords = quantities.map((q) => {
     const rec = recs.find((r) => r.quantity_id === q.id)
     const final: Distribution | null = rec?.status === 'reconciled' ? rec.distribution : null
@@ -82,11 +86,11 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       evidenceFiles: files.filter((f) => f.quantity_id === q.id).map((f) => ({ filename: f.filename, sha256: f.sha256, bytes: f.size_bytes })),
       rounds: roundRefs,
       judgements: judgements.filter((j) => j.quantity_id === q.id).map((j) => {
-        const fits = j.fits as FitResult[]
+        const fits = j.fits as (FitResult & { warnings?: string[] })[]
         const fit = fits.find((f) => f.distribution.family === j.chosen_family) ?? fits[0]
         return {
           round: rounds.find((r) => r.id === j.round_id)!.number, expert: who(j.expert_id), method: j.method, answer: j.answer, rationale: j.rationale,
-          fit: fit ? { distribution: fit.distribution, sse: fit.sse, ...summary(fit.distribution) } : null,
+          fit: fit ? { distribution: fit.distribution, sse: fit.sse, ...summary(fit.distribution), warnings: fit.warnings ?? [] } : null,
           chosenByExpert: !!j.chosen_family,
         }
       }),
@@ -94,6 +98,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
         round: rounds.find((r) => r.id === rec.round_id)?.number ?? null, method: rec.method, weightsMode: rec.weights_mode, weights: rec.weights,
         weightsReason: rec.weights_reason, cutoff: rec.cutoff, excludedExperts: (rec.excluded_experts as number[]).map((id) => who(id).code),
         consensus: rec.consensus, fitsOfCombination: rec.fits, adjusted: rec.adjusted, adjustReason: rec.adjust_reason, rationale: rec.rationale, status: rec.status,
+        weightCautions: weightCautions.get(q.id) ?? [],
       } : null,
       finalPrior: final ? {
         distribution: final, ...summary(final),
@@ -130,7 +135,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
     panel,
     calibration,
     quantities: quantityRecords,
-    cautions: recordCautions({ panel, calibration, quantities: quantityRecords }),
+    cautions: recordCautions({ panel, quantities: quantityRecords }),
     producedBy: BUILD_INFO,
   }
 }

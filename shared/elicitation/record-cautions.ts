@@ -7,7 +7,7 @@ import { flagLabel } from '../record/format'
  */
 
 export interface RecordCaution {
-  /** Which rule raised it: 'statistician-review', 'prior-influence', 'left-out', 'not-reconciled', 'seen-pilot-data', a flag of the final prior, 'hand-adjusted', 'few-calibration-questions', 'no-impact-analysis'. */
+  /** Which rule raised it: 'statistician-review', 'prior-influence', 'left-out', 'not-reconciled', 'seen-pilot-data', a flag of the final prior, 'hand-adjusted', 'performance-weights', 'no-impact-analysis'. */
   rule: string
   /** The quantity it concerns, by name; null for the record as a whole. */
   quantity: string | null
@@ -27,22 +27,16 @@ export const GENERAL_CAUTIONS: readonly RecordCaution[] = [
   },
 ]
 
-/**
- * Fewest calibration questions with known answers behind performance weights before the record cautions that the
- * weights rest on little evidence: about ten seed questions is the usual practice for Cooke's classical model (common practice).
- */
-export const MIN_CALIBRATION_QUESTIONS = 10
-
 /** The parts of a record the cautions read (the record content has this shape). */
 export interface CautionFacts {
   panel: { code: string; name?: string | null; declarations: { seenPilotData: boolean }[] }[]
-  calibration: { questions: { trueValue: number | null }[] }
   quantities: {
     name: string
     /** Left out of the record with a reason: the record says so and states nothing else about it. */
     leftOut?: { reason: string } | null
     finalPrior: unknown | null
-    combination: { weightsMode: string; adjusted: boolean; adjustReason: string } | null
+    /** weightCautions: the performance-weight cautions of the saved combination (shared/elicitation/weights.ts). */
+    combination: { adjusted: boolean; adjustReason: string; weightCautions?: string[] } | null
     impact: { candidates: { kind: string; flags: string[] }[]; sweep: { priorDriven: boolean } | null } | null
     impactNotRunReason?: string | null
   }[]
@@ -58,7 +52,6 @@ export function recordCautions(facts: CautionFacts): RecordCaution[] {
       out.push({ rule: 'seen-pilot-data', quantity: null, text: `${expertName(e)} had seen the pilot data before answering: the same evidence may count twice, in the prior and in the data.` })
     }
   }
-  const known = facts.calibration.questions.filter((q) => q.trueValue !== null).length
   for (const q of facts.quantities) {
     const add = (rule: string, text: string) => out.push({ rule, quantity: q.name, text: `${q.name}: ${text}` })
     if (q.leftOut) {
@@ -74,9 +67,7 @@ export function recordCautions(facts: CautionFacts): RecordCaution[] {
     if (q.impact?.sweep?.priorDriven && !flags.includes('prior-driven-bayes-factor')) flags.push('prior-driven-bayes-factor')
     for (const f of flags) add(f, `the final prior is flagged: ${flagLabel(f)}.`)
     if (q.combination?.adjusted) add('hand-adjusted', `the final prior was adjusted by hand (${q.combination.adjustReason || 'no reason given'}).`)
-    if (q.combination?.weightsMode === 'performance' && known < MIN_CALIBRATION_QUESTIONS) {
-      add('few-calibration-questions', `the performance weights rest on ${known} calibration question${known === 1 ? '' : 's'} with known answers, fewer than the ${MIN_CALIBRATION_QUESTIONS} usual for Cooke’s classical model; they may reflect chance more than skill.`)
-    }
+    for (const c of q.combination?.weightCautions ?? []) add('performance-weights', c)
     if (!q.impact) {
       add('no-impact-analysis', q.impactNotRunReason
         ? `no impact analysis of the final prior was run; the analyst’s reason: ${q.impactNotRunReason}`

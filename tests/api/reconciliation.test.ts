@@ -14,7 +14,8 @@ let quantityId: number
 let roundId: number
 let studyId: number
 
-// Quartiles of N(mu, sigma): least squares on the CDF recovers N(mu, sigma) exactly (REFERENCE.md §1.2, FIT-normal-symmetric).
+// Quartiles of N(mu, sigma) with the bounds at its 1 % and 99 % points (how the fit reads them): least squares on the
+// CDF recovers N(mu, sigma) exactly (REFERENCE.md §1.2, FIT-normal-symmetric).
 
 beforeAll(async () => {
   h = startApi()
@@ -106,6 +107,19 @@ describe('reconciliation workspace', () => {
     expect(stale.status).toBe(409)
     const detail = (await analyst.get(`/api/studies/${studyId}`)).body
     expect(detail.quantities[0].stage).toBe('reconciled')
+  })
+
+  it('cautions that performance weights rest on 2 experts, fewer than the stated minimum, on the screen and in the record', async () => {
+    const view = await analyst.get(`/api/quantities/${quantityId}/reconciliation`).expect(200)
+    expect(view.body.settings.weights).toBe('performance')
+    expect(view.body.weightCautions).toEqual([
+      'Performance weights here compare 2 experts; this tool asks for at least 4 before the weights say much. With so few, the weights mostly pick one person: compare the result with equal weights before relying on it.',
+    ])
+    const content = (await analyst.get(`/api/studies/${studyId}/record`).expect(200)).body.content
+    expect(content.quantities[0].combination.weightCautions).toEqual(view.body.weightCautions)
+    expect(content.cautions).toContain(`Night-flow reduction: ${view.body.weightCautions[0]}`)
+    const equal = await analyst.get(`/api/quantities/${quantityId}/reconciliation?roundId=${roundId}`).expect(200)
+    expect(equal.body.calibration.questionCount).toBe(10)
   })
 
   it('records a hand adjustment only with a reason, and fits an agreed consensus', async () => {

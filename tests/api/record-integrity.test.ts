@@ -140,13 +140,18 @@ describe('the record states its own cautions and what produced it', () => {
     const submitted = await analyst.post(`/api/studies/${studyId}/record/submit`).expect(200)
     const content = submitted.body.content
     expect(submitted.body.record.contentHash).toBe(contentHash(content))
-    expect(content.cautions.map((c: { rule: string }) => c.rule)).toEqual(['statistician-review', 'prior-influence', 'seen-pilot-data', 'prior-driven-bayes-factor', 'hand-adjusted', 'few-calibration-questions'])
+    expect(content.cautions.map((c: { rule: string }) => c.rule)).toEqual([
+      'statistician-review', 'prior-influence', 'seen-pilot-data', 'prior-driven-bayes-factor', 'hand-adjusted', 'performance-weights', 'performance-weights',
+    ])
     // The width sweep of the final prior on these five values finds its Bayes factor driven by the width: the final prior is flagged.
     expect(content.quantities[0].impact.sweep.priorDriven).toBe(true)
     expect(content.cautions[3]).toEqual({ rule: 'prior-driven-bayes-factor', quantity: 'Night-flow reduction', text: 'Night-flow reduction: the final prior is flagged: Bayes factor driven by the prior’s width.' })
     const seen = content.cautions.find((c: { rule: string }) => c.rule === 'seen-pilot-data')
     expect(seen.text).toBe('Expert B had seen the pilot data before answering: the same evidence may count twice, in the prior and in the data.')
-    expect(content.cautions.find((c: { rule: string }) => c.rule === 'few-calibration-questions').text).toContain('rest on 3 calibration questions with known answers, fewer than the 10')
+    // The performance-weight cautions come from the shared weight rule: 3 calibration questions and 2 experts are too few.
+    const weights = content.cautions.filter((c: { rule: string }) => c.rule === 'performance-weights').map((c: { text: string }) => c.text)
+    expect(weights[0]).toContain('Night-flow reduction: Performance weights here rest on 3 calibration questions')
+    expect(weights[1]).toContain('Night-flow reduction: Performance weights here compare 2 experts')
     expect(content.cautions.find((c: { rule: string }) => c.rule === 'hand-adjusted').text).toBe('Night-flow reduction: the final prior was adjusted by hand (Heavier tails than the pool: the 2019 burst season is not in the records.).')
 
     let commit: string | undefined
@@ -161,7 +166,7 @@ describe('the record states its own cautions and what produced it', () => {
     const stored = await h.db('prior_records').where({ study_id: studyId }).first('content', 'content_hash')
     expect(stored.content_hash).toBe(contentHash(stored.content))
     expect(contentHash({ ...stored.content, cautions: stored.content.cautions.slice(0, 2) })).not.toBe(stored.content_hash)
-    expect(canonicalJson(stored.content)).toContain('few-calibration-questions')
+    expect(canonicalJson(stored.content)).toContain('performance-weights')
 
     const json = await analyst.get(`/api/studies/${studyId}/record.json`).expect(200)
     const schema = JSON.parse(readFileSync(new URL('../../docs/prior-record.schema.json', import.meta.url), 'utf8'))

@@ -73,10 +73,15 @@ export async function signedIn(h: ApiHarness, email: string): Promise<Client> {
 
 /** Standard normal 0.75 quantile (from memory; 17 digits). */
 export const Z75 = 0.674489750196081743
+/** Standard normal 0.99 quantile (scipy.special.ndtri(0.99)): where the fit reads the plausible bounds. */
+export const Z99 = 2.326347874040841
 
-/** A quantile answer whose quartiles are those of N(mu, sigma): least squares on the CDF recovers N(mu, sigma) exactly. */
+/**
+ * A quantile answer whose quartiles are those of N(mu, sigma) and whose bounds are its 1 % and 99 % points (how the fit
+ * reads them): least squares on the CDF recovers N(mu, sigma) exactly.
+ */
 export const normalQuantileAnswer = (mu: number, sigma: number) => ({
-  method: 'quantile', lower: mu - 5 * sigma, upper: mu + 5 * sigma,
+  method: 'quantile', lower: mu - Z99 * sigma, upper: mu + Z99 * sigma,
   points: [{ value: mu - sigma * Z75, prob: 0.25 }, { value: mu, prob: 0.5 }, { value: mu + sigma * Z75, prob: 0.75 }],
   chosenFamily: 'normal', rationale: 'Night-flow records of the eight pilot districts.',
 })
