@@ -117,7 +117,7 @@ describe('reconciliation workspace', () => {
     ])
     const content = (await analyst.get(`/api/studies/${studyId}/record`).expect(200)).body.content
     expect(content.quantities[0].combination.weightCautions).toEqual(view.body.weightCautions)
-    expect(content.cautions).toContain(`Night-flow reduction: ${view.body.weightCautions[0]}`)
+    expect(content.cautions).toContainEqual({ rule: 'performance-weights', quantity: 'Night-flow reduction', text: `Night-flow reduction: ${view.body.weightCautions[0]}` })
     const equal = await analyst.get(`/api/quantities/${quantityId}/reconciliation?roundId=${roundId}`).expect(200)
     expect(equal.body.calibration.questionCount).toBe(10)
   })
