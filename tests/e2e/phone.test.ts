@@ -1,3 +1,4 @@
+import path from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { DEMO_STUDY_TITLE } from '../../seeds/demo'
@@ -67,12 +68,42 @@ afterAll(async () => {
   console.log(`axe-core figures per screen:\n${axeFigures()}`)
 })
 
-/** The page fits the phone and passes axe; a full-page screenshot from the top for a look by eye. */
+const ARTIFACTS = path.resolve(import.meta.dirname, '../../artifacts/e2e')
+
+/** The page fits the phone and passes axe; screenshots of the screen as the expert sees it and of the whole page. */
 async function check(s: BrowserSession, screen: string): Promise<void> {
+  // The pointer rests where the last tap was; move it off the page so that no hover colour is judged.
+  await s.page.mouse.move(0, 0)
+  await s.page.screenshot({ path: `${ARTIFACTS}/phone-${screen}-screen.png` })
   await s.page.evaluate(() => window.scrollTo(0, 0))
   await s.shot(`phone-${screen}`)
   await expectPhoneLayout(s.page, screen)
   await expectAccessible(s.page, screen)
+}
+
+/**
+ * The chip grid's drawing is a histogram to scale: each column's drawn width, in px, is proportional to its bin's
+ * width, and the height of its chips to chips per unit width (the axis says so).
+ */
+async function expectDrawnToScale(page: Page, counts: number[]): Promise<void> {
+  const columns = await page.getByTestId('chip-column').evaluateAll((els) =>
+    els.map((el) => ({
+      lo: Number(el.getAttribute('data-lo')),
+      hi: Number(el.getAttribute('data-hi')),
+      width: el.getBoundingClientRect().width,
+      chips: [...el.querySelectorAll('.chips__chip')].reduce((h, c) => h + c.getBoundingClientRect().height, 0),
+    })),
+  )
+  expect(columns.map((c) => c.lo)).toEqual(CHIP_EDGES.slice(0, -1))
+  expect(columns.map((c) => c.hi)).toEqual(CHIP_EDGES.slice(1))
+  // px per unit of the quantity, the same for every column: [30, 60] is drawn 30 times as wide as [0, 1).
+  const pxPerUnit = columns.map((c) => c.width / (c.hi - c.lo))
+  for (const r of pxPerUnit) expect(r).toBeCloseTo(pxPerUnit[0], 1)
+  expect(columns[9].width / columns[0].width).toBeCloseTo(30, 0)
+  // Height per (chips per unit), the same for every column with chips.
+  const pxPerDensity = columns.map((c, i) => (counts[i] ? c.chips / (counts[i] / (c.hi - c.lo)) : null)).filter((x): x is number => x !== null)
+  for (const r of pxPerDensity) expect(Math.abs(r - pxPerDensity[0])).toBeLessThan(0.02 * pxPerDensity[0])
+  expect(await page.getByTestId('chip-axis').innerText()).toBe('Height: chips per 1 L/s per district')
 }
 
 describe.each(PHONES.map((p, i) => ({ ...p, email: `expert${i + 1}@kestrel.example` })))('an expert on a $name phone', (phone) => {
@@ -114,7 +145,7 @@ describe.each(PHONES.map((p, i) => ({ ...p, email: `expert${i + 1}@kestrel.examp
     await check(s, at('05-practice-last-step'))
     await page.getByTestId('practice-submit').click()
     await page.getByTestId('practice-feedback').waitFor()
-    await page.getByTestId('practice-feedback').locator('canvas').first().waitFor()
+    await page.getByTestId('practice-feedback').locator('svg').first().waitFor()
     await check(s, at('06-practice-feedback'))
   })
 
@@ -134,7 +165,22 @@ describe.each(PHONES.map((p, i) => ({ ...p, email: `expert${i + 1}@kestrel.examp
     await field(page, 'q-p05').fill('6')
     await field(page, 'q-p95').fill('22')
     await expect.poll(() => page.getByTestId('feedback-card').getAttribute('data-ready')).toBe('true')
+    // The summary of the fit sits on screen together with the field just typed in, without scrolling.
+    await field(page, 'q-p95').scrollIntoViewIfNeeded()
+    const onScreen = await page.evaluate(() => {
+      const inView = (el: Element | null) => {
+        const r = el?.getBoundingClientRect()
+        return !!r && r.height > 0 && r.top >= 0 && r.bottom <= window.innerHeight
+      }
+      return { field: inView(document.querySelector('#q-input-p95')), summary: inView(document.querySelector('[data-testid="feedback-summary"]')) }
+    })
+    expect(onScreen).toEqual({ field: true, summary: true })
+    expect(await page.getByTestId('feedback-summary').innerText()).toMatch(/^Median [\d.]+ bursts per 100 km per year · 90 % between [\d.]+ and [\d.]+$/)
     await check(s, at('08-quantile-feedback'))
+    await page.getByTestId('feedback-toggle').click()
+    await page.getByTestId('feedback-chart').locator('canvas').waitFor()
+    await check(s, at('08b-quantile-feedback-open'))
+    await page.getByTestId('feedback-toggle').click()
     await field(page, 'rationale').fill('Burst logs 2015–2025 and the neighbouring boards’ reports for similar stock.')
   })
 
@@ -155,7 +201,17 @@ describe.each(PHONES.map((p, i) => ({ ...p, email: `expert${i + 1}@kestrel.examp
     for (const [i, n] of plan.entries()) for (let k = 0; k < n; k++) await page.getByTestId('chip-add').nth(i).click()
     expect(await page.getByTestId('chips-left').innerText()).toBe('All 20 chips placed')
     await expect.poll(() => page.getByTestId('feedback-card').getAttribute('data-ready')).toBe('true')
+    await page.getByTestId('chip-curve').waitFor()
     await check(s, at('10-chip-grid'))
+    await expectDrawnToScale(page, plan)
+  })
+
+  it('the same chip grid on a desktop screen, still drawn to scale', async () => {
+    const { page } = s
+    await page.setViewportSize({ width: 1280, height: 800 })
+    await expectDrawnToScale(page, [1, 2, 3, 4, 4, 3, 2, 1, 0, 0])
+    await s.shot(at('10b-chip-grid-desktop'))
+    await page.setViewportSize({ width: phone.width, height: phone.height })
   })
 
   it('the calibration questions and the review', async () => {
