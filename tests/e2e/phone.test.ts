@@ -210,7 +210,7 @@ describe.each(PHONES.map((p, i) => ({ ...p, email: `expert${i + 1}@kestrel.examp
     const { page } = s
     await page.setViewportSize({ width: 1280, height: 800 })
     await expectDrawnToScale(page, [1, 2, 3, 4, 4, 3, 2, 1, 0, 0])
-    await s.shot(at('10b-chip-grid-desktop'))
+    await s.shot(`phone-${at('10b-chip-grid-desktop')}`)
     await page.setViewportSize({ width: phone.width, height: phone.height })
   })
 
