@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { DEMO_STUDY_TITLE } from '../../seeds/demo'
 import { openBrowser, signInAs, field, inPage, type BrowserSession, type Call, keepFailureEvidence } from '../support/browser'
-import { axeFigures, expectAccessible } from '../support/axe'
+import { expectAccessible } from '../support/axe'
 import { expectPhoneLayout, PHONES } from '../support/phone'
 
 /**
@@ -65,7 +65,6 @@ keepFailureEvidence('phone', () => ({ analyst, ...experts }))
 afterAll(async () => {
   await analyst?.close()
   for (const s of Object.values(experts)) await s.close()
-  console.log(`axe-core figures per screen:\n${axeFigures()}`)
 })
 
 const ARTIFACTS = path.resolve(import.meta.dirname, '../../artifacts/e2e')

@@ -15,9 +15,6 @@ export interface AxeViolation {
   targets: string[]
 }
 
-/** Every screen checked in this test run, with its violations, for the figures printed at the end of a suite. */
-export const axeLog: { screen: string; violations: AxeViolation[] }[] = []
-
 /** Runs axe-core in the page (WCAG 2.x A and AA rules and axe's best practices) and returns its violations. */
 export async function runAxe(page: Page): Promise<AxeViolation[]> {
   if (!(await page.evaluate(() => 'axe' in window))) {
@@ -37,21 +34,17 @@ export async function runAxe(page: Page): Promise<AxeViolation[]> {
   })
 }
 
-/** Fails when axe finds a serious or critical violation on the page; logs every violation under `screen`. */
+/** How many violations of each impact axe found, on one line. */
+export function axeFigure(screen: string, violations: AxeViolation[]): string {
+  const count = (impact: string) => violations.filter((v) => v.impact === impact).length
+  return `axe ${screen}: critical ${count('critical')}, serious ${count('serious')}, moderate ${count('moderate')}, minor ${count('minor')}`
+}
+
+/** Fails when axe finds a serious or critical violation on the page; prints the figures for `screen`. */
 export async function expectAccessible(page: Page, screen: string): Promise<AxeViolation[]> {
   const violations = await runAxe(page)
-  axeLog.push({ screen, violations })
+  console.log(axeFigure(screen, violations))
   const grave = violations.filter((v) => v.impact === 'serious' || v.impact === 'critical')
   expect.soft(grave.map((v) => `${screen}: ${v.impact} ${v.id} (${v.help}) at ${v.targets.join(' | ')}`)).toEqual([])
   return violations
-}
-
-/** One line per screen: how many violations of each impact axe found (the suites print it at the end). */
-export function axeFigures(): string {
-  return axeLog
-    .map(({ screen, violations }) => {
-      const count = (impact: string) => violations.filter((v) => v.impact === impact).length
-      return `${screen}: critical ${count('critical')}, serious ${count('serious')}, moderate ${count('moderate')}, minor ${count('minor')}`
-    })
-    .join('\n')
 }
