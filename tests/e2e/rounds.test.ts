@@ -208,7 +208,10 @@ describe('scheduling and opening a round, and an expert entering it', () => {
     await page.getByTestId('declaration-interests-described').click()
     await field(page, 'declaration-interests-text').waitFor()
     await page.getByTestId('declaration-submit').click()
-    await page.getByText('Describe your interests').waitFor()
+    // The refusal under the field (its label reads the same words, so the alert is found by its role).
+    const refusal = page.getByTestId('declaration-interests-text').getByRole('alert')
+    await refusal.waitFor()
+    expect(await refusal.innerText()).toBe('Describe your interests')
     await page.getByTestId('declaration-interests-none').click()
     await page.getByTestId('declaration-seen-no').click()
     await expert.shot('rounds-10-declaration')
