@@ -3,6 +3,7 @@ import { mean, quantile, sd, type Distribution, type FitResult } from '../../sha
 import type { Db } from '../db/knex'
 import { studyExpertLabels } from './expert-labels'
 import { supportOf } from './quantities'
+import { savedWeightCautions } from './reconciliation'
 
 export const RECORD_SCHEMA_ID = 'https://priorsmith.example/schemas/prior-record-1.json'
 export const RECORD_SCHEMA_VERSION = '1.0'
@@ -55,6 +56,9 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
 
   const calibrationQuestions = await db('calibration_questions').where({ study_id: studyId }).orderBy(['position', 'id'])
 
+  const weightCautions = new Map<number, string[]>()
+  for (const rec of recs) weightCautions.set(rec.quantity_id, await savedWeightCautions(db, rec, studyId))
+
   const quantityRecords = quantities.map((q) => {
     const rec = recs.find((r) => r.quantity_id === q.id)
     const final: Distribution | null = rec?.status === 'reconciled' ? rec.distribution : null
@@ -79,11 +83,11 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       evidenceFiles: files.filter((f) => f.quantity_id === q.id).map((f) => ({ filename: f.filename, sha256: f.sha256, bytes: f.size_bytes })),
       rounds: roundRefs,
       judgements: judgements.filter((j) => j.quantity_id === q.id).map((j) => {
-        const fits = j.fits as FitResult[]
+        const fits = j.fits as (FitResult & { warnings?: string[] })[]
         const fit = fits.find((f) => f.distribution.family === j.chosen_family) ?? fits[0]
         return {
           round: rounds.find((r) => r.id === j.round_id)!.number, expert: who(j.expert_id), method: j.method, answer: j.answer, rationale: j.rationale,
-          fit: fit ? { distribution: fit.distribution, sse: fit.sse, ...summary(fit.distribution) } : null,
+          fit: fit ? { distribution: fit.distribution, sse: fit.sse, ...summary(fit.distribution), warnings: fit.warnings ?? [] } : null,
           chosenByExpert: !!j.chosen_family,
         }
       }),
@@ -91,6 +95,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
         round: rounds.find((r) => r.id === rec.round_id)?.number ?? null, method: rec.method, weightsMode: rec.weights_mode, weights: rec.weights,
         weightsReason: rec.weights_reason, cutoff: rec.cutoff, excludedExperts: (rec.excluded_experts as number[]).map((id) => who(id).code),
         consensus: rec.consensus, fitsOfCombination: rec.fits, adjusted: rec.adjusted, adjustReason: rec.adjust_reason, rationale: rec.rationale, status: rec.status,
+        weightCautions: weightCautions.get(q.id) ?? [],
       } : null,
       finalPrior: final ? {
         distribution: final, ...summary(final),
@@ -124,6 +129,6 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       method: 'Cooke’s classical model (Cooke 1991, ch. 12): calibration as the χ² p-value of the bin frequencies, information against a uniform background on the intrinsic range with 10 % overshoot',
     },
     quantities: quantityRecords,
-    cautions: RECORD_CAUTIONS,
+    cautions: [...RECORD_CAUTIONS, ...quantities.flatMap((q) => (weightCautions.get(q.id) ?? []).map((c) => `${q.name}: ${c}`))],
   }
 }
