@@ -2,9 +2,9 @@ import type { ErrorRequestHandler, RequestHandler } from 'express'
 import { ValidationError, type AnyObjectSchema, type InferType } from 'yup'
 import { EngineInputError } from '../../shared/stats/errors'
 
-/** An error with an HTTP status and, for 400s, messages per field. */
+/** An error with an HTTP status and, for 400s, messages per field; `details` adds structured facts (a file's line and column…). */
 export class HttpError extends Error {
-  constructor(public status: number, message: string, public fields?: Record<string, string>) {
+  constructor(public status: number, message: string, public fields?: Record<string, string>, public details?: Record<string, unknown>) {
     super(message)
   }
 }
@@ -129,10 +129,10 @@ const UNIQUE_MESSAGES: Record<string, { message: string; field?: string }> = {
   users_email_lower_idx: { message: 'This e-mail address is already registered', field: 'email' },
 }
 
-/** The one error handler: every error leaves as `{ error: { message, fields? } }`. */
+/** The one error handler: every error leaves as `{ error: { message, fields?, …details } }`. */
 export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   if (err instanceof HttpError) {
-    res.status(err.status).json({ error: { message: err.message, ...(err.fields ? { fields: err.fields } : {}) } })
+    res.status(err.status).json({ error: { ...err.details, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } })
     return
   }
   const status = typeof err?.status === 'number' ? err.status : typeof err?.statusCode === 'number' ? err.statusCode : 500

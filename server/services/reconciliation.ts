@@ -12,6 +12,7 @@ import { HttpError } from '../http/errors'
 import { recordAudit } from './audit'
 import { studyExpertLabels } from './expert-labels'
 import { getQuantity, supportOf } from './quantities'
+import { followQuantities } from './round-status'
 
 const COOKE_QUANTILES = [0.05, 0.5, 0.95]
 
@@ -199,7 +200,7 @@ export async function saveReconciliation(db: Db, user: User, quantityId: number,
     status: body.reconciled ? 'reconciled' : 'draft', reconciled_at: body.reconciled ? new Date() : null, reconciled_by: body.reconciled ? user.id : null,
   }
   const studyId = view.quantity.studyId
-  await db.transaction(async (trx) => {
+  const saved = await db.transaction(async (trx) => {
     const existing = await trx('reconciliations').where({ quantity_id: quantityId }).forUpdate().first()
     let r
     if (!existing) {
@@ -214,6 +215,8 @@ export async function saveReconciliation(db: Db, user: User, quantityId: number,
       actorId: user.id, studyId, action: body.reconciled ? 'reconciliation.reconciled' : 'reconciliation.save', subject: `quantity:${quantityId}`,
       details: { method: body.method, weights: row.weights_mode, family: row.family, adjusted: row.adjusted, version: r.version },
     })
+    await followQuantities(trx, user.id, { quantityId })
+    return r
   })
-  return getReconciliation(db, quantityId, { roundId: body.roundId })
+  return getReconciliation(db, quantityId, { roundId: saved.round_id })
 }

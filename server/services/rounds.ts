@@ -6,6 +6,7 @@ import { HttpError } from '../http/errors'
 import type { StudyAccess } from './access'
 import { recordAudit } from './audit'
 import { studyExpertLabels } from './expert-labels'
+import { followQuantities } from './round-status'
 import { supportOf, type Support } from './quantities'
 import { sendPanelInvitation, sendReminder } from './notify'
 
@@ -267,6 +268,7 @@ export async function closeRound(db: Db, user: User, id: number) {
     const n = await trx('rounds').where({ id, status: 'open' }).update({ status: 'closed', closed_at: trx.fn.now(), version: trx.raw('version + 1'), updated_at: trx.fn.now() })
     if (n === 0) throw new HttpError(409, 'The round was closed at the same moment')
     await recordAudit(trx, { actorId: user.id, studyId: r.study_id, action: 'round.close', subject: `round:${id}`, details: { early: r.closes_at.getTime() > Date.now() } })
+    await followQuantities(trx, user.id, { roundIds: [id] })
   })
 }
 
@@ -363,6 +365,7 @@ export async function runRoundSchedule(ctx: AppContext, now = new Date()) {
     const rows = await trx('rounds').where('status', 'open').where('closes_at', '<=', now)
       .update({ status: 'closed', closed_at: now, version: trx.raw('version + 1'), updated_at: now }).returning(['id', 'study_id'])
     for (const r of rows) await recordAudit(trx, { actorId: null, studyId: r.study_id, action: 'round.close', subject: `round:${r.id}`, details: { automatic: true } })
+    if (rows.length) await followQuantities(trx, null, { roundIds: rows.map((r) => r.id) })
     return rows
   })
 

@@ -18,3 +18,8 @@ export const impactSchema = object({
   /** Experts (user ids) whose priors the analysis leaves out, e.g. one whose answer cannot be computed with. */
   excludedExperts: array(number().typeError('Choose experts by their id').required().integer().positive()).max(100).default([]),
 }).noUnknown('Unknown field: ${unknown}')
+
+/** Why the final prior goes into the record without an impact analysis (for example: no pilot data exist). */
+export const impactNotRunSchema = object({
+  reason: string().typeError('Must be text').trim().required('Say why no impact analysis was run').min(20, 'Explain in at least 20 characters; it goes into the prior record').max(2000, 'Use at most 2000 characters'),
+}).noUnknown('Unknown field: ${unknown}')
