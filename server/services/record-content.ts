@@ -8,7 +8,7 @@ export const RECORD_SCHEMA_VERSION = '1.0'
 
 export const RECORD_CAUTIONS = [
   'The priors in this record can decide the result of the analyses that use them. Before they inform a decision that affects people, they must be reviewed under the regulatory or professional guidance that applies to that decision, and by a qualified statistician.',
-  'A prior that carries more information than the data (prior effective sample size larger than n) dominates the posterior; a prior–data conflict (Box p < 0.05) needs an explanation; a Bayes factor that changes more than 3× across the width sweep reflects the prior’s width rather than the data.',
+  'Priorsmith’s rules of thumb, conventions of this tool rather than published tests (its methods documentation gives the reasoning): a prior that carries more information than the data (prior effective sample size larger than n) dominates the posterior; a prior–data conflict (Box p < 0.05, the customary 5 % level) needs an explanation; a Bayes factor that changes more than 3× when the prior’s width is halved or doubled, while the posterior mean moves less than 0.1 posterior standard deviations, reflects the prior’s width rather than the data.',
 ]
 
 const iso = (d: Date | null | undefined) => (d ? new Date(d).toISOString() : null)

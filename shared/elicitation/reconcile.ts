@@ -37,7 +37,7 @@ export function summarise(u: Univariate): Summary {
 
 /**
  * Fits every family valid for the support to a combination, by least squares on its CDF at POOL_FIT_PROBS
- * (the same criterion as for an expert's answer; REFERENCE.md §1).
+ * (the same criterion as for an expert's answer; docs/methods/fitting.md).
  */
 export function fitCombination(u: Univariate, support: Support): FitResult[] {
   const points = POOL_FIT_PROBS.map((prob) => ({ value: u.quantile(prob), prob }))

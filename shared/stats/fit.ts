@@ -32,7 +32,7 @@ interface CdfModel {
   toDistribution(theta: readonly number[]): Distribution
 }
 
-/** Normal distribution through two quantiles: σ = (x₂ − x₁)/(z_{p₂} − z_{p₁}), μ = x₁ − σ z_{p₁} (REFERENCE §1.3). */
+/** Normal distribution through two quantiles: σ = (x₂ − x₁)/(z_{p₂} − z_{p₁}), μ = x₁ − σ z_{p₁} (docs/methods/distributions.md). */
 export function normalFromQuantiles(a: Point, b: Point): Distribution {
   const za = normalQuantile(a.prob)
   const zb = normalQuantile(b.prob)
@@ -40,7 +40,7 @@ export function normalFromQuantiles(a: Point, b: Point): Distribution {
   return { family: 'normal', mu: a.value - sigma * za, sigma }
 }
 
-/** Lognormal through two quantiles: the normal closed form applied to ln x (REFERENCE §1.3). */
+/** Lognormal through two quantiles: the normal closed form applied to ln x (docs/methods/distributions.md). */
 export function lognormalFromQuantiles(a: Point, b: Point): Distribution {
   const za = normalQuantile(a.prob)
   const zb = normalQuantile(b.prob)
@@ -57,7 +57,7 @@ export function studentTFromQuantiles(a: Point, b: Point, df: number): Distribut
   return { family: 'student-t', mu: a.value - sigma * ta, sigma, df }
 }
 
-/** Sum of squared CDF errors Σ (F(x_i) − p_i)² (the fitting criterion, REFERENCE §1). */
+/** Sum of squared CDF errors Σ (F(x_i) − p_i)² (Priorsmith's fitting criterion, docs/methods/fitting.md). */
 export function sumSquaredError(d: Distribution, points: Point[]): number {
   let s = 0
   for (const pt of points) {
@@ -636,7 +636,7 @@ function checkFamilyInput(points: Point[], family: Family, options: FitOptions):
 }
 
 /**
- * Least-squares fit of a family to elicited CDF points: argmin Σ (F(x_i; θ) − p_i)² (REFERENCE §1; Garthwaite, Kadane &
+ * Least-squares fit of a family to elicited CDF points: argmin Σ (F(x_i; θ) − p_i)² (docs/methods/fitting.md; Garthwaite, Kadane &
  * O'Hagan 2005), by Levenberg–Marquardt from several starting points and a final Newton polish.
  */
 export function fitDistribution(points: Point[], family: Family, options: FitOptions = {}): FitResult {
