@@ -77,7 +77,7 @@ describe('saving answers', () => {
     expect(res.body.complete).toBe(true)
     const browser = fitAnswer({ method: 'quantile' }, { lower: 4, upper: 25, points: body.points }, { kind: 'positive' })
     expect(res.body.fits).toEqual(JSON.parse(JSON.stringify(browser.fits)))
-    // Same judgements as REFERENCE.md §1.1 (FIT-lognormal): the lognormal fits best, meanlog 2.31356848612, sdlog 0.360633185455.
+    // Same judgements as FIT-lognormal of tests/unit/stats/fixtures/checks.json (mpmath): the lognormal fits best, meanlog 2.31356848612, sdlog 0.360633185455.
     expect(res.body.fits.map((f: { distribution: { family: string } }) => f.distribution.family)).toEqual(['lognormal', 'gamma', 'uniform'])
     expect(res.body.fits[0].distribution.meanlog).toBeCloseTo(2.31356848612, 6)
     expect(res.body.fits[0].distribution.sdlog).toBeCloseTo(0.360633185455, 6)
