@@ -22,20 +22,27 @@ const fileSafe = (s: string) => s.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/
 export function recordsRouter(db: Db): Router {
   const r = Router()
   const access = async (req: Request) => studyAccess(db, currentUser(req), idParam(req.params.id, 'Study'))
+  // The record holds the calibration true values and every expert's answers and rationales, open rounds included:
+  // it is for the study's analysts and reviewers (admins pass); experts see their own answers on their rounds.
+  const readerAccess = async (req: Request) => {
+    const a = await access(req)
+    if (a.role !== 'admin' && a.role !== 'analyst' && a.role !== 'reviewer') throw new HttpError(403, 'The prior record is for the study’s analysts and reviewers')
+    return a
+  }
 
   r.get('/studies/:id/record', async (req, res) => {
-    res.json(await getRecord(db, await access(req), versionQuery(req)))
+    res.json(await getRecord(db, await readerAccess(req), versionQuery(req)))
   })
 
   r.get('/studies/:id/record.json', async (req, res) => {
-    const a = await access(req)
+    const a = await readerAccess(req)
     const { content, meta } = await recordForExport(db, a.studyId, versionQuery(req))
     res.setHeader('Content-Disposition', `attachment; filename="prior-record-v${meta.version}.json"`)
     res.json({ ...content, record: meta })
   })
 
   r.get('/studies/:id/record.docx', async (req, res) => {
-    const a = await access(req)
+    const a = await readerAccess(req)
     const version = versionQuery(req)
     const { content, meta, charts } = await recordForExport(db, a.studyId, version)
     const view = await getRecord(db, a, version)

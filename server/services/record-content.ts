@@ -17,6 +17,16 @@ function summary(d: Distribution) {
   return { q05: quantile(d, 0.05), q50: quantile(d, 0.5), q95: quantile(d, 0.95), mean: mean(d), sd: sd(d) }
 }
 
+/** The study's panel experts with an account, coded E1, E2… in order of first appearance across rounds, and their names. */
+export async function panelCodes(db: Db, studyId: number) {
+  const panelRows = await db('round_panel as p').join('rounds as r', 'r.id', 'p.round_id').where('r.study_id', studyId).whereNotNull('p.user_id')
+    .select('p.user_id', 'p.name', 'r.number').orderBy(['r.number', 'p.id'])
+  const codes = new Map<number, string>()
+  for (const p of panelRows) if (!codes.has(p.user_id)) codes.set(p.user_id, `E${codes.size + 1}`)
+  const names = new Map(panelRows.map((p) => [p.user_id as number, p.name as string]))
+  return { codes, names }
+}
+
 /**
  * Everything the prior record states, assembled from the study's data as plain JSON. Only facts that identify the
  * content go in (no database ids, no generation time), so the same study yields the same canonical JSON and hash.
@@ -27,12 +37,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
   const rounds = await db('rounds').where({ study_id: studyId }).orderBy('number')
   const items = await db('round_items').whereIn('round_id', rounds.map((r) => r.id)).orderBy(['round_id', 'position'])
 
-  // Panel: every expert who submitted or declared in any round, coded E1, E2… in order of first appearance.
-  const panelRows = await db('round_panel as p').join('rounds as r', 'r.id', 'p.round_id').where('r.study_id', studyId).whereNotNull('p.user_id')
-    .select('p.user_id', 'p.name', 'r.number').orderBy(['r.number', 'p.id'])
-  const codes = new Map<number, string>()
-  for (const p of panelRows) if (!codes.has(p.user_id)) codes.set(p.user_id, `E${codes.size + 1}`)
-  const names = new Map(panelRows.map((p) => [p.user_id as number, p.name as string]))
+  const { codes, names } = await panelCodes(db, studyId)
   const declarations = await db('declarations as d').join('rounds as r', 'r.id', 'd.round_id').where('r.study_id', studyId)
     .select('d.user_id', 'r.number', 'd.expertise', 'd.interests', 'd.interests_text', 'd.seen_pilot_data', 'd.practice_points', 'd.practice_fit').orderBy(['r.number', 'd.user_id'])
   const who = (userId: number) => (options.showNames ? { code: codes.get(userId) ?? '?', name: names.get(userId) ?? null } : { code: codes.get(userId) ?? '?' })

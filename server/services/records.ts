@@ -4,7 +4,7 @@ import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import type { StudyAccess } from './access'
 import { canonicalJson, recordAudit, verifyAuditChain } from './audit'
-import { assembleRecord } from './record-content'
+import { assembleRecord, panelCodes } from './record-content'
 
 export const contentHash = (content: unknown) => createHash('sha256').update(canonicalJson(content)).digest('hex')
 
@@ -53,7 +53,14 @@ export async function getRecord(db: Db, access: StudyAccess, version?: number) {
   const charts = await db('record_charts').where({ record_id: row.id }).pluck('symbol')
   const chain = await verifyAuditChain(db)
   const history = await db('audit_events as a').leftJoin('users as u', 'u.id', 'a.actor_id').where('a.study_id', access.studyId)
-    .select('a.at', 'a.action', 'a.subject', 'u.display_name as actor', 'a.hash').orderBy('a.id')
+    .select('a.at', 'a.action', 'a.subject', 'a.actor_id', 'u.role as actor_role', 'u.display_name as actor', 'a.hash').orderBy('a.id')
+  // While the record hides the panel's names, an expert acting in the study appears by their panel code only.
+  const { codes } = row.show_names ? { codes: new Map<number, string>() } : await panelCodes(db, access.studyId)
+  const actorOf = (h: { actor_id: number | null; actor_role: string | null; actor: string | null }) => {
+    if (h.actor_id === null) return 'system'
+    if (!row.show_names && (codes.has(h.actor_id) || h.actor_role === 'expert')) return codes.get(h.actor_id) ?? 'Expert'
+    return h.actor ?? 'system'
+  }
   return {
     record: {
       version: row.version, status: row.status, showNames: row.show_names, rowVersion: row.row_version,
@@ -67,7 +74,7 @@ export async function getRecord(db: Db, access: StudyAccess, version?: number) {
     comments: comments.map((c) => ({ id: c.id, section: c.section, body: c.body, kind: c.kind, author: c.author, createdAt: c.created_at.toISOString() })),
     versions: versions.map((v) => ({ version: v.version, status: v.status, contentHash: v.content_hash, signedOffAt: v.signed_off_at?.toISOString() ?? null })),
     auditChain: { intact: chain.intact, events: chain.events, brokenAt: chain.brokenAt },
-    changeHistory: history.map((h) => ({ at: h.at.toISOString(), action: h.action, subject: h.subject, actor: h.actor ?? 'system', hash: h.hash })),
+    changeHistory: history.map((h) => ({ at: h.at.toISOString(), action: h.action, subject: h.subject, actor: actorOf(h), hash: h.hash })),
   }
 }
 

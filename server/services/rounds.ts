@@ -104,6 +104,12 @@ export async function roundRow(db: Db, id: number): Promise<RoundRow> {
   return row
 }
 
+/** An expert opens a round only when on its panel and once it has left draft; everything else answers 403. */
+export async function assertExpertOpens(db: Db, user: User, round: Pick<RoundRow, 'id' | 'status'>) {
+  const me = await db('round_panel').where({ round_id: round.id, user_id: user.id }).first('id')
+  if (!me || round.status === 'draft') throw new HttpError(403, 'You are not on the panel of this round')
+}
+
 /** A round as its reader may see it: analysts and reviewers get the panel; an expert only their own entry. */
 export async function getRound(db: Db, access: StudyAccess, id: number) {
   const r = await roundRow(db, id)
@@ -111,10 +117,7 @@ export async function getRound(db: Db, access: StudyAccess, id: number) {
     .select('i.*', 'q.name', 'q.symbol', 'q.unit', 'q.question', 'q.support_kind', 'q.support_lower', 'q.support_upper', 'q.assumptions', 'q.evidence_notes')
     .orderBy('i.position')
   const isExpert = access.role === 'expert'
-  if (isExpert) {
-    const me = await db('round_panel').where({ round_id: id, user_id: access.user.id }).first('id')
-    if (!me || r.status === 'draft') throw new HttpError(403, 'You are not on the panel of this round')
-  }
+  if (isExpert) await assertExpertOpens(db, access.user, r)
   const panel = isExpert ? [] : await panelOf(db, id)
   const files = await db('evidence_files').whereIn('quantity_id', items.map((i) => i.quantity_id)).select('id', 'quantity_id', 'filename', 'mime_type', 'size_bytes').orderBy('id')
   return {
