@@ -99,11 +99,11 @@ export function recordsRouter(db: Db): Router {
 
   r.post('/studies/:id/record/charts', async (req, res) => {
     const a = await access(req)
-    allow(a, 'analyst', 'reviewer')
+    allow(a, 'analyst')
     const body = await validateBody(recordChartSchema, req.body)
     const png = Buffer.from(body.png.slice('data:image/png;base64,'.length), 'base64')
     if (png.subarray(0, 8).toString('hex') !== '89504e470d0a1a0a') throw new HttpError(400, 'Not a PNG image', { png: 'Send the chart as a PNG data URL' })
-    await saveChart(db, a.studyId, body.symbol, png)
+    await saveChart(db, a.user, a.studyId, body.symbol, png)
     res.status(204).end()
   })
 

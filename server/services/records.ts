@@ -6,7 +6,8 @@ import type { StudyAccess } from './access'
 import { canonicalJson, recordAudit, verifyAuditChain } from './audit'
 import { assembleRecord, panelCodes } from './record-content'
 
-export const contentHash = (content: unknown) => createHash('sha256').update(canonicalJson(content)).digest('hex')
+const sha256 = (data: string | Buffer) => createHash('sha256').update(data).digest('hex')
+export const contentHash = (content: unknown) => sha256(canonicalJson(content))
 
 interface RecordRow {
   id: number
@@ -90,7 +91,7 @@ export async function setShowNames(db: Db, user: User, studyId: number, showName
   await recordAudit(db, { actorId: user.id, studyId, action: 'record.names', subject: `record:v${row.version}`, details: { showNames } })
 }
 
-/** draft → in review: the content is frozen into a snapshot with its SHA-256. */
+/** draft → in review: the content is frozen into a snapshot with its SHA-256; the submit event names each chart's SHA-256. */
 export async function submitRecord(db: Db, user: User, studyId: number) {
   const row = await ensureRecord(db, studyId)
   const content = await assembleRecord(db, studyId, { showNames: row.show_names, version: row.version })
@@ -99,8 +100,13 @@ export async function submitRecord(db: Db, user: User, studyId: number) {
   if (quantities.length === 0) throw new HttpError(400, 'The study has no quantities yet')
   if (missing.length) throw new HttpError(400, `Reconcile every quantity first: ${missing.join(', ')}`, { quantities: `Not reconciled: ${missing.join(', ')}` })
   const hash = contentHash(content)
-  await transition(db, row, ['draft'], { status: 'in_review', content: JSON.stringify(content), content_hash: hash, submitted_at: db.fn.now(), submitted_by: user.id })
-  await recordAudit(db, { actorId: user.id, studyId, action: 'record.submit', subject: `record:v${row.version}`, details: { contentHash: hash } })
+  await db.transaction(async (trx) => {
+    // The row lock waits for a chart being stored, so the charts named in the event are the ones the record keeps.
+    await trx('prior_records').where({ id: row.id }).forUpdate().first('id')
+    const charts = Object.fromEntries((await trx('record_charts').where({ record_id: row.id }).orderBy('symbol').select('symbol', 'png')).map((c) => [c.symbol, sha256(c.png)]))
+    await transition(trx, row, ['draft'], { status: 'in_review', content: JSON.stringify(content), content_hash: hash, submitted_at: trx.fn.now(), submitted_by: user.id })
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'record.submit', subject: `record:v${row.version}`, details: { contentHash: hash, charts } })
+  })
 }
 
 /** in review → draft, with the reviewer's reasons as a comment. */
@@ -125,16 +131,19 @@ export async function addComment(db: Db, user: User, studyId: number, section: s
 
 /**
  * in review → signed off, by a reviewer member only. The time is stamped and the audit chain's head recorded,
- * so the record shows the prior was fixed before any later data were seen.
+ * so the record shows the prior was fixed before any later data were seen. One transaction under the record's row
+ * lock: of several simultaneous sign-offs one passes, and the others see a signed-off record and leave no event.
  */
 export async function signOffRecord(db: Db, user: User, studyId: number) {
-  const row = await ensureRecord(db, studyId)
-  if (row.status !== 'in_review') throw new HttpError(409, 'Only a record in review can be signed off')
-  const check = contentHash(row.content)
-  if (check !== row.content_hash) throw new HttpError(409, 'The stored snapshot does not match its hash; it has been altered')
-  await recordAudit(db, { actorId: user.id, studyId, action: 'record.sign-off', subject: `record:v${row.version}`, details: { contentHash: row.content_hash } })
-  const head = (await db('audit_events').orderBy('id', 'desc').first('hash')).hash
-  await transition(db, row, ['in_review'], { status: 'signed_off', signed_off_at: db.fn.now(), signed_off_by: user.id, audit_head: head })
+  const { id } = await ensureRecord(db, studyId)
+  await db.transaction(async (trx) => {
+    const row: RecordRow = await trx('prior_records').where({ id }).forUpdate().first()
+    if (row.status !== 'in_review') throw new HttpError(409, 'Only a record in review can be signed off')
+    if (contentHash(row.content) !== row.content_hash) throw new HttpError(409, 'The stored snapshot does not match its hash; it has been altered')
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'record.sign-off', subject: `record:v${row.version}`, details: { contentHash: row.content_hash } })
+    const head = (await trx('audit_events').orderBy('id', 'desc').first('hash')).hash
+    await transition(trx, row, ['in_review'], { status: 'signed_off', signed_off_at: trx.fn.now(), signed_off_by: user.id, audit_head: head })
+  })
 }
 
 /** A signed-off version stays as it is; work continues in a new draft version. */
@@ -145,10 +154,22 @@ export async function newVersion(db: Db, user: User, studyId: number) {
   await recordAudit(db, { actorId: user.id, studyId, action: 'record.new-version', subject: `record:v${row.version + 1}`, details: { basedOn: row.version } })
 }
 
-export async function saveChart(db: Db, studyId: number, symbol: string, png: Buffer) {
-  const row = await ensureRecord(db, studyId)
-  if (row.status === 'signed_off') throw new HttpError(409, 'A signed-off record cannot change')
-  await db('record_charts').insert({ record_id: row.id, symbol, png }).onConflict(['record_id', 'symbol']).merge(['png', 'created_at'])
+/**
+ * A draft's density chart for the .docx, stored by the analyst with an audit event naming its SHA-256 (the same
+ * picture sent again changes nothing). Once submitted, the charts stay as they were: reviewers read what was sent.
+ */
+export async function saveChart(db: Db, user: User, studyId: number, symbol: string, png: Buffer) {
+  const { id } = await ensureRecord(db, studyId)
+  await db.transaction(async (trx) => {
+    const row: RecordRow = await trx('prior_records').where({ id }).forUpdate().first()
+    if (row.status === 'signed_off') throw new HttpError(409, 'A signed-off record cannot change')
+    if (row.status === 'in_review') throw new HttpError(409, 'The record is in review; its charts were fixed when it was submitted. Return it to draft to change them.')
+    const digest = sha256(png)
+    const stored = await trx('record_charts').where({ record_id: id, symbol }).first('png')
+    if (stored && sha256(stored.png) === digest) return
+    await trx('record_charts').insert({ record_id: id, symbol, png }).onConflict(['record_id', 'symbol']).merge(['png', 'created_at'])
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'record.chart', subject: `record:v${row.version}`, details: { symbol, sha256: digest } })
+  })
 }
 
 /** The content and charts an export needs, for the latest or a given version. */

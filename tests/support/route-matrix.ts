@@ -81,7 +81,7 @@ export const MATRIX: Record<string, Rule> = {
   'POST /api/studies/:id/record/sign-off': ['reviewer'],
   'POST /api/studies/:id/record/comments': ['admin', 'analyst', 'reviewer'],
   'POST /api/studies/:id/record/new-version': ['admin', 'analyst'],
-  'POST /api/studies/:id/record/charts': ['admin', 'analyst', 'reviewer'],
+  'POST /api/studies/:id/record/charts': ['admin', 'analyst'],
   'GET /api/studies/:id/outbox': ['admin', 'analyst'],
 }
 
