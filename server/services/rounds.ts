@@ -282,6 +282,9 @@ export async function addPanelMember(ctx: AppContext, user: User, roundId: numbe
   const outboxIds = await db.transaction(async (trx) => {
     const [member] = await trx('round_panel').insert({ round_id: roundId, email, name: account?.display_name ?? body.name, user_id: account?.id ?? null }).returning('*')
     if (account) {
+      // Held until commit, so an admin's change of this account's role waits and then sees the new membership.
+      const held = await trx('users').where({ id: account.id }).forShare().first('role')
+      if (held.role !== 'expert') throw new HttpError(400, `This address belongs to a ${held.role} account`, { email: 'Only expert accounts can sit on a panel' })
       await trx('study_members').insert({ study_id: r.study_id, user_id: account.id, study_role: 'expert' }).onConflict(['study_id', 'user_id']).ignore()
     }
     return r.status === 'open' ? [await sendPanelInvitation(trx, ctx, user, r, member)] : []
