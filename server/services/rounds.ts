@@ -192,10 +192,11 @@ export async function listRounds(db: Db, access: StudyAccess) {
   }))
 }
 
-/** Rounds the signed-in expert is on, across studies, for their start page. */
+/** Rounds the signed-in expert is on, across studies, for their start page: only of studies they are still an expert of. */
 export async function listMyRounds(db: Db, user: User) {
   const rows = await db('round_panel as p').join('rounds as r', 'r.id', 'p.round_id').join('studies as s', 's.id', 'r.study_id')
-    .where('p.user_id', user.id).whereNot('r.status', 'draft')
+    .join('study_members as m', (j) => j.on('m.study_id', '=', 'r.study_id').andOn('m.user_id', '=', 'p.user_id'))
+    .where('p.user_id', user.id).where('m.study_role', 'expert').whereNot('r.status', 'draft')
     .select('r.id', 'r.title', 'r.status', 'r.opens_at', 'r.closes_at', 's.id as study_id', 's.title as study_title', 'p.submitted_at')
     .orderBy('r.closes_at')
   return rows.map((r) => ({ id: r.id, title: r.title, status: r.status, opensAt: r.opens_at.toISOString(), closesAt: r.closes_at.toISOString(), studyId: r.study_id, studyTitle: r.study_title, submittedAt: iso(r.submitted_at) }))
