@@ -8,15 +8,20 @@ export const ANONYMOUS_CSRF_COOKIE = 'priorsmith.csrf'
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS'])
 const headerToken = (req: Request) => req.get('x-csrf-token')
 
+/** The token cookie as sent (its value is base64url and a dot, so no decoding is needed). */
 function cookieValue(req: Request, name: string): string | undefined {
   for (const part of (req.headers.cookie ?? '').split(';')) {
     const eq = part.indexOf('=')
-    if (eq > 0 && part.slice(0, eq).trim() === name) return decodeURIComponent(part.slice(eq + 1).trim())
+    if (eq > 0 && part.slice(0, eq).trim() === name) return part.slice(eq + 1).trim()
   }
   return undefined
 }
 
-const sameText = (a: string, b: string) => a.length === b.length && timingSafeEqual(Buffer.from(a), Buffer.from(b))
+function sameText(a: string, b: string): boolean {
+  const x = Buffer.from(a)
+  const y = Buffer.from(b)
+  return x.length === y.length && timingSafeEqual(x, y)
+}
 
 /**
  * CSRF protection in two forms. A signed-in session keeps a synchronizer token in its stored session (csrf-sync).
@@ -32,7 +37,15 @@ export function createCsrf(opts: { secret: string; secure: boolean }) {
   })
   const sign = (nonce: string) => createHmac('sha256', opts.secret).update(`anonymous-csrf:${nonce}`).digest('base64url')
 
-  function anonymousToken(res: Response): string {
+  const signed = (token: string | undefined): token is string => {
+    const [nonce, signature, ...rest] = (token ?? '').split('.')
+    return rest.length === 0 && !!nonce && !!signature && sameText(signature, sign(nonce))
+  }
+
+  /** The client's current token when its cookie holds a valid one (other tabs keep working), else a new one. */
+  function anonymousToken(req: Request, res: Response): string {
+    const kept = cookieValue(req, ANONYMOUS_CSRF_COOKIE)
+    if (signed(kept)) return kept
     const nonce = randomBytes(24).toString('base64url')
     const token = `${nonce}.${sign(nonce)}`
     res.cookie(ANONYMOUS_CSRF_COOKIE, token, { httpOnly: true, sameSite: 'strict', secure: opts.secure, path: '/api' })
@@ -42,14 +55,12 @@ export function createCsrf(opts: { secret: string; secure: boolean }) {
   function anonymousTokenValid(req: Request): boolean {
     const sent = headerToken(req)
     const kept = cookieValue(req, ANONYMOUS_CSRF_COOKIE)
-    if (!sent || !kept || !sameText(sent, kept)) return false
-    const [nonce, signature, ...rest] = sent.split('.')
-    return rest.length === 0 && !!nonce && !!signature && sameText(signature, sign(nonce))
+    return !!sent && !!kept && sameText(sent, kept) && signed(sent)
   }
 
   /** The token for this client: from its session once signed in, else a signed cookie token (no session stored). */
   function generateToken(req: Request, res: Response): string {
-    return req.isAuthenticated() ? sync.generateToken(req) : anonymousToken(res)
+    return req.isAuthenticated() ? sync.generateToken(req) : anonymousToken(req, res)
   }
 
   const protection: RequestHandler = (req, res, next) => {
