@@ -9,6 +9,7 @@ import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import { recordAudit } from './audit'
+import { studyExpertLabels } from './expert-labels'
 import { getQuantity, supportOf } from './quantities'
 
 const COOKE_QUANTILES = [0.05, 0.5, 0.95]
@@ -26,13 +27,15 @@ async function expertFits(db: Db, roundId: number, quantityId: number) {
   const rows = await db('judgements as j').join('users as u', 'u.id', 'j.expert_id')
     .where({ 'j.round_id': roundId, 'j.quantity_id': quantityId, 'j.status': 'submitted' })
     .select('j.id', 'j.expert_id', 'u.display_name', 'j.fits', 'j.chosen_family', 'j.rationale', 'j.answer', 'j.method').orderBy('j.expert_id')
-  return rows.flatMap((r, i) => {
+  const { study_id: studyId } = await db('rounds').where({ id: roundId }).first('study_id')
+  const labels = await studyExpertLabels(db, studyId)
+  return rows.flatMap((r) => {
     const fits = r.fits as FitResult[]
     const fit = fits.find((f) => f.distribution.family === r.chosen_family) ?? fits[0]
     if (!fit) return []
     const d = fit.distribution
     return [{
-      judgementId: r.id as number, expertId: r.expert_id as number, name: r.display_name as string, label: `Expert ${String.fromCharCode(65 + i)}`,
+      judgementId: r.id as number, expertId: r.expert_id as number, name: r.display_name as string, label: labels.ofUser(r.expert_id),
       distribution: d, sse: fit.sse, method: r.method as string, answer: r.answer, rationale: r.rationale as string,
       q05: quantile(d, 0.05), q50: quantile(d, 0.5), q95: quantile(d, 0.95),
     }]

@@ -1,6 +1,7 @@
 import { modelCodeWithCheck } from '../../shared/elicitation/model-code'
 import { mean, quantile, sd, type Distribution, type FitResult } from '../../shared/stats/index'
 import type { Db } from '../db/knex'
+import { studyExpertLabels } from './expert-labels'
 import { supportOf } from './quantities'
 
 export const RECORD_SCHEMA_ID = 'https://priorsmith.example/schemas/prior-record-1.json'
@@ -17,16 +18,6 @@ function summary(d: Distribution) {
   return { q05: quantile(d, 0.05), q50: quantile(d, 0.5), q95: quantile(d, 0.95), mean: mean(d), sd: sd(d) }
 }
 
-/** The study's panel experts with an account, coded E1, E2… in order of first appearance across rounds, and their names. */
-export async function panelCodes(db: Db, studyId: number) {
-  const panelRows = await db('round_panel as p').join('rounds as r', 'r.id', 'p.round_id').where('r.study_id', studyId).whereNotNull('p.user_id')
-    .select('p.user_id', 'p.name', 'r.number').orderBy(['r.number', 'p.id'])
-  const codes = new Map<number, string>()
-  for (const p of panelRows) if (!codes.has(p.user_id)) codes.set(p.user_id, `E${codes.size + 1}`)
-  const names = new Map(panelRows.map((p) => [p.user_id as number, p.name as string]))
-  return { codes, names }
-}
-
 /**
  * Everything the prior record states, assembled from the study's data as plain JSON. Only facts that identify the
  * content go in (no database ids, no generation time), so the same study yields the same canonical JSON and hash.
@@ -37,10 +28,16 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
   const rounds = await db('rounds').where({ study_id: studyId }).orderBy('number')
   const items = await db('round_items').whereIn('round_id', rounds.map((r) => r.id)).orderBy(['round_id', 'position'])
 
-  const { codes, names } = await panelCodes(db, studyId)
+  // Panel: every expert with an account on a panel of the study, under the study's labels, in the order they joined.
+  const panelRows = await db('round_panel as p').join('rounds as r', 'r.id', 'p.round_id').where('r.study_id', studyId).whereNotNull('p.user_id')
+    .select('p.user_id', 'p.name').orderBy('p.id')
+  const labels = await studyExpertLabels(db, studyId)
+  const codes = new Map<number, string>()
+  for (const p of panelRows) if (!codes.has(p.user_id)) codes.set(p.user_id, labels.ofUser(p.user_id))
+  const names = new Map(panelRows.map((p) => [p.user_id as number, p.name as string]))
   const declarations = await db('declarations as d').join('rounds as r', 'r.id', 'd.round_id').where('r.study_id', studyId)
     .select('d.user_id', 'r.number', 'd.expertise', 'd.interests', 'd.interests_text', 'd.seen_pilot_data', 'd.practice_points', 'd.practice_fit').orderBy(['r.number', 'd.user_id'])
-  const who = (userId: number) => (options.showNames ? { code: codes.get(userId) ?? '?', name: names.get(userId) ?? null } : { code: codes.get(userId) ?? '?' })
+  const who = (userId: number) => (options.showNames ? { code: labels.ofUser(userId), name: names.get(userId) ?? null } : { code: labels.ofUser(userId) })
   const panel = [...codes.keys()].map((userId) => ({
     ...who(userId),
     declarations: declarations.filter((d) => d.user_id === userId).map((d) => ({
@@ -52,6 +49,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
   const judgements = await db('judgements').whereIn('round_id', rounds.map((r) => r.id)).where('status', 'submitted').orderBy(['round_id', 'quantity_id', 'expert_id'])
   const recs = await db('reconciliations').whereIn('quantity_id', quantities.map((q) => q.id))
   const files = await db('evidence_files').whereIn('quantity_id', quantities.map((q) => q.id)).select('quantity_id', 'filename', 'sha256', 'size_bytes').orderBy('id')
+  const leftOut = await db('record_exclusions').whereIn('quantity_id', quantities.map((q) => q.id)).select('quantity_id', 'reason')
   const datasets = await db('pilot_datasets').where({ study_id: studyId }).orderBy(['quantity_id', 'version'])
   const impacts = await db('impact_analyses').whereIn('quantity_id', quantities.map((q) => q.id)).orderBy('id', 'desc')
 
@@ -63,7 +61,11 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
     const impact = impacts.find((i) => i.quantity_id === q.id)
     const roundRefs = items.filter((i) => i.quantity_id === q.id).map((i) => {
       const r = rounds.find((x) => x.id === i.round_id)!
-      return { number: r.number, title: r.title, method: i.method, edges: i.edges ?? null, chips: i.chips ?? null, opensAt: iso(r.opens_at), closesAt: iso(r.closes_at), feedback: r.feedback_enabled }
+      return {
+        number: r.number, title: r.title, method: i.method, edges: i.edges ?? null, chips: i.chips ?? null, opensAt: iso(r.opens_at), closesAt: iso(r.closes_at), feedback: r.feedback_enabled,
+        // The round's own time zone, where rounds carry one: the .docx writes the window in it.
+        timeZone: r.time_zone ?? undefined,
+      }
     })
     return {
       name: q.name,
@@ -71,6 +73,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       unit: q.unit,
       question: q.question,
       support: supportOf(q),
+      leftOut: leftOut.find((x) => x.quantity_id === q.id) ? { reason: leftOut.find((x) => x.quantity_id === q.id)!.reason as string } : null,
       assumptions: q.assumptions,
       evidenceNotes: q.evidence_notes,
       evidenceFiles: files.filter((f) => f.quantity_id === q.id).map((f) => ({ filename: f.filename, sha256: f.sha256, bytes: f.size_bytes })),

@@ -2,7 +2,7 @@
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import { DOMWrapper, flushPromises, mount } from '@vue/test-utils'
 import { createPinia, setActivePinia } from 'pinia'
-import { ElAlert, ElButton, ElDialog, ElEmpty, ElForm, ElFormItem, ElIcon, ElInput, ElSkeleton, ElSwitch, ElTag } from 'element-plus'
+import { ElAlert, ElButton, ElDialog, ElEmpty, ElForm, ElFormItem, ElIcon, ElInput, ElRadio, ElRadioGroup, ElSkeleton, ElSwitch, ElTag } from 'element-plus'
 import type { StudySummary } from '@shared/types'
 import type { RecordView as RecordViewBody } from '@/api/record'
 import RecordView from '@/views/study/RecordView.vue'
@@ -45,7 +45,7 @@ function mountView(myRole: StudySummary['myRole'], view: RecordViewBody, route: 
     props: { study: study(myRole) },
     global: {
       plugins: [pinia],
-      components: { ElAlert, ElButton, ElDialog, ElEmpty, ElForm, ElFormItem, ElIcon, ElInput, ElSkeleton, ElSwitch, ElTag },
+      components: { ElAlert, ElButton, ElDialog, ElEmpty, ElForm, ElFormItem, ElIcon, ElInput, ElRadio, ElRadioGroup, ElSkeleton, ElSwitch, ElTag },
       stubs: { 'el-select': SelectStub, 'el-option': OptionStub, transition: false, 'transition-group': false },
     },
   })
@@ -126,5 +126,29 @@ describe('RecordView', () => {
     await vi.waitFor(() => expect(calls.some((c) => c.url.endsWith('/record/comments'))).toBe(true))
     expect(calls.find((c) => c.url.endsWith('/record/comments'))!.body).toEqual({ section: 'Expert panel', body: 'State how interests were managed.' })
     await vi.waitFor(() => expect(wrapper.find('[data-section="Expert panel"] [data-testid="comment-item"]').exists()).toBe(true))
+  })
+
+  it('shows a returned record as "Returned with comments" with the comments in a banner, and asks for an answer to each on resubmitting', async () => {
+    const returned = recordView('draft', { comments: [comment(3, 'Night-flow reduction', 'Why equal weights?', 'return')] })
+    returned.record = { ...returned.record, submittedAt: '2026-03-10T10:00:00.000Z', returned: true, openComments: [3] }
+    const { wrapper, calls } = mountView('analyst', returned, (c) =>
+      c.url === '/api/studies/4/record/submit' ? { status: 200, body: recordView('in_review') } : undefined,
+    )
+    await vi.waitFor(() => expect(wrapper.find('[data-testid="record-returned-banner"]').exists()).toBe(true))
+    expect(wrapper.get('[data-testid="record-status"]').text()).toBe('Returned with comments')
+    expect(wrapper.get('[data-testid="record-signed-off"]').text()).not.toContain('awaiting a reviewer')
+    expect(wrapper.get('[data-testid="record-returned-banner"]').text()).toContain('Why equal weights?')
+    await wrapper.get('[data-testid="record-submit"]').trigger('click')
+    await vi.waitFor(() => expect(body().find('[data-testid="record-resubmit-dialog"] [data-testid="record-answer"]').exists()).toBe(true))
+    await body().get('[data-testid="record-resubmit-confirm"]').trigger('click')
+    await vi.waitFor(() => expect(body().find('[data-testid="record-answer-error"]').exists()).toBe(true))
+    expect(calls.some((c) => c.url.endsWith('/record/submit'))).toBe(false)
+    await body().get('[data-testid="record-answer"] [data-outcome="not-changed"] input').setValue(true)
+    await body().get('[data-testid="record-answer"] textarea').setValue('Equal weights: no calibration questions were asked in this study.')
+    await body().get('[data-testid="record-resubmit-confirm"]').trigger('click')
+    await vi.waitFor(() => expect(calls.some((c) => c.url.endsWith('/record/submit'))).toBe(true))
+    expect(calls.find((c) => c.url.endsWith('/record/submit'))!.body).toEqual({
+      responses: [{ commentId: 3, outcome: 'not-changed', reply: 'Equal weights: no calibration questions were asked in this study.' }],
+    })
   })
 })
