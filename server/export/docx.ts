@@ -103,6 +103,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
             String(j.round), expertName(j.expert), answerText(j.method, j.answer), describe(j.fit?.distribution), fmt(j.fit?.q05), fmt(j.fit?.q50), fmt(j.fit?.q95),
           ]), 4),
           ...q.judgements.map((j: Json) => p(`${j.expert.code}, round ${j.round}: ${j.rationale || '—'}`, { size: 20 })),
+          ...q.judgements.flatMap((j: Json) => (j.fit?.warnings ?? []).map((w: string) => p(`${j.expert.code}, round ${j.round}, fitted shape: ${w}`, { size: 20, color: '8A5A12' }))),
         ]
         : [p('No submitted judgements.')]),
       outline.heading(`${n}.3 Combination`, 2),
@@ -110,6 +111,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
         ? [
           p(`Method: ${label(POOL_METHOD_LABELS, q.combination.method)}; ${label(WEIGHTS_LABELS, q.combination.weightsMode).toLowerCase()}${q.combination.weightsReason ? ` (${q.combination.weightsReason})` : ''}${q.combination.weightsMode === 'performance' ? `; calibration cutoff ${fmt(q.combination.cutoff)}` : ''}.`),
           ...(q.combination.excludedExperts?.length ? [p(`Left out of the combination: ${q.combination.excludedExperts.join(', ')}.`)] : []),
+          ...(q.combination.weightCautions ?? []).map((c: string) => p(`Caution: ${c}`, { color: '8A5A12' })),
           ...(q.combination.adjusted ? [p(`Parameters adjusted by hand: ${q.combination.adjustReason}`)] : []),
           p(`Rationale: ${q.combination.rationale || '—'}`),
         ]

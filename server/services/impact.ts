@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto'
 import { dataSize, SWEEP_FACTORS, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
-import { combine, fitCombination, resolveWeights } from '../../shared/elicitation/reconcile'
-import { EngineInputError, fitAll, validateDistribution, type Distribution, type FitResult, type PilotData } from '../../shared/stats/index'
+import { combine, fitCombination, fitConsensus, resolveWeights } from '../../shared/elicitation/reconcile'
+import { EngineInputError, validateDistribution, type Distribution, type FitResult, type PilotData } from '../../shared/stats/index'
 import { runImpactTask } from '../compute/pool'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
@@ -55,7 +55,7 @@ async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Pr
     list.push({ key: 'pooled', label: 'Pooled (linear, equal weights)', kind: 'pooled', prior: best.distribution })
   }
   if (rec?.consensus) {
-    const [best] = fitAll(rec.consensus.points, support)
+    const [best] = fitConsensus(rec.consensus.points, support)
     list.push({ key: 'consensus', label: 'Agreed consensus', kind: 'consensus', prior: best.distribution })
   }
   const reconciled: Distribution | null = rec?.distribution ?? null

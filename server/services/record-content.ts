@@ -3,6 +3,7 @@ import { mean, quantile, sd, type Distribution, type FitResult } from '../../sha
 import type { Db } from '../db/knex'
 import { studyExpertLabels } from './expert-labels'
 import { supportOf } from './quantities'
+import { savedWeightCautions } from './reconciliation'
 
 export const RECORD_SCHEMA_ID = 'https://priorsmith.example/schemas/prior-record-1.json'
 export const RECORD_SCHEMA_VERSION = '1.0'
@@ -49,11 +50,15 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
   const judgements = await db('judgements').whereIn('round_id', rounds.map((r) => r.id)).where('status', 'submitted').orderBy(['round_id', 'quantity_id', 'expert_id'])
   const recs = await db('reconciliations').whereIn('quantity_id', quantities.map((q) => q.id))
   const files = await db('evidence_files').whereIn('quantity_id', quantities.map((q) => q.id)).select('quantity_id', 'filename', 'sha256', 'size_bytes').orderBy('id')
-  const leftOut = await db('record_exclusions').whereIn('quantity_id', quantities.map((q) => q.id)).select('quantity_id', 'reason')
+  const leftOut = new Map<number, string>((await db('record_exclusions').whereIn('quantity_id', quantities.map((q) => q.id)).select('quantity_id', 'reason'))
+    .map((x) => [x.quantity_id, x.reason]))
   const datasets = await db('pilot_datasets').where({ study_id: studyId }).orderBy(['quantity_id', 'version'])
   const impacts = await db('impact_analyses').whereIn('quantity_id', quantities.map((q) => q.id)).orderBy('id', 'desc')
 
   const calibrationQuestions = await db('calibration_questions').where({ study_id: studyId }).orderBy(['position', 'id'])
+
+  const weightCautions = new Map<number, string[]>()
+  for (const rec of recs) weightCautions.set(rec.quantity_id, await savedWeightCautions(db, rec, studyId))
 
   const quantityRecords = quantities.map((q) => {
     const rec = recs.find((r) => r.quantity_id === q.id)
@@ -73,17 +78,17 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       unit: q.unit,
       question: q.question,
       support: supportOf(q),
-      leftOut: leftOut.find((x) => x.quantity_id === q.id) ? { reason: leftOut.find((x) => x.quantity_id === q.id)!.reason as string } : null,
+      leftOut: leftOut.has(q.id) ? { reason: leftOut.get(q.id)! } : null,
       assumptions: q.assumptions,
       evidenceNotes: q.evidence_notes,
       evidenceFiles: files.filter((f) => f.quantity_id === q.id).map((f) => ({ filename: f.filename, sha256: f.sha256, bytes: f.size_bytes })),
       rounds: roundRefs,
       judgements: judgements.filter((j) => j.quantity_id === q.id).map((j) => {
-        const fits = j.fits as FitResult[]
+        const fits = j.fits as (FitResult & { warnings?: string[] })[]
         const fit = fits.find((f) => f.distribution.family === j.chosen_family) ?? fits[0]
         return {
           round: rounds.find((r) => r.id === j.round_id)!.number, expert: who(j.expert_id), method: j.method, answer: j.answer, rationale: j.rationale,
-          fit: fit ? { distribution: fit.distribution, sse: fit.sse, ...summary(fit.distribution) } : null,
+          fit: fit ? { distribution: fit.distribution, sse: fit.sse, ...summary(fit.distribution), warnings: fit.warnings ?? [] } : null,
           chosenByExpert: !!j.chosen_family,
         }
       }),
@@ -91,6 +96,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
         round: rounds.find((r) => r.id === rec.round_id)?.number ?? null, method: rec.method, weightsMode: rec.weights_mode, weights: rec.weights,
         weightsReason: rec.weights_reason, cutoff: rec.cutoff, excludedExperts: (rec.excluded_experts as number[]).map((id) => who(id).code),
         consensus: rec.consensus, fitsOfCombination: rec.fits, adjusted: rec.adjusted, adjustReason: rec.adjust_reason, rationale: rec.rationale, status: rec.status,
+        weightCautions: weightCautions.get(q.id) ?? [],
       } : null,
       finalPrior: final ? {
         distribution: final, ...summary(final),
@@ -124,6 +130,6 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       method: 'Cooke’s classical model (Cooke 1991, ch. 12): calibration as the χ² p-value of the bin frequencies, information against a uniform background on the intrinsic range with 10 % overshoot',
     },
     quantities: quantityRecords,
-    cautions: RECORD_CAUTIONS,
+    cautions: [...RECORD_CAUTIONS, ...quantities.flatMap((q) => (weightCautions.get(q.id) ?? []).map((c) => `${q.name}: ${c}`))],
   }
 }

@@ -66,6 +66,8 @@ export interface FitSummary {
   q95: number
   mean: number
   sd: number
+  /** Where the fit contradicts the expert's plausible range (absent in records made before the rule). */
+  warnings?: string[]
 }
 
 export interface RecordJudgement {
@@ -91,6 +93,8 @@ export interface RecordCombination {
   adjustReason: string
   rationale: string
   status: 'draft' | 'reconciled'
+  /** Performance weights from fewer calibration questions or experts than the stated minimums. */
+  weightCautions?: string[]
 }
 
 export interface ModelCodeLine {

@@ -268,7 +268,7 @@ describe('the .docx a reviewer keeps', () => {
     ]) expect(text, key).not.toContain(key)
     expect(text).toContain('Chip grid')
     expect(text).toContain('Poisson with exposure')
-    expect(text).toContain('Quantity defined (Burst rate)')
+    expect(text).toContain('Quantity created (Burst rate)')
   })
 
   it('writes dates as local times with the time zone, never as ISO UTC', async () => {

@@ -8,7 +8,7 @@ import type { RecordView as RecordViewBody } from '@/api/record'
 import RecordView from '@/views/study/RecordView.vue'
 import { mockFetch, type Route } from '../fetch-mock'
 import { OptionStub, SelectStub } from '../study/stubs'
-import { comment, recordView } from './fixtures'
+import { comment, quantity, recordView } from './fixtures'
 
 vi.mock('@/composables/notify', () => ({ notify: { success: vi.fn(), error: vi.fn() } }))
 // chart.js needs a real canvas: the stand-in reports a drawn picture as soon as it mounts.
@@ -80,6 +80,21 @@ describe('RecordView', () => {
     expect(wrapper.get('[data-testid="record-cautions"]').text()).toContain('qualified statistician')
     // experts read only
     expect(wrapper.find('[data-testid="comment-open"]').exists()).toBe(false)
+  })
+
+  it('shows each fit’s warnings and the caution on performance weights from the record content', async () => {
+    const view = recordView('draft')
+    const flow = quantity()
+    const warning = 'This shape says values above 14 are impossible, but you said 25 is plausible.'
+    const caution = 'Performance weights here compare 2 experts; this tool asks for at least 4 before the weights say much.'
+    flow.judgements[0].fit!.warnings = [warning]
+    flow.combination = { ...flow.combination!, weightsMode: 'performance', weightCautions: [caution] }
+    view.content.quantities = [flow]
+    const { wrapper } = mountView('analyst', view)
+    await vi.waitFor(() => expect(wrapper.find('[data-testid="record-status"]').exists()).toBe(true))
+    await flushPromises()
+    expect(wrapper.findAll('[data-testid="record-fit-warning"]').map((w) => w.text())).toEqual([warning])
+    expect(wrapper.findAll('[data-testid="record-weight-caution"]').map((w) => w.text())).toEqual([caution])
   })
 
   it('sends each drawn final-prior chart once for an analyst before sign-off, never for an expert', async () => {
