@@ -85,3 +85,10 @@ export function suggestEdges(support: Support): number[] | undefined {
 export function intervalLabels(edges: readonly number[]): string[] {
   return edges.slice(1).map((upper, i) => `[${formatEdge(edges[i])}, ${formatEdge(upper)}${i === edges.length - 2 ? ']' : ')'}`)
 }
+
+/** Whether the intervals between the edges differ in width (beyond rounding of the typed decimals). */
+export function unequalWidths(edges: readonly number[]): boolean {
+  const widths = edges.slice(1).map((e, i) => e - edges[i])
+  const first = widths[0]
+  return widths.some((w) => Math.abs(w - first) > 1e-9 * Math.max(1, Math.abs(first)))
+}
