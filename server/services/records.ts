@@ -186,13 +186,19 @@ export async function submitRecord(ctx: RecordContext, user: User, studyId: numb
   const row = await ensureRecord(db, studyId)
   if (row.status !== 'draft') throw new HttpError(409, `The record is ${row.status.replace('_', ' ')}; that step is not possible now`)
   const content = await assembleRecord(db, studyId, { showNames: row.show_names, version: row.version })
-  const quantities = content.quantities as { finalPrior: unknown; leftOut: unknown; name: string }[]
+  const quantities = content.quantities
   const included = quantities.filter((q) => !q.leftOut)
   const missing = included.filter((q) => !q.finalPrior).map((q) => q.name)
   if (quantities.length === 0) throw new HttpError(400, 'The study has no quantities yet')
   if (included.length === 0) throw new HttpError(400, 'Every quantity is left out; a record needs at least one final prior', { quantities: 'Put at least one quantity back into the record' })
   if (missing.length) {
     throw new HttpError(400, `Reconcile each quantity or leave it out with a reason: ${missing.join(', ')}`, { quantities: `Not reconciled and not left out: ${missing.join(', ')}` })
+  }
+  const unanalysed = included.filter((q) => !q.impact && !q.impactNotRunReason).map((q) => q.name)
+  if (unanalysed.length) {
+    throw new HttpError(400, `No impact analysis of the final prior: ${unanalysed.join(', ')}`, {
+      impact: `Run an impact analysis of the final prior, or record why none was run: ${unanalysed.join(', ')}`,
+    })
   }
   const comments = await db('record_comments').where({ record_id: row.id }).select('id', 'kind', 'reply_to')
   const open = openReturnComments(comments)

@@ -6,6 +6,7 @@ import { HttpError } from '../http/errors'
 import type { StudyAccess } from './access'
 import { recordAudit } from './audit'
 import { studyExpertLabels } from './expert-labels'
+import { followQuantities } from './round-status'
 import { supportOf, type Support } from './quantities'
 import { sendPanelInvitation, sendReminder } from './notify'
 
@@ -267,8 +268,11 @@ export async function openRound(ctx: AppContext, user: User, id: number) {
 export async function closeRound(db: Db, user: User, id: number) {
   const r = await roundRow(db, id)
   if (r.status !== 'open') throw new HttpError(409, r.status === 'draft' ? 'The round has not been opened' : `The round is already ${r.status}`)
-  await db('rounds').where({ id }).update({ status: 'closed', closed_at: db.fn.now(), version: db.raw('version + 1'), updated_at: db.fn.now() })
-  await recordAudit(db, { actorId: user.id, studyId: r.study_id, action: 'round.close', subject: `round:${id}`, details: { early: r.closes_at.getTime() > Date.now() } })
+  await db.transaction(async (trx) => {
+    await trx('rounds').where({ id }).update({ status: 'closed', closed_at: trx.fn.now(), version: trx.raw('version + 1'), updated_at: trx.fn.now() })
+    await recordAudit(trx, { actorId: user.id, studyId: r.study_id, action: 'round.close', subject: `round:${id}`, details: { early: r.closes_at.getTime() > Date.now() } })
+    await followQuantities(trx, user.id, { roundIds: [id] })
+  })
 }
 
 /** Adds an expert to the panel by e-mail. When the round is open they are notified at once. */
@@ -355,9 +359,13 @@ export async function roundProgress(db: Db, roundId: number) {
 /** Sends due reminders and closes rounds past their closing time; safe to run from several instances. */
 export async function runRoundSchedule(ctx: AppContext, now = new Date()) {
   const { db } = ctx
-  const closed = await db('rounds').where('status', 'open').where('closes_at', '<=', now)
-    .update({ status: 'closed', closed_at: now, version: db.raw('version + 1'), updated_at: now }).returning(['id', 'study_id'])
-  for (const r of closed) await recordAudit(db, { actorId: null, studyId: r.study_id, action: 'round.close', subject: `round:${r.id}`, details: { automatic: true } })
+  const closed = await db.transaction(async (trx) => {
+    const rows = await trx('rounds').where('status', 'open').where('closes_at', '<=', now)
+      .update({ status: 'closed', closed_at: now, version: trx.raw('version + 1'), updated_at: now }).returning(['id', 'study_id'])
+    for (const r of rows) await recordAudit(trx, { actorId: null, studyId: r.study_id, action: 'round.close', subject: `round:${r.id}`, details: { automatic: true } })
+    if (rows.length) await followQuantities(trx, null, { roundIds: rows.map((r) => r.id) })
+    return rows
+  })
 
   const outboxIds: number[] = []
   const reminded: { id: number; study_id: number; count: number }[] = []

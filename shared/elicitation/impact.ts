@@ -1,5 +1,5 @@
 import {
-  analyzePrior, bayesFactor, cdf as cdfOf, mean as distMean, posteriorOf, PRIOR_DRIVEN_RULE, quantile, widthSweep,
+  analyzePrior, bayesFactor, cdf as cdfOf, decimalSum, mean as distMean, posteriorOf, PRIOR_DRIVEN_RULE, quantile, widthSweep,
   type Analysis, type PilotData, type Posterior, type PriorDistribution, type Support,
 } from '../stats/index'
 
@@ -104,7 +104,7 @@ export function dataSize(data: PilotData): number {
     case 'binomial':
       return data.trials
     case 'poisson':
-      return data.exposures.reduce((s, e) => s + e, 0)
+      return decimalSum(data.exposures)
   }
 }
 

@@ -47,14 +47,35 @@ describe('pilot data uploads', () => {
     expect(first.status).toBe(201)
     expect(first.body).toMatchObject({ version: 1, model: 'normal-known-sigma', rowCount: 5, data: { model: 'normal-known-sigma', sigma: 2, values: X } })
     expect(first.body.preview[0]).toEqual(['district', 'reduction'])
-    const second = await upload({ quantityId: flowId, name: 'Pilot districts', model: 'normal-known-sigma', valueColumn: 'reduction', sigma: 2 }, csv(body))
+    // The same file again (same SHA-256) is not stored silently: 409 naming the version already on file.
+    const again = await upload({ quantityId: flowId, name: 'Pilot districts', model: 'normal-known-sigma', valueColumn: 'reduction', sigma: 2 }, csv(body))
+    expect(again.status).toBe(409)
+    expect(again.body.error).toMatchObject({
+      code: 'duplicate-file', duplicateOfVersion: 1, duplicateOfName: 'Pilot districts',
+      message: 'This file is the same as version 1 (“Pilot districts”) already stored for this quantity. Keep that version, or upload again with allowDuplicate to store it as a new version.',
+    })
+    expect(await h.db('pilot_datasets').where({ quantity_id: flowId })).toHaveLength(1)
+    const second = await upload({ quantityId: flowId, name: 'Pilot districts', model: 'normal-known-sigma', valueColumn: 'reduction', sigma: 2, allowDuplicate: 'true' }, csv(body))
+    expect(second.status).toBe(201)
     expect(second.body.version).toBe(2)
+  })
+
+  it('adds up decimal exposures exactly: the burst logs total 8 exposure units, not 7.999999999999999', async () => {
+    // Exposures written with two decimals, as in the demo burst logs; their floating-point sum is 7.999999999999999.
+    const text = 'district,bursts,exposure\nKV-01,11,1.10\nKV-02,7,0.85\nKV-03,16,1.40\nKV-04,9,0.95\nKV-05,13,1.25\nKV-06,5,0.60\nKV-07,12,1.05\nKV-08,8,0.80\n'
+    const res = await upload({ quantityId: countsId, name: 'Burst logs (sum check)', model: 'poisson', countColumn: 'bursts', exposureColumn: 'exposure' }, csv(text))
+    expect(res.status).toBe(201)
+    expect(res.body.summary.n).toBe(8)
+    expect(res.body.summary.description).toBe('81 events over 8 exposure units')
+    const run = await analyst.post(`/api/quantities/${countsId}/impact`, { datasetId: res.body.id, reference: { family: 'gamma', shape: 1, rate: 0.1 } })
+    expect(run.status).toBe(200)
+    expect(run.body.n).toBe(8)
   })
 
   it('reads a 0/1 column as binomial successes and trials', async () => {
     const res = await upload({ quantityId: shareId, name: 'Survey', model: 'binomial', binomialLayout: 'binary', binaryColumn: 'joins' }, csv('id,joins\n1,1\n2,0\n3,1\n4,0\n5,0\n'))
     expect(res.status).toBe(201)
-    expect(res.body.data).toEqual({ model: 'binomial', successes: 2, trials: 5 })
+    expect(res.body.data).toEqual({ model: 'binomial', successes: 2, trials: 5, rows: { successes: [1, 0, 1, 0, 0], trials: [1, 1, 1, 1, 1] } })
   })
 
   const badFiles: [string, Record<string, string | number>, string, string][] = [
@@ -80,6 +101,26 @@ describe('pilot data uploads', () => {
       expect(await h.db('pilot_datasets').where({ quantity_id: countsId })).toHaveLength(before)
     })
   }
+
+  it('refuses every line whose field count differs from the header, with its line and column as data', async () => {
+    const fields = { quantityId: countsId, name: 'Burst logs', model: 'poisson', countColumn: 'bursts', exposureColumn: 'exposure' }
+    const before = (await h.db('pilot_datasets').where({ quantity_id: countsId })).length
+    // An exposure written with a thousands separator splits into an extra field on line 3.
+    const extra = await upload(fields, csv('district,bursts,exposure\nKV-01,11,1.10\nEast,4,1,250.5\nKV-03,16,1.40\n'))
+    expect(extra.status).toBe(400)
+    expect(extra.body.error).toMatchObject({ line: 3, column: 4, fields: { file: 'Line 3: expected 3 fields like the header, found 4.' } })
+    // A short line after a blank line and a quoted value spanning two lines keeps its own line number.
+    const short = await upload(fields, csv('district,bursts,exposure\n"KV\n01",11,1.10\n\nKV-02,7\n'))
+    expect(short.status).toBe(400)
+    expect(short.body.error).toMatchObject({ line: 5, column: 3, fields: { file: 'Line 5: expected 3 fields like the header, found 2.' } })
+    const cell = await upload(fields, csv('district,bursts,exposure\nA,3,1.2\nB,three,0.9\n'))
+    expect(cell.body.error).toMatchObject({ line: 3, column: 2 })
+    expect(await h.db('pilot_datasets').where({ quantity_id: countsId })).toHaveLength(before)
+    const preview = await analyst.agent.post(`/api/studies/${studyId}/datasets/preview`).set('x-csrf-token', analyst.token)
+      .attach('file', csv('a,b\n1,2\n3,4,5\n'), { filename: 'p.csv', contentType: 'text/csv' })
+    expect(preview.status).toBe(400)
+    expect(preview.body.error).toMatchObject({ line: 3, column: 3 })
+  })
 
   it('refuses an empty file and one over 2 MB', async () => {
     const fields = { quantityId: countsId, name: 'Burst logs', model: 'poisson', countColumn: 'bursts', exposureColumn: 'exposure' }

@@ -72,6 +72,7 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/datasets/:id': ['admin', 'analyst', 'reviewer'],
   'POST /api/quantities/:id/impact': ['admin', 'analyst'],
   'GET /api/quantities/:id/impact': ['admin', 'analyst', 'reviewer'],
+  'PUT /api/quantities/:id/impact/not-run': ['admin', 'analyst'],
   'GET /api/studies/:id/record': ['admin', 'analyst', 'reviewer'],
   'GET /api/studies/:id/record.json': ['admin', 'analyst', 'reviewer'],
   'GET /api/studies/:id/record.docx': ['admin', 'analyst', 'reviewer'],
