@@ -156,7 +156,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       const png = charts.get(q.symbol)
       if (png) sections.push(new Paragraph({ spacing: { before: 120, after: 120 }, children: [new ImageRun({ type: 'png', data: png, transformation: { width: 520, height: 260 } })] }))
       sections.push(
-        p('Model code (each line read back in its language’s parameterisation reproduces the 5/50/95 % quantiles):', { size: 20 }),
+        p('Model code (each line, read by Priorsmith with its language’s documented parameterisation, reproduces the 5/50/95 % quantiles; the languages themselves were not run):', { size: 20 }),
         table(['Language', 'Code', 'Read-back check'], f.modelCode.map((m: Json) => [
           LANGUAGE_LABELS[m.language] ?? m.language, m.code, m.check ? (m.check.ok ? `passed (largest relative difference ${fmt(m.check.maxRelativeDifference, 2)})` : 'FAILED') : 'not available',
         ]), 9),

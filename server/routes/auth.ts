@@ -9,11 +9,11 @@ import { HttpError, validateBody } from '../http/errors'
 import { recordAuditAlone } from '../services/audit'
 import { SESSION_COOKIE } from '../session'
 
-export function authRouter(db: Db, passport: PassportStatic, opts: { guard: SignInGuard; generateCsrfToken: (req: import('express').Request, overwrite?: boolean) => string }): Router {
+export function authRouter(db: Db, passport: PassportStatic, opts: { guard: SignInGuard; generateCsrfToken: (req: import('express').Request, res: import('express').Response) => string }): Router {
   const r = Router()
 
   r.get('/csrf', (req, res) => {
-    res.json({ token: opts.generateCsrfToken(req) })
+    res.json({ token: opts.generateCsrfToken(req, res) })
   })
 
   r.post('/sign-in', ...opts.guard.limiters, async (req, res, next) => {

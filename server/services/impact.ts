@@ -86,8 +86,10 @@ export const priorHash = (prior: Distribution) => createHash('sha256').update(ca
 /** Runs (or returns the cached) impact analysis of every candidate prior on one pilot dataset. */
 export async function runImpact(db: Db, user: User, quantityId: number, input: ImpactInput) {
   const dataset = await getDataset(db, input.datasetId)
-  if (dataset.quantityId !== quantityId) throw new HttpError(400, 'This dataset belongs to another quantity', { datasetId: 'Choose a dataset of this quantity' })
   const quantity = await getQuantity(db, quantityId)
+  // Another study's dataset is answered as if it did not exist: its id says nothing about that study.
+  if (dataset.studyId !== quantity.studyId) throw new HttpError(404, 'Dataset not found')
+  if (dataset.quantityId !== quantityId) throw new HttpError(400, 'This dataset belongs to another quantity', { datasetId: 'Choose a dataset of this quantity' })
   const support = supportOf({ support_kind: quantity.support.kind, support_lower: 'lower' in quantity.support ? quantity.support.lower : null, support_upper: 'upper' in quantity.support ? quantity.support.upper : null })
   const { list, reconciled, excluded } = await candidatesFor(db, quantityId, input)
   const data = dataset.data as PilotData

@@ -106,6 +106,12 @@ export async function roundRow(db: Db, id: number): Promise<RoundRow> {
   return row
 }
 
+/** An expert opens a round only when on its panel and once it has left draft; everything else answers 403. */
+export async function assertExpertOpens(db: Db, user: User, round: Pick<RoundRow, 'id' | 'status'>) {
+  const me = await db('round_panel').where({ round_id: round.id, user_id: user.id }).first('id')
+  if (!me || round.status === 'draft') throw new HttpError(403, 'You are not on the panel of this round')
+}
+
 /** A round as its reader may see it: analysts and reviewers get the panel; an expert only their own entry. */
 export async function getRound(db: Db, access: StudyAccess, id: number) {
   const r = await roundRow(db, id)
@@ -113,10 +119,7 @@ export async function getRound(db: Db, access: StudyAccess, id: number) {
     .select('i.*', 'q.name', 'q.symbol', 'q.unit', 'q.question', 'q.support_kind', 'q.support_lower', 'q.support_upper', 'q.assumptions', 'q.evidence_notes')
     .orderBy('i.position')
   const isExpert = access.role === 'expert'
-  if (isExpert) {
-    const me = await db('round_panel').where({ round_id: id, user_id: access.user.id }).first('id')
-    if (!me || r.status === 'draft') throw new HttpError(403, 'You are not on the panel of this round')
-  }
+  if (isExpert) await assertExpertOpens(db, access.user, r)
   const panel = isExpert ? [] : await panelOf(db, id)
   const files = await db('evidence_files').whereIn('quantity_id', items.map((i) => i.quantity_id)).select('id', 'quantity_id', 'filename', 'mime_type', 'size_bytes').orderBy('id')
   return {
@@ -191,10 +194,11 @@ export async function listRounds(db: Db, access: StudyAccess) {
   }))
 }
 
-/** Rounds the signed-in expert is on, across studies, for their start page. */
+/** Rounds the signed-in expert is on, across studies, for their start page: only of studies they are still an expert of. */
 export async function listMyRounds(db: Db, user: User) {
   const rows = await db('round_panel as p').join('rounds as r', 'r.id', 'p.round_id').join('studies as s', 's.id', 'r.study_id')
-    .where('p.user_id', user.id).whereNot('r.status', 'draft')
+    .join('study_members as m', (j) => j.on('m.study_id', '=', 'r.study_id').andOn('m.user_id', '=', 'p.user_id'))
+    .where('p.user_id', user.id).where('m.study_role', 'expert').whereNot('r.status', 'draft')
     .select('r.id', 'r.title', 'r.status', 'r.opens_at', 'r.closes_at', 's.id as study_id', 's.title as study_title', 'p.submitted_at')
     .orderBy('r.closes_at')
   return rows.map((r) => ({ id: r.id, title: r.title, status: r.status, opensAt: r.opens_at.toISOString(), closesAt: r.closes_at.toISOString(), studyId: r.study_id, studyTitle: r.study_title, submittedAt: iso(r.submitted_at) }))
@@ -285,6 +289,9 @@ export async function addPanelMember(ctx: AppContext, user: User, roundId: numbe
   const outboxIds = await db.transaction(async (trx) => {
     const [member] = await trx('round_panel').insert({ round_id: roundId, email, name: account?.display_name ?? body.name, user_id: account?.id ?? null }).returning('*')
     if (account) {
+      // Held until commit, so an admin's change of this account's role waits and then sees the new membership.
+      const held = await trx('users').where({ id: account.id }).forShare().first('role')
+      if (held.role !== 'expert') throw new HttpError(400, `This address belongs to a ${held.role} account`, { email: 'Only expert accounts can sit on a panel' })
       await trx('study_members').insert({ study_id: r.study_id, user_id: account.id, study_role: 'expert' }).onConflict(['study_id', 'user_id']).ignore()
     }
     const ids = r.status === 'open' ? [await sendPanelInvitation(trx, ctx, user, r, member)] : []

@@ -3,7 +3,7 @@ import {
   type Analysis, type PilotData, type Posterior, type PriorDistribution, type Support,
 } from '../stats/index'
 
-/** Width factors k of the sweep (DESIGN.md: 0.25 to 8), evenly spaced on a log scale. */
+/** Width factors k of the sweep (0.25 to 8; docs/methods/width-sweep.md), evenly spaced on a log scale. */
 export const SWEEP_FACTORS = [0.25, 0.35, 0.5, 0.71, 1, 1.41, 2, 2.83, 4, 5.66, 8]
 
 export interface CandidateInput {

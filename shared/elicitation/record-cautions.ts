@@ -23,7 +23,7 @@ export const GENERAL_CAUTIONS: readonly RecordCaution[] = [
   {
     rule: 'prior-influence',
     quantity: null,
-    text: 'A prior that carries more information than the data (prior effective sample size larger than n) dominates the posterior; a prior–data conflict (Box p < 0.05) needs an explanation; a Bayes factor that changes more than 3× across the width sweep reflects the prior’s width rather than the data.',
+    text: 'Priorsmith’s rules of thumb, conventions of this tool rather than published tests (its methods documentation gives the reasoning): a prior that carries more information than the data (prior effective sample size larger than n) dominates the posterior; a prior–data conflict (Box p < 0.05, the customary 5 % level) needs an explanation; a Bayes factor that changes more than 3× when the prior’s width is halved or doubled, while the posterior mean moves less than 0.1 posterior standard deviations, reflects the prior’s width rather than the data.',
   },
 ]
 

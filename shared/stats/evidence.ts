@@ -240,7 +240,7 @@ function posteriorFromIntegral(li: LogIntegral, scale: PriorScale): PosteriorPar
 
 type Conditional = { logEvidence: number; closed: boolean; posterior: () => PosteriorParts }
 
-/** Marginal likelihood and posterior of μ for normal data with known σ (BDA3 §2.5; REFERENCE §4.1–4.2). */
+/** Marginal likelihood and posterior of μ for normal data with known σ (BDA3 §2.5; docs/methods/evidence.md). */
 function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: number, force: boolean): Conditional {
   const { n, mean: xbar, ss } = st
   const se = sigma / Math.sqrt(n)
@@ -285,7 +285,7 @@ function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: numb
 
 // ─── Normal data with unknown σ ──────────────────────────────────────────────────────────────────
 
-/** μ and σ independent a priori: μ integrated out for each σ (closed form for normal and uniform priors), then σ by quadrature on ln σ (REFERENCE §9). */
+/** μ and σ independent a priori: μ integrated out for each σ (closed form for normal and uniform priors), then σ by quadrature on ln σ (docs/methods/evidence.md). */
 function normalUnknownSigma(prior: PriorDistribution, st: NormalStats, sigmaPrior: PriorDistribution, force: boolean) {
   const sScale = priorScale(sigmaPrior)
   const cache = new Map<number, Conditional>()
@@ -633,8 +633,8 @@ function summariseDistribution(d: PriorDistribution): PosteriorSummary {
 
 /**
  * Log marginal likelihood (all constants included), posterior summary, Box's prior predictive p-value and prior ESS
- * for one prior and one pilot data set: closed forms for conjugate pairs (BDA3 §2.4–2.6; REFERENCE §4), otherwise
- * adaptive Gauss–Kronrod quadrature in log space (Piessens et al. 1983; REFERENCE §9).
+ * for one prior and one pilot data set: closed forms for conjugate pairs (BDA3 §2.4–2.6; docs/methods/evidence.md), otherwise
+ * adaptive Gauss–Kronrod quadrature in log space (Piessens et al. 1983; docs/methods/evidence.md).
  */
 export function analyzePrior(prior: PriorDistribution, data: PilotData, options: AnalyzeOptions = {}): Analysis {
   validateData(prior, data)
@@ -719,7 +719,7 @@ export function boxCheckNormalNormal(values: number[], sigma: number, prior: { m
 }
 
 /**
- * Prior effective sample size (Morita, Thall & Müller 2008; REFERENCE §8): beta a + b (a uniform or scaled beta on [0, 1]
+ * Prior effective sample size (Morita, Thall & Müller 2008; docs/methods/effective-sample-size.md): beta a + b (a uniform or scaled beta on [0, 1]
  * counts as the beta it is), normal mean with known σ σ²/τ², gamma–Poisson the rate b in exposure units; null otherwise.
  */
 export function priorEffectiveSampleSize(prior: PriorDistribution, data: PilotData): number | null {

@@ -1,6 +1,6 @@
 import type { Point } from '@shared/stats'
 
-/** The quantile method asks in this order to limit anchoring (DESIGN.md "Elicitation methods"). */
+/** The quantile method asks in this order to limit anchoring: the plausible bounds first, the median last (common practice in elicitation protocols; see docs/methods/fitting.md). */
 export const PRACTICE_STEPS = [
   {
     key: 'lower',

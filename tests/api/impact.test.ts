@@ -1,6 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { analyzePrior, bayesFactor } from '../../shared/stats/index'
 import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
+import { check } from '../unit/stats/checks'
+import outside from './fixtures/impact-checks.json'
 
 let h: ApiHarness
 let analyst: Client
@@ -9,7 +11,7 @@ let flowId: number
 let countsId: number
 let shareId: number
 
-const X = [2.2, 3.5, 2.8, 3.9, 2.6] // REFERENCE.md §4 data: n = 5, mean 3.0
+const X = [2.2, 3.5, 2.8, 3.9, 2.6] // constructed pilot data: n = 5, mean 3.0 (the sample of tests/unit/stats/fixtures/checks.json)
 const csv = (text: string) => Buffer.from(text, 'utf8')
 
 function upload(fields: Record<string, string | number>, file: Buffer, filename = 'pilot.csv') {
@@ -141,14 +143,14 @@ describe('impact analysis', () => {
   let datasetId: number
   beforeAll(async () => {
     datasetId = (await h.db('pilot_datasets').where({ quantity_id: flowId, version: 1 }).first('id')).id
-    // The analyst's reconciled prior: U(0, 10) on the mean (REFERENCE.md §5).
+    // The analyst's reconciled prior: U(0, 10) on the mean (docs/methods/width-sweep.md).
     await h.db('reconciliations').insert({
       quantity_id: flowId, method: 'linear', weights_mode: 'equal', family: 'uniform', distribution: JSON.stringify({ family: 'uniform', lower: 0, upper: 10 }),
       status: 'reconciled', rationale: 'Test fixture: a flat prior over the plausible range.',
     })
   })
 
-  it('stores the engine’s values: U(0,10) against a 4× wider reference gives BF 4, posterior unchanged (REFERENCE.md §5)', async () => {
+  it('stores the engine’s values: U(0,10) against a 4× wider reference gives BF 4, posterior unchanged (WIDTH-uniform, mpmath)', async () => {
     const res = await analyst.post(`/api/quantities/${flowId}/impact`, {
       datasetId, reference: { family: 'uniform', lower: 0, upper: 40 }, decision: { direction: 'above', threshold: 2.5, probability: 0.8 },
     })
@@ -160,14 +162,15 @@ describe('impact analysis', () => {
     const engine = analyzePrior({ family: 'uniform', lower: 0, upper: 10 }, data)
     expect(rec.logEvidence).toBe(engine.logEvidence)
     expect(rec.posterior).toEqual(engine.posterior)
-    // REFERENCE.md §5: log p(x) = -9.79354509862 (A = 10) and -11.1798394597 (A = 40); ratio 3.99999999999998994; posterior mean 3.001287423796287.
-    expect(rec.logEvidence).toBeCloseTo(-9.79354509862, 9)
-    expect(ref.logEvidence).toBeCloseTo(-11.1798394597, 9)
+    // Outside values: WIDTH-uniform of tests/unit/stats/fixtures/checks.json (closed form at 40 digits, mpmath).
+    const width = check('WIDTH-uniform').expected.table
+    expect(rec.logEvidence).toBeCloseTo(width['10'].log_ml, 9)
+    expect(ref.logEvidence).toBeCloseTo(width['40'].log_ml, 9)
     expect(Math.exp(rec.bayesFactor.logBF)).toBeCloseTo(4, 10)
     expect(rec.bayesFactor.twoLnBF).toBeCloseTo(2.77258872224, 9)
     expect(rec.bayesFactor.label).toBe(bayesFactor(engine.logEvidence, ref.logEvidence).label)
     expect(rec.bayesFactor.label).toMatch(/^positive/)
-    expect(rec.posterior.mean).toBeCloseTo(3.001287423796287, 9)
+    expect(rec.posterior.mean).toBeCloseTo(width['10'].post_mean, 9)
     expect(rec.flags).toContain('prior-driven-bayes-factor')
     expect(res.body.sweep.priorDriven).toBe(true)
     // Over k in [0.5, 2] the sweep spans U(0, 5) to U(0, 20); U(0, 5) cuts off a little likelihood, so the ratio is just under 4.
@@ -176,7 +179,9 @@ describe('impact analysis', () => {
     expect(res.body.sweep.evidenceRatio).toBeCloseTo(Math.exp(z5 - z20), 9)
     expect(res.body.sweep.evidenceRatio).toBeGreaterThan(3)
     expect(res.body.findings[0]).toBe('Widening the reconciled prior 4× moves the posterior mean from 3.00 to 3.00 (barely) and divides the evidence by about 4.00.')
-    expect(rec.decision.probability).toBeGreaterThan(0.7)
+    // P(μ > 2.5 | x) by scipy quad (fixtures/generate_impact_checks.py): 0.712 < 0.8, so the decision rule does not act.
+    expect(rec.decision.probability).toBeCloseTo(outside.uniform_0_10_prob_mean_above_2_5, 8)
+    expect(rec.decision.act).toBe(false)
     expect(res.body.tipping.centreNote).toBe('A centre shift is not defined for the uniform family here; the spread test still applies.')
   })
 
@@ -192,8 +197,10 @@ describe('impact analysis', () => {
     await h.db('reconciliations').where({ quantity_id: flowId }).update({ family: 'normal', distribution: JSON.stringify({ family: 'normal', mu: 10, sigma: 0.3 }) })
     const res = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId, reference: { family: 'normal', mu: 3, sigma: 20 } })
     const rec = res.body.candidates.find((c: { kind: string }) => c.kind === 'reconciled')
-    // ESS = σ²/τ² = 4/0.09 ≈ 44.4 > n = 5 (REFERENCE.md §8); Box p for N(10, 0.3²): z = (3 − 10)/√(0.09 + 0.8) ≈ −7.4.
-    expect(rec.priorEss).toBeCloseTo(4 / 0.09, 9)
+    // ESS = σ²/τ² = 4/0.09 ≈ 44.4 > n = 5 (Morita, Thall & Müller 2008); Box p for N(10, 0.3²): z = (3 − 10)/√(0.09 + 0.8) ≈ −7.4
+    // (values from fixtures/generate_impact_checks.py, scipy).
+    expect(rec.priorEss).toBeCloseTo(outside.normal_10_0_3.ess, 9)
+    expect(rec.priorPredictiveP / outside.normal_10_0_3.box_p_two_sided).toBeCloseTo(1, 6)
     expect(rec.flags).toEqual(expect.arrayContaining(['prior-dominates', 'prior-data-conflict']))
     expect(res.body.findings.some((f: string) => f.startsWith('Reconciled prior: the prior carries more information than the pilot data'))).toBe(true)
   })
@@ -207,7 +214,11 @@ describe('impact analysis', () => {
     const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'reference')
     const expected = Math.log(0.8 * Math.exp(rec.logEvidence) + 0.2 * Math.exp(ref.logEvidence))
     expect(mix.logEvidence).toBeCloseTo(expected, 10)
-    expect(mix.posterior.mean).toBeGreaterThan(ref.posterior.mean - 1)
+    // Outside values (scipy, fixtures/generate_impact_checks.py): the data outweigh N(10, 0.3²) by ~1e10, so the mixture's
+    // posterior is the vague component's and its mean is 3.0000000006.
+    const mixed = outside.mixture_0_8_normal_10_0_3_and_0_2_normal_3_20
+    expect(mix.logEvidence).toBeCloseTo(mixed.log_evidence, 9)
+    expect(mix.posterior.mean).toBeCloseTo(mixed.posterior_mean, 8)
   })
 
   it('refuses a dataset of another quantity and an invalid reference, and is closed to experts', async () => {
