@@ -134,13 +134,14 @@ export interface MyRound {
 export interface PracticeFeedback {
   distribution: Distribution
   sse: number
-  q05: number
+  /** The expert's lowest and highest plausible values and median. */
+  lower: number
   q50: number
-  q95: number
+  upper: number
   trueValue: number
   truthProb: number
   insideQuartiles: boolean
-  inside90: boolean
+  insideBounds: boolean
 }
 
 export interface RoundEntry {

@@ -14,11 +14,11 @@ describe('plain statements read off the chosen distribution', () => {
     ])
   })
 
-  it('keeps a share’s unit in brackets and reads without a unit when there is none', () => {
+  it('writes a share in per cent with its unit in brackets, and reads without a unit when there is none', () => {
     const beta = { family: 'beta', alpha: 2, beta: 6 } as const
     const [first, second] = feedbackStatements(beta, { name: 'Leak-alert scheme uptake', unit: 'share of households', support: { kind: 'proportion' } })
-    expect(first).toMatch(/^You are saying there is a 1 in 4 chance that the leak-alert scheme uptake is below 0\.\d+ \(share of households\)\.$/)
-    expect(second).toMatch(/between 0\.\d+ and 0\.\d+ \(share of households\)\.$/)
+    expect(first).toMatch(/^You are saying there is a 1 in 4 chance that the leak-alert scheme uptake is below \d+(\.\d)? % \(share of households\)\.$/)
+    expect(second).toMatch(/between \d+(\.\d)? % and \d+(\.\d)? % \(share of households\)\.$/)
     expect(feedbackStatements(normal, { name: 'Flow', unit: '', support: { kind: 'real' } })[0]).toBe('You are saying there is a 1 in 4 chance that the flow is below 8.65.')
   })
 
@@ -38,7 +38,10 @@ describe('plain statements read off the chosen distribution', () => {
     expect(chanceWords(0.5)).toBe('1 in 2')
     expect(chanceWords(0.3)).toBe('30 %')
     expect(valueText(1840, 'km')).toBe('1,840 km')
-    expect(valueText(0.25, 'share of households', { kind: 'proportion' })).toBe('0.25 (share of households)')
+    expect(valueText(0.25, 'share of households', { kind: 'proportion' })).toBe('25 % (share of households)')
+    expect(valueText(0.138, 'share of households', { kind: 'proportion' })).toBe('13.8 % (share of households)')
+    expect(valueText(0.0042, '', { kind: 'proportion' })).toBe('0.42 %')
+    expect(rangeText(0.2, 0.35, 'share of households', { kind: 'proportion' })).toBe('20 % and 35 % (share of households)')
     expect(rangeText(7.93, 12.9, 'L/s')).toBe('7.93 and 12.9 L/s')
   })
 
