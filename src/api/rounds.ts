@@ -72,6 +72,8 @@ export interface Round {
   status: RoundStatus
   reminderHoursBefore: number | null
   reminderSentAt: string | null
+  /** IANA zone in which the round's e-mails state its times. */
+  timeZone: string
   calibrationPosition: 'before' | 'after'
   feedbackEnabled: boolean
   /** `answer` is left out for experts. */
@@ -92,6 +94,7 @@ export interface RoundWriteBody {
   closesAt: Date | string
   items: { quantityId: number; method: ElicitationMethod; edges?: number[]; chips?: number; askTails?: boolean }[]
   reminderHoursBefore?: number | null
+  timeZone?: string
   calibrationPosition?: 'before' | 'after'
   feedbackEnabled?: boolean
   practiceQuestion?: string

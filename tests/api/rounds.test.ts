@@ -243,3 +243,41 @@ describe('reminders and automatic closing', () => {
     expect((await h.db('rounds').where({ id: r.body.id }).first()).status).toBe('closed')
   })
 })
+
+describe('the round’s time zone in its e-mails', () => {
+  it('takes an IANA name, refuses anything else with a field error, and keeps UTC when none is given', async () => {
+    const plain = await analyst.post(`/api/studies/${studyId}/rounds`, roundBody({ title: 'Round without a zone' })).expect(201)
+    expect(plain.body.timeZone).toBe('UTC')
+    for (const timeZone of ['Mars/Olympus', 'Europe/../etc', '', 42, 'UTC+1']) {
+      const bad = await analyst.post(`/api/studies/${studyId}/rounds`, roundBody({ timeZone }))
+      expect(bad.status).toBe(400)
+      expect(bad.body.error.fields).toEqual({ timeZone: 'Choose a time zone by its IANA name, such as Europe/London or America/New_York' })
+    }
+    const spelled = await analyst.post(`/api/studies/${studyId}/rounds`, roundBody({ timeZone: 'europe/berlin' })).expect(201)
+    expect(spelled.body.timeZone).toBe('Europe/Berlin')
+    const changed = await analyst.patch(`/api/rounds/${spelled.body.id}`, { timeZone: 'America/New_York', version: spelled.body.version }).expect(200)
+    expect(changed.body.timeZone).toBe('America/New_York')
+    const refused = await analyst.patch(`/api/rounds/${spelled.body.id}`, { timeZone: 'Nowhere/Land', version: changed.body.version })
+    expect(refused.status).toBe(400)
+    expect((await analyst.get(`/api/rounds/${spelled.body.id}`)).body.timeZone).toBe('America/New_York')
+  })
+
+  it('states every time of the invitation, the notice and the reminder in that zone, with its name', async () => {
+    const closesAt = new Date(Date.now() + 30 * 3600 * 1000)
+    closesAt.setUTCSeconds(0, 0)
+    const r = (await analyst.post(`/api/studies/${studyId}/rounds`, roundBody({
+      title: 'Round in Berlin time', timeZone: 'Europe/Berlin', reminderHoursBefore: 48, closesAt: closesAt.toISOString(),
+    })).expect(201)).body
+    await analyst.post(`/api/rounds/${r.id}/invitations`, { email: 'berlin.expert@example.org', name: 'Kai' }).expect(201)
+    await analyst.post(`/api/rounds/${r.id}/invitations`, { email: 'expert3@kestrel.example', name: 'Priya' }).expect(201)
+    await analyst.post(`/api/rounds/${r.id}/open`).expect(200)
+    await runRoundSchedule({ db: h.db, publicUrl: 'http://localhost:3000', kickMail: async () => {} })
+    const rows = await h.db('outbox_messages').where({ round_id: r.id }).orderBy('id')
+    expect(rows.map((m) => m.kind).sort()).toEqual(['invitation', 'invitation', 'reminder', 'round-notice'])
+    const berlin = new Intl.DateTimeFormat('en-GB', { timeZone: 'Europe/Berlin', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(closesAt)
+    for (const m of rows) {
+      expect(m.text_body).toContain(`${berlin} (Europe/Berlin, UTC+`)
+      expect(m.text_body).not.toContain('(UTC)')
+    }
+  })
+})
