@@ -176,7 +176,7 @@ describe('answering a round', () => {
     const { page } = expert1
     await page.getByTestId('q-next').click()
     await page.getByTestId('overconfidence-note').waitFor()
-    expect(await page.getByTestId('overconfidence-note').innerText()).toContain('Would that surprise you?')
+    expect(await page.getByTestId('overconfidence-note').innerText()).toContain('Would that surprise you? It should not surprise you much')
     await field(page, 'q-q1').fill('8')
     await expect(page.getByTestId('feedback-statement').count()).resolves.toBe(0)
     await field(page, 'q-q3').fill('13')
@@ -186,7 +186,12 @@ describe('answering a round', () => {
     expect(before).toHaveLength(3)
     expect(before[0]).toMatch(/^You are saying there is a 1 in 4 chance that the burst rate of old cast-iron mains is below [\d.]+ bursts per 100 km per year\.$/)
     expect(before[2]).toMatch(/1 in 10 chance that it is above [\d.]+ bursts per 100 km per year\.$/)
-    expect(await page.getByTestId('fit-quality').innerText()).toMatch(/^Close fit .*sum of squared errors 0\.000\d/)
+    expect(await page.getByTestId('fit-quality').innerText()).toBe('Close fit — the curve passes close to your values.')
+    // Experts read shapes in words, never family names or error sums.
+    const options = await page.locator('[data-testid="family-option"]').allInnerTexts()
+    expect(options.join(' ')).not.toMatch(/SSE|normal|gamma|squared/i)
+    expect(options.some((o) => o.includes('stretched towards high values'))).toBe(true)
+    expect(await page.getByTestId('quantity-screen').innerText()).toContain('How you answer: a range, then a middle value')
     expect(await page.getByTestId('feedback-card').getAttribute('data-family')).toBe('lognormal')
     await expect(page.locator('[data-testid="family-option"]').count()).resolves.toBe(3)
 
@@ -201,8 +206,8 @@ describe('answering a round', () => {
     const saved = (await savedJudgements(page, setup.roundId)).find((j) => j.quantityId === setup.burst)!
     expect(saved.answer).toEqual({ lower: 4, upper: 25, points: [{ value: 8, prob: 0.25 }, { value: 10, prob: 0.5 }, { value: 16, prob: 0.75 }] })
     expect(await page.getByTestId('feedback-card').getAttribute('data-family')).toBe(saved.fits[0].distribution.family)
-    expect(await page.getByTestId('feedback-q50').innerText()).toBe(formatValue(quantile(saved.fits[0].distribution, 0.5)))
-    expect(await page.getByTestId('feedback-q95').innerText()).toBe(formatValue(quantile(saved.fits[0].distribution, 0.95)))
+    expect(await page.getByTestId('feedback-q50').innerText()).toBe(`${formatValue(quantile(saved.fits[0].distribution, 0.5))} bursts per 100 km per year`)
+    expect(await page.getByTestId('feedback-q95').innerText()).toBe(`${formatValue(quantile(saved.fits[0].distribution, 0.95))} bursts per 100 km per year`)
   })
 
   it('lets the expert pick another fitted family and writes the rationale', async () => {
