@@ -106,6 +106,9 @@ export const declarationSchema = object({
 }).noUnknown('Unknown field: ${unknown}')
 export type DeclarationBody = InferType<typeof declarationSchema>
 
+/** A request that carries no fields (e.g. confirming an earlier declaration). */
+export const emptySchema = object({}).noUnknown('Unknown field: ${unknown}')
+
 
 const increasing = (key: 'value' | 'prob') => (v: unknown) =>
   !Array.isArray(v) || v.every((p, i) => i === 0 || (p && v[i - 1] && p[key] > v[i - 1][key]))

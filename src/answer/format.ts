@@ -25,20 +25,12 @@ export function shapeWords(d: Distribution): string {
   return Number.isFinite(tails) && tails > 4.5 ? `${words}, with room for far-off values` : words
 }
 
-/** Below this sum of squared CDF errors the fit is called close (DESIGN: "close fit" when SSE < 0.001). */
+/** Below this sum of squared CDF errors the fit is called close (the tool's convention). */
 export const CLOSE_FIT_SSE = 0.001
 
 /** "close fit" or "rough fit", from the sum of squared errors between the elicited and fitted CDF. */
 export function fitQuality(sse: number): 'close fit' | 'rough fit' {
   return sse < CLOSE_FIT_SSE ? 'close fit' : 'rough fit'
-}
-
-/** The SSE as a short number: "0.0042", "3.1e-6", "0". */
-export function formatSse(sse: number): string {
-  if (!Number.isFinite(sse)) return String(sse)
-  if (sse === 0) return '0'
-  if (Math.abs(sse) < 1e-4) return sse.toExponential(1)
-  return sse.toFixed(4)
 }
 
 /** How the expert answers with each method, for their screens (the method's name is for the analyst). */

@@ -147,15 +147,29 @@ export interface PracticeFeedback {
   insideBounds: boolean
 }
 
+export interface Declaration {
+  expertise: string
+  interests: 'none' | 'described'
+  interestsText: string
+  seenPilotData: boolean
+  savedAt: string
+}
+
+export interface PracticeDone {
+  points: Point[]
+  fit: PracticeFeedback | null
+  completedAt: string
+}
+
 export interface RoundEntry {
-  declaration: {
-    expertise: string
-    interests: 'none' | 'described'
-    interestsText: string
-    seenPilotData: boolean
-    savedAt: string
-  } | null
-  practice: { points: Point[]; fit: PracticeFeedback | null; completedAt: string } | null
+  declaration: Declaration | null
+  practice: PracticeDone | null
+  /** In a later round of the study: what the expert declared and practised last time, to confirm ("still true?"). */
+  earlier?: { roundNumber: number; roundTitle: string; declaration: Declaration; practice: PracticeDone | null } | null
+  /** Names of the study's pilot data sets. */
+  pilotData?: string[]
+  /** Calibration questions answered in an earlier round of the study (asked once per study). */
+  calibrationAnsweredEarlier?: number[]
   submittedAt: string | null
 }
 
@@ -175,6 +189,7 @@ export const roundsApi = {
   mine: () => api.get<MyRound[]>('/api/my/rounds'),
   entry: (id: number) => api.get<RoundEntry>(`/api/rounds/${id}/entry`),
   saveDeclaration: (id: number, body: DeclarationBody) => api.put<RoundEntry>(`/api/rounds/${id}/declaration`, body),
+  confirmDeclaration: (id: number) => api.post<RoundEntry>(`/api/rounds/${id}/declaration/confirm`, {}),
   practice: (id: number, points: Point[]) =>
     api.post<RoundEntry & { feedback: PracticeFeedback }>(`/api/rounds/${id}/practice`, { points }),
 }

@@ -130,7 +130,7 @@ function answerItemOf(item: RoundItem): AnswerItem {
  * between items), live checks and fits from the shared engine, autosave with versions, the calibration block,
  * the rail's statuses and the submit.
  */
-export function useAnswerSession(round: Ref<AnswerRound>) {
+export function useAnswerSession(round: Ref<AnswerRound>, calibrationAnsweredEarlier: Ref<number[]> = ref([])) {
   const store = useJudgementsStore()
   const quantities = shallowRef<QuantityState[]>([])
   const calibrations = shallowRef<CalibrationState[]>([])
@@ -235,7 +235,9 @@ export function useAnswerSession(round: Ref<AnswerRound>) {
     scope = effectScope(true)
     scope.run(() => {
       quantities.value = round.value.items.map((item) => quantityState(item, store.judgements[item.quantityId]))
-      calibrations.value = askCalibration.value ? store.questions.map((q, i) => calibrationState(q, i + 1)) : []
+      // Calibration questions are asked once per study: those answered in an earlier round are not asked again.
+      const done = new Set(calibrationAnsweredEarlier.value)
+      calibrations.value = askCalibration.value ? store.questions.filter((q) => !done.has(q.id)).map((q, i) => calibrationState(q, i + 1)) : []
     })
   }
 

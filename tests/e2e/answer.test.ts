@@ -25,19 +25,37 @@ interface Setup {
 
 interface RoundOptions {
   studyTitle: string
+  studyId: number | null
   title: string
   feedback: boolean
   only: boolean
 }
 
-/** The analyst creates and opens a round on the demo study with its three quantities, one per method, and the three demo experts. */
-async function createRound(page: Page, options: { title: string; feedback?: boolean; onlyBurstRate?: boolean }): Promise<Setup> {
+/**
+ * The analyst creates and opens a round with three quantities, one per method, and the three demo experts. The first
+ * round goes to a fresh copy of the demo study (its quantities and calibration questions), so that what other suites
+ * did on the demo study (calibration answered in their rounds is not asked again) cannot change what this one sees;
+ * a later round reuses the same study.
+ */
+async function createRound(page: Page, options: { title: string; studyId?: number; feedback?: boolean; onlyBurstRate?: boolean }): Promise<Setup> {
   return inPage(
     page,
     async (call: Call, args: RoundOptions): Promise<Setup> => {
-      const studies = await call<{ id: number; title: string }[]>('GET', '/api/studies')
-      const study = studies.find((s) => s.title === args.studyTitle)!
-      const quantities = await call<{ id: number; symbol: string }[]>('GET', `/api/studies/${study.id}/quantities`)
+      type Q = { id: number; name: string; symbol: string; unit: string; question: string; support: unknown; assumptions: string; evidenceNotes: string }
+      let study: { id: number }
+      if (args.studyId === null) {
+        const studies = await call<{ id: number; title: string }[]>('GET', '/api/studies')
+        const demo = studies.find((s) => s.title === args.studyTitle)!
+        study = await call<{ id: number }>('POST', '/api/studies', { title: `Answer screen study ${Date.now()}`, context: 'A copy of the demo study for the answering screen.' })
+        for (const q of await call<Q[]>('GET', `/api/studies/${demo.id}/quantities`)) {
+          const { name, symbol, unit, question, support, assumptions, evidenceNotes } = q
+          await call('POST', `/api/studies/${study.id}/quantities`, { name, symbol, unit, question, support, assumptions, evidenceNotes })
+        }
+        for (const c of await call<{ question: string; unit: string; trueValue: number | null }[]>('GET', `/api/studies/${demo.id}/calibration-questions`)) {
+          await call('POST', `/api/studies/${study.id}/calibration-questions`, { question: c.question, unit: c.unit, trueValue: c.trueValue })
+        }
+      } else study = { id: args.studyId }
+      const quantities = await call<Q[]>('GET', `/api/studies/${study.id}/quantities`)
       const id = (symbol: string) => quantities.find((q) => q.symbol === symbol)!.id
       const items = [
         { quantityId: id('burst_rate'), method: 'quantile' },
@@ -58,7 +76,7 @@ async function createRound(page: Page, options: { title: string; feedback?: bool
       await call('POST', `/api/rounds/${round.id}/open`)
       return { studyId: study.id, roundId: round.id, burst: id('burst_rate'), uptake: id('alert_uptake'), flow: id('night_flow_cut') }
     },
-    { studyTitle: DEMO_STUDY_TITLE, title: options.title, feedback: options.feedback ?? false, only: options.onlyBurstRate ?? false },
+    { studyTitle: DEMO_STUDY_TITLE, studyId: options.studyId ?? null, title: options.title, feedback: options.feedback ?? false, only: options.onlyBurstRate ?? false },
   )
 }
 
@@ -439,7 +457,7 @@ describe('answering a round', () => {
       },
       { password: DEMO_PASSWORD },
     )
-    const round2 = await createRound(analyst.page, { title: 'Answer screen, round 2 with feedback', feedback: true, onlyBurstRate: true })
+    const round2 = await createRound(analyst.page, { title: 'Answer screen, round 2 with feedback', studyId: setup.studyId, feedback: true, onlyBurstRate: true })
     await completeEntry(expert1.page, round2.roundId)
 
     const { page } = expert1

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { feedbackStatements, impliedQuantiles } from '@/answer/statements'
-import { chanceWords, fitQuality, formatSse, quantityPhrase, rangeText, valueText } from '@/answer/format'
+import { chanceWords, fitQuality, quantityPhrase, rangeText, shapeWords, valueText } from '@/answer/format'
 
 // Standard normal quantiles (common knowledge): z(0.75) = 0.67449, z(0.9) = 1.28155, z(0.95) = 1.64485.
 const normal = { family: 'normal', mu: 10, sigma: 2 } as const
@@ -48,9 +48,14 @@ describe('plain statements read off the chosen distribution', () => {
   it('calls a fit close below an SSE of 0.001 and keeps the number readable', () => {
     expect(fitQuality(0.000264)).toBe('close fit')
     expect(fitQuality(0.001)).toBe('rough fit')
-    expect(formatSse(0.000263838655276)).toBe('0.0003')
-    expect(formatSse(0.0042)).toBe('0.0042')
-    expect(formatSse(3.1e-6)).toBe('3.1e-6')
-    expect(formatSse(0)).toBe('0')
+  })
+
+  it('names shapes in words, never by family', () => {
+    expect(shapeWords({ family: 'normal', mu: 10, sigma: 2 })).toBe('symmetric')
+    expect(shapeWords({ family: 'student-t', mu: 10, sigma: 2, df: 3 })).toBe('symmetric, with room for far-off values')
+    expect(shapeWords({ family: 'lognormal', meanlog: 2, sdlog: 0.3 })).toBe('stretched towards high values')
+    expect(shapeWords({ family: 'lognormal', meanlog: 2, sdlog: 1 })).toBe('strongly stretched towards high values, with room for far-off values')
+    expect(shapeWords({ family: 'beta', alpha: 8, beta: 2 })).toBe('stretched towards low values')
+    expect(shapeWords({ family: 'uniform', lower: 6, upper: 14 })).toBe('flat between two limits')
   })
 })
