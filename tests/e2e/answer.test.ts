@@ -208,7 +208,7 @@ describe('answering a round', () => {
     // Experts read shapes in words, never family names or error sums.
     const options = await page.locator('[data-testid="family-option"]').allInnerTexts()
     expect(options.join(' ')).not.toMatch(/SSE|normal|gamma|squared/i)
-    expect(options.some((o) => o.includes('stretched towards high values'))).toBe(true)
+    expect(options.some((o) => /stretched towards high values/i.test(o))).toBe(true)
     expect(await page.getByTestId('quantity-screen').innerText()).toContain('How you answer: a range, then a middle value')
     expect(await page.getByTestId('feedback-card').getAttribute('data-family')).toBe('lognormal')
     await expect(page.locator('[data-testid="family-option"]').count()).resolves.toBe(3)
@@ -290,7 +290,12 @@ describe('answering a round', () => {
     expect(await page.getByTestId('interval-remaining').innerText()).toBe('All 100 % placed')
     await page.getByTestId('feedback-statement').first().waitFor()
     const before = await statements(page)
-    expect(before[0]).toMatch(/^You are saying there is a 1 in 4 chance that the leak-alert scheme uptake is below 0\.\d+ \(share of households\)\.$/)
+    // A share is written in per cent, as the percentages typed beside it.
+    expect(before[0]).toMatch(/^You are saying there is a 1 in 4 chance that the leak-alert scheme uptake is below \d+(\.\d+)? % \(share of households\)\.$/)
+    expect(await page.getByTestId('interval-prob').first().innerText()).toContain('0 % to under 10 %')
+    // Numbers as people type them: a trailing % and the value understood shown back.
+    await prob(0).fill('12,5 %')
+    expect(await page.getByTestId('interval-understood').first().innerText()).toBe('Read as 12.5 %')
     await prob(0).fill('20')
     await prob(1).fill('20')
     await statementChanged(page, 0, before)
