@@ -37,6 +37,8 @@ export interface AppOptions {
   publicUrl?: string
   /** Wakes the mail worker after outbox rows commit (the mailer's kick); omitted, mail waits for the sweeper. */
   kickMail?: (ids: number[]) => Promise<void>
+  /** IANA time zone in which exports and record e-mails write dates (APP_TIME_ZONE); default UTC. */
+  timeZone?: string
   /** The local SMTP fake, when it runs in this process: enables /api/dev/mailbox. */
   mailFake?: SmtpFake | null
 }
@@ -99,7 +101,7 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   app.use('/api', reconciliationRouter(db))
   app.use('/api', datasetsRouter(db))
   app.use('/api', impactRouter(db))
-  app.use('/api', recordsRouter(db))
+  app.use('/api', recordsRouter({ ...ctx, timeZone: opts.timeZone ?? 'UTC' }))
   app.use('/api', outboxRouter(db))
   app.use('/api', notFoundApi)
 

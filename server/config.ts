@@ -8,6 +8,17 @@ export interface AppConfig {
   secureCookies: boolean
   publicUrl: string
   signInLimitPerWindow: number
+  /** IANA time zone for dates in exports and e-mails (APP_TIME_ZONE). */
+  timeZone: string
+}
+
+/** An IANA time zone name the runtime knows, e.g. Europe/Oslo; anything else stops the start with a clear message. */
+export function checkedTimeZone(name: string): string {
+  try {
+    return new Intl.DateTimeFormat('en-GB', { timeZone: name }).resolvedOptions().timeZone
+  } catch {
+    throw new Error(`APP_TIME_ZONE must be an IANA time zone such as Europe/Oslo or UTC, not ${JSON.stringify(name)}`)
+  }
 }
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
@@ -22,5 +33,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     secureCookies: env.SECURE_COOKIES === '1',
     publicUrl: env.PUBLIC_URL ?? `http://localhost:${port}`,
     signInLimitPerWindow: Number(env.SIGN_IN_LIMIT ?? 20),
+    timeZone: checkedTimeZone(env.APP_TIME_ZONE || 'UTC'),
   }
 }

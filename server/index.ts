@@ -33,6 +33,7 @@ const { app, close } = createApp({
   signInLimitPerWindow: config.signInLimitPerWindow,
   clientDir: process.env.CLIENT_DIR ?? path.join(root, 'dist'),
   publicUrl: config.publicUrl,
+  timeZone: config.timeZone,
   kickMail: (ids) => mailer.kick(ids),
   mailFake,
 })

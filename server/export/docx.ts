@@ -1,29 +1,21 @@
 import {
   AlignmentType, BorderStyle, Document, Footer, HeadingLevel, ImageRun, Packer, PageBreak, PageNumber, Paragraph, ShadingType,
-  Table, TableCell, TableOfContents, TableRow, TextRun, WidthType,
+  Table, TableCell, TableRow, TextRun, WidthType,
 } from 'docx'
+import { PILOT_MODEL_LABELS, type PilotModel } from '../../shared/elicitation/pilot'
+import {
+  answerText, CANDIDATE_KIND_LABELS, dateTimeIn, describeDistribution as describe, flagLabel, fmt, LANGUAGE_LABELS, SUPPORT_LABELS, WEIGHTS_LABELS,
+} from '../../shared/record/format'
+import { COMMENT_OUTCOME_LABELS, type CommentOutcome } from '../../shared/schemas/records'
+import { POOL_METHOD_LABELS } from '../../shared/schemas/reconciliation'
+import { METHOD_LABELS, type ElicitationMethod } from '../../shared/schemas/rounds'
 
 type Json = Record<string, any>
 
-const fmt = (x: unknown, digits = 4): string => {
-  if (typeof x !== 'number' || !Number.isFinite(x)) return x === null || x === undefined ? '—' : String(x)
-  return Math.abs(x) >= 1e5 || (Math.abs(x) < 1e-3 && x !== 0) ? x.toExponential(3) : Number(x.toPrecision(digits)).toString()
+/** How the .docx writes dates: the app's time zone (a round's window in the round's own zone, when it has one). */
+export interface DocxOptions {
+  timeZone: string
 }
-
-function describe(d: Json | null | undefined): string {
-  if (!d) return '—'
-  switch (d.family) {
-    case 'normal': return `Normal(mean ${fmt(d.mu, 6)}, sd ${fmt(d.sigma, 6)})`
-    case 'student-t': return `Student-t(df ${fmt(d.df)}, location ${fmt(d.mu, 6)}, scale ${fmt(d.sigma, 6)})`
-    case 'lognormal': return `Lognormal(meanlog ${fmt(d.meanlog, 6)}, sdlog ${fmt(d.sdlog, 6)})`
-    case 'gamma': return `Gamma(shape ${fmt(d.shape, 6)}, rate ${fmt(d.rate, 6)})`
-    case 'beta': return `Beta(${fmt(d.alpha, 6)}, ${fmt(d.beta, 6)})`
-    case 'scaled-beta': return `Beta(${fmt(d.alpha, 6)}, ${fmt(d.beta, 6)}) on [${fmt(d.lower)}, ${fmt(d.upper)}]`
-    case 'uniform': return `Uniform(${fmt(d.lower, 6)}, ${fmt(d.upper, 6)})`
-    default: return JSON.stringify(d)
-  }
-}
-
 const p = (text: string, opts: { bold?: boolean; italics?: boolean; size?: number; color?: string } = {}) =>
   new Paragraph({ spacing: { after: 120 }, children: [new TextRun({ text, ...opts })] })
 const h = (text: string, level: (typeof HeadingLevel)[keyof typeof HeadingLevel]) => new Paragraph({ text, heading: level, spacing: { before: 240, after: 120 } })
@@ -46,110 +38,161 @@ function table(header: string[], rows: string[][], numericFrom = 1): Table {
 
 const STATUS: Record<string, string> = { draft: 'Draft', in_review: 'In review', signed_off: 'Signed off' }
 
-/** The prior record as a Word document: title page, contents, one section per quantity, sign-off, cautions, history. */
-export async function recordDocx(content: Json, meta: Json, charts: Map<string, Buffer>, comments: Json[], history: Json[]): Promise<Buffer> {
-  const body: (Paragraph | Table | TableOfContents)[] = []
-  body.push(
-    new Paragraph({ spacing: { before: 2400, after: 240 }, children: [new TextRun({ text: 'Prior record', size: 56, bold: true, color: '1F6F5C' })] }),
-    p(content.study.title, { size: 32, bold: true }),
-    p(`Version ${meta.version} · ${STATUS[meta.status] ?? meta.status}`, { size: 24 }),
-    p(meta.signedOffAt ? `Signed off by ${meta.signedOffBy} on ${meta.signedOffAt}` : 'Not signed off', { size: 22 }),
-    p(`Content SHA-256: ${meta.contentHash}`, { size: 18, color: '5B6B7A' }),
-    p(content.cautions[0], { italics: true, size: 20, color: '8A5A12' }),
-    new Paragraph({ children: [new PageBreak()] }),
-    h('Contents', HeadingLevel.HEADING_1),
-    new TableOfContents('Contents', { hyperlink: true, headingStyleRange: '1-2' }),
-    new Paragraph({ children: [new PageBreak()] }),
-    h('1. Study and decision', HeadingLevel.HEADING_1),
+const label = <K extends string>(labels: Record<K, string>, key: unknown): string => labels[key as K] ?? '—'
+const expertName = (e: Json) => (e.name ? `${e.code} (${e.name})` : e.code)
+
+/** Headings numbered as they are written, so the contents list is written out as paragraphs (no field to update). */
+class Outline {
+  readonly entries: { text: string; level: 1 | 2 }[] = []
+  heading(text: string, level: 1 | 2): Paragraph {
+    this.entries.push({ text, level })
+    return h(text, level === 1 ? HeadingLevel.HEADING_1 : HeadingLevel.HEADING_2)
+  }
+  contents(): Paragraph[] {
+    return this.entries.map((e) => new Paragraph({
+      indent: { left: e.level === 1 ? 0 : 360 }, spacing: { after: 60 },
+      children: [new TextRun({ text: e.text, size: e.level === 1 ? 22 : 20, bold: e.level === 1 })],
+    }))
+  }
+}
+
+/** The prior record as a Word document: title page, contents, one section per quantity, cautions, sign-off, history. */
+export async function recordDocx(content: Json, meta: Json, charts: Map<string, Buffer>, comments: Json[], history: Json[], options: DocxOptions): Promise<Buffer> {
+  const tz = options.timeZone
+  const when = (v: unknown, seconds = false) => dateTimeIn(v as string | null, tz, seconds)
+  const outline = new Outline()
+  const sections: (Paragraph | Table)[] = []
+  sections.push(
+    outline.heading('1. Study and decision', 1),
     p(content.study.context),
     p(`Study owner: ${content.study.owner}`),
-    h('2. Expert panel', HeadingLevel.HEADING_1),
-    p(content.namesShown ? 'Experts are named at the analyst’s choice.' : 'Experts are identified by code; names are kept by the study team.'),
-    table(['Expert', 'Expertise', 'Interests declared', 'Had seen pilot data'], (content.panel as Json[]).flatMap((e) =>
-      (e.declarations.length ? e.declarations : [{ expertise: '—', interests: '—', interestsText: '', seenPilotData: null }]).map((d: Json) => [
-        e.name ? `${e.code} (${e.name})` : e.code, d.expertise, d.interests === 'described' ? d.interestsText : d.interests === 'none' ? 'None' : '—',
+    p(`Dates and times are given in the ${tz} time zone, except a round’s window, which is given in the round’s own time zone when it has one.`, { size: 20 }),
+    outline.heading('2. Expert panel', 1),
+    p(content.namesShown ? 'Experts are named at the analyst’s choice.' : 'Experts are identified by a label (Expert A, Expert B, …) that is the same throughout the study; names are kept by the study team.'),
+    table(['Expert', 'Round', 'Expertise', 'Interests declared', 'Had seen pilot data'], (content.panel as Json[]).flatMap((e) =>
+      (e.declarations.length ? e.declarations : [{ round: null, expertise: 'No declaration recorded', interests: null, interestsText: '', seenPilotData: null }]).map((d: Json) => [
+        expertName(e), d.round === null ? '—' : String(d.round), d.expertise, d.interests === 'described' ? d.interestsText : d.interests === 'none' ? 'None' : '—',
         d.seenPilotData === null ? '—' : d.seenPilotData ? 'Yes' : 'No',
-      ])), 9),
-    h('3. Calibration questions', HeadingLevel.HEADING_1),
+      ])), 1),
+    outline.heading('3. Calibration questions', 1),
     p(content.calibration.method),
-    table(['Question', 'Unit', 'True value'], (content.calibration.questions as Json[]).map((q) => [q.question, q.unit, fmt(q.trueValue)]), 2),
+    table(['Question', 'Unit', 'True value'], (content.calibration.questions as Json[]).map((q) => [q.question, q.unit, q.trueValue === null ? 'not known yet' : fmt(q.trueValue, 6)]), 2),
   )
   ;(content.quantities as Json[]).forEach((q, i) => {
     const n = i + 4
-    body.push(
-      h(`${n}. ${q.name} (${q.symbol})`, HeadingLevel.HEADING_1),
+    sections.push(
+      outline.heading(`${n}. ${q.name} (${q.symbol})`, 1),
+      ...(q.leftOut ? [p(`Left out of this record. Reason: ${q.leftOut.reason}`, { bold: true, color: '8A5A12' })] : []),
       p(`Question as put to the experts: ${q.question}`),
-      p(`Unit: ${q.unit || '—'} · Support: ${q.support.kind}${q.support.kind === 'bounded' ? ` [${q.support.lower}, ${q.support.upper}]` : ''}`),
+      p(`Unit: ${q.unit || '—'} · Values: ${label(SUPPORT_LABELS, q.support.kind)}${q.support.kind === 'bounded' ? ` from ${fmt(q.support.lower, 6)} to ${fmt(q.support.upper, 6)}` : ''}`),
       ...(q.assumptions ? [p(`Conditioning assumptions: ${q.assumptions}`)] : []),
       ...(q.evidenceNotes ? [p(`Evidence given to the experts: ${q.evidenceNotes}`)] : []),
       ...(q.evidenceFiles.length ? [p(`Evidence files: ${q.evidenceFiles.map((f: Json) => `${f.filename} (SHA-256 ${f.sha256.slice(0, 12)}…)`).join('; ')}`)] : []),
-      h(`${n}.1 Elicitation`, HeadingLevel.HEADING_2),
+      outline.heading(`${n}.1 Elicitation`, 2),
       ...(q.rounds.length
-        ? [table(['Round', 'Method', 'Window'], q.rounds.map((r: Json) => [`${r.number}: ${r.title}`, r.method, `${r.opensAt} – ${r.closesAt}`]), 9)]
+        ? [table(['Round', 'Method', 'Window'], q.rounds.map((r: Json) => [
+          `${r.number}: ${r.title}`, label(METHOD_LABELS, r.method as ElicitationMethod),
+          `${dateTimeIn(r.opensAt, r.timeZone ?? tz)} to ${dateTimeIn(r.closesAt, r.timeZone ?? tz)}`,
+        ]), 9)]
         : [p('Not yet asked in any round.')]),
-      h(`${n}.2 Judgements`, HeadingLevel.HEADING_2),
+      outline.heading(`${n}.2 Judgements`, 2),
       ...(q.judgements.length
-        ? [table(['Round', 'Expert', 'Fitted distribution', 'SSE', '5 %', '50 %', '95 %'], q.judgements.map((j: Json) => [
-          String(j.round), j.expert.name ? `${j.expert.code} (${j.expert.name})` : j.expert.code, describe(j.fit?.distribution), fmt(j.fit?.sse, 3), fmt(j.fit?.q05), fmt(j.fit?.q50), fmt(j.fit?.q95),
-        ]), 3),
-        ...q.judgements.map((j: Json) => p(`${j.expert.code}, round ${j.round}: ${j.rationale || '—'}`, { size: 20 }))]
+        ? [
+          p('Each expert’s answer as given (plausible range, then the values with their cumulative probabilities, or each interval with its probability or chips), and the distribution fitted to it.', { size: 20 }),
+          table(['Round', 'Expert', 'Answer as given', 'Fitted distribution', '5 %', '50 %', '95 %'], q.judgements.map((j: Json) => [
+            String(j.round), expertName(j.expert), answerText(j.method, j.answer), describe(j.fit?.distribution), fmt(j.fit?.q05), fmt(j.fit?.q50), fmt(j.fit?.q95),
+          ]), 4),
+          ...q.judgements.map((j: Json) => p(`${j.expert.code}, round ${j.round}: ${j.rationale || '—'}`, { size: 20 })),
+          ...q.judgements.flatMap((j: Json) => (j.fit?.warnings ?? []).map((w: string) => p(`${j.expert.code}, round ${j.round}, fitted shape: ${w}`, { size: 20, color: '8A5A12' }))),
+        ]
         : [p('No submitted judgements.')]),
-      h(`${n}.3 Combination`, HeadingLevel.HEADING_2),
+      outline.heading(`${n}.3 Combination`, 2),
       ...(q.combination
         ? [
-          p(`Method: ${q.combination.method}; weights: ${q.combination.weightsMode}${q.combination.weightsReason ? ` (${q.combination.weightsReason})` : ''}; Cooke cutoff ${fmt(q.combination.cutoff)}.`),
+          p(`Method: ${label(POOL_METHOD_LABELS, q.combination.method)}; ${label(WEIGHTS_LABELS, q.combination.weightsMode).toLowerCase()}${q.combination.weightsReason ? ` (${q.combination.weightsReason})` : ''}${q.combination.weightsMode === 'performance' ? `; calibration cutoff ${fmt(q.combination.cutoff)}` : ''}.`),
+          ...(q.combination.excludedExperts?.length ? [p(`Left out of the combination: ${q.combination.excludedExperts.join(', ')}.`)] : []),
+          ...(q.combination.weightCautions ?? []).map((c: string) => p(`Caution: ${c}`, { color: '8A5A12' })),
           ...(q.combination.adjusted ? [p(`Parameters adjusted by hand: ${q.combination.adjustReason}`)] : []),
           p(`Rationale: ${q.combination.rationale || '—'}`),
         ]
-        : [p('Not reconciled yet.')]),
-      h(`${n}.4 Final prior`, HeadingLevel.HEADING_2),
+        : [p('Not reconciled.')]),
+      outline.heading(`${n}.4 Final prior`, 2),
     )
     if (q.finalPrior) {
       const f = q.finalPrior
-      body.push(
+      sections.push(
         p(describe(f.distribution), { bold: true }),
         table(['5 %', '50 %', '95 %', 'Mean', 'SD'], [[fmt(f.q05, 6), fmt(f.q50, 6), fmt(f.q95, 6), fmt(f.mean, 6), fmt(f.sd, 6)]], 0),
       )
       const png = charts.get(q.symbol)
-      if (png) body.push(new Paragraph({ spacing: { before: 120, after: 120 }, children: [new ImageRun({ type: 'png', data: png, transformation: { width: 520, height: 260 } })] }))
-      body.push(
+      if (png) sections.push(new Paragraph({ spacing: { before: 120, after: 120 }, children: [new ImageRun({ type: 'png', data: png, transformation: { width: 520, height: 260 } })] }))
+      sections.push(
         p('Model code (each line read back in its language’s parameterisation reproduces the 5/50/95 % quantiles):', { size: 20 }),
-        table(['Language', 'Code', 'Read-back check'], f.modelCode.map((m: Json) => [m.language, m.code, m.check ? (m.check.ok ? `ok (${fmt(m.check.maxRelativeDifference, 2)})` : 'FAILED') : 'n/a']), 9),
+        table(['Language', 'Code', 'Read-back check'], f.modelCode.map((m: Json) => [
+          LANGUAGE_LABELS[m.language] ?? m.language, m.code, m.check ? (m.check.ok ? `passed (largest relative difference ${fmt(m.check.maxRelativeDifference, 2)})` : 'FAILED') : 'not available',
+        ]), 9),
       )
     } else {
-      body.push(p('No final prior yet.'))
+      sections.push(p(q.leftOut ? 'None: the quantity is left out of this record.' : 'No final prior yet.'))
     }
-    body.push(h(`${n}.5 Impact on the pilot data`, HeadingLevel.HEADING_2))
+    sections.push(outline.heading(`${n}.5 Impact on the pilot data`, 2))
     if (q.impact) {
-      body.push(
-        p(`Dataset: ${q.impact.dataset.name}, version ${q.impact.dataset.version} (${q.impact.dataset.model}; ${q.impact.dataset.summary.description}).`),
-        table(['Candidate', 'Posterior mean', '95 % interval', 'log evidence', 'BF vs reference', 'Box p', 'Prior ESS', 'Flags'], q.impact.candidates.map((c: Json) => [
-          c.label, fmt(c.posterior.mean), `${fmt(c.posterior.q025)} – ${fmt(c.posterior.q975)}`, fmt(c.logEvidence, 6),
-          c.bayesFactor ? `${fmt(Math.exp(c.bayesFactor.logBF), 3)} (${c.bayesFactor.label})` : '—', fmt(c.priorPredictiveP, 3), fmt(c.priorEss, 3), c.flags.join(', ') || '—',
+      sections.push(
+        p(`Dataset: ${q.impact.dataset.name}, version ${q.impact.dataset.version} (${label(PILOT_MODEL_LABELS, q.impact.dataset.model as PilotModel)}; ${q.impact.dataset.summary.description}).`),
+        table(['Candidate prior', 'Posterior mean', '95 % interval', 'log evidence', 'Bayes factor against the reference', 'Box p', 'Prior ESS', 'Cautions'], q.impact.candidates.map((c: Json) => [
+          c.label || (CANDIDATE_KIND_LABELS[c.kind] ?? '—'), fmt(c.posterior.mean), `${fmt(c.posterior.q025)} to ${fmt(c.posterior.q975)}`, fmt(c.logEvidence, 6),
+          c.bayesFactor ? `${fmt(Math.exp(c.bayesFactor.logBF), 3)} (${c.bayesFactor.label})` : '—', fmt(c.priorPredictiveP, 3), fmt(c.priorEss, 3),
+          c.flags.map(flagLabel).join('; ') || 'none',
         ]), 1),
         ...q.impact.findings.map((f: string) => p(f)),
-        ...(q.impact.sweep ? [p(`Width sweep: evidence ratio over k in [0.5, 2] = ${fmt(q.impact.sweep.evidenceRatio, 4)}; ${q.impact.sweep.priorDriven ? 'Bayes factors built on this prior are prior-driven.' : 'not prior-driven.'} ${q.impact.sweep.rule}`, { size: 20 })] : []),
+        ...(q.impact.sweep ? [p(`Width sweep: the evidence changes by a factor ${fmt(q.impact.sweep.evidenceRatio, 4)} as the prior is made from half to twice as wide; ${q.impact.sweep.priorDriven ? `so ${flagLabel('prior-driven-bayes-factor').toLowerCase()}.` : 'Bayes factors built on this prior are not driven by its width.'} ${q.impact.sweep.rule}`, { size: 20 })] : []),
       )
     } else {
-      body.push(p('No impact analysis has been run.'))
+      sections.push(p('No impact analysis has been run.'))
     }
   })
   const last = (content.quantities as Json[]).length + 4
-  body.push(
-    h(`${last}. Cautions`, HeadingLevel.HEADING_1),
+  const responses = new Map(comments.filter((c) => c.kind === 'response').map((c) => [c.replyTo, c]))
+  sections.push(
+    outline.heading(`${last}. Cautions`, 1),
     ...(content.cautions as string[]).map((c) => p(c)),
-    h(`${last + 1}. Review and sign-off`, HeadingLevel.HEADING_1),
+    outline.heading(`${last + 1}. Review and sign-off`, 1),
     p(`Status: ${STATUS[meta.status] ?? meta.status}.`),
-    p(meta.signedOffAt ? `Signed off by ${meta.signedOffBy} at ${meta.signedOffAt}. Audit chain head at sign-off: ${meta.auditHead}.` : 'Awaiting sign-off by a reviewer of the study.'),
-    ...(comments.length ? [table(['When', 'Who', 'Section', 'Comment'], comments.map((c) => [c.createdAt, c.author, c.section, c.body]), 9)] : []),
-    h(`${last + 2}. Change history`, HeadingLevel.HEADING_1),
-    table(['When', 'Who', 'What', 'Event hash'], history.map((e) => [e.at, e.actor, e.action + (e.subject ? ` (${e.subject})` : ''), e.hash.slice(0, 16)]), 9),
+    p(meta.signedOffAt
+      ? `Signed off by ${meta.signedOffBy} on ${when(meta.signedOffAt)}. The time shows when this version was fixed; the audit chain head at sign-off is ${meta.auditHead}.`
+      : 'Not signed off: awaiting sign-off by a reviewer of the study.'),
+    ...(comments.some((c) => c.kind !== 'response')
+      ? [table(['When', 'Who', 'Section', 'Comment', 'Analyst’s answer'], comments.filter((c) => c.kind !== 'response').map((c) => {
+        const r = responses.get(c.id)
+        return [
+          when(c.createdAt), c.author, c.section, `${c.kind === 'return' ? 'Returned the record: ' : ''}${c.body}`,
+          r ? `${COMMENT_OUTCOME_LABELS[r.outcome as CommentOutcome] ?? '—'}: ${r.body}` : c.kind === 'return' ? 'Not answered yet' : '—',
+        ]
+      }), 9)]
+      : []),
+    outline.heading(`${last + 2}. Change history`, 1),
+    table(['When', 'Who', 'What', 'Event hash'], history.map((e) => [when(e.at, true), e.actor, e.subjectText ? `${e.what} (${e.subjectText})` : e.what, e.hash.slice(0, 16)]), 9),
   )
 
+  const title = [
+    new Paragraph({ spacing: { before: 2400, after: 240 }, children: [new TextRun({ text: 'Prior record', size: 56, bold: true, color: '1F6F5C' })] }),
+    p(content.study.title, { size: 32, bold: true }),
+    p(`Version ${meta.version} · ${STATUS[meta.status] ?? meta.status}`, { size: 24 }),
+    p(meta.signedOffAt ? `Signed off by ${meta.signedOffBy} on ${when(meta.signedOffAt)}` : 'Not signed off', { size: 22 }),
+    p(`Content SHA-256: ${meta.contentHash}`, { size: 18, color: '5B6B7A' }),
+    p(content.cautions[0], { italics: true, size: 20, color: '8A5A12' }),
+    new Paragraph({ children: [new PageBreak()] }),
+    h('Contents', HeadingLevel.HEADING_1),
+    ...outline.contents(),
+    new Paragraph({ children: [new PageBreak()] }),
+  ]
+
   const doc = new Document({
-    creator: 'Priorsmith',
+    creator: content.study.owner,
+    lastModifiedBy: meta.signedOffBy ?? content.study.owner,
     title: `Prior record: ${content.study.title}`,
-    features: { updateFields: true },
+    subject: `Prior record, version ${meta.version}`,
+    description: `Prior record of the study “${content.study.title}”, version ${meta.version} (${STATUS[meta.status] ?? meta.status}), content SHA-256 ${meta.contentHash}.`,
     styles: { default: { document: { run: { font: 'Open Sans', size: 21 } } } },
     sections: [{
       footers: {
@@ -157,7 +200,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
           children: [new Paragraph({ alignment: AlignmentType.CENTER, children: [new TextRun({ size: 16, color: '5B6B7A', children: [`${content.study.title} · prior record v${meta.version} · page `, PageNumber.CURRENT, ' of ', PageNumber.TOTAL_PAGES] })] })],
         }),
       },
-      children: body,
+      children: [...title, ...sections],
     }],
   })
   return Packer.toBuffer(doc)

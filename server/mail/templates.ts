@@ -219,3 +219,47 @@ export function reminderMessage(i: ReminderInput): MailContent {
   ]
   return render(`Reminder: "${oneLine(i.roundTitle)}" closes ${formatDate(i.closesAt, tz)}`, `Dear ${oneLine(i.expertName)},`, blocks, signOff())
 }
+
+export interface RecordMailInput extends DateStyle {
+  recipientName: string
+  studyTitle: string
+  studyId: number
+  version: number
+  /** Who submitted, returned or signed off. */
+  actorName: string
+  at: Date
+  publicUrl: string
+}
+
+const recordLink = (i: RecordMailInput): Block => ({ link: appUrl(i.publicUrl, `/studies/${encodeURIComponent(String(i.studyId))}/record`), label: 'Open the prior record' })
+
+/** A reviewer of the study: a record version waits for review. */
+export function recordSubmittedMessage(i: RecordMailInput): MailContent {
+  const blocks: Block[] = [
+    { p: `${oneLine(i.actorName)} submitted version ${i.version} of the prior record of "${oneLine(i.studyTitle)}" for review on ${formatDate(i.at, i.timeZone)}.` },
+    { p: 'Its content is frozen and identified by its SHA-256. As a reviewer of the study you can sign it off, or return it with comments for the analyst to answer.' },
+    recordLink(i),
+  ]
+  return render(`Prior record to review: "${oneLine(i.studyTitle)}" (version ${i.version})`, `Dear ${oneLine(i.recipientName)},`, blocks, signOff())
+}
+
+/** An analyst of the study: a reviewer sent the record back with comments. */
+export function recordReturnedMessage(i: RecordMailInput & { comment: string; section: string }): MailContent {
+  const blocks: Block[] = [
+    { p: `${oneLine(i.actorName)} returned version ${i.version} of the prior record of "${oneLine(i.studyTitle)}" on ${formatDate(i.at, i.timeZone)}, with this comment on "${oneLine(i.section)}":` },
+    { quote: i.comment.trim() },
+    { p: 'The record is a draft again. When you submit it again, you answer each comment: what you changed, or why nothing changed.' },
+    recordLink(i),
+  ]
+  return render(`Prior record returned with comments: "${oneLine(i.studyTitle)}" (version ${i.version})`, `Dear ${oneLine(i.recipientName)},`, blocks, signOff())
+}
+
+/** An analyst of the study: a reviewer signed the record off. */
+export function recordSignedOffMessage(i: RecordMailInput): MailContent {
+  const blocks: Block[] = [
+    { p: `${oneLine(i.actorName)} signed off version ${i.version} of the prior record of "${oneLine(i.studyTitle)}" on ${formatDate(i.at, i.timeZone)}.` },
+    { p: 'This version can no longer change; any further change starts a new version.' },
+    recordLink(i),
+  ]
+  return render(`Prior record signed off: "${oneLine(i.studyTitle)}" (version ${i.version})`, `Dear ${oneLine(i.recipientName)},`, blocks, signOff())
+}

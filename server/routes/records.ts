@@ -1,12 +1,14 @@
 import { Router, type Request } from 'express'
-import { recordChartSchema, recordCommentSchema, recordReturnSchema, recordSettingsSchema } from '../../shared/schemas/records'
+import {
+  recordChartSchema, recordCommentSchema, recordExclusionSchema, recordReturnSchema, recordSettingsSchema, recordSubmitSchema,
+} from '../../shared/schemas/records'
 import { currentUser } from '../auth/guards'
-import type { Db } from '../db/knex'
 import { recordDocx } from '../export/docx'
 import { HttpError, idParam, validateBody } from '../http/errors'
 import { allow, studyAccess } from '../services/access'
 import {
-  addComment, getRecord, newVersion, recordForExport, returnRecord, saveChart, setShowNames, signOffRecord, submitRecord,
+  addComment, excludeQuantity, getRecord, includeQuantity, newVersion, recordForExport, returnRecord, saveChart, setShowNames, signOffRecord, submitRecord,
+  type RecordContext,
 } from '../services/records'
 
 function versionQuery(req: Request): number | undefined {
@@ -18,8 +20,9 @@ function versionQuery(req: Request): number | undefined {
 
 const fileSafe = (s: string) => s.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 60) || 'study'
 
-/** The prior record: review, sign-off and exports. */
-export function recordsRouter(db: Db): Router {
+/** The prior record: review, sign-off and exports; dates in exports and e-mails are written in `ctx.timeZone`. */
+export function recordsRouter(ctx: RecordContext): Router {
+  const { db } = ctx
   const r = Router()
   const access = async (req: Request) => studyAccess(db, currentUser(req), idParam(req.params.id, 'Study'))
 
@@ -39,7 +42,7 @@ export function recordsRouter(db: Db): Router {
     const version = versionQuery(req)
     const { content, meta, charts } = await recordForExport(db, a.studyId, version)
     const view = await getRecord(db, a, version)
-    const buffer = await recordDocx(content as Record<string, any>, meta, charts, view.comments, view.changeHistory)
+    const buffer = await recordDocx(content as Record<string, any>, meta, charts, view.comments, view.changeHistory, { timeZone: ctx.timeZone })
     res.setHeader('Content-Type', 'application/vnd.openxmlformats-officedocument.wordprocessingml.document')
     res.setHeader('Content-Disposition', `attachment; filename="prior-record-${fileSafe(String((content as any).study.title))}-v${meta.version}.docx"`)
     res.send(buffer)
@@ -56,7 +59,8 @@ export function recordsRouter(db: Db): Router {
   r.post('/studies/:id/record/submit', async (req, res) => {
     const a = await access(req)
     allow(a, 'analyst')
-    await submitRecord(db, a.user, a.studyId)
+    const body = await validateBody(recordSubmitSchema, req.body ?? {})
+    await submitRecord(ctx, a.user, a.studyId, body)
     res.json(await getRecord(db, a))
   })
 
@@ -64,14 +68,14 @@ export function recordsRouter(db: Db): Router {
     const a = await access(req)
     if (a.role !== 'reviewer') throw new HttpError(403, 'Only a reviewer of this study returns the record')
     const body = await validateBody(recordReturnSchema, req.body)
-    await returnRecord(db, a.user, a.studyId, body.comment, body.section)
+    await returnRecord(ctx, a.user, a.studyId, body.comment, body.section)
     res.json(await getRecord(db, a))
   })
 
   r.post('/studies/:id/record/sign-off', async (req, res) => {
     const a = await access(req)
     if (a.role !== 'reviewer') throw new HttpError(403, 'Only a reviewer of this study signs off the record')
-    await signOffRecord(db, a.user, a.studyId)
+    await signOffRecord(ctx, a.user, a.studyId)
     res.json(await getRecord(db, a))
   })
 
@@ -81,6 +85,21 @@ export function recordsRouter(db: Db): Router {
     const body = await validateBody(recordCommentSchema, req.body)
     await addComment(db, a.user, a.studyId, body.section, body.body)
     res.status(201).json(await getRecord(db, a))
+  })
+
+  r.post('/studies/:id/record/exclusions', async (req, res) => {
+    const a = await access(req)
+    allow(a, 'analyst')
+    const body = await validateBody(recordExclusionSchema, req.body)
+    await excludeQuantity(db, a.user, a.studyId, body.quantityId, body.reason)
+    res.status(201).json(await getRecord(db, a))
+  })
+
+  r.delete('/studies/:id/record/exclusions/:quantityId', async (req, res) => {
+    const a = await access(req)
+    allow(a, 'analyst')
+    await includeQuantity(db, a.user, a.studyId, idParam(req.params.quantityId, 'Quantity'))
+    res.json(await getRecord(db, a))
   })
 
   r.post('/studies/:id/record/new-version', async (req, res) => {

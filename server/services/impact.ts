@@ -1,13 +1,14 @@
 import { createHash } from 'node:crypto'
 import { dataSize, SWEEP_FACTORS, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
-import { combine, fitCombination, resolveWeights } from '../../shared/elicitation/reconcile'
-import { EngineInputError, fitAll, validateDistribution, type Distribution, type FitResult, type PilotData } from '../../shared/stats/index'
+import { combine, fitCombination, fitConsensus, resolveWeights } from '../../shared/elicitation/reconcile'
+import { EngineInputError, validateDistribution, type Distribution, type FitResult, type PilotData } from '../../shared/stats/index'
 import { runImpactTask } from '../compute/pool'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import { canonicalJson, recordAudit } from './audit'
 import { getDataset } from './datasets'
+import { studyExpertLabels } from './expert-labels'
 import { getQuantity, supportOf } from './quantities'
 
 export interface ImpactInput {
@@ -38,13 +39,14 @@ async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Pr
   const roundId = rec?.round_id ?? (await db('judgements').where({ quantity_id: quantityId, status: 'submitted' }).max('round_id as r'))[0]?.r
   const experts: Distribution[] = []
   if (roundId) {
-    const rows = await db('judgements').where({ round_id: roundId, quantity_id: quantityId, status: 'submitted' }).orderBy('expert_id').select('fits', 'chosen_family')
+    const rows = await db('judgements').where({ round_id: roundId, quantity_id: quantityId, status: 'submitted' }).orderBy('expert_id').select('expert_id', 'fits', 'chosen_family')
+    const labels = await studyExpertLabels(db, quantity.studyId)
     rows.forEach((r, i) => {
       const fits = r.fits as FitResult[]
       const fit = fits.find((f) => f.distribution.family === r.chosen_family) ?? fits[0]
       if (!fit) return
       experts.push(fit.distribution)
-      list.push({ key: `expert-${i + 1}`, label: `Expert ${String.fromCharCode(65 + i)}`, kind: 'expert', prior: fit.distribution })
+      list.push({ key: `expert-${i + 1}`, label: labels.ofUser(r.expert_id), kind: 'expert', prior: fit.distribution })
     })
   }
   if (experts.length > 1) {
@@ -53,7 +55,7 @@ async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Pr
     list.push({ key: 'pooled', label: 'Pooled (linear, equal weights)', kind: 'pooled', prior: best.distribution })
   }
   if (rec?.consensus) {
-    const [best] = fitAll(rec.consensus.points, support)
+    const [best] = fitConsensus(rec.consensus.points, support)
     list.push({ key: 'consensus', label: 'Agreed consensus', kind: 'consensus', prior: best.distribution })
   }
   const reconciled: Distribution | null = rec?.distribution ?? null

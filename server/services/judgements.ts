@@ -5,6 +5,7 @@ import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import { recordAudit } from './audit'
 import { calibrationAnsweredEarlier } from './invitations'
+import { studyExpertLabels } from './expert-labels'
 import { supportOf } from './quantities'
 import { roundRow } from './rounds'
 
@@ -229,12 +230,13 @@ export async function saveCalibrationAnswer(db: Db, user: User, roundId: number,
 
 /**
  * For a feedback round: per quantity, the latest earlier round of the study that asked it, the expert's own
- * fitted answer there, and the other experts' submitted fits, labelled Expert A, B, … in a fixed order.
+ * fitted answer there, and the other experts' submitted fits under the study's expert labels (the same on every screen).
  */
 export async function feedbackFor(db: Db, user: User, roundId: number) {
   const round = await roundRow(db, roundId)
   if (!round.feedback_enabled) throw new HttpError(404, 'This round shows no feedback from earlier rounds')
   const items = await db('round_items').where({ round_id: roundId }).pluck('quantity_id')
+  const labels = await studyExpertLabels(db, round.study_id)
   const out = []
   for (const quantityId of items) {
     const prev = await db('rounds as r').join('round_items as i', 'i.round_id', 'r.id')
@@ -253,7 +255,7 @@ export async function feedbackFor(db: Db, user: User, roundId: number) {
       quantityId,
       previousRound: { id: prev.id, number: prev.number },
       mine: mine ? { answer: mine.answer, distribution: pick(mine), rationale: mine.rationale } : null,
-      others: rows.filter((j) => j.expert_id !== user.id).map((j, i) => ({ label: `Expert ${String.fromCharCode(65 + i)}`, distribution: pick(j), rationale: j.rationale })),
+      others: rows.filter((j) => j.expert_id !== user.id).map((j) => ({ label: labels.ofUser(j.expert_id), distribution: pick(j), rationale: j.rationale })),
     })
   }
   return out

@@ -1,14 +1,16 @@
 import {
-  combine, consensusNarrowerThanSpread, disagreements, fitCombination, leaveOneOut, resolveWeights, summarise, type Component,
+  combine, consensusNarrowerThanSpread, disagreements, fitCombination, fitConsensus, leaveOneOut, resolveWeights, summarise, type Component,
 } from '../../shared/elicitation/reconcile'
+import { performanceWeightCautions } from '../../shared/elicitation/weights'
 import type { ReconciliationBody } from '../../shared/schemas/reconciliation'
 import {
-  cookeClassical, EngineInputError, fitAll, quantile, validateDistribution, type Distribution, type FitResult,
+  cookeClassical, EngineInputError, quantile, validateDistribution, type Distribution, type FitResult,
 } from '../../shared/stats/index'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import { recordAudit } from './audit'
+import { studyExpertLabels } from './expert-labels'
 import { getQuantity, supportOf } from './quantities'
 
 const COOKE_QUANTILES = [0.05, 0.5, 0.95]
@@ -26,15 +28,17 @@ async function expertFits(db: Db, roundId: number, quantityId: number) {
   const rows = await db('judgements as j').join('users as u', 'u.id', 'j.expert_id')
     .where({ 'j.round_id': roundId, 'j.quantity_id': quantityId, 'j.status': 'submitted' })
     .select('j.id', 'j.expert_id', 'u.display_name', 'j.fits', 'j.chosen_family', 'j.rationale', 'j.answer', 'j.method').orderBy('j.expert_id')
-  return rows.flatMap((r, i) => {
-    const fits = r.fits as FitResult[]
+  const { study_id: studyId } = await db('rounds').where({ id: roundId }).first('study_id')
+  const labels = await studyExpertLabels(db, studyId)
+  return rows.flatMap((r) => {
+    const fits = r.fits as (FitResult & { warnings?: string[] })[]
     const fit = fits.find((f) => f.distribution.family === r.chosen_family) ?? fits[0]
     if (!fit) return []
     const d = fit.distribution
     return [{
-      judgementId: r.id as number, expertId: r.expert_id as number, name: r.display_name as string, label: `Expert ${String.fromCharCode(65 + i)}`,
+      judgementId: r.id as number, expertId: r.expert_id as number, name: r.display_name as string, label: labels.ofUser(r.expert_id),
       distribution: d, sse: fit.sse, method: r.method as string, answer: r.answer, rationale: r.rationale as string,
-      q05: quantile(d, 0.05), q50: quantile(d, 0.5), q95: quantile(d, 0.95),
+      q05: quantile(d, 0.05), q50: quantile(d, 0.5), q95: quantile(d, 0.95), warnings: fit.warnings ?? [],
     }]
   })
 }
@@ -52,6 +56,17 @@ async function calibrationData(db: Db, studyId: number, expertIds: number[]) {
     realizations: usable.map((q) => q.true_value as number),
     experts: expertIds.map((e) => ({ id: String(e), assessments: usable.map((q) => latest.get(`${q.id}:${e}`)!) })),
   }
+}
+
+/**
+ * How many calibration questions and experts a saved reconciliation's performance weights rest on, and the cautions
+ * that follow (for the record; the same rule as the reconciliation screen).
+ */
+export async function savedWeightCautions(db: Db, rec: { quantity_id: number; round_id: number; weights_mode: string; excluded_experts: number[] }, studyId: number): Promise<string[]> {
+  if (rec.weights_mode !== 'performance') return []
+  const experts = (await expertFits(db, rec.round_id, rec.quantity_id)).filter((e) => !rec.excluded_experts.includes(e.expertId))
+  const cal = await calibrationData(db, studyId, experts.map((e) => e.expertId))
+  return performanceWeightCautions(cal.questionCount, experts.length)
 }
 
 function performanceScores(cal: Awaited<ReturnType<typeof calibrationData>>, cutoff: number) {
@@ -88,7 +103,7 @@ async function evaluate(db: Db, quantityId: number, settings: Settings) {
     if (components.length === 0 && settings.method !== 'consensus') throw new EngineInputError('roundId', 'No submitted judgements to combine in this round')
     if (settings.method === 'consensus') {
       if (!settings.consensus) throw new EngineInputError('consensus', 'Enter the agreed values')
-      fits = fitAll(settings.consensus.points, support)
+      fits = fitConsensus(settings.consensus.points, support)
       const best = fits[0].distribution
       pool = { q05: quantile(best, 0.05), q50: quantile(best, 0.5), q95: quantile(best, 0.95) }
       consensusCheck = consensusNarrowerThanSpread(best, components)
@@ -109,6 +124,7 @@ async function evaluate(db: Db, quantityId: number, settings: Settings) {
   return {
     quantity, support, experts, included: components.map((c) => c.expertId), weights, pool, fits, leaveOneOut: loo,
     disagreements: disagreements(components), consensusCheck, problems,
+    weightCautions: settings.method !== 'consensus' && settings.weights === 'performance' ? performanceWeightCautions(cal.questionCount, components.length) : [],
     calibration: { questionCount: cal.questionCount, cutoff: settings.cutoff, scores: performance, realizations: cal.realizations, assessments: cal.experts },
   }
 }

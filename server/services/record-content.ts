@@ -1,7 +1,9 @@
 import { modelCodeWithCheck } from '../../shared/elicitation/model-code'
 import { mean, quantile, sd, type Distribution, type FitResult } from '../../shared/stats/index'
 import type { Db } from '../db/knex'
+import { studyExpertLabels } from './expert-labels'
 import { supportOf } from './quantities'
+import { savedWeightCautions } from './reconciliation'
 
 export const RECORD_SCHEMA_ID = 'https://priorsmith.example/schemas/prior-record-1.json'
 export const RECORD_SCHEMA_VERSION = '1.0'
@@ -27,15 +29,16 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
   const rounds = await db('rounds').where({ study_id: studyId }).orderBy('number')
   const items = await db('round_items').whereIn('round_id', rounds.map((r) => r.id)).orderBy(['round_id', 'position'])
 
-  // Panel: every expert who submitted or declared in any round, coded E1, E2… in order of first appearance.
+  // Panel: every expert with an account on a panel of the study, under the study's labels, in the order they joined.
   const panelRows = await db('round_panel as p').join('rounds as r', 'r.id', 'p.round_id').where('r.study_id', studyId).whereNotNull('p.user_id')
-    .select('p.user_id', 'p.name', 'r.number').orderBy(['r.number', 'p.id'])
+    .select('p.user_id', 'p.name').orderBy('p.id')
+  const labels = await studyExpertLabels(db, studyId)
   const codes = new Map<number, string>()
-  for (const p of panelRows) if (!codes.has(p.user_id)) codes.set(p.user_id, `E${codes.size + 1}`)
+  for (const p of panelRows) if (!codes.has(p.user_id)) codes.set(p.user_id, labels.ofUser(p.user_id))
   const names = new Map(panelRows.map((p) => [p.user_id as number, p.name as string]))
   const declarations = await db('declarations as d').join('rounds as r', 'r.id', 'd.round_id').where('r.study_id', studyId)
     .select('d.user_id', 'r.number', 'd.expertise', 'd.interests', 'd.interests_text', 'd.seen_pilot_data', 'd.practice_points', 'd.practice_fit').orderBy(['r.number', 'd.user_id'])
-  const who = (userId: number) => (options.showNames ? { code: codes.get(userId) ?? '?', name: names.get(userId) ?? null } : { code: codes.get(userId) ?? '?' })
+  const who = (userId: number) => (options.showNames ? { code: labels.ofUser(userId), name: names.get(userId) ?? null } : { code: labels.ofUser(userId) })
   const panel = [...codes.keys()].map((userId) => ({
     ...who(userId),
     declarations: declarations.filter((d) => d.user_id === userId).map((d) => ({
@@ -47,10 +50,14 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
   const judgements = await db('judgements').whereIn('round_id', rounds.map((r) => r.id)).where('status', 'submitted').orderBy(['round_id', 'quantity_id', 'expert_id'])
   const recs = await db('reconciliations').whereIn('quantity_id', quantities.map((q) => q.id))
   const files = await db('evidence_files').whereIn('quantity_id', quantities.map((q) => q.id)).select('quantity_id', 'filename', 'sha256', 'size_bytes').orderBy('id')
+  const leftOut = await db('record_exclusions').whereIn('quantity_id', quantities.map((q) => q.id)).select('quantity_id', 'reason')
   const datasets = await db('pilot_datasets').where({ study_id: studyId }).orderBy(['quantity_id', 'version'])
   const impacts = await db('impact_analyses').whereIn('quantity_id', quantities.map((q) => q.id)).orderBy('id', 'desc')
 
   const calibrationQuestions = await db('calibration_questions').where({ study_id: studyId }).orderBy(['position', 'id'])
+
+  const weightCautions = new Map<number, string[]>()
+  for (const rec of recs) weightCautions.set(rec.quantity_id, await savedWeightCautions(db, rec, studyId))
 
   const quantityRecords = quantities.map((q) => {
     const rec = recs.find((r) => r.quantity_id === q.id)
@@ -58,7 +65,11 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
     const impact = impacts.find((i) => i.quantity_id === q.id)
     const roundRefs = items.filter((i) => i.quantity_id === q.id).map((i) => {
       const r = rounds.find((x) => x.id === i.round_id)!
-      return { number: r.number, title: r.title, method: i.method, edges: i.edges ?? null, chips: i.chips ?? null, opensAt: iso(r.opens_at), closesAt: iso(r.closes_at), feedback: r.feedback_enabled }
+      return {
+        number: r.number, title: r.title, method: i.method, edges: i.edges ?? null, chips: i.chips ?? null, opensAt: iso(r.opens_at), closesAt: iso(r.closes_at), feedback: r.feedback_enabled,
+        // The round's own time zone, where rounds carry one: the .docx writes the window in it.
+        timeZone: r.time_zone ?? undefined,
+      }
     })
     return {
       name: q.name,
@@ -66,16 +77,17 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       unit: q.unit,
       question: q.question,
       support: supportOf(q),
+      leftOut: leftOut.find((x) => x.quantity_id === q.id) ? { reason: leftOut.find((x) => x.quantity_id === q.id)!.reason as string } : null,
       assumptions: q.assumptions,
       evidenceNotes: q.evidence_notes,
       evidenceFiles: files.filter((f) => f.quantity_id === q.id).map((f) => ({ filename: f.filename, sha256: f.sha256, bytes: f.size_bytes })),
       rounds: roundRefs,
       judgements: judgements.filter((j) => j.quantity_id === q.id).map((j) => {
-        const fits = j.fits as FitResult[]
+        const fits = j.fits as (FitResult & { warnings?: string[] })[]
         const fit = fits.find((f) => f.distribution.family === j.chosen_family) ?? fits[0]
         return {
           round: rounds.find((r) => r.id === j.round_id)!.number, expert: who(j.expert_id), method: j.method, answer: j.answer, rationale: j.rationale,
-          fit: fit ? { distribution: fit.distribution, sse: fit.sse, ...summary(fit.distribution) } : null,
+          fit: fit ? { distribution: fit.distribution, sse: fit.sse, ...summary(fit.distribution), warnings: fit.warnings ?? [] } : null,
           chosenByExpert: !!j.chosen_family,
         }
       }),
@@ -83,6 +95,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
         round: rounds.find((r) => r.id === rec.round_id)?.number ?? null, method: rec.method, weightsMode: rec.weights_mode, weights: rec.weights,
         weightsReason: rec.weights_reason, cutoff: rec.cutoff, excludedExperts: (rec.excluded_experts as number[]).map((id) => who(id).code),
         consensus: rec.consensus, fitsOfCombination: rec.fits, adjusted: rec.adjusted, adjustReason: rec.adjust_reason, rationale: rec.rationale, status: rec.status,
+        weightCautions: weightCautions.get(q.id) ?? [],
       } : null,
       finalPrior: final ? {
         distribution: final, ...summary(final),
@@ -116,6 +129,6 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       method: 'Cooke’s classical model (Cooke 1991, ch. 12): calibration as the χ² p-value of the bin frequencies, information against a uniform background on the intrinsic range with 10 % overshoot',
     },
     quantities: quantityRecords,
-    cautions: RECORD_CAUTIONS,
+    cautions: [...RECORD_CAUTIONS, ...quantities.flatMap((q) => (weightCautions.get(q.id) ?? []).map((c) => `${q.name}: ${c}`))],
   }
 }

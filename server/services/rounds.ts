@@ -5,6 +5,7 @@ import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import type { StudyAccess } from './access'
 import { recordAudit } from './audit'
+import { studyExpertLabels } from './expert-labels'
 import { supportOf, type Support } from './quantities'
 import { sendPanelInvitation, sendReminder } from './notify'
 
@@ -325,10 +326,13 @@ export async function roundProgress(db: Db, roundId: number) {
   const items = await db('round_items as i').join('quantities as q', 'q.id', 'i.quantity_id').where('i.round_id', roundId).select('i.quantity_id', 'q.name', 'q.symbol').orderBy('i.position')
   const panel = await panelOf(db, roundId)
   const judgements = await db('judgements').where({ round_id: roundId }).select('quantity_id', 'expert_id', 'status', 'updated_at')
+  const { study_id: studyId } = await db('rounds').where({ id: roundId }).first('study_id')
+  const labels = await studyExpertLabels(db, studyId)
   return {
     quantities: items.map((i) => ({ id: i.quantity_id, name: i.name, symbol: i.symbol })),
     experts: panel.map((p) => ({
       panelId: p.id,
+      label: labels.ofPanelMember({ userId: p.userId, email: p.email }),
       name: p.name,
       email: p.email,
       hasAccount: !!p.userId,

@@ -1,4 +1,5 @@
-import { EngineInputError, fitAll, pointsFromChips, pointsFromIntervals, type FitResult, type Point, type Support } from '../stats/index'
+import { EngineInputError, pointsFromChips, pointsFromIntervals, type Point, type Support } from '../stats/index'
+import { fitWithRange, type JudgedFit, type PlausibleRange } from './fits'
 
 export type Method = 'quantile' | 'fixed-interval' | 'chip-grid'
 
@@ -126,18 +127,41 @@ export function checkAnswer(item: AnswerItem, input: AnswerInput, support: Suppo
 
 export interface AnswerFits {
   check: AnswerCheck
-  fits: FitResult[]
+  /** Every family valid for the support, the default first (docs/methods/fitting.md), each with its warnings. */
+  fits: JudgedFit[]
   /** Why no fit is shown although the answer is complete (e.g. all probability in one bin). */
   fitMessage: string | null
 }
 
-/** The fits the expert sees and the server stores: every family valid for the support, best first. */
+/** Index of the first and last bin holding probability. */
+function filledSpan(masses: number[]): { first: number; last: number } {
+  const filled = masses.map((m, i) => (m > 0 ? i : -1)).filter((i) => i >= 0)
+  return { first: filled[0], last: filled[filled.length - 1] }
+}
+
+/**
+ * Where the answer says the value plausibly lies: the quantile method's bounds; for intervals and chips, the span of
+ * the bins holding probability (an open end bin holding probability leaves that side unlimited).
+ */
+export function plausibleRange(item: AnswerItem, input: AnswerInput): PlausibleRange | null {
+  if (item.method === 'quantile') return { lower: input.lower ?? null, upper: input.upper ?? null, source: 'bounds' }
+  const edges = item.edges ?? []
+  const masses = item.method === 'fixed-interval' ? (input.probs ?? []).map((p) => p ?? 0) : input.chips ?? []
+  if (!masses.some((m) => m > 0)) return null
+  const { first, last } = filledSpan(masses)
+  if (masses.length === edges.length + 1) {
+    return { lower: first === 0 ? null : edges[first - 1], upper: last === edges.length ? null : edges[last], source: 'bins' }
+  }
+  return { lower: edges[first], upper: edges[last + 1], source: 'bins' }
+}
+
+/** The fits the expert sees and the server stores: every family valid for the support, the default first. */
 export function fitAnswer(item: AnswerItem, input: AnswerInput, support: Support): AnswerFits {
   const check = checkAnswer(item, input, support)
   if (!check.complete || !check.points) return { check, fits: [], fitMessage: null }
   if (check.points.length < 2) return { check, fits: [], fitMessage: 'Spread your answer over at least two intervals so a distribution can be fitted' }
   try {
-    return { check, fits: fitAll(check.points, support), fitMessage: null }
+    return { check, fits: fitWithRange(check.points, support, plausibleRange(item, input)), fitMessage: null }
   } catch (err) {
     if (err instanceof EngineInputError) return { check, fits: [], fitMessage: err.message }
     throw err

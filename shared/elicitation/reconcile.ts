@@ -1,7 +1,8 @@
 import {
   EngineInputError, fitAll, linearPool, logPool, quantile, toUnivariate,
-  type Distribution, type FitResult, type Pool, type Support, type Univariate,
+  type Distribution, type Point, type Pool, type Support, type Univariate,
 } from '../stats/index'
+import { fitWithRange, orderFits, type JudgedFit } from './fits'
 
 export type PoolMethod = 'linear' | 'logarithmic'
 
@@ -37,12 +38,17 @@ export function summarise(u: Univariate): Summary {
 
 /**
  * Fits every family valid for the support to a combination, by least squares on its CDF at POOL_FIT_PROBS
- * (the same criterion as for an expert's answer; REFERENCE.md §1).
+ * (the same criterion as for an expert's answer), the default first by the same rule (docs/methods/fitting.md).
  */
-export function fitCombination(u: Univariate, support: Support): FitResult[] {
+export function fitCombination(u: Univariate, support: Support): JudgedFit[] {
   const points = POOL_FIT_PROBS.map((prob) => ({ value: u.quantile(prob), prob }))
   const distinct = points.filter((p, i) => i === 0 || p.value > points[i - 1].value)
-  return fitAll(distinct, support)
+  return orderFits(fitAll(distinct, support), null, support)
+}
+
+/** Fits to an agreed consensus (agreed values only, no separate bounds), the default first: server, browser and impact use this. */
+export function fitConsensus(points: Point[], support: Support): JudgedFit[] {
+  return fitWithRange(points, support, null)
 }
 
 export interface LeaveOneOut {

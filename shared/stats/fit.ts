@@ -5,7 +5,11 @@ import { requireInside, supportBounds, validatePoints, validateSupport } from '.
 import { betaPQ, digamma, gammaPQ, lbeta, logGammaPrefactor, normCdf, normPdf } from './special'
 import type { Distribution, Family, FitResult, Point, Support } from './types'
 
-export type FitOptions = { lower?: number; upper?: number; df?: number }
+/**
+ * `lower`/`upper`: the ends of a scaled beta, or fixed ends of a uniform; `df`: Student-t degrees of freedom;
+ * `weights`: one positive weight per point in the criterion Σ wᵢ (F(xᵢ) − pᵢ)² (all 1 when absent).
+ */
+export type FitOptions = { lower?: number; upper?: number; df?: number; weights?: readonly number[] }
 
 /** Degrees of freedom used for Student-t fits when none is given. */
 export const DEFAULT_T_DF = 3
@@ -57,14 +61,45 @@ export function studentTFromQuantiles(a: Point, b: Point, df: number): Distribut
   return { family: 'student-t', mu: a.value - sigma * ta, sigma, df }
 }
 
-/** Sum of squared CDF errors Σ (F(x_i) − p_i)² (the fitting criterion, REFERENCE §1). */
-export function sumSquaredError(d: Distribution, points: Point[]): number {
+/** Sum of squared CDF errors Σ wᵢ (F(xᵢ) − pᵢ)², weights 1 when absent (the fitting criterion; Garthwaite, Kadane & O'Hagan 2005). */
+export function sumSquaredError(d: Distribution, points: Point[], weights?: readonly number[]): number {
   let s = 0
-  for (const pt of points) {
+  points.forEach((pt, i) => {
     const r = cdf(d, pt.value) - pt.prob
-    s += r * r
-  }
+    s += (weights ? weights[i] : 1) * r * r
+  })
   return s
+}
+
+/**
+ * The model on √wᵢ-scaled points: minimising Σ (√wᵢ F(xᵢ) − √wᵢ pᵢ)² is the weighted criterion, so Levenberg–Marquardt
+ * and the Newton polish run unchanged on it.
+ */
+function scaledModel(model: CdfModel, sw: readonly number[]): CdfModel {
+  return {
+    nParams: model.nParams,
+    logParams: model.logParams,
+    at: (th) => {
+      const F = model.at(th)
+      return (i) => sw[i] * F(i)
+    },
+    analytic: model.analytic
+      ? (th, i, out) => {
+          model.analytic!(th, i, out)
+          for (let k = 0; k < 6; k++) out[k] *= sw[i]
+        }
+      : undefined,
+    toDistribution: model.toDistribution,
+  }
+}
+
+/** The model and target probabilities the least-squares search runs on (√w-scaled when weights are given). */
+function criterionModel(points: Point[], family: Family, options: FitOptions): { model: CdfModel; target: number[] } {
+  const model = buildModel(points, family, options)
+  const w = options.weights
+  if (!w) return { model, target: points.map((pt) => pt.prob) }
+  const sw = w.map(Math.sqrt)
+  return { model: scaledModel(model, sw), target: points.map((pt, i) => sw[i] * pt.prob) }
 }
 
 function locationScaleModel(
@@ -219,16 +254,25 @@ function buildModel(points: Point[], family: Family, options: FitOptions): CdfMo
   }
 }
 
-/** Least-squares line t ≈ a + b·z. */
-function regress(t: number[], z: number[]): { a: number; b: number } {
+/** Least-squares line t ≈ a + b·z, weighted when weights are given. */
+function regress(t: number[], z: number[], w?: readonly number[]): { a: number; b: number } {
   const n = t.length
-  const mz = z.reduce((s, v) => s + v, 0) / n
-  const mt = t.reduce((s, v) => s + v, 0) / n
+  const wt = (i: number) => (w ? w[i] : 1)
+  let sw = 0
+  let mz = 0
+  let mt = 0
+  for (let i = 0; i < n; i++) {
+    sw += wt(i)
+    mz += wt(i) * z[i]
+    mt += wt(i) * t[i]
+  }
+  mz /= sw
+  mt /= sw
   let szz = 0
   let szt = 0
   for (let i = 0; i < n; i++) {
-    szz += (z[i] - mz) ** 2
-    szt += (z[i] - mz) * (t[i] - mt)
+    szz += wt(i) * (z[i] - mz) ** 2
+    szt += wt(i) * (z[i] - mz) * (t[i] - mt)
   }
   const b = szt / szz
   return { a: mt - b * mz, b }
@@ -394,9 +438,9 @@ export function fittingStarts(points: Point[], family: Family, options: FitOptio
   const z = points.map((pt) => normalQuantile(pt.prob))
   const tq = family === 'student-t' ? points.map((pt) => studentTQuantile(pt.prob, options.df ?? DEFAULT_T_DF)) : z
   const primary = sanitise(primaryStarts(points, family, options, z, tq), family)
-  const model = family === 'uniform' && (options.lower !== undefined || options.upper !== undefined) ? null : buildModel(points, family, options)
-  if (model && points.length > 2) {
-    const p = points.map((pt) => pt.prob)
+  const fixedUniform = family === 'uniform' && (options.lower !== undefined || options.upper !== undefined)
+  if (!fixedUniform && points.length > 2) {
+    const { model, target: p } = criterionModel(points, family, options)
     const bestPrimary = Math.min(...primary.map((st) => sseOf(model, st, p)))
     let best: { start: number[]; sse: number } | null = null
     for (const st of sanitise(pairStarts(points, family, options, z, tq), family)) {
@@ -574,8 +618,12 @@ function solve(A: number[], g: number[], k: number, ridge = 0): number[] | null 
   return [(d * g[0] - b * g[1]) / det, (a * g[1] - b * g[0]) / det]
 }
 
-/** Exact least squares for a uniform CDF: for a fixed split into points below, inside and above [L, U], the inside points give a linear fit; iterate the split. */
+/**
+ * Exact (weighted) least squares for a uniform CDF: for a fixed split into points below, inside and above [L, U], the
+ * inside points give a linear fit and the others a constant residual; iterate the split.
+ */
 function uniformActiveSet(x: number[], p: number[], options: FitOptions, theta: number[]): number[] {
+  const w = options.weights
   let current = theta.slice()
   for (let iter = 0; iter < 50; iter++) {
     const lower = options.lower ?? (options.upper !== undefined ? options.upper - Math.exp(current[0]) : current[0])
@@ -588,6 +636,7 @@ function uniformActiveSet(x: number[], p: number[], options: FitOptions, theta: 
         const r = regress(
           inside.map((i) => p[i]),
           inside.map((i) => x[i]),
+          w && inside.map((i) => w[i]),
         )
         if (r.b > 0) next = [-r.a / r.b, -Math.log(r.b)]
       }
@@ -598,8 +647,9 @@ function uniformActiveSet(x: number[], p: number[], options: FitOptions, theta: 
       for (const i of inside) {
         const d = options.lower !== undefined ? x[i] - anchor : anchor - x[i]
         const target = options.lower !== undefined ? p[i] : 1 - p[i]
-        num += d * target
-        den += d * d
+        const wi = w ? w[i] : 1
+        num += wi * d * target
+        den += wi * d * d
       }
       if (num > 0) next = [Math.log(den / num)]
     }
@@ -617,6 +667,8 @@ function checkFamilyInput(points: Point[], family: Family, options: FitOptions):
     throw new EngineInputError('points', `A ${family} fit needs at least ${Math.max(1, needs)} points; ${points.length} given.`)
   if (family === 'lognormal' || family === 'gamma') requireInside(points, 0, Infinity, 'points', `the ${family} support`)
   if (family === 'beta') requireInside(points, 0, 1, 'points', 'the beta support')
+  if (options.weights !== undefined && (options.weights.length !== points.length || !options.weights.every((v) => v > 0 && Number.isFinite(v))))
+    throw new EngineInputError('weights', 'Give one positive, finite weight per point.')
   if (family === 'student-t' && options.df !== undefined && !(options.df > 0 && Number.isFinite(options.df)))
     throw new EngineInputError('df', 'The degrees of freedom must be a positive number.')
   if (family === 'scaled-beta') {
@@ -636,12 +688,13 @@ function checkFamilyInput(points: Point[], family: Family, options: FitOptions):
 }
 
 /**
- * Least-squares fit of a family to elicited CDF points: argmin Σ (F(x_i; θ) − p_i)² (REFERENCE §1; Garthwaite, Kadane &
- * O'Hagan 2005), by Levenberg–Marquardt from several starting points and a final Newton polish.
+ * Least-squares fit of a family to elicited CDF points: argmin Σ wᵢ (F(xᵢ; θ) − pᵢ)² (Garthwaite, Kadane & O'Hagan 2005,
+ * weights 1 unless given), by Levenberg–Marquardt from several starting points and a final Newton polish.
  */
 export function fitDistribution(points: Point[], family: Family, options: FitOptions = {}): FitResult {
   checkFamilyInput(points, family, options)
   const n = points.length
+  const w = options.weights
   if (n === 2 && (family === 'normal' || family === 'lognormal' || family === 'student-t')) {
     const d =
       family === 'normal'
@@ -649,31 +702,29 @@ export function fitDistribution(points: Point[], family: Family, options: FitOpt
         : family === 'lognormal'
           ? lognormalFromQuantiles(points[0], points[1])
           : studentTFromQuantiles(points[0], points[1], options.df ?? DEFAULT_T_DF)
-    return { distribution: d, sse: sumSquaredError(d, points) }
+    return { distribution: d, sse: sumSquaredError(d, points, w) }
   }
-  const model = buildModel(points, family, options)
-  const p = points.map((pt) => pt.prob)
-  const x = points.map((pt) => pt.value)
+  const { model, target } = criterionModel(points, family, options)
   if (model.nParams === 0) {
     const d = model.toDistribution([])
-    return { distribution: d, sse: sumSquaredError(d, points) }
+    return { distribution: d, sse: sumSquaredError(d, points, w) }
   }
   let best: { theta: number[]; sse: number } | null = null
   for (const start of fittingStarts(points, family, options)) {
-    const r = n >= 2 ? levenbergMarquardtFit(model, p, start, LM_ITERATIONS, 1) : { theta: start, sse: sseOf(model, start, p) }
+    const r = n >= 2 ? levenbergMarquardtFit(model, target, start, LM_ITERATIONS, 1) : { theta: start, sse: sseOf(model, start, target) }
     if (!best || r.sse < best.sse) best = r
   }
   let theta = best!.theta
   if (family === 'uniform') {
-    const exact = uniformActiveSet(x, p, options, theta)
-    if (sseOf(model, exact, p) <= best!.sse * (1 + 1e-9) + 1e-30) theta = exact
+    const exact = uniformActiveSet(points.map((pt) => pt.value), points.map((pt) => pt.prob), options, theta)
+    if (sseOf(model, exact, target) <= best!.sse * (1 + 1e-9) + 1e-30) theta = exact
   } else {
-    let polished = newtonPolish(model, p, theta)
-    if (!polished.converged) polished = newtonPolish(model, p, levenbergMarquardtFit(model, p, polished.theta, LM_ITERATIONS, 8).theta)
+    let polished = newtonPolish(model, target, theta)
+    if (!polished.converged) polished = newtonPolish(model, target, levenbergMarquardtFit(model, target, polished.theta, LM_ITERATIONS, 8).theta)
     theta = polished.theta
   }
   const distribution = model.toDistribution(theta)
-  return { distribution, sse: sumSquaredError(distribution, points) }
+  return { distribution, sse: sumSquaredError(distribution, points, w) }
 }
 
 /** Families fitted for a quantity's support (Student-t with df = DEFAULT_T_DF). */
@@ -690,22 +741,25 @@ export function familiesFor(support: Support): Family[] {
   }
 }
 
-function fitUniformInside(points: Point[], lower: number, upper: number): FitResult {
-  let fit = fitDistribution(points, 'uniform')
+function fitUniformInside(points: Point[], lower: number, upper: number, weights?: readonly number[]): FitResult {
+  let fit = fitDistribution(points, 'uniform', { weights })
   const d = fit.distribution as { lower: number; upper: number }
   const fixLower = d.lower < lower
   const fixUpper = d.upper > upper
   if (fixLower || fixUpper) {
-    fit = fitDistribution(points, 'uniform', { lower: fixLower ? lower : undefined, upper: fixUpper ? upper : undefined })
+    fit = fitDistribution(points, 'uniform', { lower: fixLower ? lower : undefined, upper: fixUpper ? upper : undefined, weights })
     const e = fit.distribution as { lower: number; upper: number }
     if (e.lower < lower || e.upper > upper)
-      fit = fitDistribution(points, 'uniform', { lower: Math.max(lower, Math.min(e.lower, upper)), upper: Math.min(upper, e.upper) })
+      fit = fitDistribution(points, 'uniform', { lower: Math.max(lower, Math.min(e.lower, upper)), upper: Math.min(upper, e.upper), weights })
   }
   return fit
 }
 
-/** Fits every family valid for the support and returns them best (lowest SSE) first. */
-export function fitAll(points: Point[], support: Support): FitResult[] {
+/**
+ * Fits every family valid for the support by the (weighted) least-squares criterion and returns them lowest criterion
+ * first; which one is shown as the default is product logic (shared/elicitation/fits.ts).
+ */
+export function fitAll(points: Point[], support: Support, weights?: readonly number[]): FitResult[] {
   validateSupport(support)
   validatePoints(points)
   const { lower, upper } = supportBounds(support)
@@ -713,9 +767,9 @@ export function fitAll(points: Point[], support: Support): FitResult[] {
   if (points.length < 2) throw new EngineInputError('points', 'At least two points are needed to fit a distribution.')
   const results: FitResult[] = []
   for (const family of familiesFor(support)) {
-    if (family === 'uniform') results.push(fitUniformInside(points, lower, upper))
-    else if (family === 'scaled-beta') results.push(fitDistribution(points, family, { lower, upper }))
-    else results.push(fitDistribution(points, family))
+    if (family === 'uniform') results.push(fitUniformInside(points, lower, upper, weights))
+    else if (family === 'scaled-beta') results.push(fitDistribution(points, family, { lower, upper, weights }))
+    else results.push(fitDistribution(points, family, { weights }))
   }
   return results.map((r, i) => ({ r, i })).sort((a, b) => a.r.sse - b.r.sse || a.i - b.i).map(({ r }) => r)
 }

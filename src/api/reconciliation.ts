@@ -27,6 +27,8 @@ export interface ReconcileExpert {
   q05: number
   q50: number
   q95: number
+  /** Where the expert's fit contradicts their plausible range (shared/elicitation/fits.ts); empty when it does not. */
+  warnings: string[]
 }
 
 export interface PoolSummary {
@@ -110,6 +112,8 @@ export interface ReconciliationView {
   disagreements: { a: string; b: string }[]
   consensusCheck: { narrow: boolean; width: number; spread: number } | null
   problems: Record<string, string>
+  /** Cautions on performance weights from too few calibration questions or experts (shared/elicitation/weights.ts). */
+  weightCautions: string[]
   calibration: {
     questionCount: number
     cutoff: number

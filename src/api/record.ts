@@ -1,5 +1,6 @@
 import type { Distribution, PriorDistribution, Support } from '@shared/stats'
 import type { ModelLanguage } from '@shared/elicitation/model-code'
+import type { CommentOutcome } from '@shared/schemas/records'
 import { api } from './client'
 
 /** Prior record, as GET /api/studies/:id/record answers (content: docs/prior-record.schema.json). */
@@ -10,6 +11,10 @@ export interface RecordMeta {
   status: RecordStatus
   showNames: boolean
   rowVersion: number
+  /** A draft sent back by a reviewer whose comments are not all answered yet. */
+  returned: boolean
+  /** Ids of the return comments the analyst answers when submitting again. */
+  openComments: number[]
   /** SHA-256 of the frozen snapshot; null while the version is a draft. */
   contentHash: string | null
   /** SHA-256 of the content as shown now (a draft's changes as its data change). */
@@ -61,6 +66,8 @@ export interface FitSummary {
   q95: number
   mean: number
   sd: number
+  /** Where the fit contradicts the expert's plausible range (absent in records made before the rule). */
+  warnings?: string[]
 }
 
 export interface RecordJudgement {
@@ -86,6 +93,8 @@ export interface RecordCombination {
   adjustReason: string
   rationale: string
   status: 'draft' | 'reconciled'
+  /** Performance weights from fewer calibration questions or experts than the stated minimums. */
+  weightCautions?: string[]
 }
 
 export interface ModelCodeLine {
@@ -133,6 +142,8 @@ export interface RecordQuantity {
   unit: string
   question: string
   support: Support
+  /** Set when the analyst left the quantity out of the record, with the reason the record states. */
+  leftOut: { reason: string } | null
   assumptions: string
   evidenceNotes: string
   evidenceFiles: { filename: string; sha256: string; bytes: number }[]
@@ -160,7 +171,10 @@ export interface RecordComment {
   id: number
   section: string
   body: string
-  kind: 'comment' | 'return'
+  kind: 'comment' | 'return' | 'response'
+  /** For an analyst's answer: the return comment it answers, and whether the record was changed. */
+  replyTo: number | null
+  outcome: CommentOutcome | null
   author: string
   createdAt: string
 }
@@ -175,10 +189,18 @@ export interface RecordVersionSummary {
 export interface RecordView {
   record: RecordMeta
   content: RecordContent
+  /** The study's quantities by symbol (the content names no database ids). */
+  quantityIds: Record<string, number>
   comments: RecordComment[]
   versions: RecordVersionSummary[]
   auditChain: { intact: boolean; events: number; brokenAt: number | null }
-  changeHistory: { at: string; action: string; subject: string | null; actor: string; hash: string }[]
+  /** Events in words: `what` for the action, `subjectText` for what it concerns (experts by label unless names are shown). */
+  changeHistory: { at: string; action: string; what: string; subject: string | null; subjectText: string; actor: string; hash: string }[]
+}
+
+/** Submitting for review; after a return, one answer per comment the record was returned with. */
+export interface RecordSubmission {
+  responses: { commentId: number; outcome: CommentOutcome; reply: string }[]
 }
 
 const base = (studyId: number) => `/api/studies/${studyId}/record`
@@ -187,7 +209,9 @@ const versionQuery = (version?: number) => (version === undefined ? '' : `?versi
 export const recordApi = {
   get: (studyId: number, version?: number) => api.get<RecordView>(`${base(studyId)}${versionQuery(version)}`),
   setShowNames: (studyId: number, showNames: boolean) => api.patch<RecordView>(base(studyId), { showNames }),
-  submit: (studyId: number) => api.post<RecordView>(`${base(studyId)}/submit`),
+  submit: (studyId: number, body: RecordSubmission = { responses: [] }) => api.post<RecordView>(`${base(studyId)}/submit`, body),
+  leaveOut: (studyId: number, body: { quantityId: number; reason: string }) => api.post<RecordView>(`${base(studyId)}/exclusions`, body),
+  putBack: (studyId: number, quantityId: number) => api.delete<RecordView>(`${base(studyId)}/exclusions/${quantityId}`),
   returnRecord: (studyId: number, body: { section: string; comment: string }) => api.post<RecordView>(`${base(studyId)}/return`, body),
   signOff: (studyId: number) => api.post<RecordView>(`${base(studyId)}/sign-off`),
   comment: (studyId: number, body: { section: string; body: string }) => api.post<RecordView>(`${base(studyId)}/comments`, body),

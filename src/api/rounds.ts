@@ -110,6 +110,8 @@ export interface RoundProgress {
   quantities: { id: number; name: string; symbol: string }[]
   experts: {
     panelId: number
+    /** The expert's anonymous label in this study, the same on every screen and export. */
+    label: string
     name: string
     email: string
     hasAccount: boolean

@@ -1,9 +1,9 @@
 import {
-  combine, consensusNarrowerThanSpread, disagreements, fitCombination, leaveOneOut, POOL_FIT_PROBS, resolveWeights, summarise,
+  combine, consensusNarrowerThanSpread, disagreements, fitCombination, fitConsensus, leaveOneOut, POOL_FIT_PROBS, resolveWeights, summarise,
   type Component, type LeaveOneOut, type Summary,
 } from '@shared/elicitation/reconcile'
 import {
-  cookeClassical, EngineInputError, fitAll, quantile, toUnivariate,
+  cookeClassical, EngineInputError, quantile, toUnivariate,
   type Distribution, type FitResult, type Point, type Support, type Univariate,
 } from '@shared/stats'
 import type { CookeScore, PoolMethod, ReconcileExpert, ReconciliationView } from '@/api/reconciliation'
@@ -147,7 +147,7 @@ export function computePreview(input: PreviewInput): Preview {
     if (input.method === 'consensus') {
       const points = consensusPoints(input.consensus)
       if (points.length < 2) throw new EngineInputError('consensus', 'Enter at least two agreed values to fit the consensus')
-      preview.fits = fitAll(points, input.support)
+      preview.fits = fitConsensus(points, input.support)
       preview.fitPoints = points
       const best: Distribution = preview.fits[0].distribution
       preview.combination = toUnivariate(best)

@@ -50,14 +50,22 @@ export function sectionOf(comment: Pick<RecordComment, 'section'>, sections: Rec
   return null
 }
 
-/** Comments by section key, oldest first; comments naming no section of this version ("General", a renamed quantity) under `other`. */
-export function groupComments(comments: RecordComment[], sections: RecordSectionInfo[]): { bySection: Record<string, RecordComment[]>; other: RecordComment[] } {
-  const bySection: Record<string, RecordComment[]> = {}
-  const other: RecordComment[] = []
-  for (const c of [...comments].sort((a, b) => a.createdAt.localeCompare(b.createdAt) || a.id - b.id)) {
+/** A comment with, for a return comment, the analyst's answer to it. */
+export type ThreadedComment = RecordComment & { answer?: RecordComment | null }
+
+/**
+ * Comments by section key, oldest first; comments naming no section of this version ("General", a renamed quantity)
+ * under `other`. Answers to return comments travel with the comment they answer, not as comments of their own.
+ */
+export function groupComments(comments: RecordComment[], sections: RecordSectionInfo[]): { bySection: Record<string, ThreadedComment[]>; other: ThreadedComment[] } {
+  const bySection: Record<string, ThreadedComment[]> = {}
+  const other: ThreadedComment[] = []
+  const answers = new Map(comments.filter((x) => x.kind === 'response').map((x) => [x.replyTo, x]))
+  for (const c of [...comments].filter((x) => x.kind !== 'response').sort((a, b) => a.createdAt.localeCompare(b.createdAt) || a.id - b.id)) {
+    const threaded: ThreadedComment = c.kind === 'return' ? { ...c, answer: answers.get(c.id) ?? null } : c
     const key = sectionOf(c, sections)
-    if (key === null) other.push(c)
-    else (bySection[key] ??= []).push(c)
+    if (key === null) other.push(threaded)
+    else (bySection[key] ??= []).push(threaded)
   }
   return { bySection, other }
 }

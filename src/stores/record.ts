@@ -1,6 +1,6 @@
 import { computed, ref } from 'vue'
 import { defineStore } from 'pinia'
-import { recordApi, type RecordView } from '@/api/record'
+import { recordApi, type RecordSubmission, type RecordView } from '@/api/record'
 
 /** The prior record of one study at a time: the version on screen as the server last sent it. */
 export const useRecordStore = defineStore('record', () => {
@@ -40,7 +40,9 @@ export const useRecordStore = defineStore('record', () => {
   }
 
   const setShowNames = (id: number, showNames: boolean) => write(id, recordApi.setShowNames(id, showNames))
-  const submit = (id: number) => write(id, recordApi.submit(id))
+  const submit = (id: number, body?: RecordSubmission) => write(id, recordApi.submit(id, body))
+  const leaveOut = (id: number, body: { quantityId: number; reason: string }) => write(id, recordApi.leaveOut(id, body))
+  const putBack = (id: number, quantityId: number) => write(id, recordApi.putBack(id, quantityId))
   const returnRecord = (id: number, body: { section: string; comment: string }) => write(id, recordApi.returnRecord(id, body))
   const signOff = (id: number) => write(id, recordApi.signOff(id))
   const comment = (id: number, body: { section: string; body: string }) => write(id, recordApi.comment(id, body))
@@ -68,5 +70,5 @@ export const useRecordStore = defineStore('record', () => {
     selectedVersion.value = null
   }
 
-  return { studyId, view, selectedVersion, latestVersion, isLatest, fetch, setShowNames, submit, returnRecord, signOff, comment, newVersion, sendChart, clear }
+  return { studyId, view, selectedVersion, latestVersion, isLatest, fetch, setShowNames, submit, leaveOut, putBack, returnRecord, signOff, comment, newVersion, sendChart, clear }
 })

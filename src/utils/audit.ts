@@ -1,48 +1,7 @@
-/** Plain words for the audit trail's action codes. */
-export const AUDIT_ACTIONS: Record<string, string> = {
-  'auth.sign-in': 'Signed in',
-  'auth.sign-in-failed': 'Sign-in failed',
-  'auth.sign-out': 'Signed out',
-  'user.create': 'Account created',
-  'user.update': 'Account changed',
-  'study.create': 'Study created',
-  'study.update': 'Study edited',
-  'study.member': 'Member added or role changed',
-  'study.member-remove': 'Member removed',
-  'quantity.create': 'Quantity created',
-  'quantity.update': 'Quantity edited',
-  'evidence.upload': 'Evidence file uploaded',
-  'evidence.delete': 'Evidence file deleted',
-  'calibration.create': 'Calibration question added',
-  'calibration.update': 'Calibration question edited',
-  'round.create': 'Round scheduled',
-  'round.update': 'Round edited',
-  'round.extend': 'Round extended',
-  'round.open': 'Round opened',
-  'round.close': 'Round closed',
-  'round.reminders': 'Reminders sent',
-  'panel.add': 'Expert added to panel',
-  'panel.remove': 'Expert removed from panel',
-  'invitation.resend': 'Invitation sent again',
-  'invitation.revoke': 'Invitation revoked',
-  'invitation.accept': 'Invitation accepted',
-  'declaration.save': 'Expert declaration saved',
-  'practice.complete': 'Practice question completed',
-  'judgement.save': 'Judgement saved',
-  'judgement.submit': 'Judgements submitted',
-  'reconciliation.save': 'Reconciliation saved',
-  'record.submit': 'Record submitted for review',
-  'record.sign-off': 'Record signed off',
-  'record.return': 'Record returned',
-}
+import { actionLabel } from '@shared/record/format'
 
-/** "quantity.update" → "Quantity edited"; unknown codes become readable words ("dataset.upload" → "Dataset upload"). */
-export function auditActionLabel(action: string): string {
-  const known = AUDIT_ACTIONS[action]
-  if (known) return known
-  const words = action.replace(/[._-]+/g, ' ').trim()
-  return words ? words.charAt(0).toUpperCase() + words.slice(1) : action
-}
+/** "quantity.update" → "Quantity edited"; unknown codes become readable words ("widget.polish" → "Widget polish"). */
+export const auditActionLabel = actionLabel
 
 const SUBJECT_KINDS: Record<string, string> = {
   study: 'Study',

@@ -7,6 +7,7 @@ const REALISATIONS = [12, 35, 7.5, 150, 0.8, 48, 23, 5.2, 90, 310]
 const EXPERT_A = [[5, 10, 20], [20, 40, 70], [2, 6, 12], [60, 120, 200], [0.3, 1, 3], [15, 30, 45], [10, 25, 50], [5.5, 9, 15], [40, 80, 160], [150, 350, 700]]
 const EXPERT_B = [[13, 14, 15], [30, 33, 36], [8, 9, 10], [100, 110, 125], [0.5, 0.7, 0.9], [40, 50, 55], [25, 28, 30], [4.6, 4.9, 5.1], [60, 70, 80], [280, 320, 360]]
 const Z75 = 0.674489750196081743 // standard normal 0.75 quantile (REFERENCE.md §1.2)
+const Z99 = 2.326347874040841 // standard normal 0.99 quantile (scipy.special.ndtri(0.99)): the plausible bounds' reading
 
 let h: ApiHarness
 let analyst: Client
@@ -16,9 +17,12 @@ let roundId: number
 let studyId: number
 const day = 24 * 3600 * 1000
 
-/** Quartiles of N(mu, sigma): least squares on the CDF recovers N(mu, sigma) exactly (REFERENCE.md §1.2, FIT-normal-symmetric). */
+/**
+ * Quartiles of N(mu, sigma), with the bounds at its 1 % and 99 % points (how the fit reads them): least squares on the
+ * CDF recovers N(mu, sigma) exactly (REFERENCE.md §1.2, FIT-normal-symmetric).
+ */
 const normalAnswer = (mu: number, sigma: number) => ({
-  method: 'quantile', lower: mu - 5 * sigma, upper: mu + 5 * sigma,
+  method: 'quantile', lower: mu - Z99 * sigma, upper: mu + Z99 * sigma,
   points: [{ value: mu - sigma * Z75, prob: 0.25 }, { value: mu, prob: 0.5 }, { value: mu + sigma * Z75, prob: 0.75 }],
   chosenFamily: 'normal', rationale: 'Night-flow records of the eight pilot districts.',
 })
@@ -118,6 +122,19 @@ describe('reconciliation workspace', () => {
     expect(stale.status).toBe(409)
     const detail = (await analyst.get(`/api/studies/${studyId}`)).body
     expect(detail.quantities[0].stage).toBe('reconciled')
+  })
+
+  it('cautions that performance weights rest on 2 experts, fewer than the stated minimum, on the screen and in the record', async () => {
+    const view = await analyst.get(`/api/quantities/${quantityId}/reconciliation`).expect(200)
+    expect(view.body.settings.weights).toBe('performance')
+    expect(view.body.weightCautions).toEqual([
+      'Performance weights here compare 2 experts; this tool asks for at least 4 before the weights say much. With so few, the weights mostly pick one person: compare the result with equal weights before relying on it.',
+    ])
+    const content = (await analyst.get(`/api/studies/${studyId}/record`).expect(200)).body.content
+    expect(content.quantities[0].combination.weightCautions).toEqual(view.body.weightCautions)
+    expect(content.cautions).toContain(`Night-flow reduction: ${view.body.weightCautions[0]}`)
+    const equal = await analyst.get(`/api/quantities/${quantityId}/reconciliation?roundId=${roundId}`).expect(200)
+    expect(equal.body.calibration.questionCount).toBe(10)
   })
 
   it('records a hand adjustment only with a reason, and fits an agreed consensus', async () => {

@@ -63,7 +63,11 @@ describe('prior record workflow', () => {
     const returned = await reviewer.post(`/api/studies/${studyId}/record/return`, { section: 'Night-flow reduction', comment: 'Explain why the pool was not weighted by performance.' })
     expect(returned.body.record.status).toBe('draft')
     expect(returned.body.comments).toEqual([expect.objectContaining({ kind: 'return', section: 'Night-flow reduction', author: 'Ingrid Solberg' })])
-    await analyst.post(`/api/studies/${studyId}/record/submit`).expect(200)
+    expect(returned.body.record.returned).toBe(true)
+    const commentId = returned.body.comments[0].id
+    await analyst.post(`/api/studies/${studyId}/record/submit`, {
+      responses: [{ commentId, outcome: 'answered', reply: 'The rationale now says why equal weights: no calibration questions were asked.' }],
+    }).expect(200)
     const signed = await reviewer.post(`/api/studies/${studyId}/record/sign-off`).expect(200)
     expect(signed.body.record).toMatchObject({ status: 'signed_off', signedOffBy: 'Ingrid Solberg' })
     expect(signed.body.record.auditHead).toMatch(/^[0-9a-f]{64}$/)

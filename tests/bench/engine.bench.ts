@@ -20,6 +20,8 @@ import {
   type PriorDistribution,
   type Support,
 } from '../../shared/stats/index'
+import { fitWithRange, type PlausibleRange } from '../../shared/elicitation/fits'
+import { supportBounds } from '../../shared/stats/points'
 
 function mulberry32(seed: number): () => number {
   let a = seed >>> 0
@@ -93,6 +95,28 @@ const totalAll = performance.now() - t0
 console.log('Fitting (least squares on the CDF, 5 points, all families for the support, all starting points)')
 console.log(`  median time to fit all families to one judgement: ${fmt(median(perJudgement))}`)
 console.log(`  1,000 judgements: ${fmt(totalAll)}`)
+
+// The same judgements with plausible bounds one quantile gap beyond the outer values (inside the support), fitted
+// by the path answers take: the bounds as weighted 1 %/99 % points, then the default-fit rule.
+const bounded = judgements.map((j) => {
+  const x = j.points.map((p) => p.value)
+  const edge = supportBounds(j.support)
+  const range: PlausibleRange = { lower: Math.max(edge.lower, 2 * x[0] - x[1]), upper: Math.min(edge.upper, 2 * x[4] - x[3]), source: 'bounds' }
+  return { ...j, range }
+})
+for (const j of bounded.slice(0, 100)) fitWithRange(j.points, j.support, j.range)
+const perBounded: number[] = []
+const tb = performance.now()
+for (const j of bounded) {
+  const s = performance.now()
+  fitWithRange(j.points, j.support, j.range)
+  perBounded.push(performance.now() - s)
+}
+const totalBounded = performance.now() - tb
+console.log('Fitting with plausible bounds (5 quantiles + bounds as weighted 1 %/99 % points, default-fit rule and warnings)')
+console.log(`  median time per judgement: ${fmt(median(perBounded))}`)
+console.log(`  1,000 judgements: ${fmt(totalBounded)}`)
+console.log('')
 
 // Width sweeps: 50 factors from 0.25 to 8 (log-spaced) × 10 priors for each data model.
 const factors = Array.from({ length: 50 }, (_, i) => 0.25 * 32 ** (i / 49))

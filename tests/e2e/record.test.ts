@@ -15,6 +15,7 @@ import { openBrowser, signInAs, type BrowserSession, field, keepFailureEvidence 
 const STUDY_TITLE = `Record workflow ${Date.now().toString(36)}`
 const FLOW_SECTION = 'Night-flow reduction (flow)'
 const RETURN_COMMENT = 'Explain why the pool was weighted equally rather than by calibration.'
+const ANSWER = 'Equal weights were kept: no calibration questions were answered by both experts; the rationale now says so.'
 const PANEL_COMMENT = 'Please state how the declared consulting interest was managed.'
 
 /** Creates the study through the API from inside the page (same origin, session cookie, CSRF header). */
@@ -193,7 +194,7 @@ describe('prior record: submit, return with comments, resubmit, sign off, downlo
     await field(page, 'record-return-comment').fill(RETURN_COMMENT)
     await reviewer.shot('record-03-return-dialog')
     await page.getByTestId('record-return-submit').click()
-    await waitForStatus(reviewer, 'draft')
+    await waitForStatus(reviewer, 'returned')
     const flow = page.locator(`[data-testid="record-section"][data-section="${FLOW_SECTION}"]`)
     const item = flow.locator('[data-testid="comment-item"][data-kind="return"]')
     await item.waitFor()
@@ -201,10 +202,21 @@ describe('prior record: submit, return with comments, resubmit, sign off, downlo
     await expect(page.getByTestId('record-sign-off').count()).resolves.toBe(0)
   })
 
-  it('the analyst sees the comment, shows the expert names and resubmits', async () => {
+  it('the analyst sees "Returned with comments" at the top, with the comment in a banner', async () => {
     const { page } = analyst
     await openRecord(analyst)
-    await waitForStatus(analyst, 'draft')
+    await waitForStatus(analyst, 'returned')
+    expect(await status(analyst).innerText()).toBe('Returned with comments')
+    const banner = page.getByTestId('record-returned-banner')
+    expect(await banner.innerText()).toContain(RETURN_COMMENT)
+    expect(await page.getByTestId('record-signed-off').innerText()).not.toContain('awaiting a reviewer')
+    await analyst.shot('record-04a-returned-banner')
+  })
+
+  it('the analyst sees the comment, shows the expert names and resubmits, answering the comment', async () => {
+    const { page } = analyst
+    await openRecord(analyst)
+    await waitForStatus(analyst, 'returned')
     const flow = page.locator(`[data-testid="record-section"][data-section="${FLOW_SECTION}"]`)
     expect(await flow.getByTestId('comment-item').innerText()).toContain(RETURN_COMMENT)
 
@@ -214,7 +226,17 @@ describe('prior record: submit, return with comments, resubmit, sign off, downlo
     await page.getByTestId('record-panel').getByText('Tomasz Wierzbicki').first().waitFor()
 
     await page.getByTestId('record-submit').click()
+    const dialog = page.getByTestId('record-resubmit-dialog')
+    await dialog.getByText(RETURN_COMMENT).waitFor()
+    await page.getByTestId('record-resubmit-confirm').click()
+    await dialog.getByTestId('record-answer-error').waitFor()
+    await dialog.locator('[data-outcome="not-changed"]').click()
+    await dialog.getByTestId('record-answer').locator('textarea').fill(ANSWER)
+    await analyst.shot('record-04b-answer-dialog')
+    await page.getByTestId('record-resubmit-confirm').click()
     await waitForStatus(analyst, 'in_review')
+    const answer = flow.locator('[data-testid="comment-answer"][data-outcome="not-changed"]')
+    expect(await answer.innerText()).toContain(ANSWER)
     await analyst.shot('record-04-resubmitted')
   })
 
@@ -223,7 +245,12 @@ describe('prior record: submit, return with comments, resubmit, sign off, downlo
     await openRecord(reviewer)
     await waitForStatus(reviewer, 'in_review')
     await page.getByTestId('record-sign-off').click()
-    await page.getByText('The time of sign-off is stamped').waitFor()
+    const text = await page.getByTestId('record-sign-off-text').innerText()
+    expect(text).toContain('you have reviewed version 1 of this prior record')
+    expect(text).toContain('The timestamp shows when this version was fixed, and only that.')
+    expect(await page.getByTestId('record-sign-off-guidance').innerText()).toContain('need review under the guidance that applies to it, by a qualified statistician')
+    expect(text).not.toContain('shows the priors were fixed before any later data were seen')
+    await reviewer.shot('record-05a-sign-off-dialog')
     await page.getByTestId('record-sign-off-confirm').click()
     await waitForStatus(reviewer, 'signed_off')
     expect(await page.getByTestId('record-signed-off').innerText()).toContain('Ingrid Solberg')

@@ -12,7 +12,7 @@ export interface ApiHarness {
 }
 
 /** The real app on the suite's PostgreSQL test database. */
-export function startApi(options: Partial<Pick<AppOptions, 'signInLimitPerWindow' | 'kickMail' | 'mailFake'>> = {}): ApiHarness {
+export function startApi(options: Partial<Pick<AppOptions, 'signInLimitPerWindow' | 'kickMail' | 'mailFake' | 'timeZone'>> = {}): ApiHarness {
   const databaseUrl = inject('databaseUrl')
   const db = createDb(databaseUrl)
   const built = createApp({

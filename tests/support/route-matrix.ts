@@ -83,6 +83,8 @@ export const MATRIX: Record<string, Rule> = {
   'POST /api/studies/:id/record/comments': ['admin', 'analyst', 'reviewer'],
   'POST /api/studies/:id/record/new-version': ['admin', 'analyst'],
   'POST /api/studies/:id/record/charts': ['admin', 'analyst', 'reviewer'],
+  'POST /api/studies/:id/record/exclusions': ['admin', 'analyst'],
+  'DELETE /api/studies/:id/record/exclusions/:quantityId': ['admin', 'analyst'],
   'GET /api/studies/:id/outbox': ['admin', 'analyst'],
 }
 

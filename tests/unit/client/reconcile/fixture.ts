@@ -7,11 +7,11 @@ export const REALISATIONS = [12, 35, 7.5, 150, 0.8, 48, 23, 5.2, 90, 310]
 export const EXPERT_A = [[5, 10, 20], [20, 40, 70], [2, 6, 12], [60, 120, 200], [0.3, 1, 3], [15, 30, 45], [10, 25, 50], [5.5, 9, 15], [40, 80, 160], [150, 350, 700]]
 export const EXPERT_B = [[13, 14, 15], [30, 33, 36], [8, 9, 10], [100, 110, 125], [0.5, 0.7, 0.9], [40, 50, 55], [25, 28, 30], [4.6, 4.9, 5.1], [60, 70, 80], [280, 320, 360]]
 
-export function expert(expertId: number, label: string, name: string, distribution: Distribution, rationale = 'Night-flow records of the eight pilot districts.'): ReconcileExpert {
+export function expert(expertId: number, label: string, name: string, distribution: Distribution, rationale = 'Night-flow records of the eight pilot districts.', warnings: string[] = []): ReconcileExpert {
   return {
     judgementId: expertId * 10, expertId, name, label, distribution, sse: 0.0001, method: 'quantile',
     answer: { lower: 0, upper: 30, points: [{ value: quantile(distribution, 0.25), prob: 0.25 }, { value: quantile(distribution, 0.5), prob: 0.5 }, { value: quantile(distribution, 0.75), prob: 0.75 }] },
-    rationale, q05: quantile(distribution, 0.05), q50: quantile(distribution, 0.5), q95: quantile(distribution, 0.95),
+    rationale, q05: quantile(distribution, 0.05), q50: quantile(distribution, 0.5), q95: quantile(distribution, 0.95), warnings,
   }
 }
 
@@ -39,6 +39,7 @@ export function viewFixture(overrides: Partial<ReconciliationView> = {}): Reconc
     disagreements: [],
     consensusCheck: null,
     problems: {},
+    weightCautions: [],
     calibration: {
       questionCount: 10, cutoff: 0, scores: null, realizations: REALISATIONS,
       assessments: [{ id: '3', assessments: EXPERT_A }, { id: '4', assessments: EXPERT_B }],

@@ -11,7 +11,7 @@ import type { StudySummary } from '@shared/types'
 import ReconcileView from '@/views/study/ReconcileView.vue'
 import type { ReconciliationView } from '@/api/reconciliation'
 import { mockFetch, type RecordedCall, type Reply } from '../fetch-mock'
-import { viewFixture } from './fixture'
+import { expert, viewFixture } from './fixture'
 
 // chart.js needs a canvas; the chart is checked in the browser. This stand-in records what it was asked to draw.
 vi.mock('@/components/reconcile/ReconcileChart.vue', () => ({
@@ -125,6 +125,25 @@ describe('ReconcileView', { timeout: 15000 }, () => {
     expect(weights()).toEqual(['1', '0'])
     expect(wrapper.get('[data-testid="cooke-effect"]').text()).toContain('Expert B falls below the cutoff')
     expect(wrapper.findAll('[data-testid="expert-weight"]').map((c) => c.text())).toEqual(['1', '0'])
+  })
+
+  it('shows the analyst where an expert’s fitted shape contradicts that expert’s range', async () => {
+    const box = expert(5, 'Expert C', 'Ana Ruiz', { family: 'uniform', lower: 6, upper: 14 }, 'Pressure logs.', ['This shape says values above 14 are impossible, but you said 25 is plausible.'])
+    const { wrapper } = await mountView([{ status: 200, body: viewFixture({ experts: [...viewFixture().experts, box], included: [3, 4, 5] }) }])
+    expect(wrapper.findAll('[data-testid="expert-fit-warning"]').map((p) => p.text())).toEqual([
+      'Fitted shape: This shape says values above 14 are impossible, but you said 25 is plausible.',
+    ])
+  })
+
+  it('cautions in plain words when performance weights rest on fewer calibration questions or experts than the minimums', async () => {
+    const { wrapper } = await mountView([{ status: 200, body: viewFixture({ calibration: { ...viewFixture().calibration, questionCount: 4 } }) }])
+    expect(wrapper.find('[data-testid="weight-caution"]').exists()).toBe(false)
+    await radio(wrapper, 'weights-performance').setValue(true)
+    await settle()
+    expect(wrapper.findAll('[data-testid="weight-caution"]').map((c) => c.text())).toEqual([
+      'Performance weights here rest on 4 calibration questions; common practice asks for at least 10. With so few, one more question could change the weights a lot: compare the result with equal weights before relying on it.',
+      'Performance weights here compare 2 experts; this tool asks for at least 4 before the weights say much. With so few, the weights mostly pick one person: compare the result with equal weights before relying on it.',
+    ])
   })
 
   it('does not save weights set by hand without a reason; with one, sends one weight per included expert', async () => {

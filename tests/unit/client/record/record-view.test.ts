@@ -2,13 +2,13 @@
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import { DOMWrapper, flushPromises, mount } from '@vue/test-utils'
 import { createPinia, setActivePinia } from 'pinia'
-import { ElAlert, ElButton, ElDialog, ElEmpty, ElForm, ElFormItem, ElIcon, ElInput, ElSkeleton, ElSwitch, ElTag } from 'element-plus'
+import { ElAlert, ElButton, ElDialog, ElEmpty, ElForm, ElFormItem, ElIcon, ElInput, ElRadio, ElRadioGroup, ElSkeleton, ElSwitch, ElTag } from 'element-plus'
 import type { StudySummary } from '@shared/types'
 import type { RecordView as RecordViewBody } from '@/api/record'
 import RecordView from '@/views/study/RecordView.vue'
 import { mockFetch, type Route } from '../fetch-mock'
 import { OptionStub, SelectStub } from '../study/stubs'
-import { comment, recordView } from './fixtures'
+import { comment, quantity, recordView } from './fixtures'
 
 vi.mock('@/composables/notify', () => ({ notify: { success: vi.fn(), error: vi.fn() } }))
 // chart.js needs a real canvas: the stand-in reports a drawn picture as soon as it mounts.
@@ -45,7 +45,7 @@ function mountView(myRole: StudySummary['myRole'], view: RecordViewBody, route: 
     props: { study: study(myRole) },
     global: {
       plugins: [pinia],
-      components: { ElAlert, ElButton, ElDialog, ElEmpty, ElForm, ElFormItem, ElIcon, ElInput, ElSkeleton, ElSwitch, ElTag },
+      components: { ElAlert, ElButton, ElDialog, ElEmpty, ElForm, ElFormItem, ElIcon, ElInput, ElRadio, ElRadioGroup, ElSkeleton, ElSwitch, ElTag },
       stubs: { 'el-select': SelectStub, 'el-option': OptionStub, transition: false, 'transition-group': false },
     },
   })
@@ -80,6 +80,21 @@ describe('RecordView', () => {
     expect(wrapper.get('[data-testid="record-cautions"]').text()).toContain('qualified statistician')
     // experts read only
     expect(wrapper.find('[data-testid="comment-open"]').exists()).toBe(false)
+  })
+
+  it('shows each fit’s warnings and the caution on performance weights from the record content', async () => {
+    const view = recordView('draft')
+    const flow = quantity()
+    const warning = 'This shape says values above 14 are impossible, but you said 25 is plausible.'
+    const caution = 'Performance weights here compare 2 experts; this tool asks for at least 4 before the weights say much.'
+    flow.judgements[0].fit!.warnings = [warning]
+    flow.combination = { ...flow.combination!, weightsMode: 'performance', weightCautions: [caution] }
+    view.content.quantities = [flow]
+    const { wrapper } = mountView('analyst', view)
+    await vi.waitFor(() => expect(wrapper.find('[data-testid="record-status"]').exists()).toBe(true))
+    await flushPromises()
+    expect(wrapper.findAll('[data-testid="record-fit-warning"]').map((w) => w.text())).toEqual([warning])
+    expect(wrapper.findAll('[data-testid="record-weight-caution"]').map((w) => w.text())).toEqual([caution])
   })
 
   it('sends each drawn final-prior chart once for an analyst before sign-off, never for an expert', async () => {
@@ -126,5 +141,29 @@ describe('RecordView', () => {
     await vi.waitFor(() => expect(calls.some((c) => c.url.endsWith('/record/comments'))).toBe(true))
     expect(calls.find((c) => c.url.endsWith('/record/comments'))!.body).toEqual({ section: 'Expert panel', body: 'State how interests were managed.' })
     await vi.waitFor(() => expect(wrapper.find('[data-section="Expert panel"] [data-testid="comment-item"]').exists()).toBe(true))
+  })
+
+  it('shows a returned record as "Returned with comments" with the comments in a banner, and asks for an answer to each on resubmitting', async () => {
+    const returned = recordView('draft', { comments: [comment(3, 'Night-flow reduction', 'Why equal weights?', 'return')] })
+    returned.record = { ...returned.record, submittedAt: '2026-03-10T10:00:00.000Z', returned: true, openComments: [3] }
+    const { wrapper, calls } = mountView('analyst', returned, (c) =>
+      c.url === '/api/studies/4/record/submit' ? { status: 200, body: recordView('in_review') } : undefined,
+    )
+    await vi.waitFor(() => expect(wrapper.find('[data-testid="record-returned-banner"]').exists()).toBe(true))
+    expect(wrapper.get('[data-testid="record-status"]').text()).toBe('Returned with comments')
+    expect(wrapper.get('[data-testid="record-signed-off"]').text()).not.toContain('awaiting a reviewer')
+    expect(wrapper.get('[data-testid="record-returned-banner"]').text()).toContain('Why equal weights?')
+    await wrapper.get('[data-testid="record-submit"]').trigger('click')
+    await vi.waitFor(() => expect(body().find('[data-testid="record-resubmit-dialog"] [data-testid="record-answer"]').exists()).toBe(true))
+    await body().get('[data-testid="record-resubmit-confirm"]').trigger('click')
+    await vi.waitFor(() => expect(body().find('[data-testid="record-answer-error"]').exists()).toBe(true))
+    expect(calls.some((c) => c.url.endsWith('/record/submit'))).toBe(false)
+    await body().get('[data-testid="record-answer"] [data-outcome="not-changed"] input').setValue(true)
+    await body().get('[data-testid="record-answer"] textarea').setValue('Equal weights: no calibration questions were asked in this study.')
+    await body().get('[data-testid="record-resubmit-confirm"]').trigger('click')
+    await vi.waitFor(() => expect(calls.some((c) => c.url.endsWith('/record/submit'))).toBe(true))
+    expect(calls.find((c) => c.url.endsWith('/record/submit'))!.body).toEqual({
+      responses: [{ commentId: 3, outcome: 'not-changed', reply: 'Equal weights: no calibration questions were asked in this study.' }],
+    })
   })
 })

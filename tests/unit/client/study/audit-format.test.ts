@@ -5,7 +5,8 @@ describe('audit trail wording', () => {
   it('maps action codes to plain words, and makes unknown codes readable', () => {
     expect(auditActionLabel('quantity.update')).toBe('Quantity edited')
     expect(auditActionLabel('study.member-remove')).toBe('Member removed')
-    expect(auditActionLabel('dataset.upload')).toBe('Dataset upload')
+    expect(auditActionLabel('dataset.upload')).toBe('Pilot data uploaded')
+    expect(auditActionLabel('widget.polish-all')).toBe('Widget polish all')
   })
 
   it('names subjects, using known names when there are any', () => {

@@ -1,0 +1,51 @@
+import { describe, expect, it } from 'vitest'
+import { expertLabel, labelExperts, labelLetters } from '../../shared/record/expert-labels'
+import { actionLabel, answerText, dateTimeIn, subjectLabel } from '../../shared/record/format'
+
+describe('expert labels', () => {
+  it('counts in spreadsheet-column letters: A … Z, AA, AB … (common practice)', () => {
+    expect([0, 1, 25, 26, 27, 51, 52, 701, 702].map(labelLetters)).toEqual(['A', 'B', 'Z', 'AA', 'AB', 'AZ', 'BA', 'ZZ', 'AAA'])
+    expect(expertLabel(2)).toBe('Expert C')
+    expect(() => labelLetters(-1)).toThrow(RangeError)
+  })
+
+  it('gives each expert the label of their first joining, whatever comes later', () => {
+    const labels = labelExperts(['user:7', 'user:3', 'user:7', 'email:new@example.org', 'user:3'])
+    expect([...labels]).toEqual([['user:7', 'Expert A'], ['user:3', 'Expert B'], ['email:new@example.org', 'Expert C']])
+  })
+})
+
+describe('the record in words', () => {
+  it('writes an answer as given: bounds and quantiles, interval probabilities, or chips', () => {
+    expect(answerText('quantile', { lower: 0, upper: 10, points: [{ value: 2, prob: 0.25 }, { value: 4, prob: 0.5 }] })).toBe('plausible range 0 to 10; 2 at 0.25; 4 at 0.5')
+    expect(answerText('fixed-interval', { edges: [0, 1, 2], probs: [0.3, null] })).toBe('[0, 1): 0.3; [1, 2): —')
+    expect(answerText('chip-grid', { lower: 0, upper: 2, edges: [0, 1, 2], chips: [1, 4] })).toBe('plausible range 0 to 2; [0, 1): 1 chip; [1, 2): 4 chips')
+    expect(answerText('quantile', null)).toBe('—')
+  })
+
+  it('names audit actions and subjects in words', () => {
+    expect(actionLabel('record.leave-out')).toBe('Quantity left out of the record')
+    expect(actionLabel('widget.polish-all')).toBe('Widget polish all')
+    expect(subjectLabel('quantity:4', { quantities: { 4: 'Burst rate' } })).toBe('Burst rate')
+    expect(subjectLabel('quantity:5', { quantities: { 4: 'Burst rate' } })).toBe('quantity no. 5')
+    expect(subjectLabel('record:v2')).toBe('record version 2')
+    expect(subjectLabel('study:9')).toBe('this study')
+    expect(subjectLabel(null)).toBe('')
+  })
+
+  it('writes a moment as local time with its zone: 1 July 12:00 UTC is 14:00 in Oslo (summer time), 08:00 in New York', () => {
+    expect(dateTimeIn('2026-07-01T12:00:00Z', 'Europe/Oslo')).toBe('1 July 2026, 14:00 (Europe/Oslo)')
+    expect(dateTimeIn('2026-07-01T12:00:05Z', 'America/New_York', true)).toBe('1 July 2026, 08:00:05 (America/New_York)')
+    expect(dateTimeIn('2026-12-24T17:00:00Z', 'UTC')).toBe('24 December 2026, 17:00 (UTC)')
+    expect(dateTimeIn(null, 'UTC')).toBe('—')
+  })
+})
+
+describe('APP_TIME_ZONE', () => {
+  it('takes an IANA zone, defaults to UTC, and refuses anything else with a clear message', async () => {
+    const { loadConfig } = await import('../../server/config')
+    expect(loadConfig({ APP_TIME_ZONE: 'Europe/Oslo' }).timeZone).toBe('Europe/Oslo')
+    expect(loadConfig({}).timeZone).toBe('UTC')
+    expect(() => loadConfig({ APP_TIME_ZONE: 'Kestrel/Valley' })).toThrow('APP_TIME_ZONE must be an IANA time zone such as Europe/Oslo or UTC, not "Kestrel/Valley"')
+  })
+})
