@@ -50,7 +50,8 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
   const judgements = await db('judgements').whereIn('round_id', rounds.map((r) => r.id)).where('status', 'submitted').orderBy(['round_id', 'quantity_id', 'expert_id'])
   const recs = await db('reconciliations').whereIn('quantity_id', quantities.map((q) => q.id))
   const files = await db('evidence_files').whereIn('quantity_id', quantities.map((q) => q.id)).select('quantity_id', 'filename', 'sha256', 'size_bytes').orderBy('id')
-  const leftOut = await db('record_exclusions').whereIn('quantity_id', quantities.map((q) => q.id)).select('quantity_id', 'reason')
+  const leftOut = new Map<number, string>((await db('record_exclusions').whereIn('quantity_id', quantities.map((q) => q.id)).select('quantity_id', 'reason'))
+    .map((x) => [x.quantity_id, x.reason]))
   const datasets = await db('pilot_datasets').where({ study_id: studyId }).orderBy(['quantity_id', 'version'])
   const impacts = await db('impact_analyses').whereIn('quantity_id', quantities.map((q) => q.id)).orderBy('id', 'desc')
 
@@ -77,7 +78,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       unit: q.unit,
       question: q.question,
       support: supportOf(q),
-      leftOut: leftOut.find((x) => x.quantity_id === q.id) ? { reason: leftOut.find((x) => x.quantity_id === q.id)!.reason as string } : null,
+      leftOut: leftOut.has(q.id) ? { reason: leftOut.get(q.id)! } : null,
       assumptions: q.assumptions,
       evidenceNotes: q.evidence_notes,
       evidenceFiles: files.filter((f) => f.quantity_id === q.id).map((f) => ({ filename: f.filename, sha256: f.sha256, bytes: f.size_bytes })),

@@ -36,3 +36,6 @@ export function feedbackStatements(d: Distribution, q: QuantityWords): string[] 
   if (Number.isFinite(q90)) out.push(`You are saying there is a ${chanceWords(0.1)} chance that it is above ${v(q90)}.`)
   return out
 }
+
+/** Id of the list of plain statements on an answer screen: the charts of that answer name it as their description. */
+export const FEEDBACK_STATEMENTS_ID = 'feedback-statements'

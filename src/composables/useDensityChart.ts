@@ -13,7 +13,12 @@ export interface DensityCurve {
   dash?: number[]
   /** Drawn above the others (higher number on top). */
   order?: number
+  /** Marks (diamonds) along the line, so that it reads apart from the others without colour. */
+  markers?: boolean
 }
+
+/** Every how many grid points a curve with markers shows one. */
+const MARKER_EVERY = 20
 
 export interface DensityChartOptions {
   xLabel: string
@@ -54,7 +59,9 @@ export function densityData(curves: DensityCurve[], range: [number, number], n =
       backgroundColor: c.color,
       borderWidth: c.width ?? 1.5,
       borderDash: c.dash ?? [],
-      pointRadius: 0,
+      pointRadius: c.markers ? xs.map((_, i) => (i % MARKER_EVERY === MARKER_EVERY / 2 ? 4 : 0)) : 0,
+      pointStyle: 'rectRot' as const,
+      pointBackgroundColor: c.color,
       pointHoverRadius: 0,
       tension: 0,
       spanGaps: false,

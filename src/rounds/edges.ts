@@ -96,3 +96,10 @@ export function intervalLabels(edges: readonly number[], support?: Support): str
   const edge = (x: number) => (support?.kind === 'proportion' ? `${formatEdge(Number((x * 100).toPrecision(10)))} %` : formatEdge(x))
   return edges.slice(1).map((upper, i) => `${edge(edges[i])} to ${i === edges.length - 2 ? '' : 'under '}${edge(upper)}`)
 }
+
+/** Whether the intervals between the edges differ in width (beyond rounding of the typed decimals). */
+export function unequalWidths(edges: readonly number[]): boolean {
+  const widths = edges.slice(1).map((e, i) => e - edges[i])
+  const first = widths[0]
+  return widths.some((w) => Math.abs(w - first) > 1e-9 * Math.max(1, Math.abs(first)))
+}

@@ -5,6 +5,8 @@ import type { FitResult } from '../../shared/stats'
 import { DEMO_PASSWORD, DEMO_STUDY_TITLE } from '../../seeds/demo'
 import { formatValue } from '../../src/rounds/numbers'
 import { openBrowser, signInAs, type BrowserSession, completeEntry, field, inPage, type Call, keepFailureEvidence } from '../support/browser'
+import { expectAccessible } from '../support/axe'
+import { expectPhoneLayout } from '../support/phone'
 
 /**
  * The expert answering screen in chromium. The analyst sets up a round on the demo study through the API (from the
@@ -240,6 +242,7 @@ describe('answering a round', () => {
     const saved = (await savedJudgements(page, setup.roundId)).find((j) => j.quantityId === setup.burst)!
     expect(saved.chosenFamily).toBe('gamma')
     await shot(expert1, 'answer-02-quantile')
+    await expectAccessible(expert1.page, '02-quantile')
   })
 
   it('keeps typed values when another window saved first (409), and reloads on request', async () => {
@@ -303,6 +306,7 @@ describe('answering a round', () => {
     await waitSaved(page)
     await expect.poll(() => rail(page, `q-${setup.uptake}`).getAttribute('data-status')).toBe('complete')
     await shot(expert1, 'answer-04-fixed-interval')
+    await expectAccessible(expert1.page, '04-fixed-interval')
   })
 
   it('chip grid: chips placed by clicking and by keyboard; the histogram and feedback follow', async () => {
@@ -342,6 +346,7 @@ describe('answering a round', () => {
     const saved = (await savedJudgements(page, setup.roundId)).find((j) => j.quantityId === setup.flow)!
     expect(saved.answer).toMatchObject({ chips: [0, 2, 3, 5, 4, 3, 3, 0] })
     await shot(expert1, 'answer-05-chip-grid')
+    await expectAccessible(expert1.page, '05-chip-grid')
   })
 
   it('a submit with items missing lists them on the rail and the review page', async () => {
@@ -352,6 +357,7 @@ describe('answering a round', () => {
     await expect(rail(page, 'calibration').innerText()).resolves.toContain('needs attention')
     expect(await page.getByTestId('review').innerText()).toContain('Calibration question 1: give your 5 %, 50 % and 95 % values')
     await shot(expert1, 'answer-06-review-missing')
+    await expectAccessible(expert1.page, '06-review-missing')
   })
 
   it('calibration questions: 5 / 50 / 95 % per question, checked and saved', async () => {
@@ -373,6 +379,7 @@ describe('answering a round', () => {
     await waitSaved(page)
     await expect.poll(() => rail(page, 'calibration').getAttribute('data-status')).toBe('complete')
     await shot(expert1, 'answer-07-calibration')
+    await expectAccessible(expert1.page, '07-calibration')
   })
 
   it('submits; everything is read-only under a Submitted banner', async () => {
@@ -382,6 +389,7 @@ describe('answering a round', () => {
     await page.getByTestId('submitted-banner').waitFor()
     expect(await page.getByTestId('rail-item').evaluateAll((els) => els.map((e) => e.getAttribute('data-status')))).toEqual(['complete', 'complete', 'complete', 'complete'])
     await shot(expert1, 'answer-08-submitted')
+    await expectAccessible(expert1.page, '08-submitted')
     await rail(page, `q-${setup.burst}`).click()
     await expect(field(page, 'q-lower').isDisabled()).resolves.toBe(true)
     await expect(field(page, 'rationale').isDisabled()).resolves.toBe(true)
@@ -484,6 +492,16 @@ describe('answering a round', () => {
     })
     expect(order).toBeTruthy()
     await shot(expert1, 'answer-10-feedback-round')
+    await expectAccessible(page, 'feedback-round')
+    // Your own curve reads apart from the others without colour: solid, thick, with diamonds; the others dotted.
+    expect(await panel.locator('[data-testid="feedback-round-row"] .fpanel__swatch').evaluateAll((els) => els.map((e) => e.classList.contains('is-mine') ? 'mine' : e.classList.contains('is-dotted') ? 'dotted' : '?'))).toEqual(['mine', 'dotted', 'dotted'])
+    expect(await panel.locator('canvas').getAttribute('aria-describedby')).toBe('fpanel-table')
+    // On a phone, the panel, its chart and its table fit the screen.
+    await page.setViewportSize({ width: 360, height: 740 })
+    await panel.locator('canvas').waitFor()
+    await expectPhoneLayout(page, 'feedback-round-360')
+    await expectAccessible(page, 'feedback-round-360')
+    await page.setViewportSize({ width: 1280, height: 800 })
   })
 
   it('logged no console errors beyond the expected 401 / 400 / 409 answers, and loaded nothing from elsewhere', () => {

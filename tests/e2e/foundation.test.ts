@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DEMO_STUDY_TITLE } from '../../seeds/demo'
 import { openBrowser, signInAs, type BrowserSession } from '../support/browser'
+import { expectAccessible } from '../support/axe'
 
 let s: BrowserSession
 beforeAll(async () => {
@@ -34,6 +35,7 @@ describe('sign-in and app shell in chromium', () => {
     await list.getByText(DEMO_STUDY_TITLE).waitFor()
     expect(await list.innerText()).toContain(DEMO_STUDY_TITLE)
     await s.shot('03-studies-analyst')
+    await expectAccessible(s.page, 'analyst studies')
   })
 
   it('signs out and returns to the sign-in page; the session no longer works', async () => {

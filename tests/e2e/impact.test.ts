@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { DEMO_PASSWORD } from '../../seeds/demo'
 import { openBrowser, signInAs, type BrowserSession, field, keepFailureEvidence } from '../support/browser'
+import { expectAccessible } from '../support/axe'
 
 /**
  * Pilot data and impact analysis in chromium: the analyst uploads the demo burst logs for the burst
@@ -189,6 +190,7 @@ describe('pilot data and impact analysis', () => {
     expect(tipping).toContain('act if P(burst_rate > 12')
     expect(tipping).toMatch(/spread|centre|median/)
     await s.shot('impact-05-result')
+    await expectAccessible(s.page, 'analyst impact')
   })
 
   it('downloads the table as CSV and a chart as PNG', async () => {

@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { DEMO_PASSWORD, DEMO_STUDY_TITLE } from '../../seeds/demo'
 import { openBrowser, signInAs, type BrowserSession, field, inPage, keepFailureEvidence } from '../support/browser'
+import { expectAccessible } from '../support/axe'
 
 /**
  * The reconciliation workspace in chromium: a quantity of the demo study gets a round answered by the three demo
@@ -110,6 +111,7 @@ describe('reconciling a quantity', () => {
     await expect(page.getByTestId('expert-row').first().textContent()).resolves.toContain('Tomasz Wierzbicki')
     await expect(page.getByTestId('reconcile-status').getAttribute('data-status')).resolves.toBe('new')
     await s.shot('reconcile-01-experts')
+    await expectAccessible(s.page, 'analyst reconcile')
   })
 
   it('pools with performance weights and shows the cutoff dropping the badly calibrated expert', async () => {
@@ -155,5 +157,6 @@ describe('reconciling a quantity', () => {
     expect(saved).toMatchObject({ status: 'reconciled', method: 'linear', weightsMode: 'performance', cutoff: 0.01, family, roundId: setup.roundId })
     expect(saved.weights[1]).toBe(0)
     await s.shot('reconcile-03-reconciled')
+    await expectAccessible(s.page, 'analyst reconcile, reconciled')
   })
 })

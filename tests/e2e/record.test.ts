@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { DEMO_PASSWORD } from '../../seeds/demo'
 import { openBrowser, signInAs, type BrowserSession, field, keepFailureEvidence } from '../support/browser'
+import { expectAccessible } from '../support/axe'
 
 /**
  * The prior record's review workflow in chromium: a study with two reconciled quantities is set up through the API
@@ -139,6 +140,8 @@ describe('prior record: submit, return with comments, resubmit, sign off, downlo
     await signInAs(analyst, 'analyst@kestrel.example')
     await page.waitForURL(/\/studies$/)
     await page.goto(`${analyst.baseUrl}/studies/${studyId}`)
+    await page.getByTestId('study-title').waitFor()
+    await expectAccessible(page, 'analyst overview')
     await page.getByTestId('nav-record').click()
     await page.waitForURL(new RegExp(`/studies/${studyId}/record$`))
     await waitForStatus(analyst, 'draft')
@@ -162,6 +165,7 @@ describe('prior record: submit, return with comments, resubmit, sign off, downlo
     expect(await result.innerText()).toMatch(/reads back as Normal\(mean [\d.]+, sd [\d.]+\), quantiles agree to (0|\de-1\d)/)
     await expect(result.getAttribute('data-ok')).resolves.toBe('true')
     await analyst.shot('record-01-draft')
+    await expectAccessible(page, 'analyst record')
   })
 
   it('the analyst submits the record: in review, content hash frozen', async () => {

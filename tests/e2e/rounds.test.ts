@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DEMO_STUDY_TITLE } from '../../seeds/demo'
 import { openBrowser, signInAs, type BrowserSession, field, keepFailureEvidence } from '../support/browser'
+import { expectAccessible } from '../support/axe'
 
 /**
  * The round flow of issue 4 in chromium: the analyst frames a quantity, schedules a round with three
@@ -67,6 +68,7 @@ describe('scheduling and opening a round, and an expert entering it', () => {
     await page.getByTestId('rounds-empty').or(page.getByTestId('rounds-table')).first().waitFor()
     expect(await page.getByTestId('nav-rounds').getAttribute('aria-current')).toBe('page')
     await analyst.shot('rounds-02-list')
+    await expectAccessible(page, 'analyst rounds')
   })
 
   it('schedules a round: three quantities, three methods, edges checked inline', async () => {
@@ -120,6 +122,7 @@ describe('scheduling and opening a round, and an expert entering it', () => {
     await field(repair, 'round-form-chips').fill('25')
     await field(repair, 'round-form-chips').blur()
     await analyst.shot('rounds-03-form-filled')
+    await expectAccessible(page, 'analyst round form')
 
     await page.getByTestId('round-form-submit').click()
     await page.waitForURL(new RegExp(`/studies/${studyId}/rounds/\\d+$`))
@@ -150,6 +153,7 @@ describe('scheduling and opening a round, and an expert entering it', () => {
     await page.locator('[data-testid="panel-state"][data-state="invited"]').waitFor()
     await page.getByTestId('progress-grid').waitFor()
     await analyst.shot('rounds-06-open')
+    await expectAccessible(page, 'analyst round')
   })
 
   it('the admin finds the invitation in the dev mailbox', async () => {
@@ -204,7 +208,10 @@ describe('scheduling and opening a round, and an expert entering it', () => {
     await page.getByTestId('declaration-interests-described').click()
     await field(page, 'declaration-interests-text').waitFor()
     await page.getByTestId('declaration-submit').click()
-    await page.getByText('Describe your interests').waitFor()
+    // The refusal under the field (its label reads the same words, so the alert is found by its role).
+    const refusal = page.getByTestId('declaration-interests-text').getByRole('alert')
+    await refusal.waitFor()
+    expect(await refusal.innerText()).toBe('Describe your interests')
     await page.getByTestId('declaration-interests-none').click()
     await page.getByTestId('declaration-seen-no').click()
     await expert.shot('rounds-10-declaration')

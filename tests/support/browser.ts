@@ -20,9 +20,10 @@ export interface BrowserSession {
 
 /**
  * Debian's chromium driven by playwright-core; never a downloaded browser. `baseUrl` points it at an app other than
- * the one the global setup serves (a suite that runs its own server and database).
+ * the one the global setup serves (a suite that runs its own server and database); `viewport` sets the screen size
+ * (1280 × 800 unless given).
  */
-export async function openBrowser(opts: { baseUrl?: string } = {}): Promise<BrowserSession> {
+export async function openBrowser(opts: { baseUrl?: string; viewport?: { width: number; height: number } } = {}): Promise<BrowserSession> {
   // playwright-core gives each launch a new, empty profile of its own.
   const browser = await chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
@@ -32,7 +33,7 @@ export async function openBrowser(opts: { baseUrl?: string } = {}): Promise<Brow
       '--disable-background-networking', '--disable-component-update', '--disable-sync',
     ],
   })
-  const context = await browser.newContext({ viewport: { width: 1280, height: 800 } })
+  const context = await browser.newContext({ viewport: opts.viewport ?? { width: 1280, height: 800 } })
   const page = await context.newPage()
   const consoleErrors: string[] = []
   page.on('console', (msg) => {
