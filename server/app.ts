@@ -1,10 +1,10 @@
 import { existsSync } from 'node:fs'
 import path from 'node:path'
-import { csrfSync } from 'csrf-sync'
 import express, { type Express } from 'express'
 import helmet from 'helmet'
 import { createPassport } from './auth/passport'
 import type { Db } from './db/knex'
+import { createCsrf } from './http/csrf'
 import { errorHandler, notFoundApi } from './http/errors'
 import type { AppContext } from './context'
 import type { SmtpFake } from './mail/smtp-fake'
@@ -78,16 +78,13 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   app.use('/api', passport.initialize())
   app.use('/api', passport.session())
 
-  const csrf = csrfSync({
-    getTokenFromRequest: (req) => req.get('x-csrf-token'),
-    errorConfig: { statusCode: 403, message: 'Invalid or missing CSRF token; reload the page and try again', code: 'EBADCSRFTOKEN' },
-  })
+  const csrf = createCsrf({ secret: opts.sessionSecret, secure: !!opts.secureCookies })
 
   app.use('/api/health', healthRouter(db))
   app.get('/api/config', (_req, res) => {
     res.json({ devMailbox: !!opts.mailFake?.running })
   })
-  app.use('/api', csrf.csrfSynchronisedProtection)
+  app.use('/api', csrf.protection)
   app.use('/api/auth', authRouter(db, passport, { signInLimitPerWindow: opts.signInLimitPerWindow ?? 20, generateCsrfToken: csrf.generateToken }))
   app.use('/api/users', usersRouter(db))
   const ctx: AppContext = { db, publicUrl: opts.publicUrl ?? 'http://localhost:3000', kickMail: opts.kickMail ?? (async () => {}) }

@@ -74,6 +74,7 @@ declare module 'vue' {
     FindingsPanel: typeof import('./components/impact/FindingsPanel.vue')['default']
     FitTable: typeof import('./components/reconcile/FitTable.vue')['default']
     ImpactForm: typeof import('./components/impact/ImpactForm.vue')['default']
+    ImpactMissing: typeof import('./components/record/ImpactMissing.vue')['default']
     ImpactSummary: typeof import('./components/record/ImpactSummary.vue')['default']
     IntervalForm: typeof import('./components/answer/IntervalForm.vue')['default']
     LeaveOutDialog: typeof import('./components/record/LeaveOutDialog.vue')['default']

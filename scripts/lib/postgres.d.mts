@@ -16,3 +16,6 @@ export function stopCluster(projectRoot: string, options?: { env?: NodeJS.Proces
 export function ensureDatabase(cluster: Cluster, dbName: string, options?: { recreate?: boolean }): string
 export function backupDatabase(cluster: Cluster, databaseUrl: string, file: string): string
 export function restoreDatabase(cluster: Cluster, file: string, dbName: string): string
+export function portInUse(port: number): boolean
+export function clusterOnPort(port: number): { pid: number; dataDir: string } | null
+export function portTakenMessage(port: number, holder: { pid: number; dataDir: string } | null, suggestion: number, ownDataDir: string): string

@@ -86,6 +86,61 @@ function removeStalePidFile(dataDir) {
   }
 }
 
+/** True when something already listens on 127.0.0.1:port (a child process tries to bind it; synchronous, portable). */
+export function portInUse(port) {
+  const probe = `const s=require('net').createServer();s.once('error',e=>process.exit(e.code==='EADDRINUSE'?1:2));s.listen(${Number(port)},'127.0.0.1',()=>s.close(()=>process.exit(0)))`
+  const r = spawnSync(process.execPath, ['-e', probe], { encoding: 'utf8' })
+  return r.status === 1
+}
+
+/** The PostgreSQL server listening on the port, read from /proc: its data directory, or null when none is found. */
+export function clusterOnPort(port) {
+  if (!existsSync('/proc')) return null
+  for (const entry of readdirSync('/proc')) {
+    if (!/^\d+$/.test(entry)) continue
+    let args
+    try {
+      args = readFileSync(`/proc/${entry}/cmdline`, 'utf8').split('\0').filter(Boolean)
+    } catch {
+      continue
+    }
+    if (!args.length || !/postgres$/.test(path.basename(args[0]))) continue
+    const dataAt = args.indexOf('-D')
+    if (dataAt < 0) continue
+    const dataDir = args[dataAt + 1]
+    if (postmasterPort(dataDir) === port) return { pid: Number(entry), dataDir }
+  }
+  return null
+}
+
+/** Port recorded on line 4 of a running cluster's postmaster.pid (PostgreSQL's own record of where it listens). */
+function postmasterPort(dataDir) {
+  try {
+    return Number(readFileSync(path.join(dataDir, 'postmaster.pid'), 'utf8').split('\n')[3])
+  } catch {
+    return null
+  }
+}
+
+/** First free port above the given one, to suggest as PGPORT_LOCAL. */
+function nextFreePort(port) {
+  for (let p = port + 1; p < port + 50; p++) if (!portInUse(p)) return p
+  return port + 1
+}
+
+/** What to tell a user whose cluster cannot start because its port is taken (by another checkout's cluster or another program). */
+export function portTakenMessage(port, holder, suggestion, ownDataDir) {
+  const who = holder
+    ? `another PostgreSQL cluster (data in ${holder.dataDir}, server PID ${holder.pid})${holder.dataDir.includes('priorsmith') ? ', probably another Priorsmith checkout' : ''}`
+    : 'another program'
+  const stopIt = holder
+    ? `stop that cluster (in the checkout it belongs to, run \`npm run db:stop\`; or \`pg_ctl -D ${holder.dataDir} stop\`)`
+    : 'stop the program that holds the port'
+  return `PostgreSQL for this checkout (${ownDataDir}) cannot start: 127.0.0.1:${port} is already held by ${who}.\n` +
+    `Two ways out:\n  1. ${stopIt}, then run this command again; or\n` +
+    `  2. give this checkout a port of its own: PGPORT_LOCAL=${suggestion} npm start (or put PGPORT_LOCAL=${suggestion} in .env).`
+}
+
 /** Creates the cluster if needed and starts it; a running cluster is reused. */
 export function ensureCluster(projectRoot, { fast = false, env = process.env } = {}) {
   const s = pgSettings(projectRoot, env)
@@ -99,9 +154,10 @@ export function ensureCluster(projectRoot, { fast = false, env = process.env } =
   }
   if (statusOf(bin, s.dataDir)) {
     removeStalePidFile(s.dataDir)
-    if (statusOf(bin, s.dataDir)) return { ...s, bin }
+    if (statusOf(bin, s.dataDir)) return { ...s, port: postmasterPort(s.dataDir) ?? s.port, bin }
   }
   removeStalePidFile(s.dataDir)
+  if (portInUse(s.port)) throw new Error(portTakenMessage(s.port, clusterOnPort(s.port), nextFreePort(s.port), s.dataDir))
   const opts = [`-c listen_addresses=127.0.0.1`, `-p ${s.port}`, `-k ${s.socketDir}`]
   if (fast) opts.push('-c fsync=off', '-c synchronous_commit=off', '-c full_page_writes=off')
   log(`starting PostgreSQL on 127.0.0.1:${s.port}`)

@@ -7,6 +7,7 @@ import * as m005 from '../../migrations/20261202_005_reconciliation'
 import * as m006 from '../../migrations/20261202_006_pilot_impact'
 import * as m007 from '../../migrations/20261202_007_records'
 import * as m010 from '../../migrations/20261203_010_record_review'
+import * as m016 from '../../migrations/20261203_016_record_integrity'
 import * as roundTimeZone from '../../migrations/20261203_i17b_round_time_zone'
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> }
@@ -21,6 +22,7 @@ const migrations: Record<string, Migration> = {
   '20261202_006_pilot_impact': m006,
   '20261202_007_records': m007,
   '20261203_010_record_review': m010,
+  '20261203_016_record_integrity': m016,
   '20261203_i17b_round_time_zone': roundTimeZone,
 }
 

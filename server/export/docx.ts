@@ -3,6 +3,7 @@ import {
   Table, TableCell, TableRow, TextRun, WidthType,
 } from 'docx'
 import { PILOT_MODEL_LABELS, type PilotModel } from '../../shared/elicitation/pilot'
+import { cautionText, type RecordCaution } from '../../shared/elicitation/record-cautions'
 import {
   answerText, CANDIDATE_KIND_LABELS, dateTimeIn, describeDistribution as describe, flagLabel, fmt, LANGUAGE_LABELS, SUPPORT_LABELS, WEIGHTS_LABELS,
 } from '../../shared/record/format'
@@ -54,6 +55,17 @@ class Outline {
       children: [new TextRun({ text: e.text, size: e.level === 1 ? 22 : 20, bold: e.level === 1 })],
     }))
   }
+}
+
+/** What produced the record (application, engine, commit); records stored before schema 1.1 do not say. */
+function producedBySection(outline: Outline, produced: Json | undefined, n: number): Paragraph[] {
+  if (!produced) return []
+  return [
+    outline.heading(`${n}. Software that produced this record`, 1),
+    p(`${produced.application} ${produced.version}`),
+    p(`Statistical engine ${produced.engineVersion}`),
+    p(produced.commit ? `Repository commit ${produced.commit}` : 'Repository commit not known (the application was not run from a git checkout).'),
+  ]
 }
 
 /** The prior record as a Word document: title page, contents, one section per quantity, cautions, sign-off, history. */
@@ -127,7 +139,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       const png = charts.get(q.symbol)
       if (png) sections.push(new Paragraph({ spacing: { before: 120, after: 120 }, children: [new ImageRun({ type: 'png', data: png, transformation: { width: 520, height: 260 } })] }))
       sections.push(
-        p('Model code (each line read back in its language’s parameterisation reproduces the 5/50/95 % quantiles):', { size: 20 }),
+        p('Model code (each line, read by Priorsmith with its language’s documented parameterisation, reproduces the 5/50/95 % quantiles; the languages themselves were not run):', { size: 20 }),
         table(['Language', 'Code', 'Read-back check'], f.modelCode.map((m: Json) => [
           LANGUAGE_LABELS[m.language] ?? m.language, m.code, m.check ? (m.check.ok ? `passed (largest relative difference ${fmt(m.check.maxRelativeDifference, 2)})` : 'FAILED') : 'not available',
         ]), 9),
@@ -147,15 +159,19 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
         ...q.impact.findings.map((f: string) => p(f)),
         ...(q.impact.sweep ? [p(`Width sweep: the evidence changes by a factor ${fmt(q.impact.sweep.evidenceRatio, 4)} as the prior is made from half to twice as wide; ${q.impact.sweep.priorDriven ? `so ${flagLabel('prior-driven-bayes-factor').toLowerCase()}.` : 'Bayes factors built on this prior are not driven by its width.'} ${q.impact.sweep.rule}`, { size: 20 })] : []),
       )
+    } else if (q.finalPrior) {
+      sections.push(p(q.impactNotRunReason
+        ? `No impact analysis of the final prior was run. The analyst’s reason: ${q.impactNotRunReason}`
+        : 'No impact analysis of the final prior exists.'))
     } else {
-      sections.push(p('No impact analysis has been run.'))
+      sections.push(p('No impact analysis: there is no final prior.'))
     }
   })
   const last = (content.quantities as Json[]).length + 4
   const responses = new Map(comments.filter((c) => c.kind === 'response').map((c) => [c.replyTo, c]))
   sections.push(
     outline.heading(`${last}. Cautions`, 1),
-    ...(content.cautions as string[]).map((c) => p(c)),
+    ...(content.cautions as (string | RecordCaution)[]).map((c) => p(cautionText(c))),
     outline.heading(`${last + 1}. Review and sign-off`, 1),
     p(`Status: ${STATUS[meta.status] ?? meta.status}.`),
     p(meta.signedOffAt
@@ -172,6 +188,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       : []),
     outline.heading(`${last + 2}. Change history`, 1),
     table(['When', 'Who', 'What', 'Event hash'], history.map((e) => [when(e.at, true), e.actor, e.subjectText ? `${e.what} (${e.subjectText})` : e.what, e.hash.slice(0, 16)]), 9),
+    ...producedBySection(outline, content.producedBy, last + 3),
   )
 
   const title = [
@@ -180,7 +197,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
     p(`Version ${meta.version} · ${STATUS[meta.status] ?? meta.status}`, { size: 24 }),
     p(meta.signedOffAt ? `Signed off by ${meta.signedOffBy} on ${when(meta.signedOffAt)}` : 'Not signed off', { size: 22 }),
     p(`Content SHA-256: ${meta.contentHash}`, { size: 18, color: '5B6B7A' }),
-    p(content.cautions[0], { italics: true, size: 20, color: '8A5A12' }),
+    p(cautionText(content.cautions[0]), { italics: true, size: 20, color: '8A5A12' }),
     new Paragraph({ children: [new PageBreak()] }),
     h('Contents', HeadingLevel.HEADING_1),
     ...outline.contents(),

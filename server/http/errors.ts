@@ -1,9 +1,9 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express'
 import { ValidationError, type AnyObjectSchema, type InferType } from 'yup'
 
-/** An error with an HTTP status and, for 400s, messages per field. */
+/** An error with an HTTP status and, for 400s, messages per field; `details` adds structured facts (a file's line and column…). */
 export class HttpError extends Error {
-  constructor(public status: number, message: string, public fields?: Record<string, string>) {
+  constructor(public status: number, message: string, public fields?: Record<string, string>, public details?: Record<string, unknown>) {
     super(message)
   }
 }
@@ -89,10 +89,10 @@ function isDatabaseUnavailable(err: { code?: string; message?: string } | undefi
     || /Connection terminated|connect ECONNREFUSED|Knex: Timeout acquiring a connection|the database system is (starting up|shutting down)/i.test(err?.message ?? '')
 }
 
-/** The one error handler: every error leaves as `{ error: { message, fields? } }`. */
+/** The one error handler: every error leaves as `{ error: { message, fields?, …details } }`. */
 export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   if (err instanceof HttpError) {
-    res.status(err.status).json({ error: { message: err.message, ...(err.fields ? { fields: err.fields } : {}) } })
+    res.status(err.status).json({ error: { ...err.details, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } })
     return
   }
   const status = typeof err?.status === 'number' ? err.status : typeof err?.statusCode === 'number' ? err.statusCode : 500

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex'
+import { BIDI_CONTROLS } from '../../shared/schemas/users'
 
 export type OutboxStatus = 'queued' | 'sending' | 'sent' | 'failed'
 export type MailKind = 'invitation' | 'round-notice' | 'reminder' | 'test' | (string & {})
@@ -33,8 +34,8 @@ export interface OutboxEntry {
 
 export const OUTBOX_TABLE = 'outbox_messages'
 
-/** Header values must stay on one line. */
-const oneLine = (s: string) => s.replace(/[\r\n\t]+/g, ' ').trim()
+/** Header values must stay on one line, and read as they are (no text-direction controls from names stored earlier). */
+const oneLine = (s: string) => s.replace(/[\r\n\t]+/g, ' ').replace(BIDI_CONTROLS, '').trim()
 
 const ADDRESS = /^[^\s@<>",;]+@[^\s@<>",;]+\.[^\s@<>",;]+$/
 

@@ -9,7 +9,7 @@ import { HttpError, validateBody } from '../http/errors'
 import { recordAudit } from '../services/audit'
 import { SESSION_COOKIE } from '../session'
 
-export function authRouter(db: Db, passport: PassportStatic, opts: { signInLimitPerWindow: number; generateCsrfToken: (req: import('express').Request, overwrite?: boolean) => string }): Router {
+export function authRouter(db: Db, passport: PassportStatic, opts: { signInLimitPerWindow: number; generateCsrfToken: (req: import('express').Request, res: import('express').Response) => string }): Router {
   const r = Router()
 
   // Counts attempts per client address and e-mail, so one noisy user does not lock out a shared office.
@@ -25,7 +25,7 @@ export function authRouter(db: Db, passport: PassportStatic, opts: { signInLimit
   })
 
   r.get('/csrf', (req, res) => {
-    res.json({ token: opts.generateCsrfToken(req) })
+    res.json({ token: opts.generateCsrfToken(req, res) })
   })
 
   r.post('/sign-in', signInLimiter, async (req, res, next) => {

@@ -1,10 +1,10 @@
 import { Router } from 'express'
-import { impactSchema } from '../../shared/schemas/impact'
+import { impactNotRunSchema, impactSchema } from '../../shared/schemas/impact'
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { idParam, validateBody } from '../http/errors'
 import { allow, accessVia } from '../services/access'
-import { latestImpact, runImpact, type ImpactInput } from '../services/impact'
+import { latestImpact, recordImpactNotRun, runImpact, type ImpactInput } from '../services/impact'
 
 /** What each candidate prior does to the posterior and to the evidence on pilot data. */
 export function impactRouter(db: Db): Router {
@@ -25,6 +25,15 @@ export function impactRouter(db: Db): Router {
     const access = await accessVia(db, user, 'quantities', id, 'Quantity')
     allow(access, 'analyst', 'reviewer')
     res.json(await latestImpact(db, id))
+  })
+
+  r.put('/quantities/:id/impact/not-run', async (req, res) => {
+    const user = currentUser(req)
+    const id = idParam(req.params.id, 'Quantity')
+    const access = await accessVia(db, user, 'quantities', id, 'Quantity')
+    allow(access, 'analyst')
+    const body = await validateBody(impactNotRunSchema, req.body)
+    res.json(await recordImpactNotRun(db, access.user, id, body.reason))
   })
 
   return r

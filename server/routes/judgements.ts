@@ -8,6 +8,7 @@ import { recordAudit } from '../services/audit'
 import {
   feedbackFor, judgementHistory, listCalibrationAnswers, listJudgements, reopenSubmission, saveCalibrationAnswer, saveJudgement, submitRound,
 } from '../services/judgements'
+import { assertExpertOpens, roundRow } from '../services/rounds'
 
 /** Experts' answers: their own drafts and submission; analysts read everything and may reopen. */
 export function judgementsRouter(db: Db): Router {
@@ -75,8 +76,7 @@ export function judgementsRouter(db: Db): Router {
   r.get('/rounds/:id/feedback', async (req, res) => {
     const { id, access } = await roundAccess(req)
     if (access.role !== 'expert') throw new HttpError(403, 'Feedback is shown to the panel’s experts')
-    const onPanel = await db('round_panel').where({ round_id: id, user_id: access.user.id }).first('id')
-    if (!onPanel) throw new HttpError(403, 'You are not on the panel of this round')
+    await assertExpertOpens(db, access.user, await roundRow(db, id))
     await recordAudit(db, { actorId: access.user.id, studyId: access.studyId, action: 'feedback.view', subject: `round:${id}` })
     res.json(await feedbackFor(db, access.user, id))
   })

@@ -1,6 +1,6 @@
 import { Router } from 'express'
 import multer from 'multer'
-import { EVIDENCE_MAX_BYTES, quantitySchema, quantityUpdateSchema } from '../../shared/schemas/quantities'
+import { EVIDENCE_EXTENSIONS, EVIDENCE_MAX_BYTES, nameFitsType, quantitySchema, quantityUpdateSchema } from '../../shared/schemas/quantities'
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { HttpError, idParam, validateBody } from '../http/errors'
@@ -65,8 +65,10 @@ export function quantitiesRouter(db: Db): Router {
     const user = currentUser(req)
     const file = await getEvidenceFile(db, idParam(req.params.id, 'File'))
     await studyAccess(db, user, file.study_id)
+    // Served under a name ending as its sniffed type does (files stored before that rule get the ending added).
+    const filename = nameFitsType(file.filename, file.mime_type) ? file.filename : `${file.filename}${EVIDENCE_EXTENSIONS[file.mime_type]?.[0] ?? '.bin'}`
     res.setHeader('Content-Type', file.mime_type)
-    res.setHeader('Content-Disposition', `attachment; filename*=UTF-8''${encodeURIComponent(file.filename)}`)
+    res.setHeader('Content-Disposition', `attachment; filename*=UTF-8''${encodeURIComponent(filename)}`)
     res.setHeader('X-Content-Type-Options', 'nosniff')
     res.send(file.content)
   })

@@ -25,20 +25,27 @@ export function recordsRouter(ctx: RecordContext): Router {
   const { db } = ctx
   const r = Router()
   const access = async (req: Request) => studyAccess(db, currentUser(req), idParam(req.params.id, 'Study'))
+  // The record holds the calibration true values and every expert's answers and rationales, open rounds included:
+  // it is for the study's analysts and reviewers (admins pass); experts see their own answers on their rounds.
+  const readerAccess = async (req: Request) => {
+    const a = await access(req)
+    if (a.role !== 'admin' && a.role !== 'analyst' && a.role !== 'reviewer') throw new HttpError(403, 'The prior record is for the study’s analysts and reviewers')
+    return a
+  }
 
   r.get('/studies/:id/record', async (req, res) => {
-    res.json(await getRecord(db, await access(req), versionQuery(req)))
+    res.json(await getRecord(db, await readerAccess(req), versionQuery(req)))
   })
 
   r.get('/studies/:id/record.json', async (req, res) => {
-    const a = await access(req)
+    const a = await readerAccess(req)
     const { content, meta } = await recordForExport(db, a.studyId, versionQuery(req))
     res.setHeader('Content-Disposition', `attachment; filename="prior-record-v${meta.version}.json"`)
     res.json({ ...content, record: meta })
   })
 
   r.get('/studies/:id/record.docx', async (req, res) => {
-    const a = await access(req)
+    const a = await readerAccess(req)
     const version = versionQuery(req)
     const { content, meta, charts } = await recordForExport(db, a.studyId, version)
     const view = await getRecord(db, a, version)
@@ -111,11 +118,11 @@ export function recordsRouter(ctx: RecordContext): Router {
 
   r.post('/studies/:id/record/charts', async (req, res) => {
     const a = await access(req)
-    allow(a, 'analyst', 'reviewer')
+    allow(a, 'analyst')
     const body = await validateBody(recordChartSchema, req.body)
     const png = Buffer.from(body.png.slice('data:image/png;base64,'.length), 'base64')
     if (png.subarray(0, 8).toString('hex') !== '89504e470d0a1a0a') throw new HttpError(400, 'Not a PNG image', { png: 'Send the chart as a PNG data URL' })
-    await saveChart(db, a.studyId, body.symbol, png)
+    await saveChart(db, a.user, a.studyId, body.symbol, png)
     res.status(204).end()
   })
 

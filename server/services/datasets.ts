@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto'
 import Papa from 'papaparse'
+import { readCsvTable } from '../../shared/elicitation/csv'
 import { extractPilotData, PILOT_MAX_BYTES, PilotDataError, type PilotMapping } from '../../shared/elicitation/pilot'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
@@ -20,6 +21,7 @@ export interface UploadFields {
   binaryColumn?: string
   countColumn?: string
   exposureColumn?: string
+  allowDuplicate?: boolean
 }
 
 export function mappingFrom(f: UploadFields): PilotMapping {
@@ -37,8 +39,8 @@ export function mappingFrom(f: UploadFields): PilotMapping {
   }
 }
 
-/** Decodes and parses the CSV text; any problem becomes a 400 with a located message under `file`. */
-export function parseCsv(buffer: Buffer, delimiter: string): { text: string; table: string[][] } {
+/** Decodes and parses the CSV text; any problem becomes a 400 with a located message under `file` and its line and column. */
+export function parseCsv(buffer: Buffer, delimiter: string): { text: string; table: string[][]; lines: number[] } {
   if (buffer.length === 0) throw new HttpError(400, 'The file is empty', { file: 'The file is empty.' })
   if (buffer.length > PILOT_MAX_BYTES) throw new HttpError(400, 'The file is too large', { file: 'Pilot data files may be at most 2 MB.' })
   if (buffer.includes(0)) throw new HttpError(400, 'Not a text file', { file: 'This is not a CSV text file.' })
@@ -48,14 +50,9 @@ export function parseCsv(buffer: Buffer, delimiter: string): { text: string; tab
   } catch {
     throw new HttpError(400, 'Not UTF-8 text', { file: 'The file is not UTF-8 text; save it as CSV (UTF-8).' })
   }
-  const parsed = Papa.parse<string[]>(text, { delimiter, skipEmptyLines: 'greedy' })
-  const bad = parsed.errors.find((e) => e.type === 'Quotes' || e.code === 'TooManyFields' || e.code === 'TooFewFields')
-  if (bad) {
-    const line = (bad.row ?? 0) + 1
-    const message = bad.type === 'Quotes' ? 'a quoted value is not closed' : `expected ${parsed.data[0]?.length ?? 0} columns like the header`
-    throw new HttpError(400, 'The file could not be read', { file: `Line ${line}: ${message}.` })
-  }
-  return { text, table: parsed.data }
+  const { rows, lines, problem } = readCsvTable(text, delimiter)
+  if (problem) throw new HttpError(400, 'The file could not be read', { file: `Line ${problem.line}: ${problem.message}.` }, { line: problem.line, column: problem.column })
+  return { text, table: rows, lines }
 }
 
 /** The first rows and the columns of a file, for the mapping form. */
@@ -76,21 +73,28 @@ function toDataset(r: Record<string, any>, withCsv = false) {
 export async function createDataset(db: Db, user: User, studyId: number, fields: UploadFields, file: { originalname: string; buffer: Buffer }) {
   const quantity = await db('quantities').where({ id: fields.quantityId, study_id: studyId }).first('id')
   if (!quantity) throw new HttpError(400, 'Choose a quantity of this study', { quantityId: 'Choose a quantity of this study' })
-  const { text, table } = parseCsv(file.buffer, fields.delimiter)
+  const { text, table, lines } = parseCsv(file.buffer, fields.delimiter)
   const mapping = mappingFrom(fields)
   let extracted
   try {
-    extracted = extractPilotData(table, mapping)
+    extracted = extractPilotData(table, mapping, lines)
   } catch (err) {
-    if (err instanceof PilotDataError) throw new HttpError(400, 'The file does not fit the chosen model', { file: err.message })
+    if (err instanceof PilotDataError) throw new HttpError(400, 'The file does not fit the chosen model', { file: err.message }, { line: err.line, column: err.columnNumber })
     throw err
   }
+  const sha256 = createHash('sha256').update(file.buffer).digest('hex')
   const row = await db.transaction(async (trx) => {
     await trx.raw('SELECT id FROM quantities WHERE id = ? FOR UPDATE', [fields.quantityId])
+    const same = await trx('pilot_datasets').where({ quantity_id: fields.quantityId, sha256 }).orderBy('version', 'desc').first('id', 'version', 'name', 'created_at')
+    if (same && !fields.allowDuplicate) {
+      throw new HttpError(409, `This file is the same as version ${same.version} (“${same.name}”) already stored for this quantity. Keep that version, or upload again with allowDuplicate to store it as a new version.`, undefined, {
+        code: 'duplicate-file', duplicateOfId: same.id, duplicateOfVersion: same.version, duplicateOfName: same.name, duplicateOfCreatedAt: same.created_at.toISOString(),
+      })
+    }
     const [{ max }] = await trx('pilot_datasets').where({ quantity_id: fields.quantityId }).max('version as max')
     const [r] = await trx('pilot_datasets').insert({
       study_id: studyId, quantity_id: fields.quantityId, version: (max ?? 0) + 1, name: fields.name, filename: file.originalname.slice(0, 200),
-      model: fields.model, mapping: JSON.stringify({ ...mapping, delimiter: fields.delimiter }), csv: text, sha256: createHash('sha256').update(file.buffer).digest('hex'),
+      model: fields.model, mapping: JSON.stringify({ ...mapping, delimiter: fields.delimiter }), csv: text, sha256,
       row_count: extracted.summary.rows, data: JSON.stringify(extracted.data), summary: JSON.stringify(extracted.summary), uploaded_by: user.id,
     }).returning('*')
     return r

@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto'
 import { dataSize, SWEEP_FACTORS, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
 import { combine, fitCombination, fitConsensus, resolveWeights } from '../../shared/elicitation/reconcile'
-import { EngineInputError, validateDistribution, type Distribution, type FitResult, type PilotData } from '../../shared/stats/index'
+import { ENGINE_VERSION, EngineInputError, validateDistribution, type Distribution, type FitResult, type PilotData } from '../../shared/stats/index'
 import { runImpactTask } from '../compute/pool'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
@@ -72,16 +72,22 @@ async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Pr
   return { list, reconciled }
 }
 
+/** SHA-256 of a prior's canonical JSON: how an analysis, a recorded reason and the record find the same final prior. */
+export const priorHash = (prior: Distribution) => createHash('sha256').update(canonicalJson(prior)).digest('hex')
+
 /** Runs (or returns the cached) impact analysis of every candidate prior on one pilot dataset. */
 export async function runImpact(db: Db, user: User, quantityId: number, input: ImpactInput) {
   const dataset = await getDataset(db, input.datasetId)
-  if (dataset.quantityId !== quantityId) throw new HttpError(400, 'This dataset belongs to another quantity', { datasetId: 'Choose a dataset of this quantity' })
   const quantity = await getQuantity(db, quantityId)
+  // Another study's dataset is answered as if it did not exist: its id says nothing about that study.
+  if (dataset.studyId !== quantity.studyId) throw new HttpError(404, 'Dataset not found')
+  if (dataset.quantityId !== quantityId) throw new HttpError(400, 'This dataset belongs to another quantity', { datasetId: 'Choose a dataset of this quantity' })
   const support = supportOf({ support_kind: quantity.support.kind, support_lower: 'lower' in quantity.support ? quantity.support.lower : null, support_upper: 'upper' in quantity.support ? quantity.support.upper : null })
   const { list, reconciled } = await candidatesFor(db, quantityId, input)
   const data = dataset.data as PilotData
   const factors = input.factors ?? SWEEP_FACTORS
-  const hashInput = { datasetSha: dataset.sha256, datasetId: dataset.id, candidates: list, decision: input.decision ?? null, factors, support }
+  // Everything the numbers depend on: the data, every candidate prior (the final one included), the options and the engine.
+  const hashInput = { datasetSha: dataset.sha256, datasetId: dataset.id, datasetVersion: dataset.version, candidates: list, decision: input.decision ?? null, factors, support, engine: ENGINE_VERSION }
   const inputHash = createHash('sha256').update(canonicalJson(hashInput)).digest('hex')
   const cached = await db('impact_analyses').where({ quantity_id: quantityId, input_hash: inputHash }).orderBy('id', 'desc').first()
   if (cached) return { id: cached.id, cached: true, createdAt: cached.created_at.toISOString(), ...cached.result }
@@ -98,7 +104,8 @@ export async function runImpact(db: Db, user: User, quantityId: number, input: I
     throw err
   }
   const [row] = await db('impact_analyses').insert({
-    quantity_id: quantityId, dataset_id: dataset.id, input_hash: inputHash, input: JSON.stringify(input), result: JSON.stringify(result), created_by: user.id,
+    quantity_id: quantityId, dataset_id: dataset.id, input_hash: inputHash, prior_hash: reconciled ? priorHash(reconciled) : null,
+    input: JSON.stringify(input), result: JSON.stringify(result), created_by: user.id,
   }).returning(['id', 'created_at'])
   await recordAudit(db, { actorId: user.id, studyId: quantity.studyId, action: 'impact.run', subject: `quantity:${quantityId}`, details: { analysisId: row.id, datasetId: dataset.id, candidates: list.length } })
   return { id: row.id, cached: false, createdAt: row.created_at.toISOString(), ...result }
@@ -108,4 +115,18 @@ export async function runImpact(db: Db, user: User, quantityId: number, input: I
 export async function latestImpact(db: Db, quantityId: number) {
   const row = await db('impact_analyses').where({ quantity_id: quantityId }).orderBy('id', 'desc').first()
   return row ? { id: row.id, cached: true, createdAt: row.created_at.toISOString(), input: row.input, ...row.result } : null
+}
+
+/** The analyst's reason for stating the final prior without an impact analysis; it holds for this prior only. */
+export async function recordImpactNotRun(db: Db, user: User, quantityId: number, reason: string) {
+  const quantity = await getQuantity(db, quantityId)
+  const rec = await db('reconciliations').where({ quantity_id: quantityId }).first('status', 'distribution')
+  if (rec?.status !== 'reconciled' || !rec.distribution) throw new HttpError(409, 'Reconcile the quantity first: the reason is recorded for its final prior')
+  const hash = priorHash(rec.distribution)
+  await db.transaction(async (trx) => {
+    await trx('impact_not_run').insert({ quantity_id: quantityId, prior_hash: hash, reason, created_by: user.id })
+      .onConflict(['quantity_id', 'prior_hash']).merge(['reason', 'created_by', 'created_at'])
+    await recordAudit(trx, { actorId: user.id, studyId: quantity.studyId, action: 'impact.not-run', subject: `quantity:${quantityId}`, details: { priorHash: hash } })
+  })
+  return { quantityId, priorHash: hash, reason }
 }

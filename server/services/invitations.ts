@@ -7,7 +7,17 @@ import { recordAudit } from './audit'
 import { hashToken } from './tokens'
 import { findUserById } from './users'
 
-type InvitationState = 'valid' | 'expired' | 'used' | 'revoked'
+type InvitationState = 'valid' | 'expired' | 'used' | 'revoked' | 'closed'
+
+const ROUND_OVER = ['closed', 'reconciled']
+
+/** A used link says so first (its holder signs in); a link of a round that has ended is no longer any use. */
+function stateOf(inv: { accepted_at: Date | null; revoked_at: Date | null; expires_at: Date }, roundStatus: string): InvitationState {
+  if (inv.accepted_at) return 'used'
+  if (inv.revoked_at) return 'revoked'
+  if (ROUND_OVER.includes(roundStatus)) return 'closed'
+  return inv.expires_at < new Date() ? 'expired' : 'valid'
+}
 
 async function invitationByToken(db: Db, token: string) {
   if (!/^[A-Za-z0-9_-]{20,100}$/.test(token)) throw new HttpError(404, 'This invitation link is not valid')
@@ -15,14 +25,14 @@ async function invitationByToken(db: Db, token: string) {
     .where('i.token_hash', hashToken(token))
     .first('i.*', 'r.title as round_title', 'r.opens_at', 'r.closes_at', 'r.status as round_status', 's.title as study_title', 's.id as study_id')
   if (!row) throw new HttpError(404, 'This invitation link is not valid')
-  const state: InvitationState = row.accepted_at ? 'used' : row.revoked_at ? 'revoked' : row.expires_at < new Date() ? 'expired' : 'valid'
-  return { row, state }
+  return { row, state: stateOf(row, row.round_status) }
 }
 
 const STATE_MESSAGES: Record<Exclude<InvitationState, 'valid'>, string> = {
   used: 'This invitation link has already been used. Sign in with the password you chose.',
   revoked: 'This invitation link was withdrawn. Ask the analyst for a new one.',
   expired: 'This invitation link has expired. Ask the analyst to send a new one.',
+  closed: 'This round has closed, so the invitation can no longer be used. Ask the analyst if you still want to take part.',
 }
 
 /** What the invitation page shows before the expert sets a password. */
@@ -48,12 +58,13 @@ export async function acceptInvitation(db: Db, token: string, body: { name: stri
   const result = await db.transaction(async (trx) => {
     const inv = await trx('invitations').where({ token_hash: hashToken(token) }).forUpdate().first()
     if (!inv) throw new HttpError(404, 'This invitation link is not valid')
-    const state: InvitationState = inv.accepted_at ? 'used' : inv.revoked_at ? 'revoked' : inv.expires_at < new Date() ? 'expired' : 'valid'
+    // Read under a share lock: a round closing at this moment waits for the acceptance, or the acceptance sees it closed.
+    const round = await trx('rounds').where({ id: inv.round_id }).forShare().first('study_id', 'status')
+    const state = stateOf(inv, round.status)
     if (state !== 'valid') throw new HttpError(410, STATE_MESSAGES[state])
     if (await trx('users').whereRaw('lower(email) = lower(?)', [inv.email]).first('id')) {
       throw new HttpError(409, 'An account with this e-mail address already exists. Sign in instead.')
     }
-    const round = await trx('rounds').where({ id: inv.round_id }).first('study_id')
     const [user] = await trx('users').insert({ email: inv.email.toLowerCase(), display_name: body.name, role: 'expert', password_hash: passwordHash }).returning('id')
     await trx('invitations').where({ id: inv.id }).update({ accepted_at: trx.fn.now(), accepted_user_id: user.id })
     await trx('round_panel').where({ id: inv.panel_id }).update({ user_id: user.id, name: body.name })

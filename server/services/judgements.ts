@@ -229,7 +229,7 @@ export async function saveCalibrationAnswer(db: Db, user: User, roundId: number,
 }
 
 /**
- * For a feedback round: per quantity, the latest earlier round of the study that asked it, the expert's own
+ * For a feedback round: per quantity, the latest earlier closed round of the study that asked it, the expert's own
  * fitted answer there, and the other experts' submitted fits under the study's expert labels (the same on every screen).
  */
 export async function feedbackFor(db: Db, user: User, roundId: number) {
@@ -239,8 +239,10 @@ export async function feedbackFor(db: Db, user: User, roundId: number) {
   const labels = await studyExpertLabels(db, round.study_id)
   const out = []
   for (const quantityId of items) {
+    // Only a round that has closed: while a round is open its answers are still changing and private to each expert.
     const prev = await db('rounds as r').join('round_items as i', 'i.round_id', 'r.id')
-      .where({ 'r.study_id': round.study_id, 'i.quantity_id': quantityId }).where('r.number', '<', round.number).orderBy('r.number', 'desc').first('r.id', 'r.number')
+      .where({ 'r.study_id': round.study_id, 'i.quantity_id': quantityId }).where('r.number', '<', round.number).whereIn('r.status', ['closed', 'reconciled'])
+      .orderBy('r.number', 'desc').first('r.id', 'r.number')
     if (!prev) {
       out.push({ quantityId, previousRound: null, mine: null, others: [] })
       continue

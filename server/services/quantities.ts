@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto'
 import type { QuantityBody } from '../../shared/schemas/quantities'
-import { EVIDENCE_MAX_BYTES, EVIDENCE_TYPES } from '../../shared/schemas/quantities'
+import { EVIDENCE_EXTENSIONS, EVIDENCE_MAX_BYTES, EVIDENCE_TYPES, nameFitsType } from '../../shared/schemas/quantities'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
@@ -146,6 +146,11 @@ export async function addEvidenceFile(db: Db, user: User, quantityId: number, fi
   if (file.buffer.length > EVIDENCE_MAX_BYTES) throw new HttpError(400, 'The file is larger than 5 MB', { file: 'Files may be at most 5 MB' })
   const mime = sniffEvidenceType(file.buffer, file.originalname)
   if (!mime) throw new HttpError(400, `Only ${Object.values(EVIDENCE_TYPES).join(', ')} files are accepted`, { file: 'Upload a PDF, CSV, PNG or JPEG file' })
+  // The name must say what the content is, so that no program later opens a PDF as a web page because it ends in .html.
+  if (!nameFitsType(file.originalname, mime)) {
+    const message = `This file is a ${EVIDENCE_TYPES[mime]}; give it a name ending in ${EVIDENCE_EXTENSIONS[mime].join(' or ')}`
+    throw new HttpError(400, message, { file: message })
+  }
   const filename = file.originalname.replace(/[\\/\u0000-\u001f]/g, '_').slice(0, 200)
   const [row] = await db('evidence_files').insert({
     quantity_id: quantityId, filename, mime_type: mime, size_bytes: file.buffer.length, content: file.buffer,

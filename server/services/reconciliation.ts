@@ -12,6 +12,7 @@ import { HttpError } from '../http/errors'
 import { recordAudit } from './audit'
 import { studyExpertLabels } from './expert-labels'
 import { getQuantity, supportOf } from './quantities'
+import { followQuantities } from './round-status'
 
 const COOKE_QUANTILES = [0.05, 0.5, 0.95]
 
@@ -210,11 +211,12 @@ export async function saveReconciliation(db: Db, user: User, quantityId: number,
       ;[r] = await trx('reconciliations').where({ id: existing.id }).update({ ...row, version: existing.version + 1, updated_at: trx.fn.now() }).returning('*')
     }
     await trx('reconciliation_versions').insert({ reconciliation_id: r.id, version: r.version, snapshot: JSON.stringify({ ...row, weights: view.weights }), saved_by: user.id })
+    await recordAudit(trx, {
+      actorId: user.id, studyId, action: body.reconciled ? 'reconciliation.reconciled' : 'reconciliation.save', subject: `quantity:${quantityId}`,
+      details: { method: body.method, weights: row.weights_mode, family: row.family, adjusted: row.adjusted, version: r.version },
+    })
+    await followQuantities(trx, user.id, { quantityId })
     return r
   })
-  await recordAudit(db, {
-    actorId: user.id, studyId, action: body.reconciled ? 'reconciliation.reconciled' : 'reconciliation.save', subject: `quantity:${quantityId}`,
-    details: { method: body.method, weights: row.weights_mode, family: row.family, adjusted: row.adjusted, version: saved.version },
-  })
-  return getReconciliation(db, quantityId, { roundId: body.roundId })
+  return getReconciliation(db, quantityId, { roundId: saved.round_id })
 }

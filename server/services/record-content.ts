@@ -1,17 +1,15 @@
 import { modelCodeWithCheck } from '../../shared/elicitation/model-code'
+import { recordCautions } from '../../shared/elicitation/record-cautions'
 import { mean, quantile, sd, type Distribution, type FitResult } from '../../shared/stats/index'
 import type { Db } from '../db/knex'
+import { BUILD_INFO } from '../build-info'
 import { studyExpertLabels } from './expert-labels'
+import { priorHash } from './impact'
 import { supportOf } from './quantities'
 import { savedWeightCautions } from './reconciliation'
 
 export const RECORD_SCHEMA_ID = 'https://priorsmith.example/schemas/prior-record-1.json'
-export const RECORD_SCHEMA_VERSION = '1.0'
-
-export const RECORD_CAUTIONS = [
-  'The priors in this record can decide the result of the analyses that use them. Before they inform a decision that affects people, they must be reviewed under the regulatory or professional guidance that applies to that decision, and by a qualified statistician.',
-  'A prior that carries more information than the data (prior effective sample size larger than n) dominates the posterior; a prior–data conflict (Box p < 0.05) needs an explanation; a Bayes factor that changes more than 3× across the width sweep reflects the prior’s width rather than the data.',
-]
+export const RECORD_SCHEMA_VERSION = '1.1'
 
 const iso = (d: Date | null | undefined) => (d ? new Date(d).toISOString() : null)
 
@@ -53,7 +51,10 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
   const leftOut = new Map<number, string>((await db('record_exclusions').whereIn('quantity_id', quantities.map((q) => q.id)).select('quantity_id', 'reason'))
     .map((x) => [x.quantity_id, x.reason]))
   const datasets = await db('pilot_datasets').where({ study_id: studyId }).orderBy(['quantity_id', 'version'])
-  const impacts = await db('impact_analyses').whereIn('quantity_id', quantities.map((q) => q.id)).orderBy('id', 'desc')
+  // Only an analysis whose candidates include the final prior itself belongs in the record (newest first), never one
+  // run on a draft or an earlier choice; without one, the analyst's recorded reason for that same prior, if any.
+  const impacts = await db('impact_analyses').whereIn('quantity_id', quantities.map((q) => q.id)).whereNotNull('prior_hash').orderBy('id', 'desc')
+  const notRun = await db('impact_not_run').whereIn('quantity_id', quantities.map((q) => q.id))
 
   const calibrationQuestions = await db('calibration_questions').where({ study_id: studyId }).orderBy(['position', 'id'])
 
@@ -63,7 +64,9 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
   const quantityRecords = quantities.map((q) => {
     const rec = recs.find((r) => r.quantity_id === q.id)
     const final: Distribution | null = rec?.status === 'reconciled' ? rec.distribution : null
-    const impact = impacts.find((i) => i.quantity_id === q.id)
+    const finalHash = final ? priorHash(final) : null
+    const impact = finalHash ? impacts.find((i) => i.quantity_id === q.id && i.prior_hash === finalHash) : undefined
+    const notRunReason = finalHash && !impact ? notRun.find((r) => r.quantity_id === q.id && r.prior_hash === finalHash)?.reason ?? null : null
     const roundRefs = items.filter((i) => i.quantity_id === q.id).map((i) => {
       const r = rounds.find((x) => x.id === i.round_id)!
       return {
@@ -104,6 +107,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       } : null,
       pilotData: datasets.filter((d) => d.quantity_id === q.id).map((d) => ({ name: d.name, version: d.version, model: d.model, rows: d.row_count, summary: d.summary, sha256: d.sha256 })),
       impact: impact ? {
+        inputHash: impact.input_hash,
         dataset: impact.result.dataset,
         n: impact.result.n,
         candidates: impact.result.candidates.map((c: Record<string, any>) => ({
@@ -115,8 +119,13 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
         decision: impact.result.decision,
         findings: impact.result.findings,
       } : null,
+      impactNotRunReason: notRunReason,
     }
   })
+  const calibration = {
+    questions: calibrationQuestions.map((c) => ({ question: c.question, unit: c.unit, trueValue: c.true_value })),
+    method: 'Cooke’s classical model (Cooke 1991, ch. 12): calibration as the χ² p-value of the bin frequencies, information against a uniform background on the intrinsic range with 10 % overshoot',
+  }
 
   return {
     $schema: RECORD_SCHEMA_ID,
@@ -125,11 +134,9 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
     version: options.version,
     namesShown: options.showNames,
     panel,
-    calibration: {
-      questions: calibrationQuestions.map((c) => ({ question: c.question, unit: c.unit, trueValue: c.true_value })),
-      method: 'Cooke’s classical model (Cooke 1991, ch. 12): calibration as the χ² p-value of the bin frequencies, information against a uniform background on the intrinsic range with 10 % overshoot',
-    },
+    calibration,
     quantities: quantityRecords,
-    cautions: [...RECORD_CAUTIONS, ...quantities.flatMap((q) => (weightCautions.get(q.id) ?? []).map((c) => `${q.name}: ${c}`))],
+    cautions: recordCautions({ panel, quantities: quantityRecords }),
+    producedBy: BUILD_INFO,
   }
 }

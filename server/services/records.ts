@@ -16,7 +16,8 @@ import { assembleRecord } from './record-content'
 /** What the record's e-mails need besides the database: the mail queue, the public address, the time zone of dates. */
 export type RecordContext = AppContext & { timeZone: string }
 
-export const contentHash = (content: unknown) => createHash('sha256').update(canonicalJson(content)).digest('hex')
+const sha256 = (data: string | Buffer) => createHash('sha256').update(data).digest('hex')
+export const contentHash = (content: unknown) => sha256(canonicalJson(content))
 
 interface RecordRow {
   id: number
@@ -185,13 +186,19 @@ export async function submitRecord(ctx: RecordContext, user: User, studyId: numb
   const row = await ensureRecord(db, studyId)
   if (row.status !== 'draft') throw new HttpError(409, `The record is ${row.status.replace('_', ' ')}; that step is not possible now`)
   const content = await assembleRecord(db, studyId, { showNames: row.show_names, version: row.version })
-  const quantities = content.quantities as { finalPrior: unknown; leftOut: unknown; name: string }[]
+  const quantities = content.quantities
   const included = quantities.filter((q) => !q.leftOut)
   const missing = included.filter((q) => !q.finalPrior).map((q) => q.name)
   if (quantities.length === 0) throw new HttpError(400, 'The study has no quantities yet')
   if (included.length === 0) throw new HttpError(400, 'Every quantity is left out; a record needs at least one final prior', { quantities: 'Put at least one quantity back into the record' })
   if (missing.length) {
     throw new HttpError(400, `Reconcile each quantity or leave it out with a reason: ${missing.join(', ')}`, { quantities: `Not reconciled and not left out: ${missing.join(', ')}` })
+  }
+  const unanalysed = included.filter((q) => !q.impact && !q.impactNotRunReason).map((q) => q.name)
+  if (unanalysed.length) {
+    throw new HttpError(400, `No impact analysis of the final prior: ${unanalysed.join(', ')}`, {
+      impact: `Run an impact analysis of the final prior, or record why none was run: ${unanalysed.join(', ')}`,
+    })
   }
   const comments = await db('record_comments').where({ record_id: row.id }).select('id', 'kind', 'reply_to')
   const open = openReturnComments(comments)
@@ -203,12 +210,15 @@ export async function submitRecord(ctx: RecordContext, user: User, studyId: numb
 
   const hash = contentHash(content)
   const outboxIds = await db.transaction(async (trx) => {
+    // The row lock waits for a chart being stored, so the charts named in the event are the ones the record keeps.
+    await trx('prior_records').where({ id: row.id }).forUpdate().first('id')
+    const charts = Object.fromEntries((await trx('record_charts').where({ record_id: row.id }).orderBy('symbol').select('symbol', 'png')).map((c) => [c.symbol, sha256(c.png)]))
     for (const c of open) {
       const a = answers.get(c.id)!
       await trx('record_comments').insert({ record_id: row.id, section: 'Response', body: a.reply, author_id: user.id, kind: 'response', reply_to: c.id, outcome: a.outcome })
     }
     await transition(trx, row, ['draft'], { status: 'in_review', content: JSON.stringify(content), content_hash: hash, submitted_at: trx.fn.now(), submitted_by: user.id })
-    await recordAudit(trx, { actorId: user.id, studyId, action: 'record.submit', subject: `record:v${row.version}`, details: { contentHash: hash, answeredComments: open.map((c) => c.id) } })
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'record.submit', subject: `record:v${row.version}`, details: { contentHash: hash, answeredComments: open.map((c) => c.id), charts } })
     const facts = await recordMailFacts(trx, ctx, studyId, row, user)
     return mailMembers(trx, studyId, 'reviewer', 'record-submitted', (name) => recordSubmittedMessage({ ...facts, recipientName: name }))
   })
@@ -241,15 +251,16 @@ export async function addComment(db: Db, user: User, studyId: number, section: s
 
 /**
  * in review → signed off, by a reviewer member only. The time is stamped and the audit chain's head recorded,
- * so the record shows the prior was fixed before any later data were seen.
+ * so the record shows the prior was fixed before any later data were seen. One transaction under the record's row
+ * lock: of several simultaneous sign-offs one passes, and the others see a signed-off record and leave no event.
  */
 export async function signOffRecord(ctx: RecordContext, user: User, studyId: number) {
   const { db } = ctx
-  const row = await ensureRecord(db, studyId)
-  if (row.status !== 'in_review') throw new HttpError(409, 'Only a record in review can be signed off')
-  const check = contentHash(row.content)
-  if (check !== row.content_hash) throw new HttpError(409, 'The stored snapshot does not match its hash; it has been altered')
+  const { id } = await ensureRecord(db, studyId)
   const outboxIds = await db.transaction(async (trx) => {
+    const row: RecordRow = await trx('prior_records').where({ id }).forUpdate().first()
+    if (row.status !== 'in_review') throw new HttpError(409, 'Only a record in review can be signed off')
+    if (contentHash(row.content) !== row.content_hash) throw new HttpError(409, 'The stored snapshot does not match its hash; it has been altered')
     await recordAudit(trx, { actorId: user.id, studyId, action: 'record.sign-off', subject: `record:v${row.version}`, details: { contentHash: row.content_hash } })
     const head = (await trx('audit_events').orderBy('id', 'desc').first('hash')).hash
     await transition(trx, row, ['in_review'], { status: 'signed_off', signed_off_at: trx.fn.now(), signed_off_by: user.id, audit_head: head })
@@ -269,10 +280,22 @@ export async function newVersion(db: Db, user: User, studyId: number) {
   })
 }
 
-export async function saveChart(db: Db, studyId: number, symbol: string, png: Buffer) {
-  const row = await ensureRecord(db, studyId)
-  if (row.status === 'signed_off') throw new HttpError(409, 'A signed-off record cannot change')
-  await db('record_charts').insert({ record_id: row.id, symbol, png }).onConflict(['record_id', 'symbol']).merge(['png', 'created_at'])
+/**
+ * A draft's density chart for the .docx, stored by the analyst with an audit event naming its SHA-256 (the same
+ * picture sent again changes nothing). Once submitted, the charts stay as they were: reviewers read what was sent.
+ */
+export async function saveChart(db: Db, user: User, studyId: number, symbol: string, png: Buffer) {
+  const { id } = await ensureRecord(db, studyId)
+  await db.transaction(async (trx) => {
+    const row: RecordRow = await trx('prior_records').where({ id }).forUpdate().first()
+    if (row.status === 'signed_off') throw new HttpError(409, 'A signed-off record cannot change')
+    if (row.status === 'in_review') throw new HttpError(409, 'The record is in review; its charts were fixed when it was submitted. Return it to draft to change them.')
+    const digest = sha256(png)
+    const stored = await trx('record_charts').where({ record_id: id, symbol }).first('png')
+    if (stored && sha256(stored.png) === digest) return
+    await trx('record_charts').insert({ record_id: id, symbol, png }).onConflict(['record_id', 'symbol']).merge(['png', 'created_at'])
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'record.chart', subject: `record:v${row.version}`, details: { symbol, sha256: digest } })
+  })
 }
 
 /** The content and charts an export needs, for the latest or a given version. */

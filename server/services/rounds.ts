@@ -6,6 +6,7 @@ import { HttpError } from '../http/errors'
 import type { StudyAccess } from './access'
 import { recordAudit } from './audit'
 import { studyExpertLabels } from './expert-labels'
+import { followQuantities } from './round-status'
 import { supportOf, type Support } from './quantities'
 import { sendPanelInvitation, sendReminder } from './notify'
 
@@ -107,6 +108,12 @@ export async function roundRow(db: Db, id: number): Promise<RoundRow> {
   return row
 }
 
+/** An expert opens a round only when on its panel and once it has left draft; everything else answers 403. */
+export async function assertExpertOpens(db: Db, user: User, round: Pick<RoundRow, 'id' | 'status'>) {
+  const me = await db('round_panel').where({ round_id: round.id, user_id: user.id }).first('id')
+  if (!me || round.status === 'draft') throw new HttpError(403, 'You are not on the panel of this round')
+}
+
 /** A round as its reader may see it: analysts and reviewers get the panel; an expert only their own entry. */
 export async function getRound(db: Db, access: StudyAccess, id: number) {
   const r = await roundRow(db, id)
@@ -114,10 +121,7 @@ export async function getRound(db: Db, access: StudyAccess, id: number) {
     .select('i.*', 'q.name', 'q.symbol', 'q.unit', 'q.question', 'q.support_kind', 'q.support_lower', 'q.support_upper', 'q.assumptions', 'q.evidence_notes')
     .orderBy('i.position')
   const isExpert = access.role === 'expert'
-  if (isExpert) {
-    const me = await db('round_panel').where({ round_id: id, user_id: access.user.id }).first('id')
-    if (!me || r.status === 'draft') throw new HttpError(403, 'You are not on the panel of this round')
-  }
+  if (isExpert) await assertExpertOpens(db, access.user, r)
   const panel = isExpert ? [] : await panelOf(db, id)
   const files = await db('evidence_files').whereIn('quantity_id', items.map((i) => i.quantity_id)).select('id', 'quantity_id', 'filename', 'mime_type', 'size_bytes').orderBy('id')
   return {
@@ -193,10 +197,11 @@ export async function listRounds(db: Db, access: StudyAccess) {
   }))
 }
 
-/** Rounds the signed-in expert is on, across studies, for their start page. */
+/** Rounds the signed-in expert is on, across studies, for their start page: only of studies they are still an expert of. */
 export async function listMyRounds(db: Db, user: User) {
   const rows = await db('round_panel as p').join('rounds as r', 'r.id', 'p.round_id').join('studies as s', 's.id', 'r.study_id')
-    .where('p.user_id', user.id).whereNot('r.status', 'draft')
+    .join('study_members as m', (j) => j.on('m.study_id', '=', 'r.study_id').andOn('m.user_id', '=', 'p.user_id'))
+    .where('p.user_id', user.id).where('m.study_role', 'expert').whereNot('r.status', 'draft')
     .select('r.id', 'r.title', 'r.status', 'r.opens_at', 'r.closes_at', 's.id as study_id', 's.title as study_title', 'p.submitted_at')
     .orderBy('r.closes_at')
   return rows.map((r) => ({ id: r.id, title: r.title, status: r.status, opensAt: r.opens_at.toISOString(), closesAt: r.closes_at.toISOString(), studyId: r.study_id, studyTitle: r.study_title, submittedAt: iso(r.submitted_at) }))
@@ -266,8 +271,11 @@ export async function openRound(ctx: AppContext, user: User, id: number) {
 export async function closeRound(db: Db, user: User, id: number) {
   const r = await roundRow(db, id)
   if (r.status !== 'open') throw new HttpError(409, r.status === 'draft' ? 'The round has not been opened' : `The round is already ${r.status}`)
-  await db('rounds').where({ id }).update({ status: 'closed', closed_at: db.fn.now(), version: db.raw('version + 1'), updated_at: db.fn.now() })
-  await recordAudit(db, { actorId: user.id, studyId: r.study_id, action: 'round.close', subject: `round:${id}`, details: { early: r.closes_at.getTime() > Date.now() } })
+  await db.transaction(async (trx) => {
+    await trx('rounds').where({ id }).update({ status: 'closed', closed_at: trx.fn.now(), version: trx.raw('version + 1'), updated_at: trx.fn.now() })
+    await recordAudit(trx, { actorId: user.id, studyId: r.study_id, action: 'round.close', subject: `round:${id}`, details: { early: r.closes_at.getTime() > Date.now() } })
+    await followQuantities(trx, user.id, { roundIds: [id] })
+  })
 }
 
 /** Adds an expert to the panel by e-mail. When the round is open they are notified at once. */
@@ -283,6 +291,9 @@ export async function addPanelMember(ctx: AppContext, user: User, roundId: numbe
   const outboxIds = await db.transaction(async (trx) => {
     const [member] = await trx('round_panel').insert({ round_id: roundId, email, name: account?.display_name ?? body.name, user_id: account?.id ?? null }).returning('*')
     if (account) {
+      // Held until commit, so an admin's change of this account's role waits and then sees the new membership.
+      const held = await trx('users').where({ id: account.id }).forShare().first('role')
+      if (held.role !== 'expert') throw new HttpError(400, `This address belongs to a ${held.role} account`, { email: 'Only expert accounts can sit on a panel' })
       await trx('study_members').insert({ study_id: r.study_id, user_id: account.id, study_role: 'expert' }).onConflict(['study_id', 'user_id']).ignore()
     }
     return r.status === 'open' ? [await sendPanelInvitation(trx, ctx, user, r, member)] : []
@@ -351,9 +362,13 @@ export async function roundProgress(db: Db, roundId: number) {
 /** Sends due reminders and closes rounds past their closing time; safe to run from several instances. */
 export async function runRoundSchedule(ctx: AppContext, now = new Date()) {
   const { db } = ctx
-  const closed = await db('rounds').where('status', 'open').where('closes_at', '<=', now)
-    .update({ status: 'closed', closed_at: now, version: db.raw('version + 1'), updated_at: now }).returning(['id', 'study_id'])
-  for (const r of closed) await recordAudit(db, { actorId: null, studyId: r.study_id, action: 'round.close', subject: `round:${r.id}`, details: { automatic: true } })
+  const closed = await db.transaction(async (trx) => {
+    const rows = await trx('rounds').where('status', 'open').where('closes_at', '<=', now)
+      .update({ status: 'closed', closed_at: now, version: trx.raw('version + 1'), updated_at: now }).returning(['id', 'study_id'])
+    for (const r of rows) await recordAudit(trx, { actorId: null, studyId: r.study_id, action: 'round.close', subject: `round:${r.id}`, details: { automatic: true } })
+    if (rows.length) await followQuantities(trx, null, { roundIds: rows.map((r) => r.id) })
+    return rows
+  })
 
   const outboxIds: number[] = []
   const reminded: { id: number; study_id: number; count: number }[] = []

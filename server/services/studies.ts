@@ -1,4 +1,5 @@
-import type { StudyRole, StudySummary, User } from '../../shared/types/index'
+import type { Knex } from 'knex'
+import type { Role, StudyRole, StudySummary, User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import { recordAudit } from './audit'
@@ -106,25 +107,52 @@ export async function updateStudy(db: Db, user: User, id: number, body: { title:
   return getStudySummary(db, user, id)
 }
 
-export async function addMember(db: Db, actor: User, studyId: number, userId: number, studyRole: StudyRole) {
-  const target = await db('users').where({ id: userId }).first('id', 'role', 'disabled')
-  if (!target) throw new HttpError(400, 'Choose an existing user', { userId: 'No such user' })
-  if (target.disabled) throw new HttpError(400, 'This account is disabled', { userId: 'This account is disabled' })
-  const allowed: Record<StudyRole, string[]> = { analyst: ['analyst', 'admin'], expert: ['expert'], reviewer: ['reviewer', 'analyst', 'admin'] }
-  if (!allowed[studyRole].includes(target.role)) {
-    throw new HttpError(400, `A ${target.role} account cannot be this study's ${studyRole}`, { studyRole: `Not for a ${target.role} account` })
+/** Which account roles may hold each study role: the rule for adding a member and for changing an account's role. */
+export const ACCOUNT_ROLES_FOR: Record<StudyRole, readonly Role[]> = { analyst: ['analyst', 'admin'], expert: ['expert'], reviewer: ['reviewer', 'analyst', 'admin'] }
+
+/**
+ * Takes the study's row lock (membership changes of one study run one at a time) and refuses a change that would
+ * take the owner out of the analyst role or leave the study without an analyst. `next` null is a removal.
+ */
+async function guardMembershipChange(trx: Knex.Transaction, studyId: number, userId: number, next: StudyRole | null) {
+  const study = await trx('studies').where({ id: studyId }).forUpdate().first('owner_id')
+  if (!study) throw new HttpError(404, 'Study not found')
+  if (next === 'analyst') return
+  if (study.owner_id === userId) {
+    if (next === null) throw new HttpError(400, 'The study owner cannot be removed')
+    throw new HttpError(400, 'The study’s owner stays its analyst', { studyRole: 'The study’s owner stays its analyst' })
   }
-  const before = await db('study_members').where({ study_id: studyId, user_id: userId }).first('study_role')
-  await db('study_members').insert({ study_id: studyId, user_id: userId, study_role: studyRole }).onConflict(['study_id', 'user_id']).merge(['study_role'])
-  await recordAudit(db, { actorId: actor.id, studyId, action: 'study.member', subject: `user:${userId}`, details: { before: before?.study_role ?? null, after: studyRole } })
+  const current = await trx('study_members').where({ study_id: studyId, user_id: userId }).first('study_role')
+  if (current?.study_role !== 'analyst') return
+  const [{ others }] = await trx('study_members').where({ study_id: studyId, study_role: 'analyst' }).whereNot({ user_id: userId }).count('* as others')
+  if (Number(others) === 0) {
+    throw new HttpError(400, 'A study needs at least one analyst; add another analyst first', next === null ? undefined : { studyRole: 'The study’s last analyst stays one' })
+  }
+}
+
+export async function addMember(db: Db, actor: User, studyId: number, userId: number, studyRole: StudyRole) {
+  await db.transaction(async (trx) => {
+    // The account's row is held (shared) until commit, so an admin's role change cannot slip in between.
+    const target = await trx('users').where({ id: userId }).forShare().first('id', 'role', 'disabled')
+    if (!target) throw new HttpError(400, 'Choose an existing user', { userId: 'No such user' })
+    if (target.disabled) throw new HttpError(400, 'This account is disabled', { userId: 'This account is disabled' })
+    if (!ACCOUNT_ROLES_FOR[studyRole].includes(target.role)) {
+      throw new HttpError(400, `A ${target.role} account cannot be this study's ${studyRole}`, { studyRole: `Not for a ${target.role} account` })
+    }
+    await guardMembershipChange(trx, studyId, userId, studyRole)
+    const before = await trx('study_members').where({ study_id: studyId, user_id: userId }).first('study_role')
+    await trx('study_members').insert({ study_id: studyId, user_id: userId, study_role: studyRole }).onConflict(['study_id', 'user_id']).merge(['study_role'])
+    await recordAudit(trx, { actorId: actor.id, studyId, action: 'study.member', subject: `user:${userId}`, details: { before: before?.study_role ?? null, after: studyRole } })
+  })
 }
 
 export async function removeMember(db: Db, actor: User, studyId: number, userId: number) {
-  const study = await db('studies').where({ id: studyId }).first('owner_id')
-  if (study?.owner_id === userId) throw new HttpError(400, 'The study owner cannot be removed')
-  const n = await db('study_members').where({ study_id: studyId, user_id: userId }).delete()
-  if (n === 0) throw new HttpError(404, 'Not a member of this study')
-  await recordAudit(db, { actorId: actor.id, studyId, action: 'study.member-remove', subject: `user:${userId}` })
+  await db.transaction(async (trx) => {
+    await guardMembershipChange(trx, studyId, userId, null)
+    const n = await trx('study_members').where({ study_id: studyId, user_id: userId }).delete()
+    if (n === 0) throw new HttpError(404, 'Not a member of this study')
+    await recordAudit(trx, { actorId: actor.id, studyId, action: 'study.member-remove', subject: `user:${userId}` })
+  })
 }
 
 /** The study's audit trail, newest first. */

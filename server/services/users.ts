@@ -1,7 +1,8 @@
 import bcrypt from 'bcryptjs'
-import type { Role, User } from '../../shared/types/index'
+import type { Role, StudyRole, User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
+import { ACCOUNT_ROLES_FOR } from './studies'
 
 interface UserRow {
   id: number
@@ -60,12 +61,36 @@ export async function createUser(db: Db, input: { email: string; displayName: st
   return toUser(row)
 }
 
+const article = (word: string) => (/^[aeiou]/.test(word) ? `an ${word}` : `a ${word}`)
+const listed = (items: string[]) => (items.length < 2 ? items.join('') : `${items.slice(0, -1).join(', ')} and ${items.at(-1)}`)
+
+/**
+ * Study powers live in study memberships, so an account's role may change only to one that can hold every membership
+ * the account has (the rule that admits members): otherwise 409 naming the studies, and nothing changes. The account's
+ * row stays locked until commit, so a membership added at the same moment waits and is checked against the new role.
+ */
 export async function updateUser(db: Db, id: number, patch: { displayName?: string; role?: Role; disabled?: boolean }): Promise<User> {
-  const changes: Record<string, unknown> = { updated_at: db.fn.now() }
-  if (patch.displayName !== undefined) changes.display_name = patch.displayName
-  if (patch.role !== undefined) changes.role = patch.role
-  if (patch.disabled !== undefined) changes.disabled = patch.disabled
-  const [row] = await db<UserRow>('users').where({ id }).update(changes).returning('*')
-  if (!row) throw new HttpError(404, 'User not found')
-  return toUser(row)
+  return db.transaction(async (trx) => {
+    const current = await trx<UserRow>('users').where({ id }).forUpdate().first()
+    if (!current) throw new HttpError(404, 'User not found')
+    if (patch.role !== undefined && patch.role !== current.role) {
+      const memberships: { title: string; study_role: StudyRole }[] = await trx('study_members as m').join('studies as s', 's.id', 'm.study_id')
+        .where('m.user_id', id).orderBy('s.id').select('s.title', 'm.study_role')
+      const clashes = memberships.filter((m) => !ACCOUNT_ROLES_FOR[m.study_role].includes(patch.role!))
+      if (clashes.length) {
+        const many = clashes.length > 1
+        throw new HttpError(
+          409,
+          `${current.display_name} is ${listed(clashes.map((m) => `${m.study_role} of “${m.title}”`))}; ${article(patch.role)} account cannot hold ${many ? 'these study roles' : 'this study role'}. Remove them from ${many ? 'these studies' : 'this study'} first.`,
+          { role: `Remove them from ${clashes.map((m) => m.title).join(', ')} first` },
+        )
+      }
+    }
+    const changes: Record<string, unknown> = { updated_at: trx.fn.now() }
+    if (patch.displayName !== undefined) changes.display_name = patch.displayName
+    if (patch.role !== undefined) changes.role = patch.role
+    if (patch.disabled !== undefined) changes.disabled = patch.disabled
+    const [row] = await trx<UserRow>('users').where({ id }).update(changes).returning('*')
+    return toUser(row)
+  })
 }

@@ -1,9 +1,9 @@
 import {
-  analyzePrior, bayesFactor, cdf as cdfOf, mean as distMean, posteriorOf, PRIOR_DRIVEN_RULE, quantile, widthSweep,
+  analyzePrior, bayesFactor, cdf as cdfOf, decimalSum, mean as distMean, posteriorOf, PRIOR_DRIVEN_RULE, quantile, widthSweep,
   type Analysis, type PilotData, type Posterior, type PriorDistribution, type Support,
 } from '../stats/index'
 
-/** Width factors k of the sweep (DESIGN.md: 0.25 to 8), evenly spaced on a log scale. */
+/** Width factors k of the sweep (0.25 to 8; docs/methods/width-sweep.md), evenly spaced on a log scale. */
 export const SWEEP_FACTORS = [0.25, 0.35, 0.5, 0.71, 1, 1.41, 2, 2.83, 4, 5.66, 8]
 
 export interface CandidateInput {
@@ -104,7 +104,7 @@ export function dataSize(data: PilotData): number {
     case 'binomial':
       return data.trials
     case 'poisson':
-      return data.exposures.reduce((s, e) => s + e, 0)
+      return decimalSum(data.exposures)
   }
 }
 

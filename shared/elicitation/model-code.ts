@@ -91,8 +91,8 @@ function scaledFrom(code: string, a: number, b: number): Distribution {
 }
 
 /**
- * Reads a generated line back the way that language defines its arguments (same sources as modelCode) and returns
- * the distribution it means — so a test or the app can confirm the line states the intended prior.
+ * Priorsmith's own reader of a generated line: applies the language's documented parameterisation (same sources as
+ * modelCode; docs/methods/model-code.md) and returns the distribution the line means. It does not run the language.
  */
 export function readModelCode(code: string, language: ModelLanguage, family: Distribution['family']): Distribution {
   if (language === 'stan' || language === 'brms') {
@@ -132,16 +132,25 @@ export function readModelCode(code: string, language: ModelLanguage, family: Dis
   }
 }
 
-/** Every language's line for a prior, with the read-back check: do its 5/50/95 % quantiles match to 1e-6? */
+/**
+ * The read-back check of one line: Priorsmith's reader (readModelCode, the language's documented parameterisation; the
+ * language itself is not run) gives a distribution whose 5/50/95 % quantiles must match the prior's to 1e-6 relative.
+ */
+export function checkModelLineQuantiles(code: string, language: ModelLanguage, d: Distribution, quantileOf: (d: Distribution, p: number) => number) {
+  const back = readModelCode(code, language, d.family)
+  const diffs = [0.05, 0.5, 0.95].map((p) => {
+    const want = quantileOf(d, p)
+    return Math.abs(quantileOf(back, p) - want) / Math.max(1, Math.abs(want))
+  })
+  const worst = diffs.some((x) => !Number.isFinite(x)) ? Infinity : Math.max(...diffs)
+  return { maxRelativeDifference: worst, ok: worst <= 1e-6 }
+}
+
+/** Every language's line for a prior, with the read-back check of checkModelLineQuantiles. */
 export function modelCodeWithCheck(d: Distribution, symbol: string, quantileOf: (d: Distribution, p: number) => number) {
   return MODEL_LANGUAGES.map((language) => {
     const code = modelCode(d, symbol, language)
     if (language === 'brms' && d.family === 'scaled-beta') return { language, code, check: null }
-    const back = readModelCode(code, language, d.family)
-    const diffs = [0.05, 0.5, 0.95].map((p) => {
-      const want = quantileOf(d, p)
-      return Math.abs(quantileOf(back, p) - want) / Math.max(1, Math.abs(want))
-    })
-    return { language, code, check: { maxRelativeDifference: Math.max(...diffs), ok: Math.max(...diffs) <= 1e-6 } }
+    return { language, code, check: checkModelLineQuantiles(code, language, d, quantileOf) }
   })
 }

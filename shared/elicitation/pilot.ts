@@ -1,4 +1,4 @@
-import type { PilotData, PriorDistribution } from '../stats/index'
+import { decimalSum, type PilotData, type PriorDistribution } from '../stats/index'
 
 export const PILOT_MODELS = ['normal-known-sigma', 'normal', 'binomial', 'poisson'] as const
 export type PilotModel = (typeof PILOT_MODELS)[number]
@@ -21,7 +21,7 @@ export type PilotMapping =
 
 /** A problem in the file, located for the person who has to fix it. */
 export class PilotDataError extends Error {
-  constructor(message: string, public line: number | null = null, public column: string | null = null) {
+  constructor(message: string, public line: number | null = null, public column: string | null = null, public columnNumber: number | null = null) {
     super(line !== null ? `Line ${line}${column ? `, column "${column}"` : ''}: ${message}` : message)
   }
 }
@@ -47,33 +47,36 @@ function columnIndex(header: string[], name: string): number {
 
 function numberAt(row: string[], col: number, line: number, name: string, rule: 'real' | 'count' | 'positive' | 'binary'): number {
   const raw = (row[col] ?? '').trim()
-  if (raw === '') throw new PilotDataError('the cell is empty; expected a number', line, name)
+  const refuse = (message: string) => new PilotDataError(message, line, name, col + 1)
+  if (raw === '') throw refuse('the cell is empty; expected a number')
   const v = Number(raw)
-  if (!Number.isFinite(v)) throw new PilotDataError(`expected a number, found "${raw.slice(0, 40)}"`, line, name)
-  if (rule === 'count' && !(Number.isInteger(v) && v >= 0)) throw new PilotDataError(`expected a whole number 0 or more, found "${raw}"`, line, name)
-  if (rule === 'positive' && !(v > 0)) throw new PilotDataError(`expected a number above 0, found "${raw}"`, line, name)
-  if (rule === 'binary' && v !== 0 && v !== 1) throw new PilotDataError(`expected 0 or 1, found "${raw}"`, line, name)
+  if (!Number.isFinite(v)) throw refuse(`expected a number, found "${raw.slice(0, 40)}"`)
+  if (rule === 'count' && !(Number.isInteger(v) && v >= 0)) throw refuse(`expected a whole number 0 or more, found "${raw}"`)
+  if (rule === 'positive' && !(v > 0)) throw refuse(`expected a number above 0, found "${raw}"`)
+  if (rule === 'binary' && v !== 0 && v !== 1) throw refuse(`expected 0 or 1, found "${raw}"`)
   return v
 }
 
 /**
  * Turns parsed CSV rows (first row the header) into the engine's pilot data for the chosen model,
- * with a located message for the first bad cell. Blank trailing lines are ignored.
+ * with a located message for the first bad cell. Blank lines are ignored; `fileLines` gives the file line
+ * each row of `table` starts on (a quoted value may span lines), else rows are taken as consecutive lines.
  */
-export function extractPilotData(table: string[][], mapping: PilotMapping): { data: PilotData; summary: PilotSummary } {
-  const rows = table.filter((r) => r.some((c) => c.trim() !== ''))
+export function extractPilotData(table: string[][], mapping: PilotMapping, fileLines?: number[]): { data: PilotData; summary: PilotSummary } {
+  const kept = table.map((r, i) => ({ r, line: fileLines?.[i] ?? i + 1 })).filter(({ r }) => r.some((c) => c.trim() !== ''))
+  const rows = kept.map((k) => k.r)
   if (rows.length === 0) throw new PilotDataError('The file is empty.')
   const [header, ...body] = rows
   const names = header.map((h) => h.trim())
   if (body.length === 0) throw new PilotDataError('The file has a header but no data rows.', 2)
   if (body.length > PILOT_MAX_ROWS) throw new PilotDataError(`The file has ${body.length} data rows; at most ${PILOT_MAX_ROWS} are accepted.`)
-  const line = (i: number) => i + 2
+  const line = (i: number) => kept[i + 1].line
   switch (mapping.model) {
     case 'normal-known-sigma':
     case 'normal': {
       const c = columnIndex(names, mapping.valueColumn)
       const values = body.map((r, i) => numberAt(r, c, line(i), mapping.valueColumn, 'real'))
-      const mean = values.reduce((s, v) => s + v, 0) / values.length
+      const mean = decimalSum(values) / values.length
       const data: PilotData = mapping.model === 'normal-known-sigma'
         ? { model: 'normal-known-sigma', sigma: mapping.sigma, values }
         : { model: 'normal', values, sigmaPrior: mapping.sigmaPrior }
@@ -84,21 +87,25 @@ export function extractPilotData(table: string[][], mapping: PilotMapping): { da
         const c = columnIndex(names, mapping.binaryColumn)
         const ys = body.map((r, i) => numberAt(r, c, line(i), mapping.binaryColumn, 'binary'))
         const successes = ys.reduce((s, v) => s + v, 0)
-        return { data: { model: 'binomial', successes, trials: ys.length }, summary: { rows: ys.length, n: ys.length, description: `${successes} of ${ys.length}` } }
+        const rows = { successes: ys, trials: ys.map(() => 1) }
+        return { data: { model: 'binomial', successes, trials: ys.length, rows }, summary: { rows: ys.length, n: ys.length, description: `${successes} of ${ys.length}` } }
       }
       const cs = columnIndex(names, mapping.successesColumn)
       const ct = columnIndex(names, mapping.trialsColumn)
       let successes = 0
       let trials = 0
+      const rows = { successes: [] as number[], trials: [] as number[] }
       body.forEach((r, i) => {
         const s = numberAt(r, cs, line(i), mapping.successesColumn, 'count')
         const t = numberAt(r, ct, line(i), mapping.trialsColumn, 'count')
-        if (s > t) throw new PilotDataError(`${s} successes is more than the ${t} trials on this line`, line(i), mapping.successesColumn)
+        if (s > t) throw new PilotDataError(`${s} successes is more than the ${t} trials on this line`, line(i), mapping.successesColumn, cs + 1)
         successes += s
         trials += t
+        rows.successes.push(s)
+        rows.trials.push(t)
       })
       if (trials === 0) throw new PilotDataError('The trials add up to 0; there is nothing to learn from.')
-      return { data: { model: 'binomial', successes, trials }, summary: { rows: body.length, n: trials, description: `${successes} of ${trials}` } }
+      return { data: { model: 'binomial', successes, trials, rows }, summary: { rows: body.length, n: trials, description: `${successes} of ${trials}` } }
     }
     case 'poisson': {
       const cc = columnIndex(names, mapping.countColumn)
@@ -106,8 +113,8 @@ export function extractPilotData(table: string[][], mapping: PilotMapping): { da
       const counts = body.map((r, i) => numberAt(r, cc, line(i), mapping.countColumn, 'count'))
       const exposures = body.map((r, i) => numberAt(r, ce, line(i), mapping.exposureColumn, 'positive'))
       const total = counts.reduce((s, v) => s + v, 0)
-      const exposure = exposures.reduce((s, v) => s + v, 0)
-      return { data: { model: 'poisson', counts, exposures }, summary: { rows: counts.length, n: exposure, description: `${total} events over ${exposure.toPrecision(4)} exposure units` } }
+      const exposure = decimalSum(exposures)
+      return { data: { model: 'poisson', counts, exposures }, summary: { rows: counts.length, n: exposure, description: `${total} events over ${exposure} exposure units` } }
     }
   }
 }

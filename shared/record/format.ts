@@ -80,9 +80,9 @@ export function answerText(method: string, answer: ElicitedAnswer | null | undef
 
 /** Caution flags of a candidate prior, in words. */
 export const FLAG_LABELS: Record<string, string> = {
-  'prior-dominates': 'Prior dominates the data (prior ESS larger than n)',
-  'prior-data-conflict': 'Prior–data conflict (Box p < 0.05)',
-  'prior-driven-bayes-factor': 'Bayes factor driven by the prior’s width',
+  'prior-dominates': 'Prior dominates the data (prior ESS larger than n; Priorsmith’s rule of thumb)',
+  'prior-data-conflict': 'Prior–data conflict (Box p < 0.05, the customary level)',
+  'prior-driven-bayes-factor': 'Bayes factor driven by the prior’s width (Priorsmith’s rule of thumb)',
 }
 
 export const flagLabel = (flag: string): string => FLAG_LABELS[flag] ?? humanise(flag)

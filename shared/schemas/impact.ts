@@ -16,3 +16,8 @@ export const impactSchema = object({
   }).nullable().default(null),
   factors: array(number().required().moreThan(0, 'Width factors must be positive').max(100)).min(3).max(60).optional(),
 }).noUnknown('Unknown field: ${unknown}')
+
+/** Why the final prior goes into the record without an impact analysis (for example: no pilot data exist). */
+export const impactNotRunSchema = object({
+  reason: string().typeError('Must be text').trim().required('Say why no impact analysis was run').min(20, 'Explain in at least 20 characters; it goes into the prior record').max(2000, 'Use at most 2000 characters'),
+}).noUnknown('Unknown field: ${unknown}')

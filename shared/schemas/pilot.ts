@@ -1,4 +1,4 @@
-import { mixed, number, object, string } from 'yup'
+import { boolean, mixed, number, object, string } from 'yup'
 import { PILOT_MODELS } from '../elicitation/pilot'
 
 const column = (label: string) => string().trim().required(`Choose the ${label} column`).max(200)
@@ -22,4 +22,6 @@ export const pilotUploadSchema = object({
   countColumn: string().when('model', { is: 'poisson', then: () => column('counts'), otherwise: (s) => s.strip() }),
   exposureColumn: string().when('model', { is: 'poisson', then: () => column('exposure'), otherwise: (s) => s.strip() }),
   delimiter: mixed<',' | ';' | '\t'>().oneOf([',', ';', '\t'], 'Choose comma, semicolon or tab').default(','),
+  /** Store the file even when the same file (same SHA-256) is already a version of this quantity's pilot data. */
+  allowDuplicate: boolean().typeError('Must be true or false').default(false),
 }).noUnknown('Unknown field: ${unknown}')

@@ -50,4 +50,13 @@ export const EVIDENCE_TYPES: Record<string, string> = {
   'image/jpeg': 'JPEG image',
 }
 export const EVIDENCE_MAX_BYTES = 5 * 1024 * 1024
+/** The name endings each evidence type is stored and served under (the first is the one added when missing). */
+export const EVIDENCE_EXTENSIONS: Record<string, readonly string[]> = {
+  'application/pdf': ['.pdf'],
+  'text/csv': ['.csv'],
+  'image/png': ['.png'],
+  'image/jpeg': ['.jpg', '.jpeg'],
+}
+/** Whether a file name ends as its content type's files do (case aside). */
+export const nameFitsType = (filename: string, mime: string) => (EVIDENCE_EXTENSIONS[mime] ?? []).some((ext) => filename.toLowerCase().endsWith(ext))
 

@@ -151,6 +151,7 @@ function validateData(prior: PriorDistribution, data: PilotData): void {
       if (!Number.isInteger(data.trials) || data.trials < 1) throw new EngineInputError('trials', 'The number of trials must be a whole number of at least 1.')
       if (!Number.isInteger(data.successes) || data.successes < 0) throw new EngineInputError('successes', 'The number of successes must be a whole number, 0 or more.')
       if (data.successes > data.trials) throw new EngineInputError('successes', 'There cannot be more successes than trials.')
+      if (data.rows !== undefined) validateBinomialRows(data.rows, data.successes, data.trials)
       requireSupportWithin(prior, 0, 1, 'prior', 'probabilities in [0, 1]')
       return
     case 'poisson':
@@ -239,7 +240,7 @@ function posteriorFromIntegral(li: LogIntegral, scale: PriorScale): PosteriorPar
 
 type Conditional = { logEvidence: number; closed: boolean; posterior: () => PosteriorParts }
 
-/** Marginal likelihood and posterior of μ for normal data with known σ (BDA3 §2.5; REFERENCE §4.1–4.2). */
+/** Marginal likelihood and posterior of μ for normal data with known σ (BDA3 §2.5; docs/methods/evidence.md). */
 function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: number, force: boolean): Conditional {
   const { n, mean: xbar, ss } = st
   const se = sigma / Math.sqrt(n)
@@ -284,7 +285,7 @@ function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: numb
 
 // ─── Normal data with unknown σ ──────────────────────────────────────────────────────────────────
 
-/** μ and σ independent a priori: μ integrated out for each σ (closed form for normal and uniform priors), then σ by quadrature on ln σ (REFERENCE §9). */
+/** μ and σ independent a priori: μ integrated out for each σ (closed form for normal and uniform priors), then σ by quadrature on ln σ (docs/methods/evidence.md). */
 function normalUnknownSigma(prior: PriorDistribution, st: NormalStats, sigmaPrior: PriorDistribution, force: boolean) {
   const sScale = priorScale(sigmaPrior)
   const cache = new Map<number, Conditional>()
@@ -476,6 +477,26 @@ function lchoose(n: number, k: number): number {
   return lgamma(n + 1) - lgamma(k + 1) - lgamma(n - k + 1)
 }
 
+function validateBinomialRows(rows: { successes: number[]; trials: number[] }, successes: number, trials: number): void {
+  const { successes: ys, trials: ns } = rows ?? ({} as typeof rows)
+  if (!Array.isArray(ys) || !Array.isArray(ns) || ys.length === 0 || ys.length !== ns.length) throw new EngineInputError('rows', 'Give one number of successes and one of trials per row.')
+  ys.forEach((y, i) => {
+    const n = ns[i]
+    if (!Number.isInteger(n) || n < 0 || !Number.isInteger(y) || y < 0 || y > n) throw new EngineInputError('rows', `Row ${i + 1} must have whole numbers of successes and trials, the successes no more than the trials.`)
+  })
+  if (ys.reduce((s, y) => s + y, 0) !== successes || ns.reduce((s, n) => s + n, 0) !== trials) throw new EngineInputError('rows', 'The rows do not add up to the totals.')
+}
+
+/**
+ * Log of the constant of the binomial likelihood of the data as recorded: with rows, the product of the per-row
+ * coefficients C(n_i, y_i) (none for a 0/1 column, where every n_i is 1); given as totals only, C(n, y). The factor in
+ * θ is the same either way, so Bayes factors do not change (common practice: independent rows multiply their pmfs).
+ */
+function binomialLogConstant(data: Extract<PilotData, { model: 'binomial' }>): number {
+  if (!data.rows) return lchoose(data.trials, data.successes)
+  return data.rows.successes.reduce((s, y, i) => s + (data.rows!.trials[i] > 1 ? lchoose(data.rows!.trials[i], y) : 0), 0)
+}
+
 function countTailsToP(lower: number, upper: number): number {
   return Math.min(1, 2 * Math.min(lower, upper))
 }
@@ -519,8 +540,9 @@ function binomialIntegral(prior: PriorDistribution, y: number, n: number) {
   return { scale, li, likHint }
 }
 
-function binomialAnalysis(prior: PriorDistribution, y: number, n: number, opts: AnalyzeOptions): Analysis {
-  const constant = lchoose(n, y)
+function binomialAnalysis(prior: PriorDistribution, data: Extract<PilotData, { model: 'binomial' }>, opts: AnalyzeOptions): Analysis {
+  const { successes: y, trials: n } = data
+  const constant = binomialLogConstant(data)
   const asBeta = asStandardBeta(prior)
   if (asBeta && !opts.forceQuadrature) {
     const { a, b } = asBeta
@@ -611,8 +633,8 @@ function summariseDistribution(d: PriorDistribution): PosteriorSummary {
 
 /**
  * Log marginal likelihood (all constants included), posterior summary, Box's prior predictive p-value and prior ESS
- * for one prior and one pilot data set: closed forms for conjugate pairs (BDA3 §2.4–2.6; REFERENCE §4), otherwise
- * adaptive Gauss–Kronrod quadrature in log space (Piessens et al. 1983; REFERENCE §9).
+ * for one prior and one pilot data set: closed forms for conjugate pairs (BDA3 §2.4–2.6; docs/methods/evidence.md), otherwise
+ * adaptive Gauss–Kronrod quadrature in log space (Piessens et al. 1983; docs/methods/evidence.md).
  */
 export function analyzePrior(prior: PriorDistribution, data: PilotData, options: AnalyzeOptions = {}): Analysis {
   validateData(prior, data)
@@ -643,7 +665,7 @@ export function analyzePrior(prior: PriorDistribution, data: PilotData, options:
       }
     }
     case 'binomial':
-      return binomialAnalysis(prior, data.successes, data.trials, options)
+      return binomialAnalysis(prior, data, options)
     case 'poisson':
       return poissonAnalysis(prior, data.counts, data.exposures, options)
   }
@@ -697,7 +719,7 @@ export function boxCheckNormalNormal(values: number[], sigma: number, prior: { m
 }
 
 /**
- * Prior effective sample size (Morita, Thall & Müller 2008; REFERENCE §8): beta a + b (a uniform or scaled beta on [0, 1]
+ * Prior effective sample size (Morita, Thall & Müller 2008; docs/methods/effective-sample-size.md): beta a + b (a uniform or scaled beta on [0, 1]
  * counts as the beta it is), normal mean with known σ σ²/τ², gamma–Poisson the rate b in exposure units; null otherwise.
  */
 export function priorEffectiveSampleSize(prior: PriorDistribution, data: PilotData): number | null {

@@ -36,7 +36,7 @@ interface CdfModel {
   toDistribution(theta: readonly number[]): Distribution
 }
 
-/** Normal distribution through two quantiles: σ = (x₂ − x₁)/(z_{p₂} − z_{p₁}), μ = x₁ − σ z_{p₁} (REFERENCE §1.3). */
+/** Normal distribution through two quantiles: σ = (x₂ − x₁)/(z_{p₂} − z_{p₁}), μ = x₁ − σ z_{p₁} (docs/methods/distributions.md). */
 export function normalFromQuantiles(a: Point, b: Point): Distribution {
   const za = normalQuantile(a.prob)
   const zb = normalQuantile(b.prob)
@@ -44,7 +44,7 @@ export function normalFromQuantiles(a: Point, b: Point): Distribution {
   return { family: 'normal', mu: a.value - sigma * za, sigma }
 }
 
-/** Lognormal through two quantiles: the normal closed form applied to ln x (REFERENCE §1.3). */
+/** Lognormal through two quantiles: the normal closed form applied to ln x (docs/methods/distributions.md). */
 export function lognormalFromQuantiles(a: Point, b: Point): Distribution {
   const za = normalQuantile(a.prob)
   const zb = normalQuantile(b.prob)
@@ -61,7 +61,7 @@ export function studentTFromQuantiles(a: Point, b: Point, df: number): Distribut
   return { family: 'student-t', mu: a.value - sigma * ta, sigma, df }
 }
 
-/** Sum of squared CDF errors Σ wᵢ (F(xᵢ) − pᵢ)², weights 1 when absent (the fitting criterion; Garthwaite, Kadane & O'Hagan 2005). */
+/** Sum of squared CDF errors Σ wᵢ (F(xᵢ) − pᵢ)², weights 1 when absent (Priorsmith's fitting criterion, docs/methods/fitting.md; Garthwaite, Kadane & O'Hagan 2005). */
 export function sumSquaredError(d: Distribution, points: Point[], weights?: readonly number[]): number {
   let s = 0
   points.forEach((pt, i) => {

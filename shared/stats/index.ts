@@ -46,4 +46,6 @@ export {
   type AnalyzeOptions,
 } from './evidence'
 export { bayesFactor, JEFFREYS_SCALE, KASS_RAFTERY_SCALE } from './bayes-factor'
-export { PRIOR_DRIVEN_RULE, scaleSpread, widthSweep } from './sweep'
+export { PRIOR_DRIVEN_CONVENTION, PRIOR_DRIVEN_RULE, scaleSpread, widthSweep } from './sweep'
+export { ENGINE_VERSION } from './version'
+export { decimalSum } from './sum'

@@ -16,7 +16,7 @@ export function normaliseWeights(weights: number[], count: number, field = 'weig
   return weights.map((w) => w / total)
 }
 
-/** p-quantile of a mixture by root finding on Σ w_i F_i(x) = p, bracketed by the component quantiles (REFERENCE §2.1). */
+/** p-quantile of a mixture by root finding on Σ w_i F_i(x) = p, bracketed by the component quantiles (docs/methods/pooling.md). */
 export function mixtureQuantile(components: readonly Pick<Univariate, 'cdf' | 'quantile'>[], weights: readonly number[], p: number): number {
   if (!(p >= 0 && p <= 1)) return NaN
   const active = components.filter((_, i) => weights[i] > 0)
@@ -72,7 +72,7 @@ export function linearPool(components: Distribution[], weights: number[]): Pool 
 
 /**
  * Logarithmic opinion pool f ∝ Π f_i^{w_i} with weights normalised to sum to 1 (Genest & Zidek 1986, §3). Closed forms
- * (REFERENCE §2.2): normals → normal, lognormals → lognormal, gammas → gamma, betas → beta, scaled betas on one range →
+ * (docs/methods/pooling.md): normals → normal, lognormals → lognormal, gammas → gamma, betas → beta, scaled betas on one range →
  * scaled beta, uniforms → uniform on the intersection; other mixes are normalised numerically.
  */
 export function logPool(components: Distribution[], weights: number[]): Pool | Distribution {

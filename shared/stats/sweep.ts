@@ -5,16 +5,22 @@ import { supportBounds, validateSupport } from './points'
 import { findRoot } from './quadrature'
 import type { PilotData, PriorDistribution, SweepPoint, SweepResult, Support } from './types'
 
-/** Plain-words statement of the prior-driven flag, for display beside the sweep. */
-export const PRIOR_DRIVEN_RULE =
-  'A Bayes factor is flagged as prior-driven when multiplying the prior’s spread by any factor between 0.5 and 2 ' +
-  'changes the evidence by more than 3 times (largest divided by smallest) while the posterior mean stays within ' +
-  '0.1 posterior standard deviations of its value at the original width. The data then say nearly the same thing ' +
-  'about the quantity at every width, so the Bayes factor mostly reflects how wide the prior was drawn.'
+/**
+ * Priorsmith's own convention for flagging a Bayes factor as prior-driven (not a published rule; reasoning in
+ * docs/methods/width-sweep.md): the widths from half to double the drawn one, an evidence change of more than 3 times
+ * (a Bayes factor of 3 is where Kass & Raftery's "positive" evidence begins), and a posterior mean steady within 0.1 of its sd.
+ */
+export const PRIOR_DRIVEN_CONVENTION = { fromFactor: 0.5, toFactor: 2, evidenceRatio: 3, meanShiftSds: 0.1 } as const
 
-const SWEEP_RANGE = { from: 0.5, to: 2 }
-const RATIO_THRESHOLD = 3
-const MEAN_SHIFT_SDS = 0.1
+/** Plain-words statement of the prior-driven flag, for display beside the sweep; built from PRIOR_DRIVEN_CONVENTION. */
+export const PRIOR_DRIVEN_RULE =
+  `Priorsmith’s rule of thumb (a convention of this tool, not a published test): a Bayes factor is flagged as prior-driven ` +
+  `when multiplying the prior’s spread by any factor between ${PRIOR_DRIVEN_CONVENTION.fromFactor} and ${PRIOR_DRIVEN_CONVENTION.toFactor} ` +
+  `changes the evidence by more than ${PRIOR_DRIVEN_CONVENTION.evidenceRatio} times (largest divided by smallest) while the posterior mean stays within ` +
+  `${PRIOR_DRIVEN_CONVENTION.meanShiftSds} posterior standard deviations of its value at the original width. The data then say nearly the same thing ` +
+  'about the quantity at every width, so the Bayes factor mostly reflects how wide the prior was drawn. Why these numbers: halving or ' +
+  'doubling a width is a change a reasonable analyst could have made, and a factor of 3 in evidence is about where a Bayes factor ' +
+  'starts to count as positive evidence on the Kass–Raftery scale.'
 
 function betaWithMedian(median: number, concentration: number): { alpha: number; beta: number } {
   const logit = (p: number): number => Math.log(p / (1 - p))
@@ -100,14 +106,14 @@ export function widthSweep(prior: PriorDistribution, data: PilotData, factors: n
   }
   const computed = factors.map(run)
   const reference = computed.find((c) => c.point.factor === 1) ?? run(1)
-  const inRange = [...computed.filter((c) => c.point.factor >= SWEEP_RANGE.from && c.point.factor <= SWEEP_RANGE.to), reference]
+  const inRange = [...computed.filter((c) => c.point.factor >= PRIOR_DRIVEN_CONVENTION.fromFactor && c.point.factor <= PRIOR_DRIVEN_CONVENTION.toFactor), reference]
   const logs = inRange.map((c) => c.point.logEvidence)
   const evidenceRatio = Math.exp(Math.max(...logs) - Math.min(...logs))
   const refMean = reference.point.posteriorMean
-  const steady = inRange.every((c) => Math.abs(c.point.posteriorMean - refMean) <= MEAN_SHIFT_SDS * reference.sd)
+  const steady = inRange.every((c) => Math.abs(c.point.posteriorMean - refMean) <= PRIOR_DRIVEN_CONVENTION.meanShiftSds * reference.sd)
   return {
     points: computed.map((c) => c.point),
     evidenceRatio,
-    priorDriven: evidenceRatio > RATIO_THRESHOLD && steady,
+    priorDriven: evidenceRatio > PRIOR_DRIVEN_CONVENTION.evidenceRatio && steady,
   }
 }

@@ -45,7 +45,13 @@ export interface Pool extends Univariate {
 export type PilotData =
   | { model: 'normal-known-sigma'; sigma: number; values: number[] }
   | { model: 'normal'; values: number[]; sigmaPrior: PriorDistribution }
-  | { model: 'binomial'; successes: number; trials: number }
+  | {
+    model: 'binomial'
+    successes: number
+    trials: number
+    /** The rows as recorded (a 0/1 column has trials of 1); the evidence then keeps the per-row binomial coefficients. */
+    rows?: { successes: number[]; trials: number[] }
+  }
   | { model: 'poisson'; counts: number[]; exposures: number[] }
 
 export type PosteriorSummary = { mean: number; sd: number; q025: number; q50: number; q975: number }

@@ -1,4 +1,4 @@
-/** Roles a user account can hold (DESIGN.md "Users and roles"). */
+/** Roles a user account can hold. */
 export const ROLES = ['admin', 'analyst', 'expert', 'reviewer'] as const
 export type Role = (typeof ROLES)[number]
 

@@ -1,4 +1,4 @@
-/** Chart colours fixed app-wide (DESIGN.md "Look"): the expert's fitted prior amber, the group ink dashed. */
+/** Chart colours fixed app-wide (the palette of src/styles/theme.css): the expert's fitted prior amber, the group ink dashed. */
 export const ANSWER_CHART = {
   prior: '#c9821a',
   pooled: '#1d2733',

@@ -4,12 +4,15 @@ import type { ApiErrorBody } from '@shared/types'
 export class ApiError extends Error {
   readonly status: number
   readonly fields: Record<string, string>
+  /** Structured facts beside the message (a file's line and column, the version a duplicate file matches…). */
+  readonly details: Record<string, unknown>
 
-  constructor(status: number, message: string, fields: Record<string, string> = {}) {
+  constructor(status: number, message: string, fields: Record<string, string> = {}, details: Record<string, unknown> = {}) {
     super(message)
     this.name = 'ApiError'
     this.status = status
     this.fields = fields
+    this.details = details
   }
 
   /** True when the server rejected the CSRF token (it changes after sign-in and sign-out). */
@@ -41,7 +44,8 @@ export function toApiError(status: number, body: unknown): ApiError {
     for (const [name, message] of Object.entries(body.error.fields ?? {})) {
       if (typeof message === 'string') fields[name] = message
     }
-    return new ApiError(status, body.error.message, fields)
+    const details = Object.fromEntries(Object.entries(body.error).filter(([k]) => k !== 'message' && k !== 'fields'))
+    return new ApiError(status, body.error.message, fields, details)
   }
   return new ApiError(status, FALLBACK_MESSAGES[status] ?? `The server answered with an error (${status}).`)
 }

@@ -44,4 +44,6 @@ export interface ImpactResult {
 export const impactApi = {
   run: (quantityId: number, body: ImpactRequest) => api.post<ImpactResult>(`/api/quantities/${quantityId}/impact`, body),
   latest: (quantityId: number) => api.get<ImpactResult | null>(`/api/quantities/${quantityId}/impact`),
+  /** Records why the final prior goes into the record without an impact analysis. */
+  notRun: (quantityId: number, reason: string) => api.put<{ quantityId: number; priorHash: string; reason: string }>(`/api/quantities/${quantityId}/impact/not-run`, { reason }),
 }

@@ -1,7 +1,7 @@
 import type { User } from '@shared/types'
 import { api } from './client'
 
-export type InvitationState = 'valid' | 'expired' | 'used' | 'revoked'
+export type InvitationState = 'valid' | 'expired' | 'used' | 'revoked' | 'closed'
 
 /** GET /api/invitations/:token: what the invitation page shows before the expert has an account. */
 export interface InvitationInfo {

@@ -40,6 +40,8 @@ export interface PilotUploadFields {
   binaryColumn?: string
   countColumn?: string
   exposureColumn?: string
+  /** Store the file although the same file is already a version of this quantity's pilot data. */
+  allowDuplicate?: boolean
 }
 
 export { postMultipart } from './upload'
@@ -48,5 +50,5 @@ export const pilotApi = {
   list: (studyId: number) => api.get<Dataset[]>(`/api/studies/${studyId}/datasets`),
   get: (id: number) => api.get<Dataset>(`/api/datasets/${id}`),
   upload: (studyId: number, fields: PilotUploadFields, file: File, csrf: CsrfProvider) =>
-    postMultipart<Dataset>(`/api/studies/${studyId}/datasets`, { ...fields }, file, file.name, csrf, undefined, 'Pilot data files may be at most 2 MB.'),
+    postMultipart<Dataset>(`/api/studies/${studyId}/datasets`, { ...fields, allowDuplicate: fields.allowDuplicate ? 'true' : undefined }, file, file.name, csrf, undefined, 'Pilot data files may be at most 2 MB.'),
 }

@@ -1,5 +1,6 @@
 import type { Distribution, PriorDistribution, Support } from '@shared/stats'
 import type { ModelLanguage } from '@shared/elicitation/model-code'
+import type { RecordCaution } from '@shared/elicitation/record-cautions'
 import type { CommentOutcome } from '@shared/schemas/records'
 import { api } from './client'
 
@@ -152,7 +153,10 @@ export interface RecordQuantity {
   combination: RecordCombination | null
   finalPrior: FinalPrior | null
   pilotData: { name: string; version: number; model: string; rows: number; sha256: string }[]
+  /** The analysis whose candidates include this very final prior; null when none exists. */
   impact: RecordImpact | null
+  /** Without such an analysis, the analyst's recorded reason (absent in records stored before schema 1.1). */
+  impactNotRunReason?: string | null
 }
 
 export interface RecordContent {
@@ -164,7 +168,10 @@ export interface RecordContent {
   panel: PanelMember[]
   calibration: { questions: { question: string; unit: string; trueValue: number | null }[]; method: string }
   quantities: RecordQuantity[]
-  cautions: string[]
+  /** Plain text in records stored before schema 1.1. */
+  cautions: (string | RecordCaution)[]
+  /** What produced the record; absent before schema 1.1. */
+  producedBy?: { application: string; version: string; engineVersion: string; commit?: string }
 }
 
 export interface RecordComment {

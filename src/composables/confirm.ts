@@ -9,6 +9,8 @@ export interface ConfirmOptions {
   title: string
   message: string
   confirmLabel: string
+  /** The other choice's words (default "Cancel"). */
+  cancelLabel?: string
   tone?: 'warning' | 'info'
 }
 
@@ -17,7 +19,7 @@ export async function confirmAction(options: ConfirmOptions): Promise<boolean> {
   try {
     await ElMessageBox.confirm(options.message, options.title, {
       confirmButtonText: options.confirmLabel,
-      cancelButtonText: 'Cancel',
+      cancelButtonText: options.cancelLabel ?? 'Cancel',
       type: options.tone ?? 'warning',
       autofocus: true,
     })

@@ -1,7 +1,7 @@
 import { boolean, mixed, object, type AnyObject, type AnyObjectSchema, type NumberSchema, type TestContext } from 'yup'
 import { impactSchema } from '@shared/schemas/impact'
 import type { DecisionRule } from '@shared/elicitation/impact'
-import { EngineInputError, familiesFor, supportOf, validateDistribution, type Distribution, type Family, type PilotData, type Support } from '@shared/stats'
+import { decimalSum, EngineInputError, familiesFor, supportOf, validateDistribution, type Distribution, type Family, type PilotData, type Support } from '@shared/stats'
 import type { ImpactRequest } from '@/api/impact'
 import { FAMILY_PARAMS } from './format'
 
@@ -56,7 +56,7 @@ export function dataScale(data: PilotData | undefined): { centre: number; spread
       return { centre: data.successes / data.trials, spread: 0.5 }
     case 'poisson': {
       const y = data.counts.reduce((s, c) => s + c, 0)
-      const t = data.exposures.reduce((s, e) => s + e, 0)
+      const t = decimalSum(data.exposures)
       const rate = y > 0 ? y / t : 1 / t
       return { centre: rate, spread: rate }
     }

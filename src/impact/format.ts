@@ -70,12 +70,12 @@ export const FLAG_INFO: Record<CandidateFlag, { tag: string; title: string; mean
   'prior-dominates': {
     tag: 'prior dominates',
     title: 'The prior dominates the data',
-    meaning: 'Its prior effective sample size is larger than the pilot n: the prior carries more information than the data, so the posterior mostly repeats it.',
+    meaning: 'Its prior effective sample size is larger than the pilot n: the prior carries more information than the data, so the posterior mostly repeats it. This is Priorsmith’s rule of thumb, not a published test: the prior counts as that many observations, so when it counts as more than the data the prior has the larger say.',
   },
   'prior-data-conflict': {
     tag: 'prior–data conflict',
     title: 'Prior–data conflict',
-    meaning: 'Box’s prior predictive p-value is below 0.05: data like the pilot data would be surprising if this prior were right. Check the prior and the data before using either.',
+    meaning: 'Box’s prior predictive p-value is below 0.05 (the customary 5 % level, a convention rather than a law): data like the pilot data would be surprising if this prior were right. Check the prior and the data before using either.',
   },
   'prior-driven-bayes-factor': {
     tag: 'prior-driven BF',

@@ -1,4 +1,4 @@
-import Papa from 'papaparse'
+import { readCsvTable } from '@shared/elicitation/csv'
 import { PILOT_MAX_BYTES, PILOT_MAX_ROWS } from '@shared/elicitation/pilot'
 import type { Delimiter } from '@/api/pilot'
 
@@ -42,18 +42,13 @@ export function sizeProblem(bytes: number): string | null {
  * columns than the header, too many rows).
  */
 export function previewText(text: string, delimiter: Delimiter, previewRows = PREVIEW_ROWS): LocalPreview {
-  const clean = text.replace(/^\uFEFF/, '')
-  const parsed = Papa.parse<string[]>(clean, { delimiter, skipEmptyLines: 'greedy' })
-  const table = parsed.data
+  const { rows: table, problem } = readCsvTable(text.replace(/^\uFEFF/, ''), delimiter)
   const header = (table[0] ?? []).map((h) => h.trim())
   const body = table.slice(1)
   const problems: string[] = []
-  if (table.length === 0) problems.push('The file is empty.')
+  if (problem) problems.push(`Line ${problem.line}: ${problem.message}.`)
+  else if (table.length === 0) problems.push('The file is empty.')
   else if (body.length === 0) problems.push('Line 2: The file has a header but no data rows.')
-  const quotes = parsed.errors.find((e) => e.type === 'Quotes')
-  if (quotes) problems.push(`Line ${(quotes.row ?? 0) + 1}: a quoted value is not closed.`)
-  const ragged = body.findIndex((r) => r.length !== header.length)
-  if (ragged >= 0 && header.length > 1) problems.push(`Line ${ragged + 2}: expected ${header.length} columns like the header, found ${body[ragged].length}.`)
   if (body.length > PILOT_MAX_ROWS) problems.push(`The file has ${new Intl.NumberFormat('en-GB').format(body.length)} data rows; at most ${rowsText} are accepted.`)
   let suggestedDelimiter: Delimiter | null = null
   if (header.length === 1) {

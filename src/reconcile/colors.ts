@@ -1,4 +1,4 @@
-/** Chart colours fixed app-wide (DESIGN.md "Look"). */
+/** Chart colours fixed app-wide (the palette of src/styles/theme.css). */
 export const CHART = {
   prior: '#c9821a',
   likelihood: '#5b6b7a',

@@ -13,7 +13,7 @@ export interface RecordActions {
   signOff: boolean
   /** Per-section comments: analysts and reviewers, until signed off. */
   comment: boolean
-  /** Send the final priors' density charts for the .docx. */
+  /** Send the final priors' density charts for the .docx (analyst, draft: they are fixed at submission). */
   sendCharts: boolean
 }
 
@@ -32,6 +32,6 @@ export function recordActions(role: ViewerRole, status: RecordStatus, isLatest: 
     returnRecord: current && reviewer && status === 'in_review',
     signOff: current && reviewer && status === 'in_review',
     comment: current && (analyst || reviewer) && status !== 'signed_off',
-    sendCharts: current && (analyst || reviewer) && status !== 'signed_off',
+    sendCharts: current && analyst && status === 'draft',
   }
 }

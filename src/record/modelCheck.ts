@@ -1,6 +1,6 @@
 import { readModelCode, type ModelLanguage } from '@shared/elicitation/model-code'
 import { quantile, validateDistribution, type Distribution } from '@shared/stats'
-import { describeDistribution, fmtTiny } from './format'
+import { describeDistribution, fmtTiny, LANGUAGE_LABELS } from './format'
 
 /** Largest relative difference allowed between the read-back quantiles and the final prior's. */
 export const MODEL_CHECK_TOLERANCE = 1e-6
@@ -15,8 +15,9 @@ export interface ModelCheckResult {
 }
 
 /**
- * Reads a model-code line back exactly as its language defines the arguments (readModelCode) and compares the
- * 5/50/95 % quantiles of what it means with the final prior's own quantiles, to 1e-6 relative.
+ * Reads a model-code line back with Priorsmith's own reader (readModelCode), which applies the language's documented
+ * parameterisation (the language itself is not run), and compares the 5/50/95 % quantiles of what it means with the
+ * final prior's own quantiles, to 1e-6 relative. The parameterisations are checked against scipy in tests/unit/model-code.test.ts.
  */
 export function checkModelLine(
   line: { language: ModelLanguage; code: string },
@@ -37,13 +38,15 @@ export function checkModelLine(
   const diffs = pairs.map(([p, want]) => Math.abs(quantile(back, p) - want) / Math.max(1, Math.abs(want)))
   const worst = diffs.some((d) => !Number.isFinite(d)) ? Infinity : Math.max(...diffs)
   const described = describeDistribution(back)
+  const lang = LANGUAGE_LABELS[line.language] ?? line.language
+  const how = `read by Priorsmith (not by ${lang} itself) with ${lang}’s documented parameterisation`
   if (worst <= MODEL_CHECK_TOLERANCE) {
-    return { ok: true, skipped: false, text: `reads back as ${described}, quantiles agree to ${fmtTiny(worst)}`, readBack: back, maxRelativeDifference: worst }
+    return { ok: true, skipped: false, text: `${how[0].toUpperCase()}${how.slice(1)}: reads back as ${described}, quantiles agree to ${fmtTiny(worst)}`, readBack: back, maxRelativeDifference: worst }
   }
   return {
     ok: false,
     skipped: false,
-    text: `Check failed: reads back as ${described}, quantiles differ by ${Number.isFinite(worst) ? fmtTiny(worst) : 'an unbounded amount'} (more than 1e-6)`,
+    text: `Check failed: ${how}: reads back as ${described}, quantiles differ by ${Number.isFinite(worst) ? fmtTiny(worst) : 'an unbounded amount'} (more than 1e-6)`,
     readBack: back,
     maxRelativeDifference: worst,
   }

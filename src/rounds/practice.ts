@@ -2,7 +2,7 @@ import type { Point } from '@shared/stats'
 import { PLAUSIBLE_BOUND_PROB, PLAUSIBLE_BOUND_WORDS } from '@shared/elicitation/bounds'
 import { withUnit } from './numbers'
 
-/** The quantile method asks in this order to limit anchoring: bounds, median, then quartiles. */
+/** The quantile method asks in this order to limit anchoring: the plausible bounds first, then the median, then the quartiles (common practice in elicitation protocols; see docs/methods/fitting.md). */
 export const PRACTICE_STEPS = [
   { key: 'lower', prob: PLAUSIBLE_BOUND_PROB, title: 'Plausible lower bound', testid: 'practice-lower' },
   { key: 'upper', prob: 1 - PLAUSIBLE_BOUND_PROB, title: 'Plausible upper bound', testid: 'practice-upper' },

@@ -67,7 +67,7 @@ export const routes: RouteRecordRaw[] = [
         path: 'record',
         name: 'study-record',
         component: () => import('@/views/study/RecordView.vue'),
-        meta: { title: 'Prior record' },
+        meta: { roles: ['admin', 'analyst', 'reviewer'], title: 'Prior record' },
       },
       {
         path: 'rounds',

@@ -66,22 +66,31 @@ describe('sign-in', () => {
     expect(res.body.error.message).toMatch(/CSRF/)
   })
 
-  it('regenerates the session id on sign-in (no session fixation)', async () => {
+  it('stores no session before sign-in and regenerates the session id on every sign-in (no session fixation)', async () => {
     const c = new Client(h)
     const pre = await c.agent.get('/api/auth/csrf')
-    const before = String(pre.headers['set-cookie'] ?? '').match(/priorsmith\.sid=([^;]+)/)?.[1]
+    expect(String(pre.headers['set-cookie'] ?? '')).not.toMatch(/priorsmith\.sid=/)
     c.token = pre.body.token
     const res = await c.agent.post('/api/auth/sign-in').set('x-csrf-token', c.token).send({ email: 'expert1@kestrel.example', password: 'priorsmith-demo' })
-    const after = String(res.headers['set-cookie'] ?? '').match(/priorsmith\.sid=([^;]+)/)?.[1]
-    expect(before).toBeTruthy()
-    expect(after).toBeTruthy()
-    expect(after).not.toBe(before)
+    const first = String(res.headers['set-cookie'] ?? '').match(/priorsmith\.sid=([^;]+)/)?.[1]
+    expect(first).toBeTruthy()
+    // Signing in again over an existing session (one an attacker could have planted) gives a new id.
+    await c.csrf()
+    const again = await c.agent.post('/api/auth/sign-in').set('x-csrf-token', c.token).send({ email: 'expert2@kestrel.example', password: 'priorsmith-demo' })
+    const second = String(again.headers['set-cookie'] ?? '').match(/priorsmith\.sid=([^;]+)/)?.[1]
+    expect(second).toBeTruthy()
+    expect(second).not.toBe(first)
   })
 
-  it('sets an httpOnly, SameSite=Lax session cookie', async () => {
+  it('sets an httpOnly, SameSite=Lax session cookie at sign-in and an httpOnly, SameSite=Strict token cookie before it', async () => {
     const c = new Client(h)
-    const res = await c.agent.get('/api/auth/csrf')
+    const pre = String((await c.agent.get('/api/auth/csrf')).headers['set-cookie'])
+    expect(pre).not.toMatch(/priorsmith\.sid=/)
+    expect(pre).toMatch(/priorsmith\.csrf=[^;]+; Path=\/api; HttpOnly; SameSite=Strict/)
+    const token = await c.csrf()
+    const res = await c.agent.post('/api/auth/sign-in').set('x-csrf-token', token).send({ email: 'expert1@kestrel.example', password: 'priorsmith-demo' })
     const cookie = String(res.headers['set-cookie'])
+    expect(cookie).toMatch(/priorsmith\.sid=/)
     expect(cookie).toMatch(/HttpOnly/)
     expect(cookie).toMatch(/SameSite=Lax/)
   })

@@ -186,6 +186,8 @@ describe('feedback round', () => {
     await expert2.put(`/api/rounds/${roundId}/judgements/${q.burst}`, quantile({ lower: 2, upper: 40, q25: 6, q50: 9, q75: 15 }, 0, { rationale: 'Regional statistics for old cast iron.' })).expect(200)
     await expert1.post(`/api/rounds/${roundId}/submit`).expect(200)
     await h.db('judgements').where({ round_id: roundId, quantity_id: q.burst }).update({ status: 'submitted' })
+    // Feedback shows earlier rounds once they have closed (confidentiality.test.ts checks an open one shows nothing).
+    await analyst.post(`/api/rounds/${roundId}/close`).expect(200)
     const r2 = await analyst.post(`/api/studies/${studyId}/rounds`, {
       title: 'Round 2 with feedback', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * day).toISOString(),
       feedbackEnabled: true, items: [{ quantityId: q.burst, method: 'quantile' }],

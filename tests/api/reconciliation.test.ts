@@ -1,13 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
+import { Client, normalQuantileAnswer as normalAnswer, openQuantileRound, signedIn, startApi, type ApiHarness } from '../support/api'
 
-// Cooke's classical model worked example, REFERENCE.md §3.1 (COOKE-worked-example; Cooke 1991, ch. 12; the intrinsic range
-// as in Blischke & Murthy 2003, §15.3.2): realisations and the 5/50/95 % values of experts A and B.
+// A CONSTRUCTED two-expert panel (not from a publication): COOKE-worked-example of tests/unit/stats/fixtures/checks.json,
+// whose expected values come from an independent Python implementation of Cooke's classical model (Cooke 1991, ch. 12;
+// intrinsic range as in Blischke & Murthy 2003, §15.3.2; docs/methods/cooke.md): realisations and the 5/50/95 % values of
+// experts A and B.
 const REALISATIONS = [12, 35, 7.5, 150, 0.8, 48, 23, 5.2, 90, 310]
 const EXPERT_A = [[5, 10, 20], [20, 40, 70], [2, 6, 12], [60, 120, 200], [0.3, 1, 3], [15, 30, 45], [10, 25, 50], [5.5, 9, 15], [40, 80, 160], [150, 350, 700]]
 const EXPERT_B = [[13, 14, 15], [30, 33, 36], [8, 9, 10], [100, 110, 125], [0.5, 0.7, 0.9], [40, 50, 55], [25, 28, 30], [4.6, 4.9, 5.1], [60, 70, 80], [280, 320, 360]]
-const Z75 = 0.674489750196081743 // standard normal 0.75 quantile (REFERENCE.md §1.2)
-const Z99 = 2.326347874040841 // standard normal 0.99 quantile (scipy.special.ndtri(0.99)): the plausible bounds' reading
 
 let h: ApiHarness
 let analyst: Client
@@ -15,17 +15,9 @@ let experts: Client[]
 let quantityId: number
 let roundId: number
 let studyId: number
-const day = 24 * 3600 * 1000
 
-/**
- * Quartiles of N(mu, sigma), with the bounds at its 1 % and 99 % points (how the fit reads them): least squares on the
- * CDF recovers N(mu, sigma) exactly (REFERENCE.md §1.2, FIT-normal-symmetric).
- */
-const normalAnswer = (mu: number, sigma: number) => ({
-  method: 'quantile', lower: mu - Z99 * sigma, upper: mu + Z99 * sigma,
-  points: [{ value: mu - sigma * Z75, prob: 0.25 }, { value: mu, prob: 0.5 }, { value: mu + sigma * Z75, prob: 0.75 }],
-  chosenFamily: 'normal', rationale: 'Night-flow records of the eight pilot districts.',
-})
+// Quartiles of N(mu, sigma) with the bounds at its 1 % and 99 % points (how the fit reads them): least squares on the
+// CDF recovers N(mu, sigma) exactly (FIT-normal-symmetric).
 
 beforeAll(async () => {
   h = startApi()
@@ -39,12 +31,7 @@ beforeAll(async () => {
   for (const [i, r] of REALISATIONS.entries()) {
     questionIds.push((await analyst.post(`/api/studies/${studyId}/calibration-questions`, { question: `Seed question number ${i + 1} with a known answer`, unit: 'u', trueValue: r }).expect(201)).body.id)
   }
-  roundId = (await analyst.post(`/api/studies/${studyId}/rounds`, {
-    title: 'Round 1', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * day).toISOString(),
-    items: [{ quantityId, method: 'quantile' }],
-  }).expect(201)).body.id
-  for (const email of ['expert1@kestrel.example', 'expert2@kestrel.example']) await analyst.post(`/api/rounds/${roundId}/invitations`, { email, name: 'Panel member' }).expect(201)
-  await analyst.post(`/api/rounds/${roundId}/open`).expect(200)
+  roundId = await openQuantileRound(analyst, studyId, [quantityId], ['expert1@kestrel.example', 'expert2@kestrel.example'])
   const answers = [normalAnswer(10, 2), normalAnswer(14, 3)]
   const seeds = [EXPERT_A, EXPERT_B]
   for (const [k, c] of experts.entries()) {
@@ -73,7 +60,7 @@ describe('reconciliation workspace', () => {
     expect(res.body.experts[0].distribution.mu).toBeCloseTo(10, 6)
     expect(res.body.experts[0].distribution.sigma).toBeCloseTo(2, 6)
     expect(res.body.weights).toEqual([0.5, 0.5])
-    // REFERENCE.md §2.1, POOL-linear-2 (Stone 1961; Genest & Zidek 1986): 5 % 7.28598745543, median 11.6, 95 % 17.8454032129, mean 12, sd 3.2403703492.
+    // POOL-linear-2 of tests/unit/stats/fixtures/checks.json (mpmath; Stone 1961; Genest & Zidek 1986): 5 % 7.28598745543, median 11.6, 95 % 17.8454032129, mean 12, sd 3.2403703492.
     expect(res.body.pool.q50).toBeCloseTo(11.6, 5)
     expect(res.body.pool.q05).toBeCloseTo(7.28598745543, 5)
     expect(res.body.pool.q95).toBeCloseTo(17.8454032129, 5)
@@ -84,7 +71,7 @@ describe('reconciliation workspace', () => {
 
   it('computes Cooke performance weights from the calibration answers', async () => {
     const res = await analyst.get(`/api/quantities/${quantityId}/reconciliation`).expect(200)
-    // REFERENCE.md §3.1: calibration 0.82830817168 / 0.00180500257881; normalised weights at α = 0: 0.957753869124 / 0.0422461308765.
+    // COOKE-worked-example (independent Python implementation): calibration 0.82830817168 / 0.00180500257881; normalised weights at α = 0: 0.957753869124 / 0.0422461308765.
     expect(res.body.calibration.questionCount).toBe(10)
     const [a, b] = res.body.calibration.scores
     expect(a.calibration).toBeCloseTo(0.82830817168, 9)
@@ -98,7 +85,7 @@ describe('reconciliation workspace', () => {
   it('saves a logarithmic pool with performance weights, refuses marking it reconciled without a rationale', async () => {
     const log = await analyst.put(`/api/quantities/${quantityId}/reconciliation`, { roundId, method: 'logarithmic', weights: 'equal', family: 'normal', version: 0 })
     expect(log.status).toBe(200)
-    // REFERENCE.md §2.2, POOL-log-normal-2: normal with mean 146/13 = 11.2307692308, sd 2.35339362166.
+    // POOL-log-normal-2 of tests/unit/stats/fixtures/checks.json: normal with mean 146/13 = 11.2307692308, sd 2.35339362166.
     expect(log.body.saved.distribution.mu).toBeCloseTo(146 / 13, 6)
     expect(log.body.saved.distribution.sigma).toBeCloseTo(2.35339362166, 6)
     const noWhy = await analyst.put(`/api/quantities/${quantityId}/reconciliation`, { roundId, method: 'linear', weights: 'performance', family: 'normal', reconciled: true, version: 1 })
@@ -132,7 +119,7 @@ describe('reconciliation workspace', () => {
     ])
     const content = (await analyst.get(`/api/studies/${studyId}/record`).expect(200)).body.content
     expect(content.quantities[0].combination.weightCautions).toEqual(view.body.weightCautions)
-    expect(content.cautions).toContain(`Night-flow reduction: ${view.body.weightCautions[0]}`)
+    expect(content.cautions).toContainEqual({ rule: 'performance-weights', quantity: 'Night-flow reduction', text: `Night-flow reduction: ${view.body.weightCautions[0]}` })
     const equal = await analyst.get(`/api/quantities/${quantityId}/reconciliation?roundId=${roundId}`).expect(200)
     expect(equal.body.calibration.questionCount).toBe(10)
   })

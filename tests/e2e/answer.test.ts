@@ -462,13 +462,15 @@ describe('answering a round', () => {
         { email, password: DEMO_PASSWORD, setup },
       )
     }
+    // Feedback shows an earlier round once it has closed.
     await inPage(
       analyst.page,
-      async (call: Call, args: { password: string }) => {
+      async (call: Call, args: { password: string; roundId: number }) => {
         await call('POST', '/api/auth/sign-out')
         await call('POST', '/api/auth/sign-in', { email: 'analyst@kestrel.example', password: args.password })
+        await call('POST', `/api/rounds/${args.roundId}/close`)
       },
-      { password: DEMO_PASSWORD },
+      { password: DEMO_PASSWORD, roundId: setup.roundId },
     )
     const round2 = await createRound(analyst.page, { title: 'Answer screen, round 2 with feedback', studyId: setup.studyId, feedback: true, onlyBurstRate: true })
     await completeEntry(expert1.page, round2.roundId)

@@ -153,8 +153,27 @@ describe('pilot data and impact analysis', () => {
     const text = await row.innerText()
     expect(text).toContain('Burst logs 2025, eight districts')
     expect(text).toContain('Poisson with exposure')
-    expect(text).toContain('81 events over 8.000 exposure units')
+    expect(text).toContain('81 events over 8 exposure units')
     await s.shot('impact-03-dataset-stored')
+  })
+
+  it('warns when the same file is uploaded again and keeps the stored version when asked', async () => {
+    const { page } = s
+    await page.getByTestId('pilot-upload-open').click()
+    await choose(page, 'pilot-quantity', QUANTITY_NAME)
+    await field(page, 'pilot-name').fill('Burst logs 2025, eight districts')
+    await page.getByTestId('pilot-file').setInputFiles(BURST_LOGS)
+    await page.getByTestId('pilot-preview').getByText('8 data rows', { exact: false }).waitFor()
+    await choose(page, 'pilot-model', 'Poisson with exposure')
+    await choose(page, 'pilot-count-column', 'bursts')
+    await choose(page, 'pilot-exposure-column', 'exposure_100km_years')
+    await page.getByTestId('pilot-submit').click()
+    const box = page.locator('.el-message-box')
+    await box.getByText('It is the same file as version 1 (“Burst logs 2025, eight districts”)', { exact: false }).waitFor()
+    await s.shot('impact-03b-same-file')
+    await box.getByRole('button', { name: 'Keep version 1' }).click()
+    await page.getByText('Kept version 1', { exact: false }).waitFor()
+    await expect(page.locator(`[data-testid="dataset-row"][data-quantity-id="${quantityId}"]`).count()).resolves.toBe(1)
   })
 
   it('runs the impact analysis: candidates table, findings, cautions, both sweep charts and the decision', async () => {
@@ -202,6 +221,10 @@ describe('pilot data and impact analysis', () => {
     expect(lines[0].startsWith('candidate,kind,prior,prior mean (bursts per 100 km per year)')).toBe(true)
     expect(lines).toHaveLength(8)
     expect(lines.find((l) => l.startsWith('"Pooled (linear, equal weights)",pooled,'))).toBeTruthy()
+    // The pilot n (total exposure 1.10 + 0.85 + … + 0.80) prints as 8, not 7.999999999999999.
+    const nColumn = lines[0].split(',').indexOf('pilot n')
+    expect(nColumn).toBeGreaterThan(0)
+    expect(new Set(lines.slice(1).map((l) => l.match(/("[^"]*"|[^,]*)(,|$)/g)![nColumn].replace(/,$/, '')))).toEqual(new Set(['8']))
 
     const [png] = await Promise.all([page.waitForEvent('download'), page.getByTestId('sweep-evidence-chart').getByTestId('download-png').click()])
     expect(png.suggestedFilename()).toBe('impact-burst_rate-v1-sweep-evidence.png')
@@ -216,8 +239,9 @@ describe('pilot data and impact analysis', () => {
     await s.shot('impact-06-cached')
   })
 
-  it('logged no console errors beyond the refused upload and loaded nothing from another origin', async () => {
-    const errors = s.consoleErrors.filter((e) => !/status of 40[01]/.test(e))
+  it('logged no console errors beyond the refused uploads and loaded nothing from another origin', async () => {
+    // 400: the file with a typo; 409: the same file uploaded again.
+    const errors = s.consoleErrors.filter((e) => !/status of (40[01]|409)/.test(e))
     expect(errors).toEqual([])
     expect(s.foreignRequests).toEqual([])
   })

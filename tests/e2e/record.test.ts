@@ -93,6 +93,8 @@ async function setUpReconciledStudy(page: Page): Promise<number> {
         rationale: 'The linear pool keeps the spread between the experts; the family fits it closely.',
       })
     }
+    // No pilot data: the night-flow reason is recorded here, the uptake one on the record page by the analyst.
+    await call('PUT', `/api/quantities/${flow.id}/impact/not-run`, { reason: 'No pilot data exist yet for the night-flow reduction.' })
     await call('POST', '/api/auth/sign-out')
     return study.id
   }, { title: STUDY_TITLE, password: DEMO_PASSWORD })
@@ -170,6 +172,14 @@ describe('prior record: submit, return with comments, resubmit, sign off, downlo
 
   it('the analyst submits the record: in review, content hash frozen', async () => {
     const { page } = analyst
+    // Uptake has no impact analysis of its final prior: the record says so, and the analyst records why before submitting.
+    const uptake = page.locator('[data-testid="record-section"][data-section="Leak-alert uptake (uptake)"] [data-testid="impact-missing"]')
+    expect(await uptake.innerText()).toContain('No impact analysis of the final prior exists.')
+    await uptake.getByTestId('impact-not-run-open').click()
+    await uptake.locator('textarea').fill('The pilot survey has not been run; there are no data to analyse.')
+    await uptake.getByTestId('impact-not-run-save').click()
+    await page.locator('[data-testid="impact-missing"][data-has-reason="true"]').nth(1).waitFor()
+    expect(await page.getByTestId('record-cautions').innerText()).toContain('Leak-alert uptake: no impact analysis of the final prior was run; the analyst’s reason: The pilot survey has not been run')
     await page.getByTestId('record-submit').click()
     await waitForStatus(analyst, 'in_review')
     await expect(page.getByTestId('record-hash').getAttribute('data-frozen')).resolves.toBe('true')

@@ -70,3 +70,29 @@ export async function signedIn(h: ApiHarness, email: string): Promise<Client> {
   if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status} ${JSON.stringify(res.body)}`)
   return c
 }
+
+/** Standard normal 0.75 quantile (from memory; 17 digits). */
+export const Z75 = 0.674489750196081743
+/** Standard normal 0.99 quantile (scipy.special.ndtri(0.99)): where the fit reads the plausible bounds. */
+export const Z99 = 2.326347874040841
+
+/**
+ * A quantile answer whose quartiles are those of N(mu, sigma) and whose bounds are its 1 % and 99 % points (how the fit
+ * reads them): least squares on the CDF recovers N(mu, sigma) exactly.
+ */
+export const normalQuantileAnswer = (mu: number, sigma: number) => ({
+  method: 'quantile', lower: mu - Z99 * sigma, upper: mu + Z99 * sigma,
+  points: [{ value: mu - sigma * Z75, prob: 0.25 }, { value: mu, prob: 0.5 }, { value: mu + sigma * Z75, prob: 0.75 }],
+  chosenFamily: 'normal', rationale: 'Night-flow records of the eight pilot districts.',
+})
+
+/** Creates round 1 asking the quantities by the quantile method, invites the experts and opens it; returns its id. */
+export async function openQuantileRound(analyst: Client, studyId: number, quantityIds: number[], expertEmails: string[]): Promise<number> {
+  const roundId = (await analyst.post(`/api/studies/${studyId}/rounds`, {
+    title: 'Round 1', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * 24 * 3600e3).toISOString(),
+    items: quantityIds.map((quantityId) => ({ quantityId, method: 'quantile' })),
+  }).expect(201)).body.id as number
+  for (const email of expertEmails) await analyst.post(`/api/rounds/${roundId}/invitations`, { email, name: 'Panel member' }).expect(201)
+  await analyst.post(`/api/rounds/${roundId}/open`).expect(200)
+  return roundId
+}

@@ -1,8 +1,11 @@
 import { describe, expect, it } from 'vitest'
-import { modelCode, modelCodeWithCheck, readModelCode, MODEL_LANGUAGES } from '../../shared/elicitation/model-code'
+import { checkModelLineQuantiles, modelCode, modelCodeWithCheck, readModelCode, MODEL_LANGUAGES, type ModelLanguage } from '../../shared/elicitation/model-code'
 import { quantile, type Distribution } from '../../shared/stats/index'
+import { expectRel } from './stats/checks'
+import documented from './fixtures/model-code-checks.json'
 
-// Fitted priors from REFERENCE.md §1.1 (FIT-*) plus a uniform and a scaled beta: realistic, non-round parameters.
+// Fitted priors of FIT-* in tests/unit/stats/fixtures/checks.json (rounded) plus a uniform and a scaled beta: realistic,
+// non-round parameters; the same list as fixtures/generate_model_code_checks.py.
 const PRIORS: Distribution[] = [
   { family: 'normal', mu: 10.2820935324, sigma: 3.7529049541 },
   { family: 'student-t', mu: 10.2509832335, sigma: 3.30310727765, df: 3 },
@@ -41,7 +44,38 @@ describe('model code in each language’s own parameterisation', () => {
   })
 })
 
-describe('round trip: each line read back as its language defines it gives the prior’s 5/50/95 % quantiles to 1e-6', () => {
+/** The arguments of the call `fn(…)` in a generated line, in order (keyword names and quoted names dropped). */
+function callArgs(code: string, fn: string): number[] {
+  const start = code.indexOf(`${fn}(`)
+  expect(start, `${fn}( in ${code}`).toBeGreaterThanOrEqual(0)
+  const inner = code.slice(start + fn.length + 1, code.indexOf(')', start))
+  return inner.split(',').map((a) => a.trim().replace(/^\w+\s*=\s*/, '')).filter((a) => !a.startsWith('"')).map(Number)
+}
+
+// Outside check: fixtures/model-code-checks.json, written by fixtures/generate_model_code_checks.py from the languages'
+// own documentation (Stan Functions Reference; PyMC API reference; JAGS 4.3.0 user manual ch. 9; brms set_prior uses
+// Stan's), with scipy computing the quantiles of what each documented call means.
+describe('generated lines against the languages’ documented parameterisations, quantiles by scipy', () => {
+  it('the fixture covers the priors of this file', () => {
+    expect(documented.priors).toEqual(PRIORS)
+    expect(documented.cases).toHaveLength(27)
+  })
+  for (const c of documented.cases) {
+    it(`${c.language} ${c.prior.family}: ${c.function}(…) with the documented arguments; scipy’s quantiles equal the prior’s`, () => {
+      const prior = c.prior as Distribution
+      const code = modelCode(prior, 'theta', c.language as ModelLanguage)
+      const args = callArgs(code, c.function.replace(/^pm\./, 'pm.'))
+      expect(args).toHaveLength(c.args.length)
+      args.forEach((a, i) => expectRel(a, c.args[i], 1e-10, `${c.language} argument ${i + 1}`))
+      documented.meta.probs.forEach((p, i) => expectRel(quantile(prior, p), c.quantiles[i], 1e-9, `${c.language} q${p}`))
+      if (prior.family === 'scaled-beta') expect(code).toContain(`${prior.lower} + ${prior.upper - prior.lower} * theta_raw`)
+    })
+  }
+})
+
+// Consistency check of Priorsmith's own reader (the product's "Check"), not an outside check: the lines it writes, read
+// back by the same module, give the prior's quantiles.
+describe('round trip through Priorsmith’s reader: each line gives the prior’s 5/50/95 % quantiles to 1e-6', () => {
   for (const d of PRIORS) {
     it(d.family, () => {
       const rows = modelCodeWithCheck(d, 'theta', quantile)
@@ -54,10 +88,13 @@ describe('round trip: each line read back as its language defines it gives the p
     })
   }
 
-  it('catches a precision written where a standard deviation belongs', () => {
-    const wrong = 'theta ~ dnorm(10.28, 3.75)' // sd written as JAGS' second argument
-    const back = readModelCode(wrong, 'jags', 'normal')
-    const diff = Math.abs(quantile(back, 0.95) - quantile({ family: 'normal', mu: 10.28, sigma: 3.75 }, 0.95))
-    expect(diff).toBeGreaterThan(1)
+  it('the check fails for a precision written where a standard deviation belongs, and for a scale given as a rate', () => {
+    const prior: Distribution = { family: 'normal', mu: 10.28, sigma: 3.75 }
+    const sdAsPrecision = checkModelLineQuantiles('theta ~ dnorm(10.28, 3.75)', 'jags', prior, quantile) // sd written as JAGS' second argument
+    expect(sdAsPrecision.ok).toBe(false)
+    expect(sdAsPrecision.maxRelativeDifference).toBeGreaterThan(0.1)
+    expect(checkModelLineQuantiles(`theta ~ dnorm(10.28, ${1 / 3.75 ** 2})`, 'jags', prior, quantile).ok).toBe(true)
+    const gamma: Distribution = { family: 'gamma', shape: 7.88, rate: 0.743 }
+    expect(checkModelLineQuantiles(`theta = pm.Gamma("theta", alpha=7.88, beta=${1 / 0.743})`, 'pymc', gamma, quantile).ok).toBe(false)
   })
 })

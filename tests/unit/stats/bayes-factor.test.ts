@@ -2,9 +2,9 @@ import { describe, expect, it } from 'vitest'
 import { bayesFactor, EngineInputError } from '@shared/stats'
 import { check, expectRel } from './checks'
 
-// Source: REFERENCE §6 (BF-scales) — Kass & Raftery (1995) JASA 90:773–795, §3.2; Jeffreys (1961) Theory of Probability,
+// Source: BF-scales of fixtures/checks.json — Kass & Raftery (1995) JASA 90:773–795, §3.2; Jeffreys (1961) Theory of Probability,
 // 3rd ed., Appendix B; half-open intervals [lower, upper).
-describe('Bayes factor labels (REFERENCE §6)', () => {
+describe('Bayes factor labels (Kass & Raftery 1995; Jeffreys 1961)', () => {
   const c = check('BF-scales')
   const bfs = c.inputs.BF as number[]
 

@@ -1,4 +1,4 @@
-// Loads the reference check cases (a copy of the team's checks.json, kept in the repo) and shared assertions.
+// Loads the reference check cases (fixtures/checks.json, written by fixtures/generate_checks.py) and shared assertions.
 import { readFileSync } from 'node:fs'
 import { fileURLToPath } from 'node:url'
 import { expect } from 'vitest'

@@ -2,10 +2,13 @@ import { describe, expect, it } from 'vitest'
 import { cookeClassical, decisionMaker, EngineInputError, type CookeInput } from '@shared/stats'
 import { check, expectRel } from './checks'
 
-// Source: REFERENCE §3 — Cooke (1991) Experts in Uncertainty, ch. 12; Cooke & Goossens (2008) RESS 93:657–674; intrinsic
-// range and 10 % overshoot as in Blischke & Murthy (eds., 2003) §15.3.2. Worked example computed in float64 and with
-// mpmath 1.3.0 at 40 digits; calibration cross-checked with scipy's chi-square; DM quantiles by exact inversion.
-describe("Cooke's classical model, worked example (REFERENCE §3.1, COOKE-worked-example)", () => {
+// The panel is CONSTRUCTED for these checks (two invented experts, ten invented calibration questions): it is not the
+// worked example of any publication. Formulas: Cooke (1991) Experts in Uncertainty, ch. 12; Cooke & Goossens (2008) RESS
+// 93:657–674; intrinsic range with 10 % overshoot as in Blischke & Murthy (eds., 2003) §15.3.2 (docs/methods/cooke.md).
+// Outside check: the expected values come from an independent Python implementation of the classical model
+// (cooke_case in fixtures/generate_checks.py, mpmath at 40 digits), with the calibration cross-checked by scipy's chi2.sf
+// and the decision maker's quantiles by scipy's brentq; it shares no code with shared/stats/cooke.ts.
+describe("Cooke's classical model on a constructed two-expert panel (COOKE-worked-example, independent Python implementation)", () => {
   const c = check('COOKE-worked-example')
   const quantiles = [0.05, 0.5, 0.95]
   const q = c.inputs.quantiles_q5_q50_q95 as Record<string, number[][]>

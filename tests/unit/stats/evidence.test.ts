@@ -17,9 +17,9 @@ const stdlibNormalCdf = createRequire(import.meta.url)('@stdlib/stats-base-dists
 const X = [2.2, 3.5, 2.8, 3.9, 2.6]
 const known = (sigma: number, values = X): PilotData => ({ model: 'normal-known-sigma', sigma, values })
 
-// Source: REFERENCE §4.1 — Gelman et al. (2013) BDA3 §2.5; closed form evaluated with mpmath 1.3.0 at 40 digits,
+// Outside check: ML-normal-normal-* of fixtures/checks.json — Gelman et al. (2013) BDA3 §2.5; closed form evaluated with mpmath 1.3.0 at 40 digits,
 // cross-checked against scipy's multivariate normal log-density of x ~ MVN(m₀1, σ²I + τ²11ᵀ).
-describe('normal data, known σ, normal prior (REFERENCE §4.1)', () => {
+describe('normal data, known σ, normal prior (BDA3 §2.5)', () => {
   for (const id of ['ML-normal-normal-1', 'ML-normal-normal-2']) {
     it(`${id}: log evidence with all constants, posterior mean and sd`, () => {
       const c = check(id)
@@ -33,9 +33,9 @@ describe('normal data, known σ, normal prior (REFERENCE §4.1)', () => {
   }
 })
 
-// Source: REFERENCE §4.2 — closed form via normal CDFs (posterior = N(x̄, σ²/n) truncated to [a, b]); mpmath 1.3.0 at
+// Outside check: ML-normal-uniform-* of fixtures/checks.json — closed form via normal CDFs (posterior = N(x̄, σ²/n) truncated to [a, b]); mpmath 1.3.0 at
 // 40 digits; scipy quad and scipy.stats.truncnorm agree to 1e-15.
-describe('normal data, known σ, uniform prior U(0, A) (REFERENCE §4.2)', () => {
+describe('normal data, known σ, uniform prior U(0, A) (truncated normal posterior)', () => {
   for (const id of ['ML-normal-uniform-A10', 'ML-normal-uniform-A4']) {
     it(`${id}: log evidence keeps Z; truncated-normal posterior`, () => {
       const c = check(id)
@@ -49,8 +49,8 @@ describe('normal data, known σ, uniform prior U(0, A) (REFERENCE §4.2)', () =>
   }
 })
 
-// Source: REFERENCE §4.3 — C(n, y) B(a + y, b + n − y)/B(a, b) (BDA3 §2.4), mpmath 1.3.0; scipy betabinom.logpmf.
-describe('beta–binomial (REFERENCE §4.3)', () => {
+// Outside check: ML-beta-binomial-* of fixtures/checks.json — C(n, y) B(a + y, b + n − y)/B(a, b) (BDA3 §2.4), mpmath 1.3.0; scipy betabinom.logpmf.
+describe('beta–binomial (BDA3 §2.4)', () => {
   for (const id of ['ML-beta-binomial-y7-n20', 'ML-beta-binomial-y0-n10']) {
     it(`${id}: the count form of the evidence (with C(n, y)) and the posterior`, () => {
       const c = check(id)
@@ -69,8 +69,8 @@ describe('beta–binomial (REFERENCE §4.3)', () => {
   })
 })
 
-// Source: REFERENCE §4.4 — negative-binomial marginal with exposures (BDA3 §2.6), mpmath 1.3.0; scipy quad / nbinom.
-describe('gamma–Poisson with exposures (REFERENCE §4.4)', () => {
+// Outside check: ML-gamma-poisson-* of fixtures/checks.json — negative-binomial marginal with exposures (BDA3 §2.6), mpmath 1.3.0; scipy quad / nbinom.
+describe('gamma–Poisson with exposures (BDA3 §2.6)', () => {
   for (const id of ['ML-gamma-poisson-1', 'ML-gamma-poisson-2', 'ML-gamma-poisson-3']) {
     it(`${id}: evidence with the 1/y! and t^y terms; posterior Gamma(a + Σy, b + Σt)`, () => {
       const c = check(id)
@@ -86,8 +86,8 @@ describe('gamma–Poisson with exposures (REFERENCE §4.4)', () => {
   }
 })
 
-// Source: REFERENCE §4.5 — Murphy (2007) NIG section / BDA3 §3.3; mpmath 1.3.0; scipy multivariate_t and dblquad.
-describe('normal data, unknown mean and variance, normal–inverse-gamma prior (REFERENCE §4.5)', () => {
+// Outside check: ML-NIG-* of fixtures/checks.json — Murphy (2007) NIG section / BDA3 §3.3; mpmath 1.3.0; scipy multivariate_t and dblquad.
+describe('normal data, unknown mean and variance, normal–inverse-gamma prior (BDA3 §3.3)', () => {
   for (const id of ['ML-NIG-1', 'ML-NIG-2']) {
     it(`${id}: posterior parameters and log evidence; the same evidence by quadrature over σ`, () => {
       const c = check(id)
@@ -101,7 +101,8 @@ describe('normal data, unknown mean and variance, normal–inverse-gamma prior (
       expectRel(r.mu.sigma, e.post_mu_t_scale, 1e-12)
       expect(r.mu.df).toBe(e.post_mu_t_df)
       expectAbs(r.logEvidence, e.log_ml, c.tolerance.abs_log)
-      // Independent route: μ | σ integrated in closed form, then σ by the engine's log-space quadrature on ln σ,
+      // Consistency check, not an outside one (the outside value is log_ml above, mpmath; scipy's multivariate t agrees):
+      // μ | σ integrated in closed form, then σ by the engine's own log-space quadrature on ln σ,
       // with p(σ) = 2σ · IG(σ²; α₀, β₀).
       const { m0, kappa0, alpha0, beta0 } = c.inputs.prior
       const n = X.length
@@ -120,8 +121,8 @@ describe('normal data, unknown mean and variance, normal–inverse-gamma prior (
   }
 })
 
-// Source: REFERENCE §5 — prior-width effect, closed form of §4.2 at 40 digits; scipy quad cross-check.
-describe('prior width, U(0, A) on a normal mean (REFERENCE §5, WIDTH-uniform)', () => {
+// Outside check: WIDTH-uniform of fixtures/checks.json — prior-width effect, closed form via normal CDFs at 40 digits; scipy quad cross-check.
+describe('prior width, U(0, A) on a normal mean (WIDTH-uniform)', () => {
   it('evidence halves as A doubles while the posterior is unchanged', () => {
     const c = check('WIDTH-uniform')
     const results = Object.fromEntries(
@@ -139,8 +140,8 @@ describe('prior width, U(0, A) on a normal mean (REFERENCE §5, WIDTH-uniform)',
   })
 })
 
-// Source: REFERENCE §7 — Box (1980) JRSS A 143:383–430; closed form at 40 digits (mpmath), scipy cross-check.
-describe("Box's prior predictive check (REFERENCE §7)", () => {
+// Outside check: BOX-* of fixtures/checks.json — Box (1980) JRSS A 143:383–430; closed form at 40 digits (mpmath), scipy cross-check.
+describe("Box's prior predictive check (Box 1980)", () => {
   for (const id of ['BOX-1', 'BOX-2']) {
     it(`${id}: the sample-mean p-value (API) and the full-data variant`, () => {
       const c = check(id)
@@ -186,8 +187,8 @@ describe("Box's prior predictive check (REFERENCE §7)", () => {
   })
 })
 
-// Source: REFERENCE §8 — Morita, Thall & Müller (2008) Biometrics 64:595–602, standard conjugate cases.
-describe('prior effective sample size (REFERENCE §8, ESS-conjugate)', () => {
+// Outside check: ESS-conjugate of fixtures/checks.json — Morita, Thall & Müller (2008) Biometrics 64:595–602, standard conjugate cases.
+describe('prior effective sample size (ESS-conjugate)', () => {
   it('beta a + b, normal σ²/τ², gamma rate b; null without a standard definition', () => {
     const c = check('ESS-conjugate')
     const beta = analyzePrior({ family: 'beta', alpha: c.inputs.beta.a, beta: c.inputs.beta.b }, { model: 'binomial', successes: 3, trials: 10 })
@@ -201,9 +202,9 @@ describe('prior effective sample size (REFERENCE §8, ESS-conjugate)', () => {
   })
 })
 
-// Source: REFERENCE §9 — 40-digit mpmath quad (1-D); for the 2-D cases μ integrated in closed form then a 40-digit quad
+// Outside check: QUAD-* and DBLQUAD-* of fixtures/checks.json — 40-digit mpmath quad (1-D); for the 2-D cases μ integrated in closed form then a 40-digit quad
 // over σ; scipy quad/dblquad (epsrel ≤ 1e-10) agree to 2e-15. Method: adaptive G10–K21 after Piessens et al. (1983) QUADPACK.
-describe('non-conjugate evidence by adaptive Gauss–Kronrod quadrature (REFERENCE §9)', () => {
+describe('non-conjugate evidence by adaptive Gauss–Kronrod quadrature (QUAD-*, DBLQUAD-*)', () => {
   it('QUAD-poisson-lognormal: Poisson counts, lognormal prior on the rate', () => {
     const c = check('QUAD-poisson-lognormal')
     const a = analyzePrior(
@@ -235,7 +236,8 @@ describe('non-conjugate evidence by adaptive Gauss–Kronrod quadrature (REFEREN
   }
 })
 
-// Closed form and quadrature must agree to 1e-8 relative wherever both exist.
+// Consistency check of the engine against itself (its outside checks are the fixture cases above): closed form and
+// quadrature must agree to 1e-8 relative wherever both exist.
 describe('closed form against quadrature (agreement ≤ 1e-8 relative)', () => {
   const cases: { label: string; prior: PriorDistribution; data: PilotData }[] = [
     { label: 'normal prior, known σ', prior: { family: 'normal', mu: 0, sigma: 5 }, data: known(2) },

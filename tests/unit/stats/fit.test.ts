@@ -44,10 +44,12 @@ function paramsOf(d: Distribution): number[] {
 
 const toPoints = (x: number[], p: number[]): Point[] => x.map((value, i) => ({ value, prob: p[i] }))
 
-// Source: REFERENCE §1.1 — stationary points of the SSE solved with mpmath 1.3.0 at 40 digits (findroot on the
-// gradient), multi-start scipy.optimize (Nelder–Mead then least_squares LM, tolerances 1e-15) as a cross-check;
-// criterion from Garthwaite, Kadane & O'Hagan (2005) JASA 100:680–701 / O'Hagan et al. (2006) Uncertain Judgements.
-describe('least-squares fits to skewed judgements (REFERENCE §1.1, median 10, quartiles 8 and 13)', () => {
+// Outside check: FIT-* of fixtures/checks.json — stationary points of the SSE solved with mpmath at 40 digits (Newton on
+// the gradient), multi-start scipy.optimize (Nelder–Mead then least_squares LM) as a cross-check (fixtures/generate_checks.py).
+// The criterion, least squares on the CDF, is Priorsmith's own choice (docs/methods/fitting.md); fitting a family to
+// elicited quantiles by least squares is common practice (reviewed by Garthwaite, Kadane & O'Hagan 2005, JASA 100:680–701),
+// but these values were not checked against any published table.
+describe('least-squares fits to skewed judgements (FIT-*, median 10, quartiles 8 and 13)', () => {
   for (const id of ['FIT-normal', 'FIT-t3', 'FIT-lognormal', 'FIT-gamma', 'FIT-sbeta_0_30', 'FIT-beta']) {
     it(`${id}: parameters to 1e-6 relative, SSE to 1e-8 relative, fitted CDF values`, () => {
       const c = check(id)
@@ -63,7 +65,7 @@ describe('least-squares fits to skewed judgements (REFERENCE §1.1, median 10, q
     })
   }
 
-  it('the lognormal fits these right-skewed judgements best and the symmetric families worst (REFERENCE §1.1)', () => {
+  it('the lognormal fits these right-skewed judgements best and the symmetric families worst (FIT-*)', () => {
     const points = toPoints([8, 10, 13], [0.25, 0.5, 0.75])
     const ranked = fitAll(points, { kind: 'positive' }).map((f) => f.distribution.family)
     expect(ranked.slice(0, 2)).toEqual(['lognormal', 'gamma'])
@@ -73,9 +75,9 @@ describe('least-squares fits to skewed judgements (REFERENCE §1.1, median 10, q
   })
 })
 
-// Source: REFERENCE §1.2 — exact cases (SSE = 0): the quartiles of N(50, 10²) with z₀.₇₅ from mpmath; the gamma with
+// Outside check: exact cases (SSE = 0) of fixtures/checks.json: the quartiles of N(50, 10²) with z₀.₇₅ from mpmath; the gamma with
 // median 10 and 90 % quantile 20 from mpmath findroot (scipy agrees to 7.7e-16).
-describe('exact fits (REFERENCE §1.2)', () => {
+describe('exact fits (FIT-normal-symmetric, FIT-gamma-two-point-exact)', () => {
   it('FIT-normal-symmetric: quartiles of N(50, 10²) give mean 50, sd 10, SSE 0', () => {
     const c = check('FIT-normal-symmetric')
     const fit = fitDistribution(toPoints(c.inputs.x, c.inputs.p), 'normal')
@@ -93,8 +95,8 @@ describe('exact fits (REFERENCE §1.2)', () => {
   })
 })
 
-// Source: REFERENCE §1.3 — closed forms σ = (x₂ − x₁)/(z_{p₂} − z_{p₁}), μ = x₁ − σ z_{p₁}, mpmath 1.3.0 at 40 digits.
-describe('normal and lognormal from two quantiles (REFERENCE §1.3, closed form)', () => {
+// Outside check: closed forms σ = (x₂ − x₁)/(z_{p₂} − z_{p₁}), μ = x₁ − σ z_{p₁}, mpmath at 40 digits (fixtures/generate_checks.py).
+describe('normal and lognormal from two quantiles (closed form; docs/methods/distributions.md)', () => {
   it('FIT-normal-two-quantiles: 5 % = 4, 95 % = 20', () => {
     const c = check('FIT-normal-two-quantiles')
     const a = { value: c.inputs.x1, prob: c.inputs.p1 }

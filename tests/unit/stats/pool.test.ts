@@ -15,9 +15,9 @@ function toDistribution(e: Record<string, number | string>): Distribution {
   throw new Error(`family ${e.family}`)
 }
 
-// Source: REFERENCE §2.1 — Stone (1961); Genest & Zidek (1986) Statistical Science 1:114–148. Quantiles by 40-digit
+// Outside check: POOL-linear-* of fixtures/checks.json — Stone (1961); Genest & Zidek (1986) Statistical Science 1:114–148. Quantiles by 40-digit
 // mpmath findroot on the mixture CDF, cross-checked with scipy brentq (≤ 5e-16).
-describe('linear opinion pool (REFERENCE §2.1)', () => {
+describe('linear opinion pool (docs/methods/pooling.md)', () => {
   for (const id of ['POOL-linear-2', 'POOL-linear-3']) {
     it(`${id}: quantiles by root finding, mean and sd`, () => {
       const c = check(id)
@@ -52,8 +52,8 @@ describe('linear opinion pool (REFERENCE §2.1)', () => {
   })
 })
 
-// Source: REFERENCE §2.2 — Genest & Zidek (1986); closed forms cross-checked by normalising Π f_i^{w_i} with scipy quad.
-describe('logarithmic opinion pool (REFERENCE §2.2)', () => {
+// Outside check: POOL-log-* of fixtures/checks.json — Genest & Zidek (1986); closed forms cross-checked by normalising Π f_i^{w_i} with scipy quad.
+describe('logarithmic opinion pool (docs/methods/pooling.md)', () => {
   for (const id of ['POOL-log-normal-2', 'POOL-log-normal-3', 'POOL-log-gamma-2', 'POOL-log-beta-2']) {
     it(`${id}: closed form, mean and sd`, () => {
       const c = check(id)

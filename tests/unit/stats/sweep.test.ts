@@ -1,13 +1,14 @@
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
-import { analyzePrior, mean, PRIOR_DRIVEN_RULE, quantile, scaleSpread, sd, widthSweep, type PilotData, type PriorDistribution } from '@shared/stats'
+import { analyzePrior, mean, PRIOR_DRIVEN_CONVENTION, PRIOR_DRIVEN_RULE, quantile, scaleSpread, sd, widthSweep, type PilotData, type PriorDistribution } from '@shared/stats'
 import { check, expectAbs, expectRel } from './checks'
 
 const X = [2.2, 3.5, 2.8, 3.9, 2.6]
 const data: PilotData = { model: 'normal-known-sigma', sigma: 2, values: X }
 
-// Source: REFERENCE §5 (WIDTH-uniform) — U(0, A) prior on a normal mean, closed form of §4.2 at 40 digits (mpmath).
-describe('width sweep of a uniform prior whose lower end sits on the support boundary (REFERENCE §5)', () => {
+// Outside check: WIDTH-uniform of fixtures/checks.json — U(0, A) prior on a normal mean, closed form via normal CDFs at
+// 40 digits (mpmath) with scipy quad beside it (fixtures/generate_checks.py; docs/methods/width-sweep.md).
+describe('width sweep of a uniform prior whose lower end sits on the support boundary (docs/methods/width-sweep.md)', () => {
   it('U(0, 10) on a positive quantity: factors 1, 2, 4, 8 give A = 10, 20, 40, 80 and the tabulated evidence', () => {
     const c = check('WIDTH-uniform')
     const sweep = widthSweep({ family: 'uniform', lower: 0, upper: 10 }, data, [1, 2, 4, 8], { kind: 'positive' })
@@ -43,8 +44,31 @@ describe('width sweep of a uniform prior whose lower end sits on the support bou
     expectRel(sweep.evidenceRatio, Math.exp(k1 - k2), 1e-12)
   })
 
-  it('PRIOR_DRIVEN_RULE states the thresholds the code applies', () => {
-    for (const s of ['0.5', '2', '3 times', '0.1 posterior standard deviations']) expect(PRIOR_DRIVEN_RULE).toContain(s)
+  it('the flag switches where Priorsmith’s convention says: evidence ratio 3 inside factors 0.5–2, factors outside ignored', () => {
+    expect(PRIOR_DRIVEN_CONVENTION).toEqual({ fromFactor: 0.5, toFactor: 2, evidenceRatio: 3, meanShiftSds: 0.1 })
+    const uniform: PriorDistribution = { family: 'uniform', lower: 0, upper: 10 }
+    // Evidence of U(0, 10k) is about 1/(10k) here, so factors 0.5 and c give a ratio close to 2c.
+    const below = widthSweep(uniform, data, [0.5, 1, 1.4], { kind: 'positive' })
+    const above = widthSweep(uniform, data, [0.5, 1, 1.6], { kind: 'positive' })
+    expect(below.evidenceRatio).toBeGreaterThan(2.5)
+    expect(below.evidenceRatio).toBeLessThan(3)
+    expect(below.priorDriven).toBe(false)
+    expect(above.evidenceRatio).toBeGreaterThan(3)
+    expect(above.evidenceRatio).toBeLessThan(3.5)
+    expect(above.priorDriven).toBe(true)
+    // A fourfold width (outside 0.5–2) changes the evidence about 4× but does not count.
+    const outside = widthSweep(uniform, data, [1, 4], { kind: 'positive' })
+    expect(outside.points[1].logEvidence - outside.points[0].logEvidence).toBeCloseTo(-Math.log(4), 2)
+    expect(outside.evidenceRatio).toBe(1)
+    expect(outside.priorDriven).toBe(false)
+  })
+
+  it('PRIOR_DRIVEN_RULE is labelled as Priorsmith’s convention and states the numbers the code applies', () => {
+    const c = PRIOR_DRIVEN_CONVENTION
+    expect(PRIOR_DRIVEN_RULE.startsWith('Priorsmith’s rule of thumb (a convention of this tool, not a published test)')).toBe(true)
+    expect(PRIOR_DRIVEN_RULE).toContain(`any factor between ${c.fromFactor} and ${c.toFactor} changes the evidence by more than ${c.evidenceRatio} times`)
+    expect(PRIOR_DRIVEN_RULE).toContain(`within ${c.meanShiftSds} posterior standard deviations`)
+    expect(PRIOR_DRIVEN_RULE).toContain('Why these numbers')
   })
 })
 

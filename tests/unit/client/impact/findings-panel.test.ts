@@ -42,6 +42,9 @@ describe('FindingsPanel', () => {
     const cautions = w.get('[data-testid="impact-cautions"]')
     expect(cautions.findAll('[data-testid="impact-caution"]').map((c) => c.attributes('data-flag'))).toEqual(['prior-dominates', 'prior-data-conflict', 'prior-driven-bayes-factor'])
     expect(cautions.get('[data-flag="prior-dominates"]').text()).toContain('The prior dominates the data — Expert A.')
+    // The product's rules of thumb are labelled as its own conventions, with their reasoning (docs/methods/).
+    expect(cautions.get('[data-flag="prior-dominates"]').text()).toContain('Priorsmith’s rule of thumb, not a published test: the prior counts as that many observations')
+    expect(cautions.get('[data-flag="prior-data-conflict"]').text()).toContain('the customary 5 % level, a convention')
     expect(cautions.get('[data-testid="prior-driven-rule"]').text()).toBe(PRIOR_DRIVEN_RULE)
   })
 

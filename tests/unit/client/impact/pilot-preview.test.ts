@@ -34,7 +34,8 @@ describe('local preview of a pilot CSV (papaparse in the browser)', () => {
   })
 
   it('locates problems by line: a line with another number of columns than the header, no data rows, too many rows', () => {
-    expect(previewText('a,b\n1,2\n3,4,5\n', ',').problems).toEqual(['Line 3: expected 2 columns like the header, found 3.'])
+    expect(previewText('a,b\n1,2\n3,4,5\n', ',').problems).toEqual(['Line 3: expected 2 fields like the header, found 3.'])
+    expect(previewText('a,b\n"x\ny",2\n\n3\n', ',').problems).toEqual(['Line 5: expected 2 fields like the header, found 1.'])
     expect(previewText('a,b\n', ',').problems).toEqual(['Line 2: The file has a header but no data rows.'])
     const many = 'x\n' + '1\n'.repeat(PILOT_MAX_ROWS + 1)
     expect(previewText(many, ',').problems).toEqual(['The file has 100,001 data rows; at most 100,000 are accepted.'])

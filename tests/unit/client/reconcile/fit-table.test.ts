@@ -5,7 +5,7 @@ import { ElRadio, ElTag } from 'element-plus'
 import { fitAll } from '@shared/stats'
 import FitTable from '@/components/reconcile/FitTable.vue'
 
-// Quartiles of N(10, 3.75²)-like judgements (REFERENCE.md §1, FIT-normal): on the real line normal, Student-t and uniform are fitted.
+// Quartiles of N(10, 3.75²)-like judgements (FIT-normal): on the real line normal, Student-t and uniform are fitted.
 const fits = fitAll([{ value: 8, prob: 0.25 }, { value: 10, prob: 0.5 }, { value: 13, prob: 0.75 }], { kind: 'real' })
 
 function mountTable(chosen: string | null, disabled = false) {

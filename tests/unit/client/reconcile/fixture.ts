@@ -1,7 +1,8 @@
 import { quantile, type Distribution } from '@shared/stats'
 import type { ReconcileExpert, ReconciliationView } from '@/api/reconciliation'
 
-// Cooke's classical model worked example, REFERENCE.md §3.1 (COOKE-worked-example; Cooke 1991, ch. 12): realisations and the
+// A CONSTRUCTED two-expert panel, COOKE-worked-example of tests/unit/stats/fixtures/checks.json (values from an independent
+// Python implementation of Cooke's classical model, Cooke 1991 ch. 12; not from a publication): realisations and the
 // 5/50/95 % values of experts A and B. Normalised weights at α = 0: 0.957753869124 / 0.0422461308765; at α = 0.05: 1 / 0.
 export const REALISATIONS = [12, 35, 7.5, 150, 0.8, 48, 23, 5.2, 90, 310]
 export const EXPERT_A = [[5, 10, 20], [20, 40, 70], [2, 6, 12], [60, 120, 200], [0.3, 1, 3], [15, 30, 45], [10, 25, 50], [5.5, 9, 15], [40, 80, 160], [150, 350, 700]]
@@ -15,7 +16,7 @@ export function expert(expertId: number, label: string, name: string, distributi
   }
 }
 
-/** Two experts, N(10, 2²) and N(14, 3²) (REFERENCE.md §2, POOL-linear-2), with the Cooke worked example as their calibration answers. */
+/** Two experts, N(10, 2²) and N(14, 3²) (POOL-linear-2), with the constructed Cooke panel as their calibration answers. */
 export function viewFixture(overrides: Partial<ReconciliationView> = {}): ReconciliationView {
   const experts = [
     expert(3, 'Expert A', 'Tomasz Wierzbicki', { family: 'normal', mu: 10, sigma: 2 }),

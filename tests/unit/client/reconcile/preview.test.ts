@@ -13,7 +13,7 @@ function input(changes: Partial<PreviewInput> = {}): PreviewInput {
 const components = () => viewFixture().experts.map((e) => ({ expertId: e.expertId, label: e.label, distribution: e.distribution }))
 
 describe('live preview of the combination', () => {
-  it('pools with equal weights: the linear pool of N(10,2²) and N(14,3²) (REFERENCE.md §2.1, POOL-linear-2)', () => {
+  it('pools with equal weights: the linear pool of N(10,2²) and N(14,3²) (POOL-linear-2)', () => {
     const p = computePreview(input())
     expect(p.weights).toEqual([0.5, 0.5])
     expect(p.summary!.q50).toBeCloseTo(11.6, 6)
@@ -23,7 +23,7 @@ describe('live preview of the combination', () => {
     expect(p.fits.map((f) => f.distribution.family).sort()).toEqual(['normal', 'student-t', 'uniform'])
   })
 
-  it('uses Cooke performance weights computed in the browser, equal to shared combine() with those weights (REFERENCE.md §3.1)', () => {
+  it('uses Cooke performance weights computed in the browser, equal to shared combine() with those weights (COOKE-worked-example)', () => {
     const p = computePreview(input({ weightsMode: 'performance' }))
     expect(p.weights[0]).toBeCloseTo(0.957753869124, 9)
     expect(p.weights[1]).toBeCloseTo(0.0422461308765, 9)

@@ -228,7 +228,7 @@ describe('ReconcileView', { timeout: 15000 }, () => {
       await values[i].trigger('change')
     }
     await settle()
-    // 90 % interval about 11.5–12.5 against medians 10 and 14 (REFERENCE.md §2.1 experts).
+    // 90 % interval about 11.5–12.5 against medians 10 and 14 (the POOL-linear-2 experts).
     expect(wrapper.find('[data-testid="consensus-warning"]').exists()).toBe(true)
     await wrapper.get('[data-testid="save-draft"]').trigger('click')
     await settle()

@@ -44,9 +44,11 @@ describe('record actions by role and status', () => {
     })
   }
 
-  it('lets analysts and reviewers comment and send charts until sign-off, never experts', () => {
+  it('lets analysts and reviewers comment until sign-off, and only the analyst send charts, while a draft', () => {
     expect(recordActions('analyst', 'draft', true)).toMatchObject({ comment: true, sendCharts: true })
-    expect(recordActions('reviewer', 'in_review', true)).toMatchObject({ comment: true, sendCharts: true })
+    expect(recordActions('analyst', 'in_review', true)).toMatchObject({ comment: true, sendCharts: false })
+    expect(recordActions('reviewer', 'draft', true)).toMatchObject({ comment: true, sendCharts: false })
+    expect(recordActions('reviewer', 'in_review', true)).toMatchObject({ comment: true, sendCharts: false })
     expect(recordActions('reviewer', 'signed_off', true)).toMatchObject({ comment: false, sendCharts: false })
     expect(recordActions('expert', 'draft', true)).toMatchObject({ comment: false, sendCharts: false })
   })

@@ -17,7 +17,10 @@ describe('model-code round-trip check', () => {
       const result = checkModelLine(line, prior)
       expect(result.ok, line.language).toBe(true)
       expect(result.readBack?.family).toBe('normal')
-      expect(result.text).toMatch(/^reads back as Normal\(mean 3\.2, sd 1\.1\), quantiles agree to (0|\de-1[5-7])$/)
+      const lang = { stan: 'Stan', pymc: 'PyMC', jags: 'JAGS', brms: 'brms' }[line.language]
+      // Says what the check is: Priorsmith's reader applying the language's documented parameterisation, not the language run.
+      expect(result.text).toBe(`Read by Priorsmith (not by ${lang} itself) with ${lang}’s documented parameterisation: reads back as Normal(mean 3.2, sd 1.1), quantiles agree to ${result.text.split('agree to ')[1]}`)
+      expect(result.text).toMatch(/quantiles agree to (0|\de-1[5-7])$/)
     }
   })
 
@@ -26,7 +29,7 @@ describe('model-code round-trip check', () => {
     const result = checkModelLine(wrong, prior)
     expect(result.ok).toBe(false)
     // JAGS reads 1.1 as the precision: sd = 1/sqrt(1.1)
-    expect(result.text).toMatch(/^Check failed: reads back as Normal\(mean 3\.2, sd 0\.953463\), quantiles differ by \de-\d+ \(more than 1e-6\)$/)
+    expect(result.text).toMatch(/^Check failed: read by Priorsmith \(not by JAGS itself\) with JAGS’s documented parameterisation: reads back as Normal\(mean 3\.2, sd 0\.953463\), quantiles differ by \de-\d+ \(more than 1e-6\)$/)
   })
 
   it('reports a line it cannot read, and skips brms for a scaled beta', () => {
@@ -60,6 +63,6 @@ describe('model-code round-trip check', () => {
     const result = w.get('[data-testid="model-check-result"][data-language="stan"]')
     expect(result.attributes('data-ok')).toBe('false')
     expect(result.classes()).toContain('is-failed')
-    expect(result.text()).toContain('Check failed: reads back as Normal(mean 3.2, sd 1.2)')
+    expect(result.text()).toContain('Check failed: read by Priorsmith (not by Stan itself) with Stan’s documented parameterisation: reads back as Normal(mean 3.2, sd 1.2)')
   })
 })

@@ -82,6 +82,45 @@ describe('RecordView', () => {
     expect(wrapper.find('[data-testid="comment-open"]').exists()).toBe(false)
   })
 
+  it('shows the cautions the record states, and for a final prior without an analysis says so and takes the analyst’s reason', async () => {
+    const view = recordView('draft')
+    view.content.schemaVersion = '1.1'
+    view.content.cautions = [
+      { rule: 'statistician-review', quantity: null, text: 'Reviewed by a qualified statistician before use.' },
+      { rule: 'hand-adjusted', quantity: 'Night-flow reduction', text: 'Night-flow reduction: the final prior was adjusted by hand (tails).' },
+    ]
+    const { wrapper, calls } = mountView('analyst', view, (c) =>
+      c.method === 'PUT' && c.url === '/api/quantities/11/impact/not-run'
+        ? ((c.body as { reason: string }).reason.length < 20
+          ? { status: 400, body: { error: { message: 'Some fields need attention', fields: { reason: 'Explain in at least 20 characters; it goes into the prior record' } } } }
+          : { status: 200, body: { quantityId: 11, priorHash: 'f'.repeat(64), reason: (c.body as { reason: string }).reason } })
+        : undefined,
+    )
+    await vi.waitFor(() => expect(wrapper.find('[data-testid="record-cautions"]').exists()).toBe(true))
+    expect(wrapper.findAll('[data-testid="record-caution"]').map((c) => c.text())).toEqual(['Night-flow reduction: the final prior was adjusted by hand (tails).'])
+    const missing = wrapper.get('[data-testid="record-section"][data-section="Night-flow reduction (flow)"] [data-testid="impact-missing"]')
+    expect(missing.text()).toContain('No impact analysis of the final prior exists.')
+    await missing.get('[data-testid="impact-not-run-open"]').trigger('click')
+    const text = missing.get('[data-testid="impact-not-run-field"] textarea')
+    await text.setValue('No pilot data exist for this quantity yet.')
+    await missing.get('form').trigger('submit')
+    await vi.waitFor(() => expect(calls.some((c) => c.method === 'PUT' && c.url === '/api/quantities/11/impact/not-run')).toBe(true))
+    expect(calls.find((c) => c.method === 'PUT')!.body).toEqual({ reason: 'No pilot data exist for this quantity yet.' })
+    // Saved: the record is read again from the server.
+    await vi.waitFor(() => expect(calls.filter((c) => c.method === 'GET' && c.url === '/api/studies/4/record')).toHaveLength(2))
+  })
+
+  it('derives the record-specific cautions of a record stored with plain-text cautions from the shared rules', async () => {
+    const { wrapper } = mountView('expert', recordView('signed_off'))
+    await vi.waitFor(() => expect(wrapper.find('[data-testid="record-cautions"]').exists()).toBe(true))
+    await flushPromises()
+    expect(wrapper.findAll('[data-testid="record-caution"]').map((c) => c.text())).toEqual([
+      'Night-flow reduction: no impact analysis of the final prior exists.',
+      'Leak-alert uptake: no final prior yet (not reconciled).',
+    ])
+    expect(wrapper.find('[data-testid="impact-not-run-open"]').exists()).toBe(false)
+  })
+
   it('shows each fit’s warnings and the caution on performance weights from the record content', async () => {
     const view = recordView('draft')
     const flow = quantity()

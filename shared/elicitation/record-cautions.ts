@@ -1,0 +1,81 @@
+import { flagLabel } from '../record/format'
+
+/**
+ * The cautions a prior record states: the two that hold for every record, then those raised by this record's own
+ * facts. One function, run by the server when it assembles the record (so the cautions are in its content and hash)
+ * and by the browser for a stored record that predates them.
+ */
+
+export interface RecordCaution {
+  /** Which rule raised it: 'statistician-review', 'prior-influence', 'left-out', 'not-reconciled', 'seen-pilot-data', a flag of the final prior, 'hand-adjusted', 'performance-weights', 'no-impact-analysis'. */
+  rule: string
+  /** The quantity it concerns, by name; null for the record as a whole. */
+  quantity: string | null
+  text: string
+}
+
+export const GENERAL_CAUTIONS: readonly RecordCaution[] = [
+  {
+    rule: 'statistician-review',
+    quantity: null,
+    text: 'The priors in this record can decide the result of the analyses that use them. Before they inform a decision that affects people, they must be reviewed under the regulatory or professional guidance that applies to that decision, and by a qualified statistician.',
+  },
+  {
+    rule: 'prior-influence',
+    quantity: null,
+    text: 'Priorsmith’s rules of thumb, conventions of this tool rather than published tests (its methods documentation gives the reasoning): a prior that carries more information than the data (prior effective sample size larger than n) dominates the posterior; a prior–data conflict (Box p < 0.05, the customary 5 % level) needs an explanation; a Bayes factor that changes more than 3× when the prior’s width is halved or doubled, while the posterior mean moves less than 0.1 posterior standard deviations, reflects the prior’s width rather than the data.',
+  },
+]
+
+/** The parts of a record the cautions read (the record content has this shape). */
+export interface CautionFacts {
+  panel: { code: string; name?: string | null; declarations: { seenPilotData: boolean }[] }[]
+  quantities: {
+    name: string
+    /** Left out of the record with a reason: the record says so and states nothing else about it. */
+    leftOut?: { reason: string } | null
+    finalPrior: unknown | null
+    /** weightCautions: the performance-weight cautions of the saved combination (shared/elicitation/weights.ts). */
+    combination: { adjusted: boolean; adjustReason: string; weightCautions?: string[] } | null
+    impact: { candidates: { kind: string; flags: string[] }[]; sweep: { priorDriven: boolean } | null } | null
+    impactNotRunReason?: string | null
+  }[]
+}
+
+const expertName = (e: { code: string; name?: string | null }) => (e.name ? `${e.code} (${e.name})` : e.code)
+
+/** The general cautions, then each one this record's facts raise, in the order of the record. */
+export function recordCautions(facts: CautionFacts): RecordCaution[] {
+  const out: RecordCaution[] = [...GENERAL_CAUTIONS]
+  for (const e of facts.panel) {
+    if (e.declarations.some((d) => d.seenPilotData)) {
+      out.push({ rule: 'seen-pilot-data', quantity: null, text: `${expertName(e)} had seen the pilot data before answering: the same evidence may count twice, in the prior and in the data.` })
+    }
+  }
+  for (const q of facts.quantities) {
+    const add = (rule: string, text: string) => out.push({ rule, quantity: q.name, text: `${q.name}: ${text}` })
+    if (q.leftOut) {
+      add('left-out', `left out of this record (${q.leftOut.reason}).`)
+      continue
+    }
+    if (!q.finalPrior) {
+      add('not-reconciled', 'no final prior yet (not reconciled).')
+      continue
+    }
+    const final = q.impact?.candidates.find((c) => c.kind === 'reconciled')
+    const flags = [...(final?.flags ?? [])]
+    if (q.impact?.sweep?.priorDriven && !flags.includes('prior-driven-bayes-factor')) flags.push('prior-driven-bayes-factor')
+    for (const f of flags) add(f, `the final prior is flagged: ${flagLabel(f)}.`)
+    if (q.combination?.adjusted) add('hand-adjusted', `the final prior was adjusted by hand (${q.combination.adjustReason || 'no reason given'}).`)
+    for (const c of q.combination?.weightCautions ?? []) add('performance-weights', c)
+    if (!q.impact) {
+      add('no-impact-analysis', q.impactNotRunReason
+        ? `no impact analysis of the final prior was run; the analyst’s reason: ${q.impactNotRunReason}`
+        : 'no impact analysis of the final prior exists.')
+    }
+  }
+  return out
+}
+
+/** A caution's words: records stored before schema 1.1 hold plain text. */
+export const cautionText = (c: string | RecordCaution): string => (typeof c === 'string' ? c : c.text)
