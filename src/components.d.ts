@@ -122,6 +122,7 @@ declare module 'vue' {
     StudyStatusTag: typeof import('./components/StudyStatusTag.vue')['default']
     StudyTable: typeof import('./components/StudyTable.vue')['default']
     SweepCharts: typeof import('./components/impact/SweepCharts.vue')['default']
+    TimeZoneList: typeof import('./components/rounds/TimeZoneList.vue')['default']
     UserCreateDialog: typeof import('./components/UserCreateDialog.vue')['default']
     UserEditDialog: typeof import('./components/UserEditDialog.vue')['default']
     UserMenu: typeof import('./components/UserMenu.vue')['default']

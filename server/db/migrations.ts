@@ -9,6 +9,7 @@ import * as m007 from '../../migrations/20261202_007_records'
 import * as m008 from '../../migrations/20261203_008_abuse_limits'
 import * as m010 from '../../migrations/20261203_010_record_review'
 import * as m016 from '../../migrations/20261203_016_record_integrity'
+import * as roundTimeZone from '../../migrations/20261203_i17b_round_time_zone'
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> }
 
@@ -24,6 +25,7 @@ const migrations: Record<string, Migration> = {
   '20261203_008_abuse_limits': m008,
   '20261203_010_record_review': m010,
   '20261203_016_record_integrity': m016,
+  '20261203_i17b_round_time_zone': roundTimeZone,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

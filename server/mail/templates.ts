@@ -2,6 +2,7 @@
  * E-mail bodies. Every input is a plain value; each message is built once as a list of blocks
  * and rendered twice, as plain text and as simple HTML in which every value is escaped.
  */
+import { PLAUSIBLE_BOUND_WORDS } from '../../shared/elicitation/bounds'
 
 export interface MailContent {
   subject: string
@@ -10,8 +11,8 @@ export interface MailContent {
 }
 
 export interface DateStyle {
-  /** IANA time zone for dates in the message. Default 'UTC' (the zone is always named). */
-  timeZone?: string
+  /** IANA time zone of the round, chosen by the analyst: every time in the message is stated in it, with its name. */
+  timeZone: string
 }
 
 export interface InvitationInput extends DateStyle {
@@ -88,14 +89,26 @@ function appUrl(publicUrl: string, path: string): string {
 /** Names and titles go into headers and single lines: no line breaks. */
 const oneLine = (s: string) => s.replace(/\s+/g, ' ').trim()
 
-/** e.g. "Thursday 24 December 2026, 17:00 (UTC)"; assembled from parts so ICU versions cannot change the punctuation. */
-export function formatDate(d: Date, timeZone = 'UTC'): string {
+/** "GMT+01:00" → "UTC+1", "GMT+05:30" → "UTC+5:30", "GMT" → "UTC+0". */
+function utcOffset(longOffset: string): string {
+  const m = /^GMT([+-])(\d{2}):(\d{2})$/.exec(longOffset)
+  if (!m) return 'UTC+0'
+  const hours = String(Number(m[2]))
+  return `UTC${m[1]}${m[3] === '00' ? hours : `${hours}:${m[3]}`}`.replace(/^UTC[+-]0$/, 'UTC+0')
+}
+
+/**
+ * e.g. "Thursday 24 December 2026, 18:00 (Europe/Berlin, UTC+1)" or "…, 17:00 (UTC)": the time in the round's zone,
+ * named, with its offset from UTC on that date; assembled from parts so ICU versions cannot change the punctuation.
+ */
+export function formatDate(d: Date, timeZone: string): string {
   if (!(d instanceof Date) || Number.isNaN(d.getTime())) throw new Error('mail template: invalid date')
   const parts = new Intl.DateTimeFormat('en-GB', {
-    timeZone, weekday: 'long', day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', hourCycle: 'h23',
+    timeZone, weekday: 'long', day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', hourCycle: 'h23', timeZoneName: 'longOffset',
   }).formatToParts(d)
   const get = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? ''
-  return `${get('weekday')} ${get('day')} ${get('month')} ${get('year')}, ${get('hour')}:${get('minute')} (${timeZone})`
+  const zone = timeZone === 'UTC' ? timeZone : `${timeZone}, ${utcOffset(get('timeZoneName'))}`
+  return `${get('weekday')} ${get('day')} ${get('month')} ${get('year')}, ${get('hour')}:${get('minute')} (${zone})`
 }
 
 function render(subject: string, greeting: string, blocks: Block[], signOff: string[]): MailContent {
@@ -142,9 +155,15 @@ function questionsList(quantities: string[]): Block[] {
 }
 
 const WHAT_IS_ASKED =
-  'For each quantity you give a few values (for example a plausible range and a median) and a short rationale. ' +
-  'After each answer you see the distribution your values imply and can adjust them. ' +
+  'For each quantity you give a few values and a short reason for them: for example the lowest and the highest value you find plausible ' +
+  `(values you would be very surprised, ${PLAUSIBLE_BOUND_WORDS}, to see the true value fall beyond) and a middle value. ` +
+  'As you answer you see a curve of what your values say, in plain words, and can adjust them. ' +
   'There are no right or wrong answers: we are asking for your honest, considered judgement, uncertainty included.'
+
+/** What saving and submitting do: answers stay open to change until the expert submits them, and no longer. */
+const SAVING_AND_SUBMITTING =
+  'Your answers are saved as you go, and you can change them until you submit them. ' +
+  'Submitting sends them to the analyst and freezes them; after that, only the analyst can reopen them.'
 
 /** First contact with a new expert: a personal, single-use link that creates their account. */
 export function invitationMessage(i: InvitationInput): MailContent {
@@ -156,6 +175,7 @@ export function invitationMessage(i: InvitationInput): MailContent {
     { p: `The round is open from ${formatDate(i.opensAt, tz)} until ${formatDate(i.closesAt, tz)}.` },
     ...questionsList(i.quantities),
     { p: WHAT_IS_ASKED },
+    { p: SAVING_AND_SUBMITTING },
     ...(i.briefing?.trim() ? [{ p: 'The analyst\'s briefing for this round:' }, { quote: i.briefing.trim() }] : []),
     { link, label: 'Accept the invitation and set your password' },
     {
@@ -178,7 +198,7 @@ export function roundNoticeMessage(i: RoundNoticeInput): MailContent {
     ...questionsList(i.quantities),
     ...(i.briefing?.trim() ? [{ p: 'The analyst\'s briefing for this round:' }, { quote: i.briefing.trim() }] : []),
     { link, label: 'Open the round (sign in with your Priorsmith account)' },
-    { p: 'Your answers are saved as you go, and you can revise them until the round closes.' },
+    { p: SAVING_AND_SUBMITTING },
   ]
   return render(`New round: "${oneLine(i.roundTitle)}" (${oneLine(i.studyTitle)})`, `Dear ${oneLine(i.expertName)},`, blocks, signOff())
 }

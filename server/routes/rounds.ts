@@ -1,10 +1,10 @@
 import { Router } from 'express'
-import { declarationSchema, invitationSchema, practiceSchema, roundSchema, roundUpdateSchema } from '../../shared/schemas/rounds'
+import { declarationSchema, emptySchema, invitationSchema, practiceSchema, roundSchema, roundUpdateSchema } from '../../shared/schemas/rounds'
 import { currentUser } from '../auth/guards'
 import type { AppContext } from '../context'
 import { HttpError, idParam, validateBody } from '../http/errors'
 import { allow, studyAccess, accessVia, type StudyAccess } from '../services/access'
-import { roundEntry, saveDeclaration, savePractice } from '../services/invitations'
+import { confirmEarlierDeclaration, roundEntry, saveDeclaration, savePractice } from '../services/invitations'
 import { practiceFeedback } from '../services/practice'
 import {
   addPanelMember, closeRound, createRound, getRound, listMyRounds, listRounds, openRound, removePanelMember,
@@ -120,6 +120,14 @@ export function roundsRouter(ctx: AppContext): Router {
     expertOnly(access)
     const body = await validateBody(declarationSchema, req.body)
     res.json(await saveDeclaration(db, access.user, id, access.studyId, body))
+  })
+
+  // A later round of the same study: the expert's earlier declaration is still true.
+  r.post('/rounds/:id/declaration/confirm', async (req, res) => {
+    const { id, access } = await roundAccess(req)
+    expertOnly(access)
+    await validateBody(emptySchema, req.body ?? {})
+    res.json(await confirmEarlierDeclaration(db, access.user, id, access.studyId))
   })
 
   r.post('/rounds/:id/practice', async (req, res) => {

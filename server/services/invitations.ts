@@ -76,28 +76,104 @@ export async function acceptInvitation(db: Db, token: string, body: { name: stri
   return { user: user!, roundId: result.roundId }
 }
 
-/** The expert's entry state for a round: first visit is stamped; declaration and practice status. */
+type DeclarationRow = {
+  round_id: number
+  expertise: string
+  interests: 'none' | 'described'
+  interests_text: string
+  seen_pilot_data: boolean
+  practice_points: unknown
+  practice_fit: unknown
+  practice_completed_at: Date | null
+  updated_at: Date
+}
+
+const declarationOf = (d: DeclarationRow) => ({
+  expertise: d.expertise, interests: d.interests, interestsText: d.interests_text, seenPilotData: d.seen_pilot_data, savedAt: d.updated_at.toISOString(),
+})
+const practiceOf = (d: DeclarationRow) =>
+  d.practice_completed_at ? { points: d.practice_points, fit: d.practice_fit, completedAt: d.practice_completed_at.toISOString() } : null
+
+/** The expert's latest declaration in an earlier round of the same study, with that round's number and title. */
+async function earlierDeclaration(db: Db, userId: number, round: { study_id: number; number: number }) {
+  const row: (DeclarationRow & { number: number; title: string }) | undefined = await db('declarations as d').join('rounds as r', 'r.id', 'd.round_id')
+    .where({ 'r.study_id': round.study_id, 'd.user_id': userId }).where('r.number', '<', round.number)
+    .orderBy('r.number', 'desc').first('d.*', 'r.number', 'r.title')
+  return row ?? null
+}
+
+/** Calibration questions the expert answered in an earlier round of the study: asked once per study. */
+export async function calibrationAnsweredEarlier(db: Db, userId: number, round: { id: number; study_id: number; number: number }): Promise<number[]> {
+  const ids: number[] = await db('calibration_answers as a').join('rounds as r', 'r.id', 'a.round_id')
+    .where({ 'r.study_id': round.study_id, 'a.expert_id': userId }).where('r.number', '<', round.number)
+    .distinct('a.question_id').pluck('a.question_id')
+  return ids.sort((a, b) => a - b)
+}
+
+/**
+ * The expert's entry state for a round: first visit is stamped; declaration and practice status. In a later round
+ * of the same study, what the expert declared and practised last time comes back as `earlier`, to confirm or edit
+ * ("still true?") rather than to answer again.
+ */
 export async function roundEntry(db: Db, user: User, roundId: number) {
   const member = await db('round_panel').where({ round_id: roundId, user_id: user.id }).first()
   if (!member) throw new HttpError(403, 'You are not on the panel of this round')
   if (!member.first_opened_at) await db('round_panel').where({ id: member.id }).update({ first_opened_at: db.fn.now() })
-  const d = await db('declarations').where({ round_id: roundId, user_id: user.id }).first()
+  const round = await db('rounds').where({ id: roundId }).first('id', 'study_id', 'number')
+  const d: DeclarationRow | undefined = await db('declarations').where({ round_id: roundId, user_id: user.id }).first()
+  const before = d ? null : await earlierDeclaration(db, user.id, round)
+  const pilotData: string[] = await db('pilot_datasets').where({ study_id: round.study_id }).distinct('name').orderBy('name').pluck('name')
   return {
-    declaration: d ? { expertise: d.expertise, interests: d.interests, interestsText: d.interests_text, seenPilotData: d.seen_pilot_data, savedAt: d.updated_at.toISOString() } : null,
-    practice: d?.practice_completed_at ? { points: d.practice_points, fit: d.practice_fit, completedAt: d.practice_completed_at.toISOString() } : null,
+    declaration: d ? declarationOf(d) : null,
+    practice: d ? practiceOf(d) : null,
+    earlier: before ? { roundNumber: before.number, roundTitle: before.title, declaration: declarationOf(before), practice: practiceOf(before) } : null,
+    /** Names of the study's pilot data sets, so that the declaration can name them. */
+    pilotData,
+    calibrationAnsweredEarlier: await calibrationAnsweredEarlier(db, user.id, round),
     submittedAt: member.submitted_at ? member.submitted_at.toISOString() : null,
   }
+}
+
+/** A first declaration in this round takes along the practice answer of an earlier round: practice is once per study. */
+async function earlierPractice(db: Db, userId: number, roundId: number) {
+  const round = await db('rounds').where({ id: roundId }).first('study_id', 'number')
+  const row = await db('declarations as d').join('rounds as r', 'r.id', 'd.round_id')
+    .where({ 'r.study_id': round.study_id, 'd.user_id': userId }).where('r.number', '<', round.number).whereNotNull('d.practice_completed_at')
+    .orderBy('r.number', 'desc').first('d.practice_points', 'd.practice_fit', 'd.practice_completed_at')
+  return row
+    ? { practice_points: JSON.stringify(row.practice_points), practice_fit: JSON.stringify(row.practice_fit), practice_completed_at: row.practice_completed_at }
+    : {}
 }
 
 export async function saveDeclaration(db: Db, user: User, roundId: number, studyId: number, body: DeclarationBody) {
   const member = await db('round_panel').where({ round_id: roundId, user_id: user.id }).first('id')
   if (!member) throw new HttpError(403, 'You are not on the panel of this round')
+  const practice = await earlierPractice(db, user.id, roundId)
   await db.transaction(async (trx) => {
     await trx('declarations').insert({
       round_id: roundId, user_id: user.id, expertise: body.expertise, interests: body.interests,
       interests_text: body.interests === 'described' ? body.interestsText : '', seen_pilot_data: body.seenPilotData,
+      ...practice,
     }).onConflict(['round_id', 'user_id']).merge(['expertise', 'interests', 'interests_text', 'seen_pilot_data', 'updated_at'])
     await recordAudit(trx, { actorId: user.id, studyId, action: 'declaration.save', subject: `round:${roundId}`, details: { interests: body.interests, seenPilotData: body.seenPilotData } })
+  })
+  return roundEntry(db, user, roundId)
+}
+
+/** "Still true": the expert's declaration (and practice) of an earlier round of the study, kept for this round as it was. */
+export async function confirmEarlierDeclaration(db: Db, user: User, roundId: number, studyId: number) {
+  const member = await db('round_panel').where({ round_id: roundId, user_id: user.id }).first('id')
+  if (!member) throw new HttpError(403, 'You are not on the panel of this round')
+  const round = await db('rounds').where({ id: roundId }).first('study_id', 'number')
+  const before = await earlierDeclaration(db, user.id, round)
+  if (!before) throw new HttpError(409, 'There is no declaration from an earlier round of this study to confirm; fill in the form')
+  await db.transaction(async (trx) => {
+    const n = await trx('declarations').insert({
+      round_id: roundId, user_id: user.id, expertise: before.expertise, interests: before.interests, interests_text: before.interests_text,
+      seen_pilot_data: before.seen_pilot_data, ...(await earlierPractice(trx, user.id, roundId)),
+    }).onConflict(['round_id', 'user_id']).ignore().returning('id')
+    if (n.length === 0) return
+    await recordAudit(trx, { actorId: user.id, studyId, action: 'declaration.confirm', subject: `round:${roundId}`, details: { fromRound: before.number } })
   })
   return roundEntry(db, user, roundId)
 }

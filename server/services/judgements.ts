@@ -4,6 +4,7 @@ import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import { recordAudit } from './audit'
+import { calibrationAnsweredEarlier } from './invitations'
 import { studyExpertLabels } from './expert-labels'
 import { supportOf } from './quantities'
 import { roundRow } from './rounds'
@@ -158,7 +159,11 @@ export async function submitRound(db: Db, user: User, roundId: number) {
   }
   if (round.ask_calibration) {
     const questions = await db('calibration_questions').where({ study_id: round.study_id }).select('id', 'position').orderBy(['position', 'id'])
-    const answered = new Set(await db('calibration_answers').where({ round_id: roundId, expert_id: user.id }).pluck('question_id'))
+    // Asked once per study: an answer from an earlier round counts.
+    const answered = new Set([
+      ...(await db('calibration_answers').where({ round_id: roundId, expert_id: user.id }).pluck('question_id')),
+      ...(await calibrationAnsweredEarlier(db, user.id, round)),
+    ])
     questions.forEach((q, i) => {
       if (!answered.has(q.id)) fields[`calibration.${q.id}`] = `Calibration question ${i + 1}: give your 5 %, 50 % and 95 % values`
     })

@@ -12,6 +12,8 @@ interface RoundLike {
   briefing: string
   opens_at: Date
   closes_at: Date
+  /** IANA zone in which the e-mails state the round's times. */
+  time_zone: string
 }
 interface PanelLike {
   id: number
@@ -53,7 +55,7 @@ export async function sendPanelInvitation(trx: Knex.Transaction, ctx: AppContext
   const facts = await roundFacts(trx, round)
   const common = {
     expertName: member.name, studyTitle: facts.studyTitle, roundTitle: round.title, opensAt: round.opens_at, closesAt: round.closes_at,
-    publicUrl: ctx.publicUrl, quantities: facts.quantities, analystName: actor.displayName, briefing: round.briefing,
+    publicUrl: ctx.publicUrl, quantities: facts.quantities, analystName: actor.displayName, briefing: round.briefing, timeZone: round.time_zone,
   }
   let message
   let url: string
@@ -82,7 +84,7 @@ export async function sendReminder(trx: Knex.Transaction, ctx: AppContext, round
   const answered = await trx('judgements').where({ round_id: round.id, expert_id: member.user_id }).count<{ n: string }[]>('* as n')
   const message = reminderMessage({
     expertName: member.name, studyTitle: facts.studyTitle, roundTitle: round.title, roundId: round.id, closesAt: round.closes_at,
-    publicUrl: ctx.publicUrl, answered: Number(answered[0].n), total: facts.quantities.length,
+    publicUrl: ctx.publicUrl, answered: Number(answered[0].n), total: facts.quantities.length, timeZone: round.time_zone,
   })
   return queueMail(trx, { to: member.email, toName: member.name, ...message, kind: 'reminder', studyId: round.study_id, roundId: round.id })
 }

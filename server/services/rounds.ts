@@ -23,6 +23,7 @@ interface RoundRow {
   status: 'draft' | 'open' | 'closed' | 'reconciled'
   reminder_hours_before: number | null
   reminder_sent_at: Date | null
+  time_zone: string
   calibration_position: 'before' | 'after'
   feedback_enabled: boolean
   ask_calibration: boolean
@@ -86,6 +87,7 @@ export async function createRound(db: Db, user: User, studyId: number, body: Rou
       opens_at: body.opensAt,
       closes_at: body.closesAt,
       reminder_hours_before: body.reminderHoursBefore ?? null,
+      time_zone: body.timeZone,
       calibration_position: body.calibrationPosition,
       feedback_enabled: body.feedbackEnabled,
       ask_calibration: body.askCalibration,
@@ -133,6 +135,7 @@ export async function getRound(db: Db, access: StudyAccess, id: number) {
     status: r.status,
     reminderHoursBefore: r.reminder_hours_before,
     reminderSentAt: iso(r.reminder_sent_at),
+    timeZone: r.time_zone,
     calibrationPosition: r.calibration_position,
     feedbackEnabled: r.feedback_enabled,
     askCalibration: r.ask_calibration,
@@ -223,7 +226,7 @@ export async function updateRound(db: Db, user: User, id: number, body: RoundUpd
   if (body.items) await validateItems(db, r.study_id, body.items)
 
   const map: [keyof RoundUpdateBody, string][] = [
-    ['title', 'title'], ['briefing', 'briefing'], ['opensAt', 'opens_at'], ['closesAt', 'closes_at'], ['reminderHoursBefore', 'reminder_hours_before'],
+    ['title', 'title'], ['briefing', 'briefing'], ['opensAt', 'opens_at'], ['closesAt', 'closes_at'], ['reminderHoursBefore', 'reminder_hours_before'], ['timeZone', 'time_zone'],
     ['calibrationPosition', 'calibration_position'], ['feedbackEnabled', 'feedback_enabled'], ['askCalibration', 'ask_calibration'], ['practiceQuestion', 'practice_question'],
     ['practiceUnit', 'practice_unit'], ['practiceAnswer', 'practice_answer'],
   ]

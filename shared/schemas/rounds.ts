@@ -2,6 +2,7 @@ import { array, boolean, date, number, object, string, type InferType } from 'yu
 import { displayNameRule } from './users'
 import { emailRule, passwordRule } from './auth'
 import { versionRule } from './quantities'
+import { timeZoneRule } from './time-zone'
 
 export const ELICITATION_METHODS = ['quantile', 'fixed-interval', 'chip-grid'] as const
 export type ElicitationMethod = (typeof ELICITATION_METHODS)[number]
@@ -50,6 +51,8 @@ const roundFields = {
   items: array(roundItemSchema).required('Choose at least one quantity').min(1, 'Choose at least one quantity')
     .test('unique', 'Each quantity can appear once', (items) => !items || new Set(items.map((i) => i?.quantityId)).size === items.length),
   reminderHoursBefore: number().typeError('Reminder must be a number of hours').integer('Use whole hours').min(1, 'At least 1 hour').max(336, 'At most 336 hours (14 days)').nullable().default(24),
+  /** The zone in which the round's e-mails state its times. */
+  timeZone: timeZoneRule.default('UTC'),
   calibrationPosition: string().oneOf(['before', 'after'], 'Choose before or after').default('after'),
   feedbackEnabled: boolean().typeError('Must be true or false').default(false),
   askCalibration: boolean().typeError('Must be true or false').default(true),
@@ -70,6 +73,7 @@ export const roundUpdateSchema = object({
   items: array(roundItemSchema).min(1, 'Choose at least one quantity').optional().default(undefined)
     .test('unique', 'Each quantity can appear once', (items) => !items || new Set(items.map((i) => i?.quantityId)).size === items.length),
   reminderHoursBefore: number().typeError('Reminder must be a number of hours').integer('Use whole hours').min(1, 'At least 1 hour').max(336, 'At most 336 hours (14 days)').nullable().optional(),
+  timeZone: timeZoneRule.optional(),
   calibrationPosition: string().oneOf(['before', 'after'], 'Choose before or after').optional(),
   feedbackEnabled: boolean().typeError('Must be true or false').optional(),
   askCalibration: boolean().typeError('Must be true or false').optional(),
@@ -101,6 +105,9 @@ export const declarationSchema = object({
   seenPilotData: boolean().typeError('Answer yes or no').required('Say whether you have seen the pilot data'),
 }).noUnknown('Unknown field: ${unknown}')
 export type DeclarationBody = InferType<typeof declarationSchema>
+
+/** A request that carries no fields (e.g. confirming an earlier declaration). */
+export const emptySchema = object({}).noUnknown('Unknown field: ${unknown}')
 
 
 const increasing = (key: 'value' | 'prob') => (v: unknown) =>

@@ -1,7 +1,7 @@
 import { fitAnswer, type AnswerFits, type AnswerInput, type AnswerItem } from '@shared/elicitation/answers'
 import type { Family, Support } from '@shared/stats'
 import type { JudgementSave } from '@/api/judgements'
-import { parseNumber } from '@/rounds/practice'
+import { fieldText, readNumber } from '@/utils/typedNumber'
 import {
   PROBLEM_KEYS,
   QUANTILE_FIELDS,
@@ -54,7 +54,7 @@ export function emptyDraft(item: AnswerItem): Draft {
 /** A probability as a percentage for the form: 0.3 → "30", 0.333 → "33.3" (no float noise). */
 export function percentText(prob: number | null | undefined): string {
   if (typeof prob !== 'number' || !Number.isFinite(prob)) return ''
-  return String(Number((prob * 100).toFixed(6)))
+  return fieldText(Number((prob * 100).toFixed(6)))
 }
 
 /** A typed percentage as a probability, rounded so that "33.3" gives 0.333 exactly as typed. */
@@ -70,7 +70,7 @@ export function draftFromAnswer(item: AnswerItem, answer: AnswerInput | null | u
   if (!answer) return draft
   if (item.method === 'quantile') {
     const values = quantileValuesOf(answer)
-    for (const f of QUANTILE_FIELDS) draft.texts[f] = values[f] === undefined ? '' : String(values[f])
+    for (const f of QUANTILE_FIELDS) draft.texts[f] = fieldText(values[f])
     draft.revealed = revealedFor(values, quantileSteps(!!item.askTails))
   } else if (item.method === 'fixed-interval') {
     draft.percents = draft.percents.map((_, i) => percentText(answer.probs?.[i]))
@@ -107,10 +107,10 @@ export function readDraft(item: AnswerItem, draft: Draft, support: Support): Dra
       const text = draft.texts[f]
       if (text.trim() === '') continue
       started = true
-      const value = parseNumber(text)
-      if (value === null) problems[f] = 'Enter a number, such as 12 or 0.35'
+      const read = readNumber(text, support.kind === 'proportion' ? 'share' : 'none')
+      if (!read.ok) problems[f] = read.message
       else {
-        values[f] = value
+        values[f] = read.value
         given[f] = true
       }
     }
@@ -120,11 +120,12 @@ export function readDraft(item: AnswerItem, draft: Draft, support: Support): Dra
     const probs = draft.percents.map((text, i) => {
       if (text.trim() === '') return null
       started = true
-      const value = parseNumber(text.replace(/%\s*$/, ''))
-      if (value === null) {
-        problems[`prob.${i}`] = 'Enter a percentage, such as 20'
+      const read = readNumber(text, 'points')
+      if (!read.ok) {
+        problems[`prob.${i}`] = read.message
         return null
       }
+      const value = read.value
       if (value < 0 || value > 100) {
         problems[`prob.${i}`] = 'Enter a percentage from 0 to 100'
         return null

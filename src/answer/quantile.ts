@@ -1,5 +1,7 @@
 import type { Point, Support } from '@shared/stats'
+import { PLAUSIBLE_BOUND_WORDS } from '@shared/elicitation/bounds'
 import { formatValue } from '@/rounds/numbers'
+import { valueText } from './format'
 
 /** The quantile method's fields, in the order they are asked (DESIGN "Elicitation methods"). */
 export const QUANTILE_FIELDS = ['lower', 'upper', 'median', 'q1', 'q3', 'p05', 'p95'] as const
@@ -54,7 +56,7 @@ const STEPS: QuantileStep[] = [
   {
     key: 'bounds',
     title: 'Plausible range',
-    prompt: 'Start with the range. Give a lower and an upper value such that you would be very surprised if the true value fell outside them.',
+    prompt: `Start with the range. Give a lower and an upper value such that you would be very surprised to see the true value fall below the lower one or above the upper one (${PLAUSIBLE_BOUND_WORDS} each side).`,
     fields: ['lower', 'upper'],
   },
   {
@@ -67,7 +69,7 @@ const STEPS: QuantileStep[] = [
     key: 'quartiles',
     title: 'Quartiles',
     prompt:
-      'Suppose the true value is below your median: which value splits that lower part into two equally likely halves? That is your lower quartile. Do the same above the median for the upper quartile.',
+      'Suppose you learn the true value is below your median. Which value would it then be equally likely to fall above or below? Then the same above your median.',
     fields: ['q1', 'q3'],
   },
   {
@@ -78,6 +80,22 @@ const STEPS: QuantileStep[] = [
     fields: ['p05', 'p95'],
   },
 ]
+
+/**
+ * A step's question with the expert's own earlier answers filled in, once they are given: "Suppose you learn the true
+ * value is below 11 bursts per 100 km per year. Which value would it then be equally likely to fall above or below?"
+ */
+export function stepPrompt(step: QuantileStep, values: QuantileValues, unit: string, support: Support): string {
+  const v = (x: number) => valueText(x, unit, support)
+  if (step.key === 'median' && values.lower !== undefined && values.upper !== undefined) {
+    return `Now the median: between ${v(values.lower)} and ${v(values.upper)}, which value is the true value equally likely to be below or above?`
+  }
+  if (step.key === 'quartiles' && values.median !== undefined) {
+    const m = v(values.median)
+    return `Suppose you learn the true value is below ${m}. Which value would it then be equally likely to fall above or below? Then the same if you learn it is above ${m}.`
+  }
+  return step.prompt
+}
 
 /** Steps in the asking order: bounds → median → quartiles, then the tails when the analyst asked for them. */
 export function quantileSteps(askTails: boolean): QuantileStep[] {

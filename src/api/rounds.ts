@@ -72,6 +72,8 @@ export interface Round {
   status: RoundStatus
   reminderHoursBefore: number | null
   reminderSentAt: string | null
+  /** IANA zone in which the round's e-mails state its times. */
+  timeZone: string
   calibrationPosition: 'before' | 'after'
   feedbackEnabled: boolean
   /** `answer` is left out for experts. */
@@ -92,6 +94,7 @@ export interface RoundWriteBody {
   closesAt: Date | string
   items: { quantityId: number; method: ElicitationMethod; edges?: number[]; chips?: number; askTails?: boolean }[]
   reminderHoursBefore?: number | null
+  timeZone?: string
   calibrationPosition?: 'before' | 'after'
   feedbackEnabled?: boolean
   practiceQuestion?: string
@@ -136,24 +139,39 @@ export interface MyRound {
 export interface PracticeFeedback {
   distribution: Distribution
   sse: number
-  q05: number
+  /** The expert's lowest and highest plausible values and median. */
+  lower: number
   q50: number
-  q95: number
+  upper: number
   trueValue: number
   truthProb: number
   insideQuartiles: boolean
-  inside90: boolean
+  insideBounds: boolean
+}
+
+export interface Declaration {
+  expertise: string
+  interests: 'none' | 'described'
+  interestsText: string
+  seenPilotData: boolean
+  savedAt: string
+}
+
+export interface PracticeDone {
+  points: Point[]
+  fit: PracticeFeedback | null
+  completedAt: string
 }
 
 export interface RoundEntry {
-  declaration: {
-    expertise: string
-    interests: 'none' | 'described'
-    interestsText: string
-    seenPilotData: boolean
-    savedAt: string
-  } | null
-  practice: { points: Point[]; fit: PracticeFeedback | null; completedAt: string } | null
+  declaration: Declaration | null
+  practice: PracticeDone | null
+  /** In a later round of the study: what the expert declared and practised last time, to confirm ("still true?"). */
+  earlier?: { roundNumber: number; roundTitle: string; declaration: Declaration; practice: PracticeDone | null } | null
+  /** Names of the study's pilot data sets. */
+  pilotData?: string[]
+  /** Calibration questions answered in an earlier round of the study (asked once per study). */
+  calibrationAnsweredEarlier?: number[]
   submittedAt: string | null
 }
 
@@ -173,6 +191,7 @@ export const roundsApi = {
   mine: () => api.get<MyRound[]>('/api/my/rounds'),
   entry: (id: number) => api.get<RoundEntry>(`/api/rounds/${id}/entry`),
   saveDeclaration: (id: number, body: DeclarationBody) => api.put<RoundEntry>(`/api/rounds/${id}/declaration`, body),
+  confirmDeclaration: (id: number) => api.post<RoundEntry>(`/api/rounds/${id}/declaration/confirm`, {}),
   practice: (id: number, points: Point[]) =>
     api.post<RoundEntry & { feedback: PracticeFeedback }>(`/api/rounds/${id}/practice`, { points }),
 }

@@ -6,7 +6,7 @@ import { ApiError } from '@/api/client'
 import type { Judgement } from '@/api/judgements'
 import type { Round, RoundItem } from '@/api/rounds'
 import { useJudgementsStore } from '@/stores/judgements'
-import { parseNumber } from '@/rounds/practice'
+import { fieldText, readNumber } from '@/utils/typedNumber'
 import { intervalLabels } from '@/rounds/edges'
 import { draftFromAnswer, draftLines, readDraft, saveBody, type Draft, type DraftReading } from '@/answer/draft'
 import { FIELD_TITLES } from '@/answer/quantile'
@@ -124,14 +124,13 @@ function answerItemOf(item: RoundItem): AnswerItem {
   return { method: item.method, edges: item.edges, chips: item.chips, askTails: item.askTails }
 }
 
-const parsed = (text: string) => (text.trim() === '' ? null : parseNumber(text))
 
 /**
  * The expert's answering session for one round: a draft per quantity (typed values, never lost while moving
  * between items), live checks and fits from the shared engine, autosave with versions, the calibration block,
  * the rail's statuses and the submit.
  */
-export function useAnswerSession(round: Ref<AnswerRound>) {
+export function useAnswerSession(round: Ref<AnswerRound>, calibrationAnsweredEarlier: Ref<number[]> = ref([])) {
   const store = useJudgementsStore()
   const quantities = shallowRef<QuantityState[]>([])
   const calibrations = shallowRef<CalibrationState[]>([])
@@ -184,14 +183,22 @@ export function useAnswerSession(round: Ref<AnswerRound>) {
   function calibrationState(question: CalibrationQuestion, number: number): CalibrationState {
     const saved = store.calibration[question.id]
     const data = reactive<CalibrationData>({
-      texts: { q05: saved ? String(saved.q05) : '', q50: saved ? String(saved.q50) : '', q95: saved ? String(saved.q95) : '' },
+      texts: { q05: fieldText(saved?.q05), q50: fieldText(saved?.q50), q95: fieldText(saved?.q95) },
       version: saved?.version ?? 0,
       conflict: null,
     })
-    const values = computed(() => ({ q05: parsed(data.texts.q05), q50: parsed(data.texts.q50), q95: parsed(data.texts.q95) }))
+    const reads = computed(() => ({ q05: readNumber(data.texts.q05), q50: readNumber(data.texts.q50), q95: readNumber(data.texts.q95) }))
+    const values = computed(() => {
+      const r = reads.value
+      const v = (k: keyof CalibrationTexts) => (r[k].ok ? r[k].value : null)
+      return { q05: v('q05'), q50: v('q50'), q95: v('q95') }
+    })
     const problems = computed(() => {
       const out: Partial<Record<keyof CalibrationTexts, string>> = {}
-      for (const k of ['q05', 'q50', 'q95'] as const) if (data.texts[k].trim() !== '' && values.value[k] === null) out[k] = 'Enter a number, such as 12 or 0.35'
+      for (const k of ['q05', 'q50', 'q95'] as const) {
+        const r = reads.value[k]
+        if (!r.ok && !r.empty) out[k] = r.message
+      }
       return { ...calibrationProblems(values.value), ...out }
     })
     const isSaved = computed(() => {
@@ -228,7 +235,9 @@ export function useAnswerSession(round: Ref<AnswerRound>) {
     scope = effectScope(true)
     scope.run(() => {
       quantities.value = round.value.items.map((item) => quantityState(item, store.judgements[item.quantityId]))
-      calibrations.value = askCalibration.value ? store.questions.map((q, i) => calibrationState(q, i + 1)) : []
+      // Calibration questions are asked once per study: those answered in an earlier round are not asked again.
+      const done = new Set(calibrationAnsweredEarlier.value)
+      calibrations.value = askCalibration.value ? store.questions.filter((q) => !done.has(q.id)).map((q, i) => calibrationState(q, i + 1)) : []
     })
   }
 
@@ -253,7 +262,7 @@ export function useAnswerSession(round: Ref<AnswerRound>) {
   }
 
   const labels = (state: QuantityState) => {
-    const intervals = intervalLabels(state.item.edges ?? [])
+    const intervals = intervalLabels(state.item.edges ?? [], state.item.quantity.support)
     return { field: (f: keyof typeof FIELD_TITLES) => FIELD_TITLES[f], interval: (i: number) => intervals[i] ?? `Interval ${i + 1}` }
   }
 

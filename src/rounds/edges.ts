@@ -14,11 +14,18 @@ export function supportRange(support: Support): { lower: number; upper: number }
   }
 }
 
-/** "positive (0 to ∞)", "proportion (0 to 1)", "bounded (2 to 9)", "any real number". */
+/** The values a quantity can take, in plain words: "any value above 0", "a share from 0 to 1 (0 % to 100 %)", "from 2 to 9", "any value". */
 export function supportLabel(support: Support): string {
-  const { lower, upper } = supportRange(support)
-  if (support.kind === 'real') return 'any real number'
-  return `${support.kind} (${formatEdge(lower)} to ${upper === Infinity ? '∞' : formatEdge(upper)})`
+  switch (support.kind) {
+    case 'positive':
+      return 'any value above 0'
+    case 'proportion':
+      return 'a share from 0 to 1 (0 % to 100 %)'
+    case 'bounded':
+      return `from ${formatEdge(support.lower)} to ${formatEdge(support.upper)}`
+    default:
+      return 'any value, negative or positive'
+  }
 }
 
 export function formatEdge(value: number): string {
@@ -81,9 +88,13 @@ export function suggestEdges(support: Support): number[] | undefined {
   return undefined
 }
 
-/** "[0, 5)", "[5, 10)" … the intervals the edges make (the last one closed). */
-export function intervalLabels(edges: readonly number[]): string[] {
-  return edges.slice(1).map((upper, i) => `[${formatEdge(edges[i])}, ${formatEdge(upper)}${i === edges.length - 2 ? ']' : ')'}`)
+/**
+ * The intervals the edges make, in words: "0 to under 5", "5 to under 10", … and the last one, which includes its
+ * upper end, "20 to 30". A share is written in per cent ("10 % to under 20 %").
+ */
+export function intervalLabels(edges: readonly number[], support?: Support): string[] {
+  const edge = (x: number) => (support?.kind === 'proportion' ? `${formatEdge(Number((x * 100).toPrecision(10)))} %` : formatEdge(x))
+  return edges.slice(1).map((upper, i) => `${edge(edges[i])} to ${i === edges.length - 2 ? '' : 'under '}${edge(upper)}`)
 }
 
 /** Whether the intervals between the edges differ in width (beyond rounding of the typed decimals). */

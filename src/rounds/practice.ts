@@ -1,55 +1,37 @@
 import type { Point } from '@shared/stats'
+import { PLAUSIBLE_BOUND_PROB, PLAUSIBLE_BOUND_WORDS } from '@shared/elicitation/bounds'
+import { withUnit } from './numbers'
 
-/** The quantile method asks in this order to limit anchoring: the plausible bounds first, the median last (common practice in elicitation protocols; see docs/methods/fitting.md). */
+/** The quantile method asks in this order to limit anchoring: the plausible bounds first, then the median, then the quartiles (common practice in elicitation protocols; see docs/methods/fitting.md). */
 export const PRACTICE_STEPS = [
-  {
-    key: 'lower',
-    prob: 0.05,
-    title: 'Plausible lower bound',
-    prompt: 'What is the lowest value you find plausible? You would be surprised if the true answer were below it.',
-    testid: 'practice-lower',
-  },
-  {
-    key: 'upper',
-    prob: 0.95,
-    title: 'Plausible upper bound',
-    prompt: 'What is the highest value you find plausible? You would be surprised if the true answer were above it.',
-    testid: 'practice-upper',
-  },
-  {
-    key: 'median',
-    prob: 0.5,
-    title: 'Median',
-    prompt: 'Which value splits your range so that the true answer is equally likely to be below it or above it?',
-    testid: 'practice-median',
-  },
-  {
-    key: 'q1',
-    prob: 0.25,
-    title: 'Lower quartile',
-    prompt: 'Suppose the true answer is below your median. Which value splits that lower part into two equally likely halves?',
-    testid: 'practice-q1',
-  },
-  {
-    key: 'q3',
-    prob: 0.75,
-    title: 'Upper quartile',
-    prompt: 'Suppose the true answer is above your median. Which value splits that upper part into two equally likely halves?',
-    testid: 'practice-q3',
-  },
+  { key: 'lower', prob: PLAUSIBLE_BOUND_PROB, title: 'Plausible lower bound', testid: 'practice-lower' },
+  { key: 'upper', prob: 1 - PLAUSIBLE_BOUND_PROB, title: 'Plausible upper bound', testid: 'practice-upper' },
+  { key: 'median', prob: 0.5, title: 'Median', testid: 'practice-median' },
+  { key: 'q1', prob: 0.25, title: 'Lower quartile', testid: 'practice-q1' },
+  { key: 'q3', prob: 0.75, title: 'Upper quartile', testid: 'practice-q3' },
 ] as const
 
 export type PracticeKey = (typeof PRACTICE_STEPS)[number]['key']
 export type PracticeValues = Partial<Record<PracticeKey, number>>
 
-/** Reads a typed number ("1 840", "1840.5"); null when empty or not a number. */
-export function parseNumber(text: string | number | null | undefined): number | null {
-  if (typeof text === 'number') return Number.isFinite(text) ? text : null
-  if (typeof text !== 'string') return null
-  const cleaned = text.trim().replace(/[\s\u00a0\u202f]/g, '')
-  if (cleaned === '' || !/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(cleaned)) return null
-  const value = Number(cleaned)
-  return Number.isFinite(value) ? value : null
+/**
+ * The question for one step, with the expert's own earlier answers filled in ("Suppose you learn the true answer
+ * is below 1,500 km. Which value would it then be equally likely to fall above or below?").
+ */
+export function practicePrompt(key: PracticeKey, values: PracticeValues, unit = ''): string {
+  const v = (x: number | undefined, missing: string) => (x === undefined ? missing : withUnit(x, unit))
+  switch (key) {
+    case 'lower':
+      return `What is the lowest value you find plausible? You would be very surprised to learn that the true answer is below it (${PLAUSIBLE_BOUND_WORDS}).`
+    case 'upper':
+      return `What is the highest value you find plausible? You would be very surprised to learn that the true answer is above it (${PLAUSIBLE_BOUND_WORDS}).`
+    case 'median':
+      return `Between ${v(values.lower, 'your lowest')} and ${v(values.upper, 'your highest value')}: which value is the true answer equally likely to be below or above?`
+    case 'q1':
+      return `Suppose you learn the true answer is below ${v(values.median, 'your median')}. Which value would it then be equally likely to fall above or below?`
+    case 'q3':
+      return `Suppose you learn the true answer is above ${v(values.median, 'your median')}. Which value would it then be equally likely to fall above or below?`
+  }
 }
 
 /**
@@ -98,8 +80,9 @@ export function firstProblem(values: PracticeValues): { index: number; message: 
 }
 
 /**
- * The five answers as CDF points: bounds → 5 % and 95 %, quartiles → 25 % and 75 %, median → 50 %,
- * ordered by value. Null until all five are given.
+ * The five answers as points of the expert's distribution, read as the real rounds read them: each bound with
+ * PLAUSIBLE_BOUND_PROB beyond it, quartiles → 25 % and 75 %, median → 50 %; ordered by value. Null until all five
+ * are given.
  */
 export function practicePoints(values: PracticeValues): Point[] | null {
   const points: Point[] = []

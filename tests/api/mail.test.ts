@@ -81,7 +81,7 @@ describe('queueMail and the delivery worker', () => {
     const content = invitationMessage({
       expertName: 'Robin Rowe', studyTitle: 'Kestrel Valley', roundTitle: 'Round 1', opensAt: new Date('2026-12-10T09:00:00Z'),
       closesAt: new Date('2026-12-24T17:00:00Z'), publicUrl: 'http://localhost:3000', token: 'tok-1',
-      linkExpiresAt: new Date('2026-12-16T09:00:00Z'), quantities: ['Burst rate'],
+      linkExpiresAt: new Date('2026-12-16T09:00:00Z'), quantities: ['Burst rate'], timeZone: 'UTC',
     })
     const ics = roundCalendarFile({
       title: 'Round 1', description: 'Kestrel Valley', start: new Date('2026-12-10T09:00:00Z'), end: new Date('2026-12-24T17:00:00Z'),

@@ -182,7 +182,7 @@ describe('panel, opening and invitations', () => {
   it('shows progress per expert and quantity, and stamps an expert’s first visit', async () => {
     const expert2 = await signedIn(h, 'expert2@kestrel.example')
     const entry = await expert2.get(`/api/rounds/${roundId}/entry`).expect(200)
-    expect(entry.body).toEqual({ declaration: null, practice: null, submittedAt: null })
+    expect(entry.body).toEqual({ declaration: null, practice: null, earlier: null, pilotData: [], calibrationAnsweredEarlier: [], submittedAt: null })
     const progress = await analyst.get(`/api/rounds/${roundId}/progress`).expect(200)
     expect(progress.body.quantities.map((q: { symbol: string }) => q.symbol)).toEqual(['burst', 'uptake', 'flow'])
     const row = progress.body.experts.find((e: { email: string }) => e.email === 'expert2@kestrel.example')
@@ -241,5 +241,126 @@ describe('reminders and automatic closing', () => {
     const closed = await runRoundSchedule(ctx, new Date(Date.now() + 31 * 3600 * 1000))
     expect(closed.closed).toBeGreaterThanOrEqual(1)
     expect((await h.db('rounds').where({ id: r.body.id }).first()).status).toBe('closed')
+  })
+})
+
+describe('the round’s time zone in its e-mails', () => {
+  it('takes an IANA name, refuses anything else with a field error, and keeps UTC when none is given', async () => {
+    const plain = await analyst.post(`/api/studies/${studyId}/rounds`, roundBody({ title: 'Round without a zone' })).expect(201)
+    expect(plain.body.timeZone).toBe('UTC')
+    for (const timeZone of ['Mars/Olympus', 'Europe/../etc', '', 42, 'UTC+1']) {
+      const bad = await analyst.post(`/api/studies/${studyId}/rounds`, roundBody({ timeZone }))
+      expect(bad.status).toBe(400)
+      expect(bad.body.error.fields).toEqual({ timeZone: 'Choose a time zone by its IANA name, such as Europe/London or America/New_York' })
+    }
+    const spelled = await analyst.post(`/api/studies/${studyId}/rounds`, roundBody({ timeZone: 'europe/berlin' })).expect(201)
+    expect(spelled.body.timeZone).toBe('Europe/Berlin')
+    const changed = await analyst.patch(`/api/rounds/${spelled.body.id}`, { timeZone: 'America/New_York', version: spelled.body.version }).expect(200)
+    expect(changed.body.timeZone).toBe('America/New_York')
+    const refused = await analyst.patch(`/api/rounds/${spelled.body.id}`, { timeZone: 'Nowhere/Land', version: changed.body.version })
+    expect(refused.status).toBe(400)
+    expect((await analyst.get(`/api/rounds/${spelled.body.id}`)).body.timeZone).toBe('America/New_York')
+  })
+
+  it('states every time of the invitation, the notice and the reminder in that zone, with its name', async () => {
+    const closesAt = new Date(Date.now() + 30 * 3600 * 1000)
+    closesAt.setUTCSeconds(0, 0)
+    const r = (await analyst.post(`/api/studies/${studyId}/rounds`, roundBody({
+      title: 'Round in Berlin time', timeZone: 'Europe/Berlin', reminderHoursBefore: 48, closesAt: closesAt.toISOString(),
+    })).expect(201)).body
+    await analyst.post(`/api/rounds/${r.id}/invitations`, { email: 'berlin.expert@example.org', name: 'Kai' }).expect(201)
+    await analyst.post(`/api/rounds/${r.id}/invitations`, { email: 'expert3@kestrel.example', name: 'Priya' }).expect(201)
+    await analyst.post(`/api/rounds/${r.id}/open`).expect(200)
+    await runRoundSchedule({ db: h.db, publicUrl: 'http://localhost:3000', kickMail: async () => {} })
+    const rows = await h.db('outbox_messages').where({ round_id: r.id }).orderBy('id')
+    expect(rows.map((m) => m.kind).sort()).toEqual(['invitation', 'invitation', 'reminder', 'round-notice'])
+    const berlin = new Intl.DateTimeFormat('en-GB', { timeZone: 'Europe/Berlin', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(closesAt)
+    for (const m of rows) {
+      expect(m.text_body).toContain(`${berlin} (Europe/Berlin, UTC+`)
+      expect(m.text_body).not.toContain('(UTC)')
+    }
+  })
+})
+
+describe('a second round of the same study asks less twice', () => {
+  let study2: number
+  let quantity: number
+  let firstCalibration: number
+  const practicePoints = [{ value: 1000, prob: 0.01 }, { value: 1300, prob: 0.25 }, { value: 1600, prob: 0.5 }, { value: 2000, prob: 0.75 }, { value: 2600, prob: 0.99 }]
+  const declaration = { expertise: 'Fifteen years running the Kestrel Valley burst records.', interests: 'described', interestsText: 'Adviser to a pipe-lining firm.', seenPilotData: true }
+
+  async function openRound(title: string, emails: string[]) {
+    const r = (await analyst.post(`/api/studies/${study2}/rounds`, {
+      title, opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * day).toISOString(), items: [{ quantityId: quantity, method: 'quantile' }],
+    }).expect(201)).body
+    for (const email of emails) await analyst.post(`/api/rounds/${r.id}/invitations`, { email, name: 'Expert' }).expect(201)
+    await analyst.post(`/api/rounds/${r.id}/open`).expect(200)
+    return r.id as number
+  }
+
+  beforeAll(async () => {
+    study2 = (await analyst.post('/api/studies', { title: 'Two rounds study', context: 'A study asked in two rounds.' }).expect(201)).body.id
+    quantity = (await analyst.post(`/api/studies/${study2}/quantities`, {
+      name: 'Burst rate', symbol: 'burst', unit: 'bursts per 100 km per year', question: 'How many bursts per 100 km per year on the old mains?', support: { kind: 'positive' },
+    }).expect(201)).body.id
+    firstCalibration = (await analyst.post(`/api/studies/${study2}/calibration-questions`, { question: 'How many km of mains were renewed in 2024?', unit: 'km', trueValue: 12 }).expect(201)).body.id
+  })
+
+  it('shows the earlier declaration and practice, keeps them on "still true", and asks calibration once per study', async () => {
+    const expert = await signedIn(h, 'expert1@kestrel.example')
+    const first = await openRound('First of two', ['expert1@kestrel.example'])
+    await expert.put(`/api/rounds/${first}/declaration`, declaration).expect(200)
+    await expert.post(`/api/rounds/${first}/practice`, { points: practicePoints }).expect(200)
+    await expert.put(`/api/rounds/${first}/calibration-answers/${firstCalibration}`, { q05: 5, q50: 10, q95: 20, version: 0 }).expect(200)
+
+    const second = await openRound('Second of two', ['expert1@kestrel.example'])
+    const entry = (await expert.get(`/api/rounds/${second}/entry`).expect(200)).body
+    expect(entry.declaration).toBeNull()
+    expect(entry.earlier).toMatchObject({
+      roundNumber: 1, roundTitle: 'First of two',
+      declaration: { expertise: declaration.expertise, interests: 'described', interestsText: 'Adviser to a pipe-lining firm.', seenPilotData: true },
+      practice: { points: practicePoints },
+    })
+    expect(entry.calibrationAnsweredEarlier).toEqual([firstCalibration])
+
+    const confirmed = (await expert.post(`/api/rounds/${second}/declaration/confirm`, {}).expect(200)).body
+    expect(confirmed.declaration).toMatchObject({ expertise: declaration.expertise, interests: 'described', seenPilotData: true })
+    expect(confirmed.practice.points).toEqual(practicePoints)
+    expect(confirmed.earlier).toBeNull()
+    // Confirming twice changes nothing; the record of this round holds its own copy.
+    await expert.post(`/api/rounds/${second}/declaration/confirm`, {}).expect(200)
+    expect(await h.db('declarations').where({ round_id: second })).toHaveLength(1)
+    const audit = (await analyst.get(`/api/studies/${study2}/audit`)).body.filter((e: { action: string }) => e.action === 'declaration.confirm')
+    expect(audit).toHaveLength(1)
+    expect(audit[0].details).toEqual({ fromRound: 1 })
+    expect((await expert.post(`/api/rounds/${second}/declaration/confirm`, { extra: 1 })).status).toBe(400)
+
+    // A calibration question added after round 1 is asked; the one answered in round 1 is not.
+    const added = (await analyst.post(`/api/studies/${study2}/calibration-questions`, { question: 'How many bursts were logged in 2024 in total?', unit: '', trueValue: 130 }).expect(201)).body.id
+    expect((await expert.get(`/api/rounds/${second}/entry`)).body.calibrationAnsweredEarlier).toEqual([firstCalibration])
+    await expert.put(`/api/rounds/${second}/judgements/${quantity}`, {
+      method: 'quantile', lower: 4, upper: 25, points: [{ value: 8, prob: 0.25 }, { value: 10, prob: 0.5 }, { value: 13, prob: 0.75 }],
+      rationale: 'Burst logs 2015–2025 for the old cast-iron mains.', chosenFamily: null, version: 0,
+    }).expect(200)
+    const submit = await expert.post(`/api/rounds/${second}/submit`)
+    expect(submit.status).toBe(400)
+    expect(Object.keys(submit.body.error.fields)).toEqual([`calibration.${added}`])
+  })
+
+  it('carries the practice along when the expert changes the earlier declaration instead', async () => {
+    const expert = await signedIn(h, 'expert3@kestrel.example')
+    const first = await openRound('First for expert 3', ['expert3@kestrel.example'])
+    await expert.put(`/api/rounds/${first}/declaration`, { ...declaration, interests: 'none', interestsText: '' }).expect(200)
+    await expert.post(`/api/rounds/${first}/practice`, { points: practicePoints }).expect(200)
+    const second = await openRound('Second for expert 3', ['expert3@kestrel.example'])
+    const changed = (await expert.put(`/api/rounds/${second}/declaration`, { ...declaration, seenPilotData: false }).expect(200)).body
+    expect(changed.declaration).toMatchObject({ interests: 'described', seenPilotData: false })
+    expect(changed.practice.points).toEqual(practicePoints)
+    // A first round has nothing to confirm.
+    const third = await signedIn(h, 'expert2@kestrel.example')
+    const only = await openRound('Only round for expert 2', ['expert2@kestrel.example'])
+    const refused = await third.post(`/api/rounds/${only}/declaration/confirm`, {})
+    expect(refused.status).toBe(409)
+    expect(refused.body.error.message).toBe('There is no declaration from an earlier round of this study to confirm; fill in the form')
   })
 })

@@ -27,19 +27,37 @@ interface Setup {
 
 interface RoundOptions {
   studyTitle: string
+  studyId: number | null
   title: string
   feedback: boolean
   only: boolean
 }
 
-/** The analyst creates and opens a round on the demo study with its three quantities, one per method, and the three demo experts. */
-async function createRound(page: Page, options: { title: string; feedback?: boolean; onlyBurstRate?: boolean }): Promise<Setup> {
+/**
+ * The analyst creates and opens a round with three quantities, one per method, and the three demo experts. The first
+ * round goes to a fresh copy of the demo study (its quantities and calibration questions), so that what other suites
+ * did on the demo study (calibration answered in their rounds is not asked again) cannot change what this one sees;
+ * a later round reuses the same study.
+ */
+async function createRound(page: Page, options: { title: string; studyId?: number; feedback?: boolean; onlyBurstRate?: boolean }): Promise<Setup> {
   return inPage(
     page,
     async (call: Call, args: RoundOptions): Promise<Setup> => {
-      const studies = await call<{ id: number; title: string }[]>('GET', '/api/studies')
-      const study = studies.find((s) => s.title === args.studyTitle)!
-      const quantities = await call<{ id: number; symbol: string }[]>('GET', `/api/studies/${study.id}/quantities`)
+      type Q = { id: number; name: string; symbol: string; unit: string; question: string; support: unknown; assumptions: string; evidenceNotes: string }
+      let study: { id: number }
+      if (args.studyId === null) {
+        const studies = await call<{ id: number; title: string }[]>('GET', '/api/studies')
+        const demo = studies.find((s) => s.title === args.studyTitle)!
+        study = await call<{ id: number }>('POST', '/api/studies', { title: `Answer screen study ${Date.now()}`, context: 'A copy of the demo study for the answering screen.' })
+        for (const q of await call<Q[]>('GET', `/api/studies/${demo.id}/quantities`)) {
+          const { name, symbol, unit, question, support, assumptions, evidenceNotes } = q
+          await call('POST', `/api/studies/${study.id}/quantities`, { name, symbol, unit, question, support, assumptions, evidenceNotes })
+        }
+        for (const c of await call<{ question: string; unit: string; trueValue: number | null }[]>('GET', `/api/studies/${demo.id}/calibration-questions`)) {
+          await call('POST', `/api/studies/${study.id}/calibration-questions`, { question: c.question, unit: c.unit, trueValue: c.trueValue })
+        }
+      } else study = { id: args.studyId }
+      const quantities = await call<Q[]>('GET', `/api/studies/${study.id}/quantities`)
       const id = (symbol: string) => quantities.find((q) => q.symbol === symbol)!.id
       const items = [
         { quantityId: id('burst_rate'), method: 'quantile' },
@@ -60,7 +78,7 @@ async function createRound(page: Page, options: { title: string; feedback?: bool
       await call('POST', `/api/rounds/${round.id}/open`)
       return { studyId: study.id, roundId: round.id, burst: id('burst_rate'), uptake: id('alert_uptake'), flow: id('night_flow_cut') }
     },
-    { studyTitle: DEMO_STUDY_TITLE, title: options.title, feedback: options.feedback ?? false, only: options.onlyBurstRate ?? false },
+    { studyTitle: DEMO_STUDY_TITLE, studyId: options.studyId ?? null, title: options.title, feedback: options.feedback ?? false, only: options.onlyBurstRate ?? false },
   )
 }
 
@@ -178,7 +196,7 @@ describe('answering a round', () => {
     const { page } = expert1
     await page.getByTestId('q-next').click()
     await page.getByTestId('overconfidence-note').waitFor()
-    expect(await page.getByTestId('overconfidence-note').innerText()).toContain('Would that surprise you?')
+    expect(await page.getByTestId('overconfidence-note').innerText()).toContain('Would that surprise you? It should not surprise you much')
     await field(page, 'q-q1').fill('8')
     await expect(page.getByTestId('feedback-statement').count()).resolves.toBe(0)
     await field(page, 'q-q3').fill('13')
@@ -188,7 +206,12 @@ describe('answering a round', () => {
     expect(before).toHaveLength(3)
     expect(before[0]).toMatch(/^You are saying there is a 1 in 4 chance that the burst rate of old cast-iron mains is below [\d.]+ bursts per 100 km per year\.$/)
     expect(before[2]).toMatch(/1 in 10 chance that it is above [\d.]+ bursts per 100 km per year\.$/)
-    expect(await page.getByTestId('fit-quality').innerText()).toMatch(/^Close fit .*sum of squared errors 0\.000\d/)
+    expect(await page.getByTestId('fit-quality').innerText()).toBe('Close fit — the curve passes close to your values.')
+    // Experts read shapes in words, never family names or error sums.
+    const options = await page.locator('[data-testid="family-option"]').allInnerTexts()
+    expect(options.join(' ')).not.toMatch(/SSE|normal|gamma|squared/i)
+    expect(options.some((o) => /stretched towards high values/i.test(o))).toBe(true)
+    expect(await page.getByTestId('quantity-screen').innerText()).toMatch(/How you answer: a range, then a middle value/i)
     expect(await page.getByTestId('feedback-card').getAttribute('data-family')).toBe('lognormal')
     await expect(page.locator('[data-testid="family-option"]').count()).resolves.toBe(3)
 
@@ -203,8 +226,8 @@ describe('answering a round', () => {
     const saved = (await savedJudgements(page, setup.roundId)).find((j) => j.quantityId === setup.burst)!
     expect(saved.answer).toEqual({ lower: 4, upper: 25, points: [{ value: 8, prob: 0.25 }, { value: 10, prob: 0.5 }, { value: 16, prob: 0.75 }] })
     expect(await page.getByTestId('feedback-card').getAttribute('data-family')).toBe(saved.fits[0].distribution.family)
-    expect(await page.getByTestId('feedback-q50').innerText()).toBe(formatValue(quantile(saved.fits[0].distribution, 0.5)))
-    expect(await page.getByTestId('feedback-q95').innerText()).toBe(formatValue(quantile(saved.fits[0].distribution, 0.95)))
+    expect(await page.getByTestId('feedback-q50').innerText()).toBe(`${formatValue(quantile(saved.fits[0].distribution, 0.5))} bursts per 100 km per year`)
+    expect(await page.getByTestId('feedback-q95').innerText()).toBe(`${formatValue(quantile(saved.fits[0].distribution, 0.95))} bursts per 100 km per year`)
   })
 
   it('lets the expert pick another fitted family and writes the rationale', async () => {
@@ -270,7 +293,12 @@ describe('answering a round', () => {
     expect(await page.getByTestId('interval-remaining').innerText()).toBe('All 100 % placed')
     await page.getByTestId('feedback-statement').first().waitFor()
     const before = await statements(page)
-    expect(before[0]).toMatch(/^You are saying there is a 1 in 4 chance that the leak-alert scheme uptake is below 0\.\d+ \(share of households\)\.$/)
+    // A share is written in per cent, as the percentages typed beside it.
+    expect(before[0]).toMatch(/^You are saying there is a 1 in 4 chance that the leak-alert scheme uptake is below \d+(\.\d+)? % \(share of households\)\.$/)
+    expect(await page.getByTestId('interval-prob').first().innerText()).toContain('0 % to under 10 %')
+    // Numbers as people type them: a trailing % and the value understood shown back.
+    await prob(0).fill('12,5 %')
+    expect(await page.getByTestId('interval-understood').first().innerText()).toBe('Read as 12.5 %')
     await prob(0).fill('20')
     await prob(1).fill('20')
     await statementChanged(page, 0, before)
@@ -444,7 +472,7 @@ describe('answering a round', () => {
       },
       { password: DEMO_PASSWORD, roundId: setup.roundId },
     )
-    const round2 = await createRound(analyst.page, { title: 'Answer screen, round 2 with feedback', feedback: true, onlyBurstRate: true })
+    const round2 = await createRound(analyst.page, { title: 'Answer screen, round 2 with feedback', studyId: setup.studyId, feedback: true, onlyBurstRate: true })
     await completeEntry(expert1.page, round2.roundId)
 
     const { page } = expert1
@@ -453,8 +481,10 @@ describe('answering a round', () => {
     await panel.waitFor()
     await panel.locator('canvas').waitFor()
     const rows = await page.getByTestId('feedback-round-row').allInnerTexts()
-    // The others carry the study's anonymous labels (Expert A, B, …; letters are given per study, in order of first answer).
-    expect(rows.map((r) => r.split('\t')[0].trim())).toEqual([expect.stringMatching(/^You \(round \d+\)$/), expect.stringMatching(/^Expert [A-Z]$/), expect.stringMatching(/^Expert [A-Z]$/)])
+    // The others carry the study's own expert labels (the letter depends on the study's order of experts).
+    const labels = rows.map((r) => r.split('\t')[0].trim())
+    expect(labels).toEqual([expect.stringMatching(/^You \(round \d+\)$/), expect.stringMatching(/^Expert [A-Z]$/), expect.stringMatching(/^Expert [A-Z]$/)])
+    expect(new Set(labels).size).toBe(3)
     expect(await panel.innerText()).not.toContain('Helen')
     // The panel comes before the answer form.
     const order = await page.evaluate(() => {

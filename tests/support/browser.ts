@@ -120,7 +120,7 @@ export async function completeEntry(page: Page, roundId: number): Promise<void> 
         expertise: 'Twenty years on the Kestrel Valley distribution network, keeping the burst records.', interests: 'none', interestsText: '', seenPilotData: false,
       })
       await call('POST', `/api/rounds/${args.roundId}/practice`, {
-        points: [{ value: 1000, prob: 0.05 }, { value: 1300, prob: 0.25 }, { value: 1600, prob: 0.5 }, { value: 2000, prob: 0.75 }, { value: 2600, prob: 0.95 }],
+        points: [{ value: 1000, prob: 0.01 }, { value: 1300, prob: 0.25 }, { value: 1600, prob: 0.5 }, { value: 2000, prob: 0.75 }, { value: 2600, prob: 0.99 }],
       })
     },
     { roundId },

@@ -55,6 +55,7 @@ export const MATRIX: Record<string, Rule> = {
   'POST /api/rounds/:id/panel/:panelId/revoke': ['admin', 'analyst'],
   'GET /api/rounds/:id/entry': ['expert'],
   'PUT /api/rounds/:id/declaration': ['expert'],
+  'POST /api/rounds/:id/declaration/confirm': ['expert'],
   'POST /api/rounds/:id/practice': ['expert'],
   'GET /api/rounds/:id/judgements': MEMBERS,
   'PUT /api/rounds/:id/judgements/:quantityId': ['expert'],

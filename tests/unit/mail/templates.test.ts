@@ -15,6 +15,7 @@ const invitation = {
   linkExpiresAt: new Date('2026-12-16T08:00:00Z'),
   quantities: ['Burst rate of cast-iron mains', 'Leak-alert uptake'],
   analystName: 'Alex Analyst',
+  timeZone: 'UTC',
 }
 
 describe('escapeHtml', () => {
@@ -25,7 +26,53 @@ describe('escapeHtml', () => {
 
 describe('formatDate', () => {
   it('writes a UTC date unambiguously', () => {
-    expect(formatDate(closesAt)).toBe('Thursday 24 December 2026, 17:00 (UTC)')
+    expect(formatDate(closesAt, 'UTC')).toBe('Thursday 24 December 2026, 17:00 (UTC)')
+  })
+
+  it('states the time in the round’s zone, naming the zone and its offset on that date', () => {
+    expect(formatDate(closesAt, 'Europe/Berlin')).toBe('Thursday 24 December 2026, 18:00 (Europe/Berlin, UTC+1)')
+    expect(formatDate(new Date('2026-07-01T17:00:00Z'), 'Europe/Berlin')).toBe('Wednesday 1 July 2026, 19:00 (Europe/Berlin, UTC+2)')
+    expect(formatDate(closesAt, 'America/New_York')).toBe('Thursday 24 December 2026, 12:00 (America/New_York, UTC-5)')
+    expect(formatDate(closesAt, 'Asia/Kolkata')).toBe('Thursday 24 December 2026, 22:30 (Asia/Kolkata, UTC+5:30)')
+    expect(formatDate(closesAt, 'Europe/London')).toBe('Thursday 24 December 2026, 17:00 (Europe/London, UTC+0)')
+    // Past midnight in the zone: the date moves too.
+    expect(formatDate(new Date('2026-12-24T23:30:00Z'), 'Pacific/Auckland')).toBe('Friday 25 December 2026, 12:30 (Pacific/Auckland, UTC+13)')
+  })
+})
+
+describe('every e-mail in the round’s time zone', () => {
+  const tz = 'America/New_York'
+  const common = { expertName: 'Jo Expert', studyTitle: 'Kestrel Valley', roundTitle: 'Round 2', roundId: 4, publicUrl: 'http://localhost:3000', quantities: ['Burst rate'], timeZone: tz }
+  const messages = [
+    invitationMessage({ ...invitation, timeZone: tz }),
+    roundNoticeMessage({ ...common, opensAt, closesAt }),
+    reminderMessage({ ...common, closesAt }),
+  ]
+
+  it.each(messages.map((m, i) => [['invitation', 'notice', 'reminder'][i], m] as const))('%s: states its times in the round’s zone, never in UTC', (_, m) => {
+    expect(m.text).toContain('Thursday 24 December 2026, 12:00 (America/New_York, UTC-5)')
+    expect(m.text).not.toContain('17:00')
+    expect(m.text).not.toContain('(UTC)')
+    expect(m.html).toContain('12:00 (America/New_York, UTC-5)')
+  })
+})
+
+describe('plain words in the e-mails', () => {
+  const notice = roundNoticeMessage({
+    expertName: 'Jo Expert', studyTitle: 'Kestrel Valley', roundTitle: 'Round 2', roundId: 42, opensAt, closesAt, publicUrl: 'http://localhost:3000', quantities: ['Burst rate'], timeZone: 'UTC',
+  })
+  const inv = invitationMessage(invitation)
+
+  it('promises changes until the expert submits, not until the round closes', () => {
+    for (const m of [inv, notice]) {
+      expect(m.text).not.toContain('until the round closes')
+      expect(m.text).toContain('you can change them until you submit them. Submitting sends them to the analyst and freezes them')
+    }
+  })
+
+  it('defines the plausible bounds as every screen does', () => {
+    expect(inv.text).toContain('the lowest and the highest value you find plausible (values you would be very surprised, about 1 chance in 100, to see the true value fall beyond)')
+    expect(inv.text).not.toMatch(/distribution|median|quartile/)
   })
 })
 
@@ -68,7 +115,7 @@ describe('roundNoticeMessage', () => {
   it('links to the answer page of the round', () => {
     const m = roundNoticeMessage({
       expertName: 'Jo Expert', studyTitle: 'Kestrel Valley', roundTitle: 'Round 2 <feedback>', roundId: 42,
-      opensAt, closesAt, publicUrl: 'http://localhost:3000', quantities: ['Night-flow reduction'],
+      opensAt, closesAt, publicUrl: 'http://localhost:3000', quantities: ['Night-flow reduction'], timeZone: 'UTC',
     })
     expect(m.subject).toBe('New round: "Round 2 <feedback>" (Kestrel Valley)')
     expect(m.text).toContain('http://localhost:3000/answer/42')
@@ -82,7 +129,7 @@ describe('reminderMessage', () => {
   it('states the closing time and progress', () => {
     const m = reminderMessage({
       expertName: 'Jo Expert', studyTitle: 'Kestrel Valley', roundTitle: 'Round 1', roundId: 7,
-      closesAt, publicUrl: 'http://localhost:3000', answered: 1, total: 3,
+      closesAt, publicUrl: 'http://localhost:3000', answered: 1, total: 3, timeZone: 'UTC',
     })
     expect(m.subject).toBe('Reminder: "Round 1" closes Thursday 24 December 2026, 17:00 (UTC)')
     expect(m.text).toContain('closes on Thursday 24 December 2026, 17:00 (UTC)')

@@ -6,7 +6,7 @@ import fc from 'fast-check'
 import { checkAnswer } from '@shared/elicitation/answers'
 import type { Support } from '@shared/stats'
 import { emptyDraft, readDraft, type Draft } from '@/answer/draft'
-import { QUANTILE_FIELDS, quantileInput, quantileProblems, quantileSteps, stepDone, type QuantileValues } from '@/answer/quantile'
+import { QUANTILE_FIELDS, quantileInput, quantileProblems, quantileSteps, stepDone, stepPrompt, type QuantileValues } from '@/answer/quantile'
 import QuantileForm from '@/components/answer/QuantileForm.vue'
 
 const positive: Support = { kind: 'positive' }
@@ -70,6 +70,28 @@ describe('quantile method: steps and checks', () => {
   })
 })
 
+describe('quantile method: questions in plain words', () => {
+  const [bounds, median, quartiles] = quantileSteps(false)
+
+  it('defines the bounds as the rounds, the practice question and the e-mails do', () => {
+    expect(stepPrompt(bounds, {}, 'km', positive)).toBe(
+      'Start with the range. Give a lower and an upper value such that you would be very surprised to see the true value fall below the lower one or above the upper one (about 1 chance in 100 each side).',
+    )
+  })
+
+  it('fills in the expert’s own numbers once given', () => {
+    const unit = 'bursts per 100 km per year'
+    expect(stepPrompt(median, { lower: 4, upper: 25 }, unit, positive)).toBe(
+      'Now the median: between 4 bursts per 100 km per year and 25 bursts per 100 km per year, which value is the true value equally likely to be below or above?',
+    )
+    expect(stepPrompt(quartiles, { lower: 4, upper: 25, median: 11 }, unit, positive)).toBe(
+      'Suppose you learn the true value is below 11 bursts per 100 km per year. Which value would it then be equally likely to fall above or below? Then the same if you learn it is above 11 bursts per 100 km per year.',
+    )
+    expect(stepPrompt(quartiles, { median: 0.3 }, 'share of households', { kind: 'proportion' })).toContain('below 30 % (share of households)')
+    expect(stepPrompt(quartiles, {}, unit, positive)).not.toContain('splits')
+  })
+})
+
 describe('QuantileForm', () => {
   afterEach(() => {
     document.body.innerHTML = ''
@@ -81,7 +103,7 @@ describe('QuantileForm', () => {
     const draft: Draft = { ...base, revealed, texts: { ...base.texts, ...values } }
     return mount(QuantileForm, {
       attachTo: document.body,
-      props: { item, unit: 'bursts per 100 km per year', draft, reading: readDraft(item, draft, positive), readOnly: false },
+      props: { item, unit: 'bursts per 100 km per year', support: positive, draft, reading: readDraft(item, draft, positive), readOnly: false },
       global: { components: { ElButton, ElForm, ElFormItem, ElIcon, ElInput }, stubs: { transition: false } },
     })
   }

@@ -58,7 +58,9 @@ describe('interval edges editor: display and suggestions', () => {
   })
 
   it('labels the intervals, the last one closed', () => {
-    expect(intervalLabels([0, 5, 10])).toEqual(['[0, 5)', '[5, 10]'])
+    expect(intervalLabels([0, 5, 10])).toEqual(['0 to under 5', '5 to 10'])
+    expect(intervalLabels([-2, 0, 1.5])).toEqual(['-2 to under 0', '0 to 1.5'])
+    expect(intervalLabels([0, 0.1, 0.25], { kind: 'proportion' })).toEqual(['0 % to under 10 %', '10 % to 25 %'])
   })
 
   it('suggests a grid only when the support fixes both ends', () => {
@@ -69,8 +71,9 @@ describe('interval edges editor: display and suggestions', () => {
   })
 
   it('describes the support in words', () => {
-    expect(supportLabel({ kind: 'positive' })).toBe('positive (0 to ∞)')
-    expect(supportLabel({ kind: 'bounded', lower: 2, upper: 9 })).toBe('bounded (2 to 9)')
-    expect(supportLabel({ kind: 'real' })).toBe('any real number')
+    expect(supportLabel({ kind: 'positive' })).toBe('any value above 0')
+    expect(supportLabel({ kind: 'proportion' })).toBe('a share from 0 to 1 (0 % to 100 %)')
+    expect(supportLabel({ kind: 'bounded', lower: 2, upper: 9 })).toBe('from 2 to 9')
+    expect(supportLabel({ kind: 'real' })).toBe('any value, negative or positive')
   })
 })

@@ -54,7 +54,9 @@ describe('PracticeQuestion', () => {
     expect(visible()).toEqual(['practice-q3'])
     expect(wrapper.find('[data-testid="practice-next"]').exists()).toBe(false)
     expect(wrapper.find('[data-testid="practice-submit"]').exists()).toBe(true)
-    expect(wrapper.text()).toContain('bounds count as your 5 % and 95 % values')
+    expect(wrapper.text()).toContain('you would be very surprised, about 1 chance in 100, to see the true answer fall beyond either')
+    expect(wrapper.text()).not.toContain('5 % and 95 %')
+    expect(wrapper.text()).toContain('Suppose you learn the true answer is above 1,500 km. Which value would it then be equally likely to fall above or below?')
     wrapper.unmount()
   })
 
@@ -65,7 +67,9 @@ describe('PracticeQuestion', () => {
     await vi.waitFor(() => expect(wrapper.text()).toContain('The upper bound must be larger than your lower bound (1000)'))
     expect(input(wrapper, 'practice-upper').attributes('aria-invalid')).toBe('true')
     await answer(wrapper, 'practice-upper', 'abc')
-    await vi.waitFor(() => expect(wrapper.text()).toContain('Enter a number'))
+    await vi.waitFor(() => expect(wrapper.text()).toContain('Enter a number, such as 12 or 0.35'))
+    await answer(wrapper, 'practice-upper', '3,000')
+    await vi.waitFor(() => expect(wrapper.text()).toContain('“3,000” could mean 3000 or 3.000'))
     expect(calls.filter((c) => c.method === 'POST')).toHaveLength(0)
     wrapper.unmount()
   })
@@ -77,8 +81,10 @@ describe('PracticeQuestion', () => {
     await wrapper.findAll('button').find((b) => b.text() === 'Back')!.trigger('click')
     await flushPromises()
     expect((input(wrapper, 'practice-upper').element as HTMLInputElement).value).toBe('3000')
-    await answer(wrapper, 'practice-upper', '3000')
-    await answer(wrapper, 'practice-median', '1500')
+    await answer(wrapper, 'practice-upper', '3 000')
+    await input(wrapper, 'practice-median').setValue('1500,0')
+    expect(wrapper.get('[data-testid="practice-understood"]').text()).toBe('Read as 1,500')
+    await answer(wrapper, 'practice-median', '1500,0')
     await answer(wrapper, 'practice-q1', '1200')
     await answer(wrapper, 'practice-q3', '2000')
     const post = calls.find((c) => c.url === '/api/rounds/5/practice')
@@ -86,11 +92,11 @@ describe('PracticeQuestion', () => {
     expect(post?.headers['x-csrf-token']).toBe('tok')
     expect(post?.body).toEqual({
       points: [
-        { value: 1000, prob: 0.05 },
+        { value: 1000, prob: 0.01 },
         { value: 1200, prob: 0.25 },
         { value: 1500, prob: 0.5 },
         { value: 2000, prob: 0.75 },
-        { value: 3000, prob: 0.95 },
+        { value: 3000, prob: 0.99 },
       ],
     })
     expect(wrapper.emitted('done')?.[0]?.[0]).toMatchObject({ feedback: { q50: 1500 } })

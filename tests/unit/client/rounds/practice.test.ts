@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { practiceSchema } from '@shared/schemas/rounds'
-import { checkStep, firstProblem, parseNumber, practicePoints, PRACTICE_STEPS } from '@/rounds/practice'
+import { PLAUSIBLE_BOUND_PROB } from '@shared/elicitation/bounds'
+import { checkStep, firstProblem, practicePoints, practicePrompt, PRACTICE_STEPS } from '@/rounds/practice'
 
 describe('practice question: the quantile method steps', () => {
   it('asks bounds first, then the median, then the quartiles', () => {
@@ -8,8 +9,19 @@ describe('practice question: the quantile method steps', () => {
     expect(PRACTICE_STEPS.map((s) => s.testid)).toEqual(['practice-lower', 'practice-upper', 'practice-median', 'practice-q1', 'practice-q3'])
   })
 
-  it('maps bounds to 5 % and 95 %, quartiles to 25 % and 75 %, the median to 50 %', () => {
-    expect(Object.fromEntries(PRACTICE_STEPS.map((s) => [s.key, s.prob]))).toEqual({ lower: 0.05, upper: 0.95, median: 0.5, q1: 0.25, q3: 0.75 })
+  it('reads the bounds as the real rounds do (1 chance in 100 beyond each), quartiles as 25 % and 75 %, the median as 50 %', () => {
+    expect(PLAUSIBLE_BOUND_PROB).toBe(0.01)
+    expect(Object.fromEntries(PRACTICE_STEPS.map((s) => [s.key, s.prob]))).toEqual({ lower: 0.01, upper: 0.99, median: 0.5, q1: 0.25, q3: 0.75 })
+  })
+
+  it('asks each step in plain words with the expert’s own numbers filled in', () => {
+    const values = { lower: 1000, upper: 3000, median: 1500 }
+    expect(practicePrompt('lower', {}, 'km')).toBe(
+      'What is the lowest value you find plausible? You would be very surprised to learn that the true answer is below it (about 1 chance in 100).',
+    )
+    expect(practicePrompt('median', values, 'km')).toBe('Between 1,000 km and 3,000 km: which value is the true answer equally likely to be below or above?')
+    expect(practicePrompt('q1', values, 'km')).toBe('Suppose you learn the true answer is below 1,500 km. Which value would it then be equally likely to fall above or below?')
+    expect(practicePrompt('q3', values, '')).toBe('Suppose you learn the true answer is above 1,500. Which value would it then be equally likely to fall above or below?')
   })
 
   it('checks each value against the answers before it', () => {
@@ -40,21 +52,12 @@ describe('practice question: the quantile method steps', () => {
     expect(practicePoints({ lower: 1000, upper: 3000, median: 1500 })).toBeNull()
     const points = practicePoints({ lower: 1000, upper: 3000, median: 1500, q1: 1200, q3: 2000 })
     expect(points).toEqual([
-      { value: 1000, prob: 0.05 },
+      { value: 1000, prob: 0.01 },
       { value: 1200, prob: 0.25 },
       { value: 1500, prob: 0.5 },
       { value: 2000, prob: 0.75 },
-      { value: 3000, prob: 0.95 },
+      { value: 3000, prob: 0.99 },
     ])
     await expect(practiceSchema.validate({ points })).resolves.toBeTruthy()
-  })
-
-  it('reads typed numbers, with spaces as thousands separators', () => {
-    expect(parseNumber('1840')).toBe(1840)
-    expect(parseNumber(' 1 840 ')).toBe(1840)
-    expect(parseNumber('-2.5')).toBe(-2.5)
-    expect(parseNumber('')).toBeNull()
-    expect(parseNumber('12a')).toBeNull()
-    expect(parseNumber('1,840')).toBeNull()
   })
 })
