@@ -40,7 +40,18 @@ export const useRecordStore = defineStore('record', () => {
   }
 
   const setShowNames = (id: number, showNames: boolean) => write(id, recordApi.setShowNames(id, showNames))
-  const submit = (id: number, body?: RecordSubmission) => write(id, recordApi.submit(id, body))
+  /** Charts on their way to the server: a submission waits for them, since a submitted record takes no chart. */
+  const chartsInFlight = new Set<Promise<void>>()
+  let submitting = false
+  async function submit(id: number, body?: RecordSubmission): Promise<RecordView> {
+    submitting = true
+    try {
+      await Promise.allSettled([...chartsInFlight])
+      return await write(id, recordApi.submit(id, body))
+    } finally {
+      submitting = false
+    }
+  }
   const leaveOut = (id: number, body: { quantityId: number; reason: string }) => write(id, recordApi.leaveOut(id, body))
   const putBack = (id: number, quantityId: number) => write(id, recordApi.putBack(id, quantityId))
   const returnRecord = (id: number, body: { section: string; comment: string }) => write(id, recordApi.returnRecord(id, body))
@@ -52,13 +63,17 @@ export const useRecordStore = defineStore('record', () => {
   async function sendChart(id: number, symbol: string, png: string): Promise<boolean> {
     const record = view.value?.record
     const key = `${id}:v${record?.version ?? '?'}:${record?.liveHash ?? ''}:${symbol}`
-    if (chartsSent.has(key)) return false
+    if (submitting || chartsSent.has(key)) return false
     chartsSent.add(key)
+    const sending = recordApi.saveChart(id, { symbol, png })
+    chartsInFlight.add(sending)
     try {
-      await recordApi.saveChart(id, { symbol, png })
+      await sending
     } catch (error) {
       chartsSent.delete(key)
       throw error
+    } finally {
+      chartsInFlight.delete(sending)
     }
     if (view.value && studyId.value === id && !view.value.record.chartsFor.includes(symbol)) view.value.record.chartsFor.push(symbol)
     return true

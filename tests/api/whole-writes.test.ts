@@ -43,7 +43,7 @@ describe('text the database cannot store is refused at validation, naming the fi
       ['record comment', analyst, 'post', `/api/studies/${studyId}/record/comments`, { section: 'General', body: LONE_LOW }, 'body'],
       ['answer rationale', expert, 'put', `/api/rounds/${round}/judgements/${q}`, { method: 'quantile', lower: 0, upper: 10, points: [], rationale: LONE_HIGH, version: 1 }, 'rationale'],
       ['a key inside a distribution', analyst, 'post', `/api/quantities/${q}/impact`, { datasetId: Number(f.params['datasets/:id']), reference: { family: 'normal', mu: 0, sigma: 10, ['x\ud800']: 1 } }, 'reference.x\ud800'],
-      ['a value in a list', analyst, 'post', `/api/rounds/${round}/invitations`, { email: 'new.expert@kestrel.example', name: 'Ingrid \udfff Berg' }, 'name'],
+      ['a value in a list', analyst, 'post', `/api/rounds/${round}/invitations`, { email: 'whole-writes.panel@kestrel.example', name: 'Ingrid \udfff Berg' }, 'name'],
     ]
   }
   it.each([0, 1, 2, 3, 4, 5, 6, 7, 8])('case %i: 400 with the field, nothing written', async (i) => {
@@ -77,7 +77,7 @@ describe('a change and its audit event commit together', () => {
       ['round create', () => analyst.post(`/api/studies/${studyId}/rounds`, { title: 'Second round', opensAt: new Date().toISOString(), closesAt: new Date(Date.now() + 86400e3).toISOString(), items: [{ quantityId: Number(q), method: 'quantile' }] })],
       ['round update', () => analyst.patch(`/api/rounds/${round}`, { briefing: 'A new briefing.', version: 2 })],
       ['member add', () => analyst.post(`/api/studies/${studyId}/members`, { userId: directory.find((u) => u.email === 'expert2@kestrel.example')!.id, studyRole: 'expert' })],
-      ['panel add', () => analyst.post(`/api/rounds/${round}/invitations`, { email: 'new.expert@kestrel.example', name: 'Ingrid Berg' })],
+      ['panel add', () => analyst.post(`/api/rounds/${round}/invitations`, { email: 'whole-writes.panel@kestrel.example', name: 'Ingrid Berg' })],
       ['record comment', () => analyst.post(`/api/studies/${studyId}/record/comments`, { section: 'General', body: 'A comment that must not stay.' })],
       ['evidence upload', () => analyst.agent.post(`/api/quantities/${q}/files`).set('x-csrf-token', analyst.token).attach('file', Buffer.from('%PDF-1.4\n%%EOF\n'), 'more.pdf')],
       ['evidence delete', () => analyst.delete(`/api/files/${f.params['files/:id']}`)],
