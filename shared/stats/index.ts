@@ -32,7 +32,7 @@ export {
   sumSquaredError,
   type FitOptions,
 } from './fit'
-export { pointsFromChips, pointsFromIntervals, validatePoints } from './points'
+export { pointsFromChips, pointsFromIntervals, supportBounds, validatePoints } from './points'
 export { linearPool, logPool, mixture, poolSummary } from './pool'
 export { cookeClassical, decisionMaker, minimumInformationDistribution } from './cooke'
 export {

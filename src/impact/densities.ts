@@ -1,4 +1,4 @@
-import { analyzePrior, cdf, pdf, posteriorOf, quantile, type PilotData, type Posterior, type PriorDistribution, type Support } from '@shared/stats'
+import { analyzePrior, cdf, pdf, posteriorOf, quantile, supportBounds, type PilotData, type Posterior, type PriorDistribution, type Support } from '@shared/stats'
 import type { ImpactCandidate, ImpactRequest } from '@/api/impact'
 
 /** Chart colours fixed app-wide (theme.css): prior amber, likelihood slate, posterior green, pooled/consensus ink dashed. */
@@ -98,20 +98,6 @@ export interface Curve {
   points: CurvePoint[]
 }
 
-function bounds(support: Support | undefined): [number, number] {
-  if (!support) return [-Infinity, Infinity]
-  switch (support.kind) {
-    case 'real':
-      return [-Infinity, Infinity]
-    case 'positive':
-      return [0, Infinity]
-    case 'proportion':
-      return [0, 1]
-    case 'bounded':
-      return [support.lower, support.upper]
-  }
-}
-
 /**
  * x range holding the central 99.8 % of every posterior and 99 % of every elicited prior, padded and
  * clipped to the support. The reference and the mixture's vague part are deliberately wide and would
@@ -128,7 +114,7 @@ export function chartRange(models: { kind: ImpactCandidate['kind']; model: Prior
     take(model.posterior.quantile(0.001), model.posterior.quantile(0.999))
     if (kind !== 'reference' && kind !== 'mixture') take(model.quantile(0.005), model.quantile(0.995))
   }
-  const [slo, shi] = bounds(support)
+  const { lower: slo, upper: shi } = support ? supportBounds(support) : { lower: -Infinity, upper: Infinity }
   if (!(lo < hi)) return [Number.isFinite(slo) ? slo : 0, Number.isFinite(shi) ? shi : 1]
   const pad = (hi - lo) * 0.04
   return [Math.max(slo, lo - pad), Math.min(shi, hi + pad)]
