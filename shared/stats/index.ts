@@ -33,7 +33,7 @@ export {
   type FitOptions,
 } from './fit'
 export { pointsFromChips, pointsFromIntervals, supportBounds, validatePoints } from './points'
-export { linearPool, logPool, mixture, poolSummary } from './pool'
+export { linearPool, logPool, mixture, mixtureQuantile, poolSummary } from './pool'
 export { cookeClassical, decisionMaker, minimumInformationDistribution } from './cooke'
 export {
   analyzePrior,
