@@ -5,6 +5,7 @@ import {
   ElAlert, ElButton, ElCheckbox, ElEmpty, ElForm, ElFormItem, ElInput, ElInputNumber, ElOption, ElRadio, ElRadioButton, ElRadioGroup, ElSelect, ElSlider, ElTag,
 } from 'element-plus'
 import { fitAll } from '@shared/stats'
+import type { Summary } from '@shared/elicitation/reconcile'
 import ExpertsSection from '@/components/reconcile/ExpertsSection.vue'
 import CombineSection from '@/components/reconcile/CombineSection.vue'
 import FitSection from '@/components/reconcile/FitSection.vue'
@@ -55,7 +56,7 @@ describe('CombineSection', () => {
   const v = viewFixture()
   const cooke = liveCooke(v.calibration, [3, 4], 0)
   const base = {
-    included: v.experts, questionCount: 10, cautions: [], cooke, cookeAll: cooke, cutoffValue: 0, customTotal: 2, summary: v.pool, combinationLabel: 'Linear pool, equal weights',
+    included: v.experts, questionCount: 10, cautions: [], cooke, cookeAll: cooke, cutoffValue: 0, customTotal: 2, summary: v.pool as Summary, combinationLabel: 'Linear pool, equal weights',
     problems: {}, unit: 'L/s', disabled: false, errors: {}, weightsReasonAttrs: {}, participantsAttrs: {}, notesAttrs: {},
     method: 'linear' as const, weightsMode: 'equal' as const, cutoff: 0, customWeights: { 3: 1, 4: 1 }, weightsReason: '', consensusRows: [], participants: '', notes: '',
   }
