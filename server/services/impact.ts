@@ -1,4 +1,5 @@
 import { createHash } from 'node:crypto'
+import { chosenFit } from '../../shared/elicitation/fits'
 import { dataSize, SWEEP_FACTORS, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
 import { combine, fitCombination, fitConsensus, resolveWeights } from '../../shared/elicitation/reconcile'
 import { ENGINE_VERSION, EngineInputError, validateDistribution, type Distribution, type FitResult, type PilotData } from '../../shared/stats/index'
@@ -50,8 +51,7 @@ async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Pr
         excluded.push({ expertId: r.expert_id, label })
         return
       }
-      const fits = r.fits as FitResult[]
-      const fit = fits.find((f) => f.distribution.family === r.chosen_family) ?? fits[0]
+      const fit = chosenFit(r.fits as FitResult[], r.chosen_family)
       if (!fit) return
       experts.push(fit.distribution)
       list.push({ key: `expert-${i + 1}`, label, kind: 'expert', prior: fit.distribution })

@@ -1,4 +1,6 @@
 import { fitAnswer, type AnswerInput, type AnswerItem } from '../../shared/elicitation/answers'
+import { chosenFit } from '../../shared/elicitation/fits'
+import type { FitResult } from '../../shared/stats/index'
 import { RATIONALE_MIN, type JudgementBody } from '../../shared/schemas/judgements'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
@@ -257,8 +259,7 @@ export async function feedbackFor(db: Db, user: User, roundId: number) {
     }
     const rows: JudgementRow[] = await db('judgements').where({ round_id: prev.id, quantity_id: quantityId, status: 'submitted' }).orderBy('expert_id')
     const pick = (j: JudgementRow) => {
-      const fits = j.fits as { distribution: { family: string } }[]
-      return (fits.find((f) => f.distribution.family === j.chosen_family) ?? fits[0])?.distribution ?? null
+      return chosenFit(j.fits as FitResult[], j.chosen_family)?.distribution ?? null
     }
     const mine = rows.find((j) => j.expert_id === user.id)
     out.push({

@@ -1,6 +1,7 @@
 import {
   combine, consensusNarrowerThanSpread, disagreements, fitCombination, fitConsensus, leaveOneOut, resolveWeights, summarise, type Component,
 } from '../../shared/elicitation/reconcile'
+import { chosenFit } from '../../shared/elicitation/fits'
 import { performanceWeightCautions } from '../../shared/elicitation/weights'
 import type { ReconciliationBody } from '../../shared/schemas/reconciliation'
 import {
@@ -32,8 +33,7 @@ async function expertFits(db: Db, roundId: number, quantityId: number) {
   const { study_id: studyId } = await db('rounds').where({ id: roundId }).first('study_id')
   const labels = await studyExpertLabels(db, studyId)
   return rows.flatMap((r) => {
-    const fits = r.fits as (FitResult & { warnings?: string[] })[]
-    const fit = fits.find((f) => f.distribution.family === r.chosen_family) ?? fits[0]
+    const fit = chosenFit(r.fits as (FitResult & { warnings?: string[] })[], r.chosen_family)
     if (!fit) return []
     const d = fit.distribution
     return [{

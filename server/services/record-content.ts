@@ -1,4 +1,5 @@
 import { modelCodeWithCheck } from '../../shared/elicitation/model-code'
+import { chosenFit } from '../../shared/elicitation/fits'
 import { recordCautions } from '../../shared/elicitation/record-cautions'
 import { mean, quantile, sd, type Distribution, type FitResult } from '../../shared/stats/index'
 import type { Db } from '../db/knex'
@@ -87,8 +88,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       evidenceFiles: files.filter((f) => f.quantity_id === q.id).map((f) => ({ filename: f.filename, sha256: f.sha256, bytes: f.size_bytes })),
       rounds: roundRefs,
       judgements: judgements.filter((j) => j.quantity_id === q.id).map((j) => {
-        const fits = j.fits as (FitResult & { warnings?: string[] })[]
-        const fit = fits.find((f) => f.distribution.family === j.chosen_family) ?? fits[0]
+        const fit = chosenFit(j.fits as (FitResult & { warnings?: string[] })[], j.chosen_family)
         return {
           round: rounds.find((r) => r.id === j.round_id)!.number, expert: who(j.expert_id), method: j.method, answer: j.answer, rationale: j.rationale,
           fit: fit ? { distribution: fit.distribution, sse: fit.sse, ...summary(fit.distribution), warnings: fit.warnings ?? [] } : null,
