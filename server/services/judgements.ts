@@ -8,7 +8,7 @@ import { HttpError } from '../http/errors'
 import { recordAudit } from './audit'
 import { calibrationAnsweredEarlier } from './invitations'
 import { studyExpertLabels } from './expert-labels'
-import { supportOf } from './quantities'
+import { supportFromRow } from './quantities'
 import { roundRow } from './rounds'
 
 interface JudgementRow {
@@ -62,7 +62,7 @@ async function answeringItem(db: Db, user: User, roundId: number, quantityId: nu
   refuseUnlessAnswering(row, !!row.panel_id)
   if (!row.method) throw new HttpError(404, 'This quantity is not part of the round')
   const item: AnswerItem = { method: row.method, edges: row.edges ?? undefined, chips: row.chips ?? undefined, askTails: row.ask_tails }
-  return { studyId: row.study_id as number, item, support: supportOf(row) }
+  return { studyId: row.study_id as number, item, support: supportFromRow(row) }
 }
 
 /** The refusals of every answering call, in their order: a closed round first, then a user not on its panel. */

@@ -12,7 +12,7 @@ import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import { recordAudit } from './audit'
 import { studyExpertLabels } from './expert-labels'
-import { getQuantity, supportOf } from './quantities'
+import { getQuantity } from './quantities'
 import { followQuantities } from './round-status'
 
 const COOKE_QUANTILES = [0.05, 0.5, 0.95]
@@ -88,7 +88,7 @@ interface Settings {
 /** Everything the reconciliation screen shows for one set of settings; the server's numbers are the record's. */
 async function evaluate(db: Db, quantityId: number, settings: Settings) {
   const quantity = await getQuantity(db, quantityId)
-  const support = supportOf({ support_kind: quantity.support.kind, support_lower: 'lower' in quantity.support ? quantity.support.lower : null, support_upper: 'upper' in quantity.support ? quantity.support.upper : null })
+  const support = quantity.support
   const experts = await expertFits(db, settings.roundId, quantityId)
   const included = experts.filter((e) => !settings.excludedExperts.includes(e.expertId))
   const cal = await calibrationData(db, quantity.studyId, included.map((e) => e.expertId))

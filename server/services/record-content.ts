@@ -6,7 +6,7 @@ import type { Db } from '../db/knex'
 import { BUILD_INFO } from '../build-info'
 import { studyExpertLabels } from './expert-labels'
 import { priorHash } from './impact'
-import { supportOf } from './quantities'
+import { supportFromRow } from './quantities'
 import { savedWeightCautions } from './reconciliation'
 
 export const RECORD_SCHEMA_ID = 'https://priorsmith.example/schemas/prior-record-1.json'
@@ -81,7 +81,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       symbol: q.symbol,
       unit: q.unit,
       question: q.question,
-      support: supportOf(q),
+      support: supportFromRow(q),
       leftOut: leftOut.has(q.id) ? { reason: leftOut.get(q.id)! } : null,
       assumptions: q.assumptions,
       evidenceNotes: q.evidence_notes,
