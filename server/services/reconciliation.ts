@@ -185,10 +185,8 @@ export async function saveReconciliation(db: Db, user: User, quantityId: number,
     if (!fit) fields.family = 'This family was not fitted to the combination'
     else distribution = fit.distribution
   }
-  if (body.reconciled) {
-    if (!distribution) fields.family = 'Choose the family of the final prior'
-    if (body.rationale.trim().length < 20) fields.rationale = 'Explain the choice in at least 20 characters; it goes into the prior record'
-  }
+  // The schema asks a reconciled prior for a family (or adjusted parameters) and a reason; a family that was not fitted
+  // or parameters that are not valid have their field error above, so a reconciled save here always has its distribution.
   if (Object.keys(fields).length) throw new HttpError(400, 'Some fields need attention', fields)
 
   const row = {
