@@ -1,6 +1,6 @@
 import { supportBounds } from '@shared/stats/points'
 import type { Support } from '@shared/stats'
-import { FIELD_PROB, type QuantileField, type QuantileValues } from './quantile'
+import type { QuantileField, QuantileValues } from './quantile'
 
 /** Position of each field on the line, left to right (bounds outside the probabilities). */
 export const LINE_ORDER: readonly QuantileField[] = ['lower', 'p05', 'q1', 'median', 'q3', 'p95', 'upper']
@@ -113,6 +113,3 @@ export const HANDLE_NAMES: Record<QuantileField, string> = {
   p05: 'Low 1-in-20 value',
   p95: 'High 1-in-20 value',
 }
-
-/** The cumulative probability a handle stands for (bounds: none). */
-export const handleProb = (f: QuantileField): number | null => (f === 'lower' || f === 'upper' ? null : FIELD_PROB[f])
