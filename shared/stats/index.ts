@@ -32,8 +32,8 @@ export {
   sumSquaredError,
   type FitOptions,
 } from './fit'
-export { pointsFromChips, pointsFromIntervals, validatePoints } from './points'
-export { linearPool, logPool, mixture, poolSummary } from './pool'
+export { pointsFromChips, pointsFromIntervals, supportBounds, validatePoints } from './points'
+export { linearPool, logPool, mixture, mixtureQuantile, poolSummary } from './pool'
 export { cookeClassical, decisionMaker, minimumInformationDistribution } from './cooke'
 export {
   analyzePrior,
