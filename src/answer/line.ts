@@ -1,5 +1,4 @@
-import { supportBounds } from '@shared/stats/points'
-import type { Support } from '@shared/stats'
+import { supportBounds, type Support } from '@shared/stats'
 import type { QuantileField, QuantileValues } from './quantile'
 
 /** Position of each field on the line, left to right (bounds outside the probabilities). */
