@@ -13,6 +13,7 @@ declare module 'vue' {
   export interface GlobalComponents {
     AnswerConflict: typeof import('./components/answer/AnswerConflict.vue')['default']
     AnsweringPanel: typeof import('./components/answer/AnsweringPanel.vue')['default']
+    AnswerLine: typeof import('./components/answer/AnswerLine.vue')['default']
     AnswerRail: typeof import('./components/answer/AnswerRail.vue')['default']
     AppShell: typeof import('./components/AppShell.vue')['default']
     AsyncBlock: typeof import('./components/AsyncBlock.vue')['default']

@@ -247,6 +247,12 @@ describe('answering a round', () => {
     await expect.poll(() => field(page, 'q-median').inputValue()).toBe('15.5')
     await field(page, 'q-median').fill('10')
     await expect.poll(() => page.getByTestId('handle-median').getAttribute('aria-valuenow')).toBe('10')
+    await expect
+      .poll(async () => {
+        const saved = (await savedJudgements(page, setup.roundId)).find((j) => j.quantityId === setup.burst)!
+        return (saved.answer.points as { value: number; prob: number }[]).map((p) => p.value)
+      })
+      .toEqual([8, 10, 16])
     await waitSaved(page)
   })
 
