@@ -173,9 +173,12 @@ describe.each(PHONES.map((p, i) => ({ ...p, email: `expert${i + 1}@kestrel.examp
     const dragged = Number(await field(page, 'q-median').inputValue())
     expect(dragged).toBeLessThanOrEqual(12.5)
     expect(await page.getByTestId('handle-median').getAttribute('aria-valuenow')).toBe(String(dragged))
-    await page.locator('[data-testid="save-status"][data-state="saved"]').waitFor({ timeout: 10_000 })
-    const saved = await inPage(page, (call: Call, args: { roundId: number }) => call<{ answer: { points?: { value: number; prob: number }[] } }[]>('GET', `/api/rounds/${args.roundId}/judgements`), { roundId: setup.roundId })
-    expect(saved.flatMap((j) => j.answer.points ?? []).filter((p) => p.prob === 0.5).map((p) => p.value)).toContain(dragged)
+    type Saved = { answer: { points?: { value: number; prob: number }[] } }[]
+    const savedMedians = async () => {
+      const saved = await inPage(page, (call: Call, args: { roundId: number }) => call<Saved>('GET', `/api/rounds/${args.roundId}/judgements`), { roundId: setup.roundId })
+      return saved.flatMap((j) => j.answer.points ?? []).filter((p) => p.prob === 0.5).map((p) => p.value)
+    }
+    await expect.poll(savedMedians, { timeout: 10_000 }).toContain(dragged)
     await check(s, at('07b-quantile-line-touch'))
     // The summary of the fit sits on screen together with the field just typed in, without scrolling.
     await field(page, 'q-p95').scrollIntoViewIfNeeded()
