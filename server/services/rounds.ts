@@ -1,4 +1,5 @@
 import type { RoundBody, RoundUpdateBody } from '../../shared/schemas/rounds'
+import { supportBounds } from '../../shared/stats/index'
 import type { User } from '../../shared/types/index'
 import type { AppContext } from '../context'
 import type { Db } from '../db/knex'
@@ -41,8 +42,7 @@ const iso = (d: Date | null) => (d ? d.toISOString() : null)
 
 /** Edges of an interval method must lie inside the quantity's support. */
 function checkEdgesInSupport(support: Support, edges: number[], index: number): Record<string, string> {
-  const lo = support.kind === 'positive' || support.kind === 'proportion' ? 0 : support.kind === 'bounded' ? support.lower : -Infinity
-  const hi = support.kind === 'proportion' ? 1 : support.kind === 'bounded' ? support.upper : Infinity
+  const { lower: lo, upper: hi } = supportBounds(support)
   if (edges[0] < lo || edges[edges.length - 1] > hi) {
     return { [`items[${index}].edges`]: `Interval edges must lie within the quantity's support [${lo}, ${hi === Infinity ? '∞' : hi}]` }
   }
