@@ -238,17 +238,22 @@ describe('impact analysis', () => {
 describe('strong prior–data conflict on the impact route', () => {
   const conflict = (model: string, family: string) => (conflictFixture.cases as { model: string; prior: { family: string; lower?: number }; logEvidence: number; logBoxP: number }[])
     .find((c) => c.model === model && c.prior.family === family && (family !== 'uniform' || c.prior.lower === 0))!
+  /** A study of its own with one quantity and one uploaded dataset (a single Kestrel Valley district). */
+  async function conflictDataset(kind: string, mapping: Record<string, string>, text: string) {
+    const sid = (await analyst.post('/api/studies', { title: `engine conflict ${kind}`, context: 'Prior far from the data.' }).expect(201)).body.id
+    const qid = (await analyst.post(`/api/studies/${sid}/quantities`, {
+      name: `engine ${kind}`, symbol: 'q', unit: '', question: 'What is this quantity for the Kestrel Valley network?', support: { kind },
+    }).expect(201)).body.id as number
+    let req = analyst.agent.post(`/api/studies/${sid}/datasets`).set('x-csrf-token', analyst.token)
+    for (const [k, v] of Object.entries({ quantityId: String(qid), name: `engine ${kind} data`, ...mapping })) req = req.field(k, v)
+    const ds = await req.attach('file', csv(text), { filename: `engine-${kind}.csv`, contentType: 'text/csv' })
+    expect(ds.status).toBe(201)
+    return { qid, datasetId: ds.body.id as number }
+  }
 
   it('answers 200 with the evidence, ln p and the conflict flag for a uniform(0, 0.01) prior and 900 of 1000', async () => {
-    const sid = (await analyst.post('/api/studies', { title: 'engine conflict study', context: 'Prior far from the data.' }).expect(201)).body.id
-    const qid = (await analyst.post(`/api/studies/${sid}/quantities`, {
-      name: 'engine share', symbol: 'p', unit: '', question: 'What share of Kestrel Valley households joins the scheme?', support: { kind: 'proportion' },
-    }).expect(201)).body.id
-    let req = analyst.agent.post(`/api/studies/${sid}/datasets`).set('x-csrf-token', analyst.token)
-    for (const [k, v] of Object.entries({ quantityId: qid, name: 'engine survey', model: 'binomial', binomialLayout: 'counts', successesColumn: 'joined', trialsColumn: 'asked' })) req = req.field(k, String(v))
-    const ds = await req.attach('file', csv('district,joined,asked\nKV-01,900,1000\n'), { filename: 'engine.csv', contentType: 'text/csv' })
-    expect(ds.status).toBe(201)
-    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId: ds.body.id, reference: { family: 'uniform', lower: 0, upper: 0.01 } })
+    const { qid, datasetId } = await conflictDataset('proportion', { model: 'binomial', binomialLayout: 'counts', successesColumn: 'joined', trialsColumn: 'asked' }, 'district,joined,asked\nKV-01,900,1000\n')
+    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId, reference: { family: 'uniform', lower: 0, upper: 0.01 } })
     expect(res.status).toBe(200)
     const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'reference')
     const expected = conflict('binomial', 'uniform')
@@ -261,15 +266,8 @@ describe('strong prior–data conflict on the impact route', () => {
   })
 
   it('answers 200 for a uniform(0, 1) prior on a rate against a count of 10,000', async () => {
-    const sid = (await analyst.post('/api/studies', { title: 'engine conflict counts', context: 'Prior far from the data.' }).expect(201)).body.id
-    const qid = (await analyst.post(`/api/studies/${sid}/quantities`, {
-      name: 'engine bursts', symbol: 'r', unit: 'per km', question: 'What is the burst rate in the Kestrel Valley network?', support: { kind: 'positive' },
-    }).expect(201)).body.id
-    let req = analyst.agent.post(`/api/studies/${sid}/datasets`).set('x-csrf-token', analyst.token)
-    for (const [k, v] of Object.entries({ quantityId: qid, name: 'engine log', model: 'poisson', countColumn: 'bursts', exposureColumn: 'km' })) req = req.field(k, String(v))
-    const ds = await req.attach('file', csv('district,bursts,km\nKV-01,10000,1\n'), { filename: 'engine-counts.csv', contentType: 'text/csv' })
-    expect(ds.status).toBe(201)
-    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId: ds.body.id, reference: { family: 'uniform', lower: 0, upper: 1 } })
+    const { qid, datasetId } = await conflictDataset('positive', { model: 'poisson', countColumn: 'bursts', exposureColumn: 'km' }, 'district,bursts,km\nKV-01,10000,1\n')
+    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId, reference: { family: 'uniform', lower: 0, upper: 1 } })
     expect(res.status).toBe(200)
     const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'reference')
     const expected = conflict('poisson', 'uniform')
