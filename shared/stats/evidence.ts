@@ -3,7 +3,8 @@ import { EngineInputError } from './errors'
 import { mixtureQuantile } from './pool'
 import { findRoot, LogIntegral, maximize, type Hint } from './quadrature'
 import { betaPQ, gammaPQ, lbeta, lgamma, logNormCdf, logNormDiff, logNormPdf, normCdf, normPdf, softplus } from './special'
-import type { Analysis, PilotData, PosteriorSummary, PriorDistribution, Univariate } from './types'
+import { dirichletMultinomialAnalysis } from './dirichlet'
+import type { Analysis, DirichletAnalysis, DirichletPrior, MultinomialData, PilotData, PosteriorSummary, PriorDistribution, Univariate } from './types'
 
 const LN_2PI = Math.log(2 * Math.PI)
 const PROBS = [0.025, 0.5, 0.975] as const
@@ -636,7 +637,18 @@ function summariseDistribution(d: PriorDistribution): PosteriorSummary {
  * for one prior and one pilot data set: closed forms for conjugate pairs (BDA3 §2.4–2.6; docs/methods/evidence.md), otherwise
  * adaptive Gauss–Kronrod quadrature in log space (Piessens et al. 1983; docs/methods/evidence.md).
  */
-export function analyzePrior(prior: PriorDistribution, data: PilotData, options: AnalyzeOptions = {}): Analysis {
+export function analyzePrior(prior: DirichletPrior, data: MultinomialData): DirichletAnalysis
+export function analyzePrior(prior: PriorDistribution, data: PilotData, options?: AnalyzeOptions): Analysis
+export function analyzePrior(
+  prior: PriorDistribution | DirichletPrior,
+  data: PilotData | MultinomialData,
+  options: AnalyzeOptions = {},
+): Analysis | DirichletAnalysis {
+  if (prior?.family === 'dirichlet' || data?.model === 'multinomial') {
+    if (prior?.family !== 'dirichlet') throw new EngineInputError('prior', 'Multinomial data need a Dirichlet prior on the shares.')
+    if (data?.model !== 'multinomial') throw new EngineInputError('data', 'A Dirichlet prior goes with multinomial data (rows of category counts).')
+    return dirichletMultinomialAnalysis(prior, data)
+  }
   validateData(prior, data)
   const force = options.forceQuadrature === true
   switch (data.model) {

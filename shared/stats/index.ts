@@ -4,10 +4,16 @@ export type {
   CookeExpertScore,
   CookeInput,
   CookeResult,
+  DirichletAnalysis,
+  DirichletFit,
+  DirichletPrior,
+  DirichletSweepPoint,
   Distribution,
   Family,
   FitResult,
   HalfNormal,
+  MultinomialData,
+  NearestCorrelation,
   PilotData,
   Point,
   Pool,
@@ -32,8 +38,8 @@ export {
   sumSquaredError,
   type FitOptions,
 } from './fit'
-export { pointsFromChips, pointsFromIntervals, validatePoints } from './points'
-export { linearPool, logPool, mixture, poolSummary } from './pool'
+export { pointsFromChips, pointsFromIntervals, supportBounds, validatePoints } from './points'
+export { linearPool, logPool, mixture, mixtureQuantile, poolSummary } from './pool'
 export { cookeClassical, decisionMaker, minimumInformationDistribution } from './cooke'
 export {
   analyzePrior,
@@ -68,3 +74,12 @@ export {
 } from './sensitivity'
 export { ENGINE_VERSION } from './version'
 export { decimalSum } from './sum'
+export { COMPOSITION_CONVENTION, dirichletFromMarginals, dirichletMarginal, dirichletMultinomialAnalysis, dirichletWidthSweep } from './dirichlet'
+export {
+  conditionalFromCopulaCorrelation,
+  copulaCorrelationFromConditional,
+  nearestCorrelation,
+  poolCorrelations,
+  rankCorrelationOfCopula,
+  sampleJoint,
+} from './copula'
