@@ -369,7 +369,7 @@ type Predictive = { logDensity(t: number): number; lower(t: number): number; upp
 /** Error kernel of x̄ − μ: a normal (known σ) or a scale mixture of normals Σ w_j N(0, s_j²) (σ integrated over its prior). */
 type Kernel = { s: number[]; w: number[] }
 
-function logSumExp(terms: number[]): number {
+export function logSumExp(terms: number[]): number {
   const m = Math.max(...terms)
   if (!Number.isFinite(m)) return m
   let total = 0

@@ -3,7 +3,7 @@
 import { logPdf, supportOf, toUnivariate } from './distributions'
 import { EngineInputError } from './errors'
 import {
-  asStandardBeta, hintOnU, normalStats, posteriorFromIntegral, priorScale, summarise, truncatedNormal, validateData,
+  asStandardBeta, hintOnU, logSumExp, normalStats, posteriorFromIntegral, priorScale, summarise, truncatedNormal, validateData,
   type NormalStats, type Posterior, type PriorScale,
 } from './evidence'
 import { integrate, LogIntegral, type Hint } from './quadrature'
@@ -120,14 +120,6 @@ function priorOnU(prior: CandidatePrior): PriorOnU {
     logDensity: (u) => logSumExp(prior.components.map((c, i) => logW[i] + logPdf(c, scale.theta(u)))),
     logJacobian: logJacobian(widest),
   }
-}
-
-function logSumExp(terms: number[]): number {
-  const m = Math.max(...terms)
-  if (!Number.isFinite(m)) return m
-  let total = 0
-  for (const t of terms) total += Math.exp(t - m)
-  return m + Math.log(total)
 }
 
 // ─── Likelihood kernels raised to a power ────────────────────────────────────────────────────────
