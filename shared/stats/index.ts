@@ -44,6 +44,7 @@ export { cookeClassical, decisionMaker, minimumInformationDistribution } from '.
 export {
   analyzePrior,
   boxCheckNormalNormal,
+  CONFLICT_LEVEL,
   normalInverseGamma,
   posteriorOf,
   type Posterior,
