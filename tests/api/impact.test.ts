@@ -255,23 +255,23 @@ describe('strong prior–data conflict on the impact route', () => {
 
   it('answers 200 with the evidence, ln p and the conflict flag for a uniform(0, 0.01) prior and 900 of 1000', async () => {
     const { qid, datasetId } = await conflictDataset('proportion', { model: 'binomial', binomialLayout: 'counts', successesColumn: 'joined', trialsColumn: 'asked' }, 'district,joined,asked\nKV-01,900,1000\n')
-    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId, reference: { family: 'uniform', lower: 0, upper: 0.01 } })
+    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId, comparison: { family: 'uniform', lower: 0, upper: 0.01 } })
     expect(res.status).toBe(200)
-    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'reference')
+    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'comparison')
     const expected = conflict('binomial', 'uniform')
     expect(ref.logEvidence).toBeCloseTo(expected.logEvidence, 6)
     expect(ref.logEvidence).toBeCloseTo(-3830.547298, 6)
     expect(ref.logPriorPredictiveP).toBeCloseTo(expected.logBoxP, 6)
     expect(ref.priorPredictiveP).toBe(0)
     expect(ref.flags).toContain('prior-data-conflict')
-    expect(res.body.findings).toContain("Reference prior: the pilot data sit in the tail of what this prior predicts (Box's prior predictive p is about 10^-1663, practically zero); prior and data conflict.")
+    expect(res.body.findings).toContain("Comparison prior: the pilot data sit in the tail of what this prior predicts (Box's prior predictive p is about 10^-1663, practically zero); prior and data conflict.")
   })
 
   it('answers 200 for a uniform(0, 1) prior on a rate against a count of 10,000', async () => {
     const { qid, datasetId } = await conflictDataset('positive', { model: 'poisson', countColumn: 'bursts', exposureColumn: 'km' }, 'district,bursts,km\nKV-01,10000,1\n')
-    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId, reference: { family: 'uniform', lower: 0, upper: 1 } })
+    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId, comparison: { family: 'uniform', lower: 0, upper: 1 } })
     expect(res.status).toBe(200)
-    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'reference')
+    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'comparison')
     const expected = conflict('poisson', 'uniform')
     expect(ref.logEvidence).toBeCloseTo(expected.logEvidence, 6)
     expect(ref.logPriorPredictiveP).toBeCloseTo(expected.logBoxP, 6)
