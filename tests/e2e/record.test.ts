@@ -170,6 +170,48 @@ describe('prior record: submit, return with comments, resubmit, sign off, downlo
     await expectAccessible(page, 'analyst record')
   })
 
+  it('the section index stays in view while the record scrolls, jumps to a section, and long tables start folded', async () => {
+    const { page } = analyst
+    await page.setViewportSize({ width: 1280, height: 800 })
+    const index = page.getByTestId('record-index')
+    const links = index.getByTestId('record-index-link')
+    expect(await links.allInnerTexts()).toEqual(['1. Study and decision', '2. Expert panel', '3. Calibration questions', `4. ${FLOW_SECTION}`, '5. Leak-alert uptake (uptake)', '6. Cautions', '7. Review and sign-off', '8. Change history'])
+    // Jump to the last section: its heading comes to the top, the index is still on screen and marks it.
+    await links.filter({ hasText: 'Change history' }).click()
+    const heading = page.locator('#record-s8')
+    await page.waitForFunction(() => Math.abs(document.getElementById('record-s8')!.getBoundingClientRect().top) < 60)
+    expect(await heading.evaluate((el) => el === document.activeElement)).toBe(true)
+    const box = (await index.boundingBox())!
+    expect(box.y).toBeGreaterThanOrEqual(0)
+    expect(box.y).toBeLessThan(800)
+    await page.waitForFunction(() => document.querySelector('[data-testid="record-index-link"][aria-current="location"]')?.textContent?.includes('Change history'))
+
+    // The change history shows its newest 12 events; the rest on request.
+    const rows = page.getByTestId('change-history-row')
+    expect(await rows.count()).toBe(12)
+    const fold = page.locator('[aria-controls="record-history-table"]')
+    const label = await fold.innerText()
+    const total = Number(label.match(/Show all (\d+) events/)![1])
+    expect(total).toBeGreaterThan(12)
+    await fold.click()
+    expect(await rows.count()).toBe(total)
+    await expect(fold.getAttribute('aria-expanded')).resolves.toBe('true')
+
+    // On a phone the index is a strip held at the top of the screen.
+    await page.setViewportSize({ width: 360, height: 740 })
+    await page.locator('#record-s4').scrollIntoViewIfNeeded()
+    await page.mouse.wheel(0, 400)
+    await page.waitForTimeout(300)
+    const strip = (await index.boundingBox())!
+    expect(strip.y).toBeGreaterThanOrEqual(-1)
+    expect(strip.y).toBeLessThan(10)
+    expect(strip.width).toBeLessThanOrEqual(360)
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(360)
+    await expectAccessible(page, 'record with its index at 360 px')
+    await page.setViewportSize({ width: 1280, height: 800 })
+    await page.evaluate(() => window.scrollTo(0, 0))
+  })
+
   it('the analyst submits the record: in review, content hash frozen', async () => {
     const { page } = analyst
     // Uptake has no impact analysis of its final prior: the record says so, and the analyst records why before submitting.
