@@ -517,15 +517,30 @@ function kernelLogCdf(kernel: Kernel, e: number): number {
   return top + Math.log(total)
 }
 
+/** Per-kernel constants of its log density: 1/s_j and ln w_j − ln s_j − ½ ln 2π. */
+const kernelConstants = new WeakMap<Kernel, { inv: Float64Array; c: Float64Array }>()
+
 /** ln Σ w_j φ(e / s_j) / s_j: the kernel's log density, in one pass without allocation (it runs inside nested quadratures). */
 function kernelLogPdf(kernel: Kernel, e: number): number {
-  const { s, w } = kernel
+  let k = kernelConstants.get(kernel)
+  if (!k) {
+    k = { inv: Float64Array.from(kernel.s, (sj) => 1 / sj), c: Float64Array.from(kernel.s, (sj, j) => Math.log(kernel.w[j]) - Math.log(sj) - 0.5 * LN_2PI) }
+    kernelConstants.set(kernel, k)
+  }
+  const { inv, c } = k
   let top = -Infinity
-  for (let j = 0; j < s.length; j++) top = Math.max(top, -0.5 * (e / s[j]) ** 2 - Math.log(s[j]))
+  for (let j = 0; j < inv.length; j++) {
+    const z = e * inv[j]
+    const t = c[j] - 0.5 * z * z
+    if (t > top) top = t
+  }
   if (!Number.isFinite(top)) return top
   let total = 0
-  for (let j = 0; j < s.length; j++) total += w[j] * Math.exp(-0.5 * (e / s[j]) ** 2 - Math.log(s[j]) - top)
-  return top + Math.log(total) - 0.5 * LN_2PI
+  for (let j = 0; j < inv.length; j++) {
+    const z = e * inv[j]
+    total += Math.exp(c[j] - 0.5 * z * z - top)
+  }
+  return top + Math.log(total)
 }
 
 /** The kernel of x̄ − μ when σ has a prior: the σ prior's quadrature nodes as a scale mixture of N(0, σ²/n). */
