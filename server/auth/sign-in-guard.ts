@@ -12,17 +12,32 @@ const FAILURE_RETENTION_DAYS = 90
 export const CEILING_FACTOR = 5
 const TOO_MANY = 'Too many sign-in attempts. Wait 15 minutes and try again.'
 
+/** How many refused keys an instance remembers; beyond it the oldest is forgotten and its next hit asks PostgreSQL again. */
+const REFUSED_KEYS_REMEMBERED = 10_000
+
 /**
  * express-rate-limit's counters in PostgreSQL, so that every app instance counts the same attempts. One statement per
- * hit: it starts a new window when the old one has passed.
+ * hit: it starts a new window when the old one has passed. A key over its limit is refused until its window ends
+ * whatever further hits it gets, so an instance that has seen a key refused remembers until when and answers from
+ * memory: a flood from a refused address then costs no database write (other instances learn the same from their own
+ * first refused hit, so the limit holds across instances).
  */
 class PostgresStore implements Store {
   localKeys = false
   private windowMs = WINDOW_MS
+  private limit = Infinity
+  private refusedUntil = new Map<string, Date>()
   constructor(private pool: pg.Pool, readonly prefix: string) {}
 
   init(options: Options) {
     this.windowMs = options.windowMs
+    if (typeof options.limit === 'number') this.limit = options.limit
+  }
+
+  private rememberRefused(key: string, until: Date) {
+    this.refusedUntil.delete(key)
+    this.refusedUntil.set(key, until)
+    if (this.refusedUntil.size > REFUSED_KEYS_REMEMBERED) this.refusedUntil.delete(this.refusedUntil.keys().next().value!)
   }
 
   private key(raw: string) {
@@ -30,14 +45,19 @@ class PostgresStore implements Store {
   }
 
   async increment(raw: string): Promise<ClientRateLimitInfo> {
+    const key = this.key(raw)
+    const until = this.refusedUntil.get(key)
+    if (until && until.getTime() > Date.now()) return { totalHits: this.limit + 1, resetTime: until }
+    if (until) this.refusedUntil.delete(key)
     const { rows } = await this.pool.query(
       `INSERT INTO rate_limit_hits (key, hits, reset_at) VALUES ($1, 1, now() + make_interval(secs => $2))
        ON CONFLICT (key) DO UPDATE SET
          hits = CASE WHEN rate_limit_hits.reset_at <= now() THEN 1 ELSE rate_limit_hits.hits + 1 END,
          reset_at = CASE WHEN rate_limit_hits.reset_at <= now() THEN EXCLUDED.reset_at ELSE rate_limit_hits.reset_at END
        RETURNING hits, reset_at`,
-      [this.key(raw), this.windowMs / 1000],
+      [key, this.windowMs / 1000],
     )
+    if (rows[0].hits > this.limit) this.rememberRefused(key, rows[0].reset_at)
     return { totalHits: rows[0].hits, resetTime: rows[0].reset_at }
   }
 
@@ -46,6 +66,7 @@ class PostgresStore implements Store {
   }
 
   async resetKey(raw: string) {
+    this.refusedUntil.delete(this.key(raw))
     await this.pool.query('DELETE FROM rate_limit_hits WHERE key = $1', [this.key(raw)])
   }
 }

@@ -1,4 +1,4 @@
-import { EngineInputError, pointsFromChips, pointsFromIntervals, type Point, type Support } from '../stats/index'
+import { EngineInputError, pointsFromChips, pointsFromIntervals, supportBounds, type Point, type Support } from '../stats/index'
 import { fitWithRange, type JudgedFit, type PlausibleRange } from './fits'
 
 export type Method = 'quantile' | 'fixed-interval' | 'chip-grid'
@@ -38,16 +38,9 @@ export function quantileProbs(askTails: boolean): number[] {
 const pct = (p: number) => `${Math.round(p * 100)} %`
 
 function supportRange(support: Support): { lo: number; hi: number; label: string } {
-  switch (support.kind) {
-    case 'real':
-      return { lo: -Infinity, hi: Infinity, label: 'any real number' }
-    case 'positive':
-      return { lo: 0, hi: Infinity, label: 'above 0' }
-    case 'proportion':
-      return { lo: 0, hi: 1, label: 'between 0 and 1' }
-    case 'bounded':
-      return { lo: support.lower, hi: support.upper, label: `between ${support.lower} and ${support.upper}` }
-  }
+  const { lower: lo, upper: hi } = supportBounds(support)
+  const label = { real: 'any real number', positive: 'above 0', proportion: 'between 0 and 1', bounded: `between ${lo} and ${hi}` }[support.kind]
+  return { lo, hi, label }
 }
 
 function checkQuantile(item: AnswerItem, input: AnswerInput, support: Support): AnswerCheck {

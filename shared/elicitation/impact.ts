@@ -1,6 +1,6 @@
 import {
-  analyzePrior, bayesFactor, cdf as cdfOf, decimalSum, EngineInputError, mean as distMean, posteriorOf, PRIOR_DRIVEN_RULE, quantile, widthSweep,
-  type Analysis, type PilotData, type Posterior, type PriorDistribution, type Support,
+  analyzePrior, bayesFactor, CONFLICT_LEVEL, decimalSum, EngineInputError, mean as distMean, mixture, mixtureQuantile, posteriorOf, PRIOR_DRIVEN_RULE, quantile,
+  toUnivariate, widthSweep, type Analysis, type PilotData, type Pool, type Posterior, type PriorDistribution, type Support,
 } from '../stats/index'
 
 /** Width factors k of the sweep (0.25 to 8; docs/methods/width-sweep.md), evenly spaced on a log scale. */
@@ -31,6 +31,8 @@ export interface CandidateResult {
   method: Analysis['method']
   posterior: Analysis['posterior']
   priorPredictiveP: number
+  /** ln of Box's p: finite when p underflows to 0 (a strong prior–data conflict). */
+  logPriorPredictiveP: number
   priorEss: number | null
   bayesFactor: { logBF: number; twoLnBF: number; label: string } | null
   decision: { probability: number; act: boolean } | null
@@ -43,32 +45,51 @@ function tailProbability(post: Posterior, rule: DecisionRule): number {
   return rule.direction === 'above' ? 1 - below : below
 }
 
-function mixtureAnalysis(c: NonNullable<CandidateInput['mixture']>, data: PilotData) {
-  const parts = c.components.map((p) => ({ a: analyzePrior(p, data), post: posteriorOf(p, data) }))
-  const logs = parts.map((p, i) => Math.log(c.weights[i]) + p.a.logEvidence)
+export interface RobustMixture {
+  /** The mixture prior Σ wᵢ pᵢ. */
+  prior: Pool
+  /** The components' posteriors weighted by the posterior weights. */
+  posterior: Posterior
+  /** πᵢ = wᵢ mᵢ(x) / Σ wⱼ mⱼ(x), mᵢ the evidence of component i. */
+  posteriorWeights: number[]
+  logEvidence: number
+  /** Each component's own analysis against the data. */
+  analyses: Analysis[]
+}
+
+/** Mixture prior and its evidence-weighted posterior (mixture-of-conjugates result; Schmidli et al. 2014, Biometrics 70:1023–1032). */
+export function robustMixture(components: readonly PriorDistribution[], weights: readonly number[], data: PilotData): RobustMixture {
+  const prior = mixture(components.map(toUnivariate), weights)
+  const analyses = components.map((p) => analyzePrior(p, data))
+  const posts = components.map((p) => posteriorOf(p, data))
+  const logs = analyses.map((a, i) => Math.log(prior.weights[i]) + a.logEvidence)
   const max = Math.max(...logs)
   const logEvidence = max + Math.log(logs.reduce((s, l) => s + Math.exp(l - max), 0))
   const pi = logs.map((l) => Math.exp(l - logEvidence))
-  const m = parts.reduce((s, p, i) => s + pi[i] * p.a.posterior.mean, 0)
-  const second = parts.reduce((s, p, i) => s + pi[i] * (p.a.posterior.sd ** 2 + p.a.posterior.mean ** 2), 0)
-  const cdf = (x: number) => parts.reduce((s, p, i) => s + pi[i] * p.post.cdf(x), 0)
-  const q = (p: number) => {
-    let lo = Math.min(...parts.map((x) => x.post.quantile(p)))
-    let hi = Math.max(...parts.map((x) => x.post.quantile(p)))
-    for (let i = 0; i < 200 && hi - lo > 1e-12 * Math.max(1, Math.abs(hi)); i++) {
-      const mid = (lo + hi) / 2
-      if (cdf(mid) < p) lo = mid
-      else hi = mid
-    }
-    return (lo + hi) / 2
+  const mean = posts.reduce((s, p, i) => s + pi[i] * p.mean(), 0)
+  const second = posts.reduce((s, p, i) => s + pi[i] * (p.sd() ** 2 + p.mean() ** 2), 0)
+  const posterior: Posterior = {
+    cdf: (x) => posts.reduce((s, p, i) => s + pi[i] * p.cdf(x), 0),
+    quantile: (p) => mixtureQuantile(posts, pi, p),
+    mean: () => mean,
+    sd: () => Math.sqrt(Math.max(0, second - mean * mean)),
   }
-  const post: Posterior = { cdf, quantile: q, mean: () => m, sd: () => Math.sqrt(second - m * m) }
-  const priorP = c.components.map((p) => analyzePrior(p, data).priorPredictiveP)
+  return { prior, posterior, posteriorWeights: pi, logEvidence, analyses }
+}
+
+function mixtureAnalysis(c: NonNullable<CandidateInput['mixture']>, data: PilotData) {
+  const mix = robustMixture(c.components, c.weights, data)
+  const post = mix.posterior
+  const logPriorP = mix.analyses.map((a, i) => Math.log(c.weights[i]) + a.logPriorPredictiveP)
+  const top = Math.max(...logPriorP)
+  const logP = Math.min(0, top + Math.log(logPriorP.reduce((s, l) => s + Math.exp(l - top), 0)))
   return {
     analysis: {
-      logEvidence, method: 'quadrature' as const,
-      posterior: { mean: m, sd: Math.sqrt(Math.max(0, second - m * m)), q025: q(0.025), q50: q(0.5), q975: q(0.975) },
-      priorPredictiveP: Math.min(1, c.weights[0] * priorP[0] + c.weights[1] * priorP[1]),
+      logEvidence: mix.logEvidence, method: 'quadrature' as const,
+      posterior: { mean: post.mean(), sd: post.sd(), q025: post.quantile(0.025), q50: post.quantile(0.5), q975: post.quantile(0.975) },
+      priorPredictiveP: Math.exp(logP),
+      logPriorPredictiveP: logP,
+      conflict: logP < Math.log(CONFLICT_LEVEL),
       priorEss: null,
     },
     post,
@@ -77,20 +98,8 @@ function mixtureAnalysis(c: NonNullable<CandidateInput['mixture']>, data: PilotD
 
 function priorSummaryOf(c: CandidateInput) {
   if (c.mixture) {
-    const [a, b] = c.mixture.components
-    const [wa, wb] = c.mixture.weights
-    const cdf = (x: number) => wa * cdfOf(a, x) + wb * cdfOf(b, x)
-    const q = (p: number) => {
-      let lo = Math.min(quantile(a, p), quantile(b, p))
-      let hi = Math.max(quantile(a, p), quantile(b, p))
-      for (let i = 0; i < 200 && hi - lo > 1e-12 * Math.max(1, Math.abs(hi)); i++) {
-        const mid = (lo + hi) / 2
-        if (cdf(mid) < p) lo = mid
-        else hi = mid
-      }
-      return (lo + hi) / 2
-    }
-    return { mean: wa * distMean(a) + wb * distMean(b), q025: q(0.025), q975: q(0.975) }
+    const prior = mixture(c.mixture.components.map(toUnivariate), c.mixture.weights)
+    return { mean: prior.mean(), q025: prior.quantile(0.025), q975: prior.quantile(0.975) }
   }
   return { mean: distMean(c.prior), q025: quantile(c.prior, 0.025), q975: quantile(c.prior, 0.975) }
 }
@@ -115,12 +124,12 @@ export function evaluateCandidates(candidates: CandidateInput[], data: PilotData
     const { analysis, post } = namedFor(c, () => (c.mixture ? mixtureAnalysis(c.mixture, data) : { analysis: analyzePrior(c.prior, data), post: posteriorOf(c.prior, data) }))
     const flags: string[] = []
     if (analysis.priorEss !== null && analysis.priorEss > n) flags.push('prior-dominates')
-    if (analysis.priorPredictiveP < 0.05) flags.push('prior-data-conflict')
+    if (analysis.conflict) flags.push('prior-data-conflict')
     const probability = rule ? tailProbability(post, rule) : null
     return {
       key: c.key, label: c.label, kind: c.kind, prior: c.prior, priorSummary: priorSummaryOf(c),
       logEvidence: analysis.logEvidence, method: analysis.method, posterior: analysis.posterior,
-      priorPredictiveP: analysis.priorPredictiveP, priorEss: analysis.priorEss, bayesFactor: null,
+      priorPredictiveP: analysis.priorPredictiveP, logPriorPredictiveP: analysis.logPriorPredictiveP, priorEss: analysis.priorEss, bayesFactor: null,
       decision: rule && probability !== null ? { probability, act: probability > rule.probability } : null, flags,
     }
   })
@@ -166,6 +175,13 @@ export function sweepOf(prior: PriorDistribution, data: PilotData, support: Supp
 
 const fmt = (x: number) => (Math.abs(x) >= 100 ? x.toFixed(0) : Math.abs(x) >= 1 ? x.toFixed(2) : x.toPrecision(3))
 
+/** A p-value from its logarithm in words: "= 0.012", or a power of ten when it is below 1e-6 (it may underflow to 0). */
+export function formatSmallP(logP: number): string {
+  const log10 = logP / Math.LN10
+  if (log10 >= -6) return `= ${Math.exp(logP).toPrecision(2)}`
+  return `is about 10^${Math.round(log10)}, practically zero`
+}
+
 /** Plain-language findings from the numbers: what the width does, and each caution that applies. */
 export function findings(results: CandidateResult[], sweep: SweepSummary | null, n: number): string[] {
   const out: string[] = []
@@ -186,7 +202,7 @@ export function findings(results: CandidateResult[], sweep: SweepSummary | null,
   }
   for (const r of results) {
     if (r.flags.includes('prior-dominates')) out.push(`${r.label}: the prior carries more information than the pilot data (prior effective sample size ${fmt(r.priorEss!)} against n = ${fmt(n)}).`)
-    if (r.flags.includes('prior-data-conflict')) out.push(`${r.label}: the pilot data sit in the tail of what this prior predicts (Box's prior predictive p = ${r.priorPredictiveP.toPrecision(2)}); prior and data conflict.`)
+    if (r.flags.includes('prior-data-conflict')) out.push(`${r.label}: the pilot data sit in the tail of what this prior predicts (Box's prior predictive p ${formatSmallP(r.logPriorPredictiveP)}); prior and data conflict.`)
   }
   return out
 }

@@ -4,10 +4,16 @@ export type {
   CookeExpertScore,
   CookeInput,
   CookeResult,
+  DirichletAnalysis,
+  DirichletFit,
+  DirichletPrior,
+  DirichletSweepPoint,
   Distribution,
   Family,
   FitResult,
   HalfNormal,
+  MultinomialData,
+  NearestCorrelation,
   PilotData,
   Point,
   Pool,
@@ -32,12 +38,13 @@ export {
   sumSquaredError,
   type FitOptions,
 } from './fit'
-export { pointsFromChips, pointsFromIntervals, validatePoints } from './points'
-export { linearPool, logPool, mixture, poolSummary } from './pool'
+export { pointsFromChips, pointsFromIntervals, supportBounds, validatePoints } from './points'
+export { linearPool, logPool, mixture, mixtureQuantile, poolSummary } from './pool'
 export { cookeClassical, decisionMaker, minimumInformationDistribution } from './cooke'
 export {
   analyzePrior,
   boxCheckNormalNormal,
+  CONFLICT_LEVEL,
   normalInverseGamma,
   posteriorOf,
   type Posterior,
@@ -49,3 +56,12 @@ export { bayesFactor, JEFFREYS_SCALE, KASS_RAFTERY_SCALE } from './bayes-factor'
 export { PRIOR_DRIVEN_CONVENTION, PRIOR_DRIVEN_RULE, scaleSpread, widthSweep } from './sweep'
 export { ENGINE_VERSION } from './version'
 export { decimalSum } from './sum'
+export { COMPOSITION_CONVENTION, dirichletFromMarginals, dirichletMarginal, dirichletMultinomialAnalysis, dirichletWidthSweep } from './dirichlet'
+export {
+  conditionalFromCopulaCorrelation,
+  copulaCorrelationFromConditional,
+  nearestCorrelation,
+  poolCorrelations,
+  rankCorrelationOfCopula,
+  sampleJoint,
+} from './copula'

@@ -61,6 +61,10 @@ export type Analysis = {
   method: 'closed-form' | 'quadrature'
   posterior: PosteriorSummary
   priorPredictiveP: number
+  /** ln of Box's p: finite when p itself underflows to 0 under a strong prior–data conflict. */
+  logPriorPredictiveP: number
+  /** Box's p is below CONFLICT_LEVEL (5 %): the data sit in the tail of what the prior predicts. */
+  conflict: boolean
   priorEss: number | null
 }
 
@@ -108,3 +112,42 @@ export type SweepPoint = {
 }
 
 export type SweepResult = { points: SweepPoint[]; evidenceRatio: number; priorDriven: boolean }
+
+/** A Dirichlet on the shares of a whole (shares sum to one); αᵢ > 0. */
+export type DirichletPrior = { family: 'dirichlet'; alpha: number[] }
+
+/** Multinomial pilot data: rows of category counts as recorded (one row per observed group, or one-hot rows of 1). */
+export type MultinomialData = { model: 'multinomial'; counts: number[][] }
+
+export type DirichletFit = DirichletPrior & {
+  /** Per elicited share: largest |F_Dirichlet(q) − p| at the share's own 5/25/50/75/95 % quantiles q (probability scale). */
+  mismatch: number[]
+  totalConcentration: number
+  /** Σ of the elicited shares' means (before scaling to 1). */
+  meanSum: number
+  /** Per elicited share: the concentration m(1 − m)/v − 1 its mean and variance imply on their own. */
+  impliedConcentration: number[]
+  warnings: { code: 'mean-sum' | 'unequal-certainty'; message: string }[]
+}
+
+export type DirichletAnalysis = {
+  logEvidence: number
+  method: 'closed-form'
+  posteriorAlpha: number[]
+  /** Per category: the posterior's beta marginal. */
+  posterior: PosteriorSummary[]
+  priorEss: number
+  observations: number
+}
+
+export type DirichletSweepPoint = { factor: number; alpha: number[]; logEvidence: number; posteriorMeans: number[] }
+
+export type NearestCorrelation = {
+  matrix: number[][]
+  maxChange: number
+  /** matrix − input, entry by entry. */
+  changes: number[][]
+  /** The input's smallest eigenvalue (negative when it was not a correlation matrix). */
+  minEigenvalue: number
+  iterations: number
+}

@@ -1,4 +1,4 @@
-import type { Point, Support } from '@shared/stats'
+import { supportBounds, type Point, type Support } from '@shared/stats'
 import { PLAUSIBLE_BOUND_WORDS } from '@shared/elicitation/bounds'
 import { formatValue } from '@/rounds/numbers'
 import { valueText } from './format'
@@ -104,24 +104,11 @@ export function quantileSteps(askTails: boolean): QuantileStep[] {
 
 export type QuantileValues = Partial<Record<QuantileField, number>>
 
-function supportLimits(support: Support): { lo: number; hi: number } {
-  switch (support.kind) {
-    case 'real':
-      return { lo: -Infinity, hi: Infinity }
-    case 'positive':
-      return { lo: 0, hi: Infinity }
-    case 'proportion':
-      return { lo: 0, hi: 1 }
-    case 'bounded':
-      return { lo: support.lower, hi: support.upper }
-  }
-}
-
 const capital = (s: string) => s[0].toUpperCase() + s.slice(1)
 
 /** Why a value lies outside the quantity's possible values, or null. Bounds may touch a finite end; answers may not. */
 function supportProblem(field: QuantileField, value: number, support: Support): string | null {
-  const { lo, hi } = supportLimits(support)
+  const { lower: lo, upper: hi } = supportBounds(support)
   const label = capital(`the ${FIELD_LABELS[field]}`)
   const atEndOk = field === 'lower' ? value >= lo && value < hi : field === 'upper' ? value > lo && value <= hi : value > lo && value < hi
   if (atEndOk) return null

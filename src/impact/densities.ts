@@ -1,5 +1,6 @@
-import { analyzePrior, cdf, pdf, posteriorOf, quantile, type PilotData, type Posterior, type PriorDistribution, type Support } from '@shared/stats'
+import { pdf, posteriorOf, quantile, supportBounds, type PilotData, type Posterior, type Support } from '@shared/stats'
 import type { ImpactCandidate, ImpactRequest } from '@/api/impact'
+import { robustMixture } from '@shared/elicitation/impact'
 
 /** Chart colours fixed app-wide (theme.css): prior amber, likelihood slate, posterior green, pooled/consensus ink dashed. */
 export const CHART_COLOURS = {
@@ -41,43 +42,14 @@ export interface PriorModel {
   posterior: Posterior
 }
 
-function mixtureQuantile(cdf: (x: number) => number, parts: ((p: number) => number)[], p: number): number {
-  let lo = Math.min(...parts.map((q) => q(p)))
-  let hi = Math.max(...parts.map((q) => q(p)))
-  for (let i = 0; i < 100 && hi - lo > 1e-10 * Math.max(1, Math.abs(hi)); i++) {
-    const mid = (lo + hi) / 2
-    if (cdf(mid) < p) lo = mid
-    else hi = mid
-  }
-  return (lo + hi) / 2
-}
-
 /**
  * The prior and posterior of a candidate for drawing. The mixture's posterior weights follow from
  * each component's evidence (w_i p_i(x) / Σ w_j p_j(x)), computed here with the shared engine.
  */
 export function priorModel(candidate: ImpactCandidate, data: PilotData, input?: Pick<ImpactRequest, 'mixtureWeight' | 'mixtureVague'> | null): PriorModel {
   if (candidate.kind === 'mixture' && input?.mixtureWeight && input.mixtureVague) {
-    const parts: PriorDistribution[] = [candidate.prior, input.mixtureVague]
-    const w = [1 - input.mixtureWeight, input.mixtureWeight]
-    const posts = parts.map((p) => posteriorOf(p, data))
-    const logs = parts.map((p, i) => Math.log(w[i]) + analyzePrior(p, data).logEvidence)
-    const max = Math.max(...logs)
-    const total = logs.reduce((s, l) => s + Math.exp(l - max), 0)
-    const pi = logs.map((l) => Math.exp(l - max) / total)
-    const postCdf = (x: number) => posts.reduce((s, p, i) => s + pi[i] * p.cdf(x), 0)
-    const priorQuantiles = parts.map((d) => (q: number) => quantile(d, q))
-    const priorCdf = (x: number) => parts.reduce((s, d, i) => s + w[i] * cdf(d, x), 0)
-    return {
-      pdf: (x) => w[0] * pdf(parts[0], x) + w[1] * pdf(parts[1], x),
-      quantile: (p) => mixtureQuantile(priorCdf, priorQuantiles, p),
-      posterior: {
-        cdf: postCdf,
-        quantile: (p) => mixtureQuantile(postCdf, posts.map((q) => q.quantile), p),
-        mean: () => posts.reduce((s, q, i) => s + pi[i] * q.mean(), 0),
-        sd: () => NaN,
-      },
-    }
+    const mix = robustMixture([candidate.prior, input.mixtureVague], [1 - input.mixtureWeight, input.mixtureWeight], data)
+    return { pdf: mix.prior.pdf, quantile: mix.prior.quantile, posterior: mix.posterior }
   }
   return { pdf: (x) => pdf(candidate.prior, x), quantile: (p) => quantile(candidate.prior, p), posterior: posteriorOf(candidate.prior, data) }
 }
@@ -98,20 +70,6 @@ export interface Curve {
   points: CurvePoint[]
 }
 
-function bounds(support: Support | undefined): [number, number] {
-  if (!support) return [-Infinity, Infinity]
-  switch (support.kind) {
-    case 'real':
-      return [-Infinity, Infinity]
-    case 'positive':
-      return [0, Infinity]
-    case 'proportion':
-      return [0, 1]
-    case 'bounded':
-      return [support.lower, support.upper]
-  }
-}
-
 /**
  * x range holding the central 99.8 % of every posterior and 99 % of every elicited prior, padded and
  * clipped to the support. The reference and the mixture's vague part are deliberately wide and would
@@ -128,7 +86,7 @@ export function chartRange(models: { kind: ImpactCandidate['kind']; model: Prior
     take(model.posterior.quantile(0.001), model.posterior.quantile(0.999))
     if (kind !== 'reference' && kind !== 'mixture') take(model.quantile(0.005), model.quantile(0.995))
   }
-  const [slo, shi] = bounds(support)
+  const { lower: slo, upper: shi } = support ? supportBounds(support) : { lower: -Infinity, upper: Infinity }
   if (!(lo < hi)) return [Number.isFinite(slo) ? slo : 0, Number.isFinite(shi) ? shi : 1]
   const pad = (hi - lo) * 0.04
   return [Math.max(slo, lo - pad), Math.min(shi, hi + pad)]

@@ -1,7 +1,7 @@
 import { boolean, mixed, object, type AnyObject, type AnyObjectSchema, type NumberSchema, type TestContext } from 'yup'
 import { impactSchema } from '@shared/schemas/impact'
 import type { DecisionRule } from '@shared/elicitation/impact'
-import { decimalSum, EngineInputError, familiesFor, supportOf, validateDistribution, type Distribution, type Family, type PilotData, type Support } from '@shared/stats'
+import { decimalSum, EngineInputError, familiesFor, supportBounds, supportOf, validateDistribution, type Distribution, type Family, type PilotData, type Support } from '@shared/stats'
 import type { ImpactRequest } from '@/api/impact'
 import { FAMILY_PARAMS } from './format'
 
@@ -20,19 +20,6 @@ export interface ImpactFormValues {
 
 /** Families the reference prior (and the vague component) may take for the quantity's support. */
 export const referenceFamilies = (support: Support): Family[] => familiesFor(support)
-
-function supportBounds(support: Support): [number, number] {
-  switch (support.kind) {
-    case 'real':
-      return [-Infinity, Infinity]
-    case 'positive':
-      return [0, Infinity]
-    case 'proportion':
-      return [0, 1]
-    case 'bounded':
-      return [support.lower, support.upper]
-  }
-}
 
 /** Two significant digits: defaults that read as chosen by a person (10, 0.05, 120). */
 function round2(x: number): number {
@@ -69,7 +56,7 @@ export function dataScale(data: PilotData | undefined): { centre: number; spread
  */
 export function widePrior(family: Family, support: Support, data?: PilotData): Distribution {
   const { centre, spread } = dataScale(data)
-  const [lo, hi] = supportBounds(support)
+  const { lower: lo, upper: hi } = supportBounds(support)
   const positiveCentre = centre > 0 ? centre : Math.max(spread, 1)
   switch (family) {
     case 'normal':
@@ -130,7 +117,7 @@ export function distributionProblem(values: DistributionValues | undefined, supp
   }
   const d = toDistribution(values)!
   if ((d.family === 'uniform' || d.family === 'scaled-beta') && !(d.lower < d.upper)) return { param: 'upper', message: 'The upper bound must be above the lower bound' }
-  const [lo, hi] = supportBounds(support)
+  const { lower: lo, upper: hi } = supportBounds(support)
   const own = supportOf(d)
   if (own.lower < lo) return { param: d.family === 'uniform' || d.family === 'scaled-beta' ? 'lower' : 'family', message: `The prior must not go below ${lo}, the quantity’s lowest possible value` }
   if (own.upper > hi) return { param: d.family === 'uniform' || d.family === 'scaled-beta' ? 'upper' : 'family', message: `The prior must not go above ${hi}, the quantity’s highest possible value` }

@@ -18,6 +18,8 @@ export interface CandidateRow {
   logBF: number | null
   bfLabel: string | null
   boxP: number
+  /** ln of Box's p, finite where p underflows to 0. */
+  logBoxP: number
   ess: number | null
   n: number
   decisionP: number | null
@@ -42,6 +44,7 @@ export function candidateRows(result: Pick<ImpactResult, 'candidates' | 'n'>): C
     logBF: c.bayesFactor?.logBF ?? null,
     bfLabel: c.bayesFactor?.label ?? null,
     boxP: c.priorPredictiveP,
+    logBoxP: c.logPriorPredictiveP,
     ess: c.priorEss,
     n: result.n,
     decisionP: c.decision?.probability ?? null,

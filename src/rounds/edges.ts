@@ -1,18 +1,4 @@
-import type { Support } from '@shared/stats'
-
-/** Lowest and highest value a quantity can take. */
-export function supportRange(support: Support): { lower: number; upper: number } {
-  switch (support.kind) {
-    case 'positive':
-      return { lower: 0, upper: Infinity }
-    case 'proportion':
-      return { lower: 0, upper: 1 }
-    case 'bounded':
-      return { lower: support.lower, upper: support.upper }
-    default:
-      return { lower: -Infinity, upper: Infinity }
-  }
-}
+import { supportBounds, type Support } from '@shared/stats'
 
 /** The values a quantity can take, in plain words: "any value above 0", "a share from 0 to 1 (0 % to 100 %)", "from 2 to 9", "any value". */
 export function supportLabel(support: Support): string {
@@ -70,7 +56,7 @@ export function parseEdges(text: string, support?: Support): EdgesParse {
     if (!(edges[i] > edges[i - 1])) return { ok: false, message: 'Interval edges must be strictly increasing' }
   }
   if (support) {
-    const { lower, upper } = supportRange(support)
+    const { lower, upper } = supportBounds(support)
     if (edges[0] < lower || edges[edges.length - 1] > upper) {
       return { ok: false, message: `Interval edges must lie within the quantity's support [${formatEdge(lower)}, ${formatEdge(upper)}]` }
     }

@@ -55,13 +55,13 @@ async function fingerprint(): Promise<string> {
   return row.rows[0].fp
 }
 
-const PREFERENCE: Role[] = ['analyst', 'expert', 'reviewer', 'admin']
+const ROLE_ORDER: Role[] = ['analyst', 'expert', 'reviewer', 'admin']
 const writes = Object.entries(MATRIX).filter(([k]) => /^(POST|PUT|PATCH) /.test(k) && !ACTIONS.has(k))
 
 describe('hostile input at every write route (fast-check)', () => {
   it.each(writes)('%s: 400 with field errors or a clean refusal, never a 500, nothing changed on refusal', async (key, rule) => {
     const [method, path] = key.split(' ')
-    const role: Role = rule === 'public' ? 'anon' : rule === 'signed-in' ? 'analyst' : PREFERENCE.find((r) => rule.includes(r))!
+    const role: Role = rule === 'public' ? 'anon' : rule === 'signed-in' ? 'analyst' : ROLE_ORDER.find((r) => rule.includes(r))!
     const url = fill(path, f.params)
     await fc.assert(
       fc.asyncProperty(hostileBody, async (body) => {

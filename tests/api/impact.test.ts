@@ -3,6 +3,7 @@ import { analyzePrior, bayesFactor } from '../../shared/stats/index'
 import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
 import { check } from '../unit/stats/checks'
 import outside from './fixtures/impact-checks.json'
+import conflictFixture from '../unit/stats/fixtures/conflict.json'
 
 let h: ApiHarness
 let analyst: Client
@@ -230,5 +231,49 @@ describe('impact analysis', () => {
     expect(Object.keys(bad.body.error.fields)[0]).toMatch(/^reference/)
     const expert = await signedIn(h, 'expert1@kestrel.example')
     expect((await expert.post(`/api/quantities/${flowId}/impact`, { datasetId, reference: { family: 'normal', mu: 0, sigma: 1 } })).status).toBe(403)
+  })
+})
+
+// Outside values: tests/unit/stats/fixtures/conflict.json (mpmath at 50 digits, generate_conflict.py).
+describe('strong prior–data conflict on the impact route', () => {
+  const conflict = (model: string, family: string) => (conflictFixture.cases as { model: string; prior: { family: string; lower?: number }; logEvidence: number; logBoxP: number }[])
+    .find((c) => c.model === model && c.prior.family === family && (family !== 'uniform' || c.prior.lower === 0))!
+  /** A study of its own with one quantity and one uploaded dataset (a single Kestrel Valley district). */
+  async function conflictDataset(kind: string, mapping: Record<string, string>, text: string) {
+    const sid = (await analyst.post('/api/studies', { title: `engine conflict ${kind}`, context: 'Prior far from the data.' }).expect(201)).body.id
+    const qid = (await analyst.post(`/api/studies/${sid}/quantities`, {
+      name: `engine ${kind}`, symbol: 'q', unit: '', question: 'What is this quantity for the Kestrel Valley network?', support: { kind },
+    }).expect(201)).body.id as number
+    let req = analyst.agent.post(`/api/studies/${sid}/datasets`).set('x-csrf-token', analyst.token)
+    for (const [k, v] of Object.entries({ quantityId: String(qid), name: `engine ${kind} data`, ...mapping })) req = req.field(k, v)
+    const ds = await req.attach('file', csv(text), { filename: `engine-${kind}.csv`, contentType: 'text/csv' })
+    expect(ds.status).toBe(201)
+    return { qid, datasetId: ds.body.id as number }
+  }
+
+  it('answers 200 with the evidence, ln p and the conflict flag for a uniform(0, 0.01) prior and 900 of 1000', async () => {
+    const { qid, datasetId } = await conflictDataset('proportion', { model: 'binomial', binomialLayout: 'counts', successesColumn: 'joined', trialsColumn: 'asked' }, 'district,joined,asked\nKV-01,900,1000\n')
+    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId, reference: { family: 'uniform', lower: 0, upper: 0.01 } })
+    expect(res.status).toBe(200)
+    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'reference')
+    const expected = conflict('binomial', 'uniform')
+    expect(ref.logEvidence).toBeCloseTo(expected.logEvidence, 6)
+    expect(ref.logEvidence).toBeCloseTo(-3830.547298, 6)
+    expect(ref.logPriorPredictiveP).toBeCloseTo(expected.logBoxP, 6)
+    expect(ref.priorPredictiveP).toBe(0)
+    expect(ref.flags).toContain('prior-data-conflict')
+    expect(res.body.findings).toContain("Reference prior: the pilot data sit in the tail of what this prior predicts (Box's prior predictive p is about 10^-1663, practically zero); prior and data conflict.")
+  })
+
+  it('answers 200 for a uniform(0, 1) prior on a rate against a count of 10,000', async () => {
+    const { qid, datasetId } = await conflictDataset('positive', { model: 'poisson', countColumn: 'bursts', exposureColumn: 'km' }, 'district,bursts,km\nKV-01,10000,1\n')
+    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId, reference: { family: 'uniform', lower: 0, upper: 1 } })
+    expect(res.status).toBe(200)
+    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'reference')
+    const expected = conflict('poisson', 'uniform')
+    expect(ref.logEvidence).toBeCloseTo(expected.logEvidence, 6)
+    expect(ref.logPriorPredictiveP).toBeCloseTo(expected.logBoxP, 6)
+    expect(ref.flags).toContain('prior-data-conflict')
+    expect(res.body.findings.some((f: string) => /10\^-35664, practically zero\); prior and data conflict\.$/.test(f))).toBe(true)
   })
 })

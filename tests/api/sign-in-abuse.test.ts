@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto'
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest'
 import * as passwords from '../../server/auth/passwords'
 import { CEILING_FACTOR } from '../../server/auth/sign-in-guard'
@@ -42,6 +43,19 @@ describe('a flood of failed sign-ins from one address', () => {
     // The failures are counted, per hour, address and e-mail, in the bounded log beside the chain.
     const logged = await h.db('sign_in_failures').where({ address: '198.51.100.1' }).sum({ n: 'attempts' })
     expect(Number(logged[0].n)).toBe(CEILING)
+  })
+
+  it('answers a refused address from memory: further attempts write nothing to the database', async () => {
+    const address = freshAddress()
+    const flooder = new Client(h, address)
+    for (let i = 0; i < CEILING + 1; i++) await signInFrom(flooder, { email: `remembered-${i}@flood.example`, password: 'guess-guess' })
+    const key = 'address:' + createHash('sha256').update(address).digest('hex')
+    const hitsNow = async () => Number((await h.db('rate_limit_hits').where({ key }).first())?.hits)
+    expect(await hitsNow()).toBe(CEILING + 1)
+    const statuses = await Promise.all(Array.from({ length: 16 }, (_, i) => signInFrom(flooder, { email: `remembered-more-${i}@flood.example`, password: 'guess-guess' }).then((r) => r.status)))
+    expect(statuses).toEqual(Array(16).fill(429))
+    // Without the memory each refused attempt was one more upsert of the counter (CEILING + 17 here).
+    expect(await hitsNow()).toBe(CEILING + 1)
   })
 
   it('a second address is not held back by the first one’s flood', async () => {

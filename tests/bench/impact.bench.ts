@@ -2,12 +2,12 @@
 // 50-factor width sweep of the reconciled prior and the tipping point, exactly as the server computes it.
 import { computeImpact, type ImpactTask } from '../../server/compute/tasks'
 import { dataSize, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
-import type { PilotData, PriorDistribution, Support } from '../../shared/stats/index'
+import type { Distribution, PilotData, PriorDistribution, Support } from '../../shared/stats/index'
 
 const FACTORS = Array.from({ length: 50 }, (_, i) => 0.25 * 32 ** (i / 49))
 const REPEATS = 5
 
-type Scenario = { label: string; data: (jitter: number) => PilotData; support: Support; priors: PriorDistribution[]; reconciled: { conjugate: PriorDistribution; other: PriorDistribution }; rule: DecisionRule }
+type Scenario = { label: string; data: (jitter: number) => PilotData; support: Support; priors: PriorDistribution[]; reconciled: { conjugate: Distribution; other: Distribution }; rule: DecisionRule }
 
 const X = [2.2, 3.5, 2.8, 3.9, 2.6]
 const NORMAL_PRIORS: PriorDistribution[] = [
@@ -73,7 +73,7 @@ const scenarios: Scenario[] = [
   },
 ]
 
-function task(s: Scenario, reconciled: PriorDistribution, jitter: number): ImpactTask {
+function task(s: Scenario, reconciled: Distribution, jitter: number): ImpactTask {
   const candidates: CandidateInput[] = s.priors.map((prior, i) => ({ key: `expert-${i + 1}`, label: `Expert ${String.fromCharCode(65 + i)}`, kind: 'expert', prior }))
   candidates.push({ key: 'reconciled', label: 'Reconciled prior', kind: 'reconciled', prior: reconciled })
   candidates.push({ key: 'reference', label: 'Reference prior', kind: 'reference', prior: s.support.kind === 'proportion' ? { family: 'beta', alpha: 1, beta: 1 } : { family: 'uniform', lower: 0, upper: 100 } })

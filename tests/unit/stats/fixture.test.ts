@@ -33,6 +33,6 @@ describe('reference check fixture', () => {
       .join('\n')
     const missing = CHECKS.map((c) => c.id).filter((id) => !text.includes(`'${id}'`))
     expect(missing).toEqual([])
-    expect(CHECKS.length).toBe(44)
+    expect(CHECKS.length).toBe(45)
   })
 })

@@ -1,11 +1,12 @@
 import { describe, expect, it } from 'vitest'
 import { pdf, quantile } from '@shared/stats'
+import { evaluateCandidates } from '@shared/elicitation/impact'
 import { chartRange, curveStyle, densityFromCdf, grid, priorModel } from '@/impact/densities'
 import type { ImpactCandidate } from '@/api/impact'
 
 const candidate = (kind: ImpactCandidate['kind'], prior: ImpactCandidate['prior']): ImpactCandidate => ({
   key: kind, label: kind, kind, prior, priorSummary: { mean: 0, q025: 0, q975: 0 }, logEvidence: 0, method: 'closed-form',
-  posterior: { mean: 0, sd: 0, q025: 0, q50: 0, q975: 0 }, priorPredictiveP: 0.5, priorEss: null, bayesFactor: null, decision: null, flags: [],
+  posterior: { mean: 0, sd: 0, q025: 0, q50: 0, q975: 0 }, priorPredictiveP: 0.5, logPriorPredictiveP: Math.log(0.5), priorEss: null, bayesFactor: null, decision: null, flags: [],
 })
 const flow = { model: 'normal-known-sigma' as const, sigma: 2, values: [2.2, 3.5, 2.8, 3.9, 2.6] }
 
@@ -41,6 +42,20 @@ describe('densities drawn in the browser', () => {
     expect(hi).toBeLessThan(6.5)
     expect(lo).toBeLessThan(quantile(rec.prior, 0.005))
     expect(chartRange([{ kind: 'reconciled', model: priorModel(rec, flow) }], { kind: 'positive' })[0]).toBeGreaterThanOrEqual(0)
+  })
+
+  it('draws the robust mixture with the same prior and posterior quantiles as the server summary, to one tolerance', () => {
+    const rec = { family: 'normal' as const, mu: 1.5, sigma: 0.4 }
+    const vague = { family: 'normal' as const, mu: 1.5, sigma: 40 }
+    const [server] = evaluateCandidates([{ key: 'mix', label: 'Mixture', kind: 'mixture', prior: rec, mixture: { components: [rec, vague], weights: [0.7, 0.3] } }], flow, null)
+    const drawn = priorModel(candidate('mixture', rec), flow, { mixtureWeight: 0.3, mixtureVague: vague })
+    for (const [p, key] of [[0.025, 'q025'], [0.5, 'q50'], [0.975, 'q975']] as const) {
+      expect(Math.abs(drawn.posterior.quantile(p) - server.posterior[key])).toBeLessThan(1e-13 * Math.max(1, Math.abs(server.posterior[key])))
+    }
+    expect(Math.abs(drawn.quantile(0.975) - server.priorSummary.q975)).toBeLessThan(1e-13 * Math.abs(server.priorSummary.q975))
+    expect(drawn.posterior.sd()).toBeCloseTo(server.posterior.sd, 12)
+    // Constructed check: the mixture posterior's CDF at its own median is one half.
+    expect(drawn.posterior.cdf(server.posterior.q50)).toBeCloseTo(0.5, 12)
   })
 
   it('draws the reconciled prior amber and its posterior green, the pool ink dashed', () => {
