@@ -9,9 +9,9 @@ export const SWEEP_FACTORS = [0.25, 0.35, 0.5, 0.71, 1, 1.41, 2, 2.83, 4, 5.66, 
 export interface CandidateInput {
   key: string
   label: string
-  kind: 'expert' | 'pooled' | 'consensus' | 'reconciled' | 'reference' | 'mixture'
+  kind: 'expert' | 'pooled' | 'consensus' | 'reconciled' | 'comparison' | 'mixture'
   prior: PriorDistribution
-  /** Robust mixture only: the reconciled prior at weight 1 − w, a vague component at w. */
+  /** Robust mixture only: the reconciled prior at weight 1 − w, a wide component at w. */
   mixture?: { components: [PriorDistribution, PriorDistribution]; weights: [number, number] }
 }
 
@@ -38,6 +38,9 @@ export interface CandidateResult {
   decision: { probability: number; act: boolean } | null
   flags: string[]
 }
+
+/** The robust mixture's name with the weight on its wide component: "Robust mixture (20 % on the wide component)". */
+export const mixtureLabel = (weight: number) => `Robust mixture (${Math.round(weight * 100)} % on the wide component)`
 
 /** Posterior P(θ above or below the threshold). */
 function tailProbability(post: Posterior, rule: DecisionRule): number {
@@ -117,7 +120,7 @@ export function dataSize(data: PilotData): number {
   }
 }
 
-/** Every candidate prior against the pilot data: posterior, evidence, Bayes factor against the reference, checks. */
+/** Every candidate prior against the pilot data: posterior, evidence, Bayes factor against the comparison prior, checks. */
 export function evaluateCandidates(candidates: CandidateInput[], data: PilotData, rule: DecisionRule | null): CandidateResult[] {
   const n = dataSize(data)
   const results: CandidateResult[] = candidates.map((c): CandidateResult => {
@@ -133,11 +136,11 @@ export function evaluateCandidates(candidates: CandidateInput[], data: PilotData
       decision: rule && probability !== null ? { probability, act: probability > rule.probability } : null, flags,
     }
   })
-  const reference = results.find((r) => r.kind === 'reference')
-  if (reference) {
+  const comparison = results.find((r) => r.kind === 'comparison')
+  if (comparison) {
     for (const r of results) {
-      if (r === reference) continue
-      const bf = bayesFactor(r.logEvidence, reference.logEvidence)
+      if (r === comparison) continue
+      const bf = bayesFactor(r.logEvidence, comparison.logEvidence)
       r.bayesFactor = { logBF: bf.logBF, twoLnBF: bf.twoLnBF, label: bf.label }
     }
   }

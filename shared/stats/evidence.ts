@@ -22,7 +22,7 @@ export type AnalyzeOptions = {
  * A prior expressed on u ∈ ℝ: θ = u (real support), θ = e^u (positive), θ = L + (U − L)/(1 + e^(−u)) (bounded);
  * logPrior(u) is the log density of u, Jacobian included.
  */
-interface PriorScale {
+export interface PriorScale {
   theta(u: number): number
   /** 1 − θ without cancellation (meaningful when θ ∈ [0, 1]). */
   oneMinusTheta(u: number): number
@@ -31,7 +31,7 @@ interface PriorScale {
   hint: Hint
 }
 
-function priorScale(prior: PriorDistribution): PriorScale {
+export function priorScale(prior: PriorDistribution): PriorScale {
   switch (prior.family) {
     case 'normal':
     case 'student-t': {
@@ -99,7 +99,7 @@ function priorScale(prior: PriorDistribution): PriorScale {
 }
 
 /** A likelihood hint (centre and scale on θ) carried over to the prior's u scale. */
-function hintOnU(scale: PriorScale, center: number, spread: number): Hint | null {
+export function hintOnU(scale: PriorScale, center: number, spread: number): Hint | null {
   const u = scale.toU(center)
   if (!Number.isFinite(u)) return null
   const eps = Math.min(spread, Math.abs(center) + spread) * 1e-3
@@ -114,9 +114,9 @@ function priorHints(scale: PriorScale, extra: (Hint | null)[]): Hint[] {
 
 // ─── Data checks and sufficient statistics ───────────────────────────────────────────────────────
 
-type NormalStats = { n: number; mean: number; ss: number }
+export type NormalStats = { n: number; mean: number; ss: number }
 
-function normalStats(values: number[]): NormalStats {
+export function normalStats(values: number[]): NormalStats {
   if (!Array.isArray(values) || values.length === 0) throw new EngineInputError('values', 'The data contain no observations.')
   values.forEach((v, i) => {
     if (typeof v !== 'number' || !Number.isFinite(v)) throw new EngineInputError('values', `Observation ${i + 1} is not a finite number.`)
@@ -132,7 +132,7 @@ function requireSupportWithin(prior: PriorDistribution, lower: number, upper: nu
   if (s.lower < lower || s.upper > upper) throw new EngineInputError(field, `The prior must put all its mass on ${what}; a ${prior.family} prior does not.`)
 }
 
-function validateData(prior: PriorDistribution, data: PilotData): void {
+export function validateData(prior: PriorDistribution, data: PilotData): void {
   validateDistribution(prior, 'prior')
   if (!data || typeof data !== 'object') throw new EngineInputError('data', 'Pilot data are required.')
   switch (data.model) {
@@ -217,12 +217,12 @@ export function truncatedNormal(m: number, s: number, a: number, b: number): Uni
   }
 }
 
-function summarise(d: Pick<Univariate, 'quantile' | 'mean' | 'sd'>): PosteriorSummary {
+export function summarise(d: Pick<Univariate, 'quantile' | 'mean' | 'sd'>): PosteriorSummary {
   return { mean: d.mean(), sd: d.sd(), q025: d.quantile(PROBS[0]), q50: d.quantile(PROBS[1]), q975: d.quantile(PROBS[2]) }
 }
 
 /** Posterior moments, CDF and quantiles on θ from a LogIntegral on the prior's u scale. */
-function posteriorFromIntegral(li: LogIntegral, scale: PriorScale): PosteriorParts {
+export function posteriorFromIntegral(li: LogIntegral, scale: PriorScale): PosteriorParts {
   const mean = li.expect((u) => scale.theta(u))
   const variance = li.expect((u) => (scale.theta(u) - mean) ** 2)
   return {
@@ -451,7 +451,7 @@ type Predictive = { logDensity(t: number): number; logLower(t: number): number; 
 /** Error kernel of x̄ − μ: a normal (known σ) or a scale mixture of normals Σ w_j N(0, s_j²) (σ integrated over its prior). */
 type Kernel = { s: number[]; w: number[] }
 
-function logSumExp(terms: number[]): number {
+export function logSumExp(terms: number[]): number {
   const m = Math.max(...terms)
   if (!Number.isFinite(m)) return m
   let total = 0
@@ -593,7 +593,7 @@ function logBoxPForMean(pred: Predictive, xbar: number): number {
 // ─── Counts ──────────────────────────────────────────────────────────────────────────────────────
 
 /** The Beta(a, b) on [0, 1] that a beta, a uniform or a scaled beta on exactly [0, 1] is; null otherwise. */
-function asStandardBeta(prior: PriorDistribution): { a: number; b: number } | null {
+export function asStandardBeta(prior: PriorDistribution): { a: number; b: number } | null {
   if (prior.family === 'beta') return { a: prior.alpha, b: prior.beta }
   if (prior.family === 'uniform' && prior.lower === 0 && prior.upper === 1) return { a: 1, b: 1 }
   if (prior.family === 'scaled-beta' && prior.lower === 0 && prior.upper === 1) return { a: prior.alpha, b: prior.beta }

@@ -66,7 +66,10 @@ export function log1pmx(t: number): number {
 /** ln(x^a e^(−x) / Γ(a)), the prefactor of the incomplete gamma function, stable for large a (Temme 1979 form). */
 export function logGammaPrefactor(a: number, x: number): number {
   if (a < 10) return a * Math.log(x) - x - lgamma(a)
-  return a * log1pmx((x - a) / a) + 0.5 * Math.log(a) - LN_SQRT_2PI - stirlingRemainder(a)
+  const t = (x - a) / a
+  // far from the mode 1 + t loses x/a (it rounds to 0 for x ≪ a): a(ln x − ln a) − (x − a) keeps it
+  const main = Math.abs(t) <= 0.25 ? a * log1pmx(t) : a * (Math.log(x) - Math.log(a)) - (x - a)
+  return main + 0.5 * Math.log(a) - LN_SQRT_2PI - stirlingRemainder(a)
 }
 
 /** Σ_{n≥0} x^n / (a(a+1)…(a+n)), so that P(a, x) = x^a e^(−x)/Γ(a) × this sum (Press et al. 2007, Numerical Recipes 3rd ed., §6.2). */

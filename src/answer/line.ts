@@ -1,4 +1,5 @@
 import { supportBounds, type Support } from '@shared/stats'
+import { niceAxis, niceStep } from '@/utils/axis'
 import type { QuantileField, QuantileValues } from './quantile'
 
 /** Position of each field on the line, left to right (bounds outside the probabilities). */
@@ -7,15 +8,6 @@ const rank = (f: QuantileField) => LINE_ORDER.indexOf(f)
 
 /** Share of the answer's width added on each side of the line, so that a handle can be dragged outwards. */
 const SIDE_ROOM = 0.1
-
-/** A round step near `raw`: 1, 2 or 5 times a power of ten (common practice for axis ticks). */
-export function niceStep(raw: number): number {
-  if (!(raw > 0) || !Number.isFinite(raw)) return 1
-  const power = 10 ** Math.floor(Math.log10(raw))
-  const scaled = raw / power
-  const nice = scaled < 1.5 ? 1 : scaled < 3.5 ? 2 : scaled < 7.5 ? 5 : 10
-  return nice * power
-}
 
 /** `x` without float noise (0.1 + 0.2 → 0.3), so a dragged value reads as typed. */
 const clean = (x: number) => Number(x.toPrecision(12))
@@ -40,23 +32,21 @@ export function lineDomain(values: QuantileValues, support: Support): [number, n
     lo -= pad
     hi += pad
   }
-  const step = niceStep((hi - lo) / 5)
-  lo = Math.max(edge.lower, clean(Math.floor(lo / step) * step))
-  hi = Math.min(edge.upper, clean(Math.ceil(hi / step) * step))
-  return [lo, hi]
+  const axis = niceAxis(lo, hi, 5, edge.lower, edge.upper)
+  return [axis.min, axis.max]
 }
 
 /** Round values for the ticks of [lo, hi] (about five). */
 export function lineTicks(lo: number, hi: number, count = 5): number[] {
-  const step = niceStep((hi - lo) / count)
+  const step = niceStep(hi - lo, count)
   const ticks: number[] = []
   for (let t = Math.ceil(lo / step) * step; t <= hi + step * 1e-9; t += step) ticks.push(clean(t))
   return ticks
 }
 
-/** How far one arrow-key press or one snap of a drag moves a handle: a tenth of the tick step. */
+/** How far one arrow-key press or one snap of a drag moves a handle: about a hundredth of the line, on a 1-2-5 step. */
 export function handleStep(lo: number, hi: number): number {
-  return niceStep((hi - lo) / 5) / 10
+  return niceStep(hi - lo, 10) / 10
 }
 
 /**

@@ -67,7 +67,7 @@ export const KIND_LABELS: Record<CandidateKind, string> = {
   pooled: 'Pooled',
   consensus: 'Consensus',
   reconciled: 'Reconciled',
-  reference: 'Reference',
+  comparison: 'Comparison',
   mixture: 'Robust mixture',
 }
 

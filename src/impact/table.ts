@@ -79,7 +79,7 @@ export function candidatesCsv(rows: CandidateRow[], unit = ''): string {
   const header = [
     'candidate', 'kind', 'prior', `prior mean${u}`, `prior 2.5%${u}`, `prior 97.5%${u}`,
     `posterior mean${u}`, `posterior sd${u}`, `posterior 2.5%${u}`, `posterior 97.5%${u}`,
-    'log evidence', 'log Bayes factor vs reference', 'Bayes factor vs reference', 'Kass-Raftery label',
+    'log evidence', 'log Bayes factor vs comparison prior', 'Bayes factor vs comparison prior', 'Kass-Raftery label',
     'prior predictive p (Box)', 'prior ESS', 'pilot n', 'P(decision rule)', 'act', 'flags',
   ]
   return toCsv([

@@ -309,6 +309,9 @@ describe('answering a round', () => {
     await expect(page.getByTestId('interval-prob').count()).resolves.toBe(5)
     const prob = (i: number) => page.getByTestId('interval-prob').nth(i).locator('input')
     for (const [i, p] of ['10', '30', '30', '20'].entries()) await prob(i).fill(p)
+    // The percentage fields line up in one column, whatever the length of each interval's label.
+    const lefts = await page.getByTestId('interval-prob').locator('input').evaluateAll((els) => els.map((e) => Math.round(e.getBoundingClientRect().left)))
+    expect(new Set(lefts).size).toBe(1)
     expect(await page.getByTestId('interval-remaining').innerText()).toBe('Remaining: 10 %')
     await expect(page.getByTestId('feedback-statement').count()).resolves.toBe(0)
     await waitSaved(page)

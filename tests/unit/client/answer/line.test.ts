@@ -2,7 +2,7 @@
 import { afterEach, describe, expect, it } from 'vitest'
 import { mount } from '@vue/test-utils'
 import type { Support } from '@shared/stats'
-import { fieldForTap, handleLimits, handleStep, lineDomain, lineTicks, niceStep, snapValue } from '@/answer/line'
+import { fieldForTap, handleLimits, handleStep, lineDomain, lineTicks, snapValue } from '@/answer/line'
 import { answerStatements } from '@/answer/statements'
 import AnswerLine from '@/components/answer/AnswerLine.vue'
 
@@ -11,16 +11,12 @@ const proportion: Support = { kind: 'proportion' }
 
 // Every value below is constructed for these tests.
 describe('the number line: scale, ticks and steps', () => {
-  it('rounds steps to 1, 2 or 5 times a power of ten', () => {
-    expect([0.7, 1.2, 2.9, 4, 8, 23, 0.031].map(niceStep)).toEqual([0.5, 1, 2, 5, 10, 20, 0.02])
-  })
-
   it('shows the values with a tenth of their spread each side, widened to round ticks, inside the possible values', () => {
     expect(lineDomain({ lower: 4, upper: 25 }, positive)).toEqual([0, 30])
     expect(lineDomain({ lower: 4, upper: 25, median: 10 }, { kind: 'real' })).toEqual([0, 30])
     expect(lineDomain({ lower: 0.2, upper: 0.35 }, proportion)).toEqual([0.15, 0.4])
     expect(lineDomain({ lower: 0.02, upper: 0.98 }, proportion)).toEqual([0, 1])
-    expect(lineDomain({ lower: 1000, upper: 1005 }, positive)).toEqual([999, 1006])
+    expect(lineDomain({ lower: 1000, upper: 1005 }, positive)).toEqual([998, 1006])
   })
 
   it('has no line before any value unless the quantity has two finite limits', () => {
@@ -30,11 +26,12 @@ describe('the number line: scale, ticks and steps', () => {
     expect(lineDomain({}, { kind: 'bounded', lower: 10, upper: 60 })).toEqual([10, 60])
   })
 
-  it('puts round ticks inside the line and moves a handle by a tenth of their step', () => {
-    expect(lineTicks(0, 30)).toEqual([0, 5, 10, 15, 20, 25, 30])
+  it('puts round ticks inside the line and moves a handle by about a hundredth of it', () => {
+    expect(lineTicks(0, 30)).toEqual([0, 10, 20, 30])
+    expect(lineTicks(0, 30, 10)).toEqual([0, 5, 10, 15, 20, 25, 30])
     expect(lineTicks(0.18, 0.38)).toEqual([0.2, 0.25, 0.3, 0.35])
     expect(handleStep(0, 30)).toBe(0.5)
-    expect(handleStep(0.18, 0.38)).toBe(0.005)
+    expect(handleStep(0.18, 0.38)).toBe(0.002)
   })
 })
 

@@ -37,7 +37,7 @@ describe('CSV export of the candidates table', () => {
       n: 8,
       candidates: [
         candidate({}),
-        candidate({ key: 'reference', label: 'Reference prior', kind: 'reference', bayesFactor: null, priorEss: 20, flags: ['prior-dominates', 'prior-data-conflict'] }),
+        candidate({ key: 'comparison', label: 'Comparison prior', kind: 'comparison', bayesFactor: null, priorEss: 20, flags: ['prior-dominates', 'prior-data-conflict'] }),
       ],
     }
     const csv = candidatesCsv(candidateRows(result), 'bursts per 100 km, per year')

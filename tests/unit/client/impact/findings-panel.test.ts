@@ -27,10 +27,10 @@ const mountPanel = (r: ImpactResult) => mount(FindingsPanel, { props: { result: 
 
 describe('FindingsPanel', () => {
   it('lists plain-language findings beside the numbers, the server’s included', () => {
-    const w = mountPanel(result([candidate({}), candidate({ key: 'reference', label: 'Reference prior', kind: 'reference', bayesFactor: null })], false))
+    const w = mountPanel(result([candidate({}), candidate({ key: 'comparison', label: 'Comparison prior', kind: 'comparison', bayesFactor: null })], false))
     const items = w.get('[data-testid="impact-findings"]').findAll('li').map((li) => li.text())
     expect(items[0]).toBe('Under the reconciled prior the posterior mean of flow is 3 L/s (95 % interval 1.25 to 4.75); the prior alone said 5 (0.25 to 9.75).')
-    expect(items[1]).toContain('favour the reconciled prior over the reference by a Bayes factor of 4 (positive)')
+    expect(items[1]).toContain('favour the reconciled prior over the comparison prior by a Bayes factor of 4 (positive)')
     expect(items.at(-1)).toContain('divides the evidence by about 4.00')
   })
 
