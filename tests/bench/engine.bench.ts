@@ -19,8 +19,10 @@ import {
   POWER_SCALING_THRESHOLD,
   powerScalingSensitivity,
   quantile,
+  widthSweep,
   type Family,
   type FitOptions,
+  type PilotData,
   type Point,
   type PriorDistribution,
   type Support,
@@ -124,7 +126,88 @@ console.log(`  median time per judgement: ${fmt(median(perBounded))}`)
 console.log(`  1,000 judgements: ${fmt(totalBounded)}`)
 console.log('')
 
-// Width sweeps and full impact analyses per data model: tests/bench/impact.bench.ts (run after this one by `npm run bench`).
+// Width sweeps: 50 factors from 0.25 to 8 (log-spaced) × 10 priors for each data model.
+const factors = Array.from({ length: 50 }, (_, i) => 0.25 * 32 ** (i / 49))
+const X = [2.2, 3.5, 2.8, 3.9, 2.6]
+const sweeps: { label: string; data: PilotData; priors: PriorDistribution[]; support?: Support }[] = [
+  {
+    label: 'normal, known σ',
+    data: { model: 'normal-known-sigma', sigma: 2, values: X },
+    priors: [
+      { family: 'normal', mu: 0, sigma: 5 },
+      { family: 'normal', mu: 4, sigma: 1 },
+      { family: 'normal', mu: 10, sigma: 2 },
+      { family: 'normal', mu: 3, sigma: 0.5 },
+      { family: 'uniform', lower: 0, upper: 10 },
+      { family: 'uniform', lower: 1, upper: 6 },
+      { family: 'student-t', mu: 0, sigma: 5, df: 3 },
+      { family: 'student-t', mu: 5, sigma: 1, df: 5 },
+      { family: 'lognormal', meanlog: 1, sdlog: 0.5 },
+      { family: 'gamma', shape: 4, rate: 1 },
+    ],
+    support: { kind: 'positive' },
+  },
+  {
+    label: 'normal, unknown σ (σ ~ half-normal(5))',
+    data: { model: 'normal', values: X, sigmaPrior: { family: 'half-normal', scale: 5 } },
+    priors: [
+      { family: 'normal', mu: 0, sigma: 10 },
+      { family: 'normal', mu: 4, sigma: 1 },
+      { family: 'normal', mu: 10, sigma: 2 },
+      { family: 'normal', mu: 3, sigma: 0.5 },
+      { family: 'normal', mu: -2, sigma: 3 },
+      { family: 'uniform', lower: 0, upper: 10 },
+      { family: 'uniform', lower: 1, upper: 6 },
+      { family: 'student-t', mu: 0, sigma: 5, df: 3 },
+      { family: 'lognormal', meanlog: 1, sdlog: 0.5 },
+      { family: 'gamma', shape: 4, rate: 1 },
+    ],
+    support: { kind: 'positive' },
+  },
+  {
+    label: 'binomial (7 of 20)',
+    data: { model: 'binomial', successes: 7, trials: 20 },
+    priors: [
+      { family: 'beta', alpha: 2, beta: 3 },
+      { family: 'beta', alpha: 1, beta: 1 },
+      { family: 'beta', alpha: 10, beta: 10 },
+      { family: 'beta', alpha: 0.5, beta: 0.5 },
+      { family: 'beta', alpha: 3, beta: 12 },
+      { family: 'uniform', lower: 0, upper: 1 },
+      { family: 'uniform', lower: 0.1, upper: 0.6 },
+      { family: 'uniform', lower: 0, upper: 0.5 },
+      { family: 'scaled-beta', alpha: 2, beta: 2, lower: 0.1, upper: 0.9 },
+      { family: 'scaled-beta', alpha: 3, beta: 5, lower: 0, upper: 0.8 },
+    ],
+    support: { kind: 'proportion' },
+  },
+  {
+    label: 'Poisson with exposure (5 counts)',
+    data: { model: 'poisson', counts: [2, 4, 3, 0, 5], exposures: [1, 1.5, 1, 0.5, 2] },
+    priors: [
+      { family: 'gamma', shape: 2, rate: 0.5 },
+      { family: 'gamma', shape: 1, rate: 1 },
+      { family: 'gamma', shape: 10, rate: 4 },
+      { family: 'gamma', shape: 0.5, rate: 0.1 },
+      { family: 'gamma', shape: 30, rate: 5 },
+      { family: 'lognormal', meanlog: 1.1, sdlog: 0.5 },
+      { family: 'lognormal', meanlog: 0, sdlog: 1 },
+      { family: 'lognormal', meanlog: 2, sdlog: 0.3 },
+      { family: 'uniform', lower: 0, upper: 10 },
+      { family: 'half-normal', scale: 5 },
+    ],
+    support: { kind: 'positive' },
+  },
+]
+console.log('')
+console.log('Width sweep: 50 factors (0.25–8) × 10 priors per data model')
+for (const s of sweeps) {
+  widthSweep(s.priors[0], s.data, [0.5, 1, 2], s.support)
+  const start = performance.now()
+  let flagged = 0
+  for (const prior of s.priors) if (widthSweep(prior, s.data, factors, s.support).priorDriven) flagged++
+  console.log(`  ${s.label.padEnd(42)} ${fmt(performance.now() - start).padStart(9)}   (${flagged} of 10 flagged prior-driven)`)
+}
 
 // Fractional Bayes factor (each prior against the first, default b) and power-scaling sensitivity for the same 10 priors
 // per data model, timed apart for the conjugate priors (closed forms) and the others (quadrature).

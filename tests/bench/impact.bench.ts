@@ -2,7 +2,7 @@
 // 50-factor width sweep of the reconciled prior and the tipping point, exactly as the server computes it.
 import { computeImpact, type ImpactTask } from '../../server/compute/tasks'
 import { dataSize, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
-import { widthSweep, type Distribution, type PilotData, type PriorDistribution, type Support } from '../../shared/stats/index'
+import type { Distribution, PilotData, PriorDistribution, Support } from '../../shared/stats/index'
 
 const FACTORS = Array.from({ length: 50 }, (_, i) => 0.25 * 32 ** (i / 49))
 const REPEATS = 5
@@ -76,7 +76,7 @@ const scenarios: Scenario[] = [
 function task(s: Scenario, reconciled: Distribution, jitter: number): ImpactTask {
   const candidates: CandidateInput[] = s.priors.map((prior, i) => ({ key: `expert-${i + 1}`, label: `Expert ${String.fromCharCode(65 + i)}`, kind: 'expert', prior }))
   candidates.push({ key: 'reconciled', label: 'Reconciled prior', kind: 'reconciled', prior: reconciled })
-  candidates.push({ key: 'reference', label: 'Reference prior', kind: 'reference', prior: s.support.kind === 'proportion' ? { family: 'beta', alpha: 1, beta: 1 } : { family: 'uniform', lower: 0, upper: 100 } })
+  candidates.push({ key: 'comparison', label: 'Comparison prior', kind: 'comparison', prior: s.support.kind === 'proportion' ? { family: 'beta', alpha: 1, beta: 1 } : { family: 'uniform', lower: 0, upper: 100 } })
   const data = s.data(jitter)
   return { candidates, data, decision: s.rule, reconciled, support: s.support, factors: FACTORS, n: dataSize(data) }
 }
@@ -94,19 +94,6 @@ function timed(run: () => unknown): { wall: number; cpu: number } {
 }
 
 const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]
-
-console.log('')
-console.log(`Width sweeps: ${FACTORS.length} factors (0.25–8) × 10 priors (the candidates below) per data model`)
-for (const s of scenarios) {
-  const priors = [...s.priors, s.reconciled.conjugate, s.reconciled.other]
-  const data = s.data(0)
-  widthSweep(priors[0], data, [0.5, 1, 2], s.support)
-  let flagged = 0
-  const t = timed(() => {
-    for (const prior of priors) if (widthSweep(prior, data, FACTORS, s.support).priorDriven) flagged++
-  })
-  console.log(`  ${s.label.padEnd(42)} ${fmt(t.wall).padStart(8)}   (CPU ${fmt(t.cpu)}; ${flagged} of ${priors.length} flagged prior-driven)`)
-}
 
 console.log('')
 console.log(`Full impact analysis: 10 candidate priors, a ${FACTORS.length}-factor width sweep of the reconciled prior, tipping point`)
