@@ -600,8 +600,9 @@ export function asStandardBeta(prior: PriorDistribution): { a: number; b: number
   return null
 }
 
+/** ln C(n, k) = −ln(n + 1) − ln B(k + 1, n − k + 1), through lbeta so that large n does not cancel. */
 function lchoose(n: number, k: number): number {
-  return lgamma(n + 1) - lgamma(k + 1) - lgamma(n - k + 1)
+  return -Math.log(n + 1) - lbeta(k + 1, n - k + 1)
 }
 
 function validateBinomialRows(rows: { successes: number[]; trials: number[] }, successes: number, trials: number): void {
