@@ -6,7 +6,7 @@ import { ENGINE_VERSION, EngineInputError, validateDistribution, type Distributi
 import { runImpactTask } from '../compute/pool'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
-import { HttpError } from '../http/errors'
+import { HttpError } from '../http/http-error'
 import { canonicalJson, recordAudit } from './audit'
 import { getDataset } from './datasets'
 import { studyExpertLabels } from './expert-labels'

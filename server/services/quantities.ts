@@ -4,7 +4,7 @@ import { EVIDENCE_EXTENSIONS, EVIDENCE_MAX_BYTES, EVIDENCE_TYPES, nameFitsType }
 import type { Support } from '../../shared/stats/index'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
-import { HttpError } from '../http/errors'
+import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
 
 interface QuantityRow {
