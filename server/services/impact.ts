@@ -10,7 +10,8 @@ import { HttpError } from '../http/http-error'
 import { canonicalJson, recordAudit } from './audit'
 import { getDataset } from './datasets'
 import { studyExpertLabels } from './expert-labels'
-import { getQuantity, type Quantity } from './quantities'
+import type { Quantity } from '../../shared/api/quantities'
+import { getQuantity } from './quantities'
 
 export interface ImpactInput {
   datasetId: number
