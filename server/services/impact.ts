@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto'
 import { chosenFit } from '../../shared/elicitation/fits'
-import { dataSize, SWEEP_FACTORS, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
+import { dataSize, mixtureLabel, SWEEP_FACTORS, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
 import { combine, fitCombination, fitConsensus, resolveWeights } from '../../shared/elicitation/reconcile'
 import { ENGINE_VERSION, EngineInputError, validateDistribution, type Distribution, type FitResult, type PilotData } from '../../shared/stats/index'
 import { runImpactTask } from '../compute/pool'
@@ -15,9 +15,9 @@ import { getQuantity } from './quantities'
 
 export interface ImpactInput {
   datasetId: number
-  reference: Record<string, unknown>
+  comparison: Record<string, unknown>
   mixtureWeight?: number | null
-  mixtureVague?: Record<string, unknown> | null
+  mixtureWide?: Record<string, unknown> | null
   decision?: DecisionRule | null
   factors?: number[]
   excludedExperts?: number[]
@@ -33,7 +33,7 @@ function checkedDistribution(d: unknown, field: string): Distribution {
   }
 }
 
-/** Candidate priors for a quantity: each expert's fit, the pool, the consensus, the reconciled choice, the reference. */
+/** Candidate priors for a quantity: each expert's fit, the pool, the consensus, the reconciled choice, the comparison prior. */
 async function candidatesFor(db: Db, quantity: Quantity, input: ImpactInput): Promise<{ list: CandidateInput[]; reconciled: Distribution | null; excluded: { expertId: number; label: string }[] }> {
   const { id: quantityId, support } = quantity
   const rec = await db('reconciliations').where({ quantity_id: quantityId }).first()
@@ -68,13 +68,13 @@ async function candidatesFor(db: Db, quantity: Quantity, input: ImpactInput): Pr
   }
   const reconciled: Distribution | null = rec?.distribution ?? null
   if (reconciled) list.push({ key: 'reconciled', label: rec.status === 'reconciled' ? 'Reconciled prior' : 'Reconciled prior (draft)', kind: 'reconciled', prior: reconciled })
-  list.push({ key: 'reference', label: 'Reference prior', kind: 'reference', prior: checkedDistribution(input.reference, 'reference') })
+  list.push({ key: 'comparison', label: 'Comparison prior', kind: 'comparison', prior: checkedDistribution(input.comparison, 'comparison') })
   if (input.mixtureWeight && reconciled) {
-    const vague = checkedDistribution(input.mixtureVague, 'mixtureVague')
+    const wide = checkedDistribution(input.mixtureWide, 'mixtureWide')
     const w = input.mixtureWeight
     list.push({
-      key: 'mixture', label: `Robust mixture (${Math.round(w * 100)} % vague)`, kind: 'mixture', prior: reconciled,
-      mixture: { components: [reconciled, vague], weights: [1 - w, w] },
+      key: 'mixture', label: mixtureLabel(w), kind: 'mixture', prior: reconciled,
+      mixture: { components: [reconciled, wide], weights: [1 - w, w] },
     })
   }
   return { list, reconciled, excluded }
