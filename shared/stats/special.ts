@@ -44,8 +44,18 @@ export function digamma(x: number): number {
   return shift + Math.log(x) - 0.5 / x - x2 * (1 / 12 - x2 * (1 / 120 - x2 * (1 / 252 - x2 * (1 / 240 - x2 * (1 / 132)))))
 }
 
-/** ln B(a, b) = ln Γ(a) + ln Γ(b) − ln Γ(a + b). */
+/**
+ * ln B(a, b). For a, b ≥ 10 the three Stirling forms are combined before adding, (a − ½) ln(a/(a+b)) + (b − ½) ln(b/(a+b))
+ * − ½ ln(a+b) + ½ ln 2π + R(a) + R(b) − R(a+b), so that the large (x − ½) ln x − x terms do not cancel (DiDonato & Morris
+ * 1992, ACM TOMS 18:360–373, algorithm BETALN); otherwise ln Γ(a) + ln Γ(b) − ln Γ(a + b).
+ */
 export function lbeta(a: number, b: number): number {
+  if (a >= 10 && b >= 10 && Number.isFinite(a + b)) {
+    const s = a + b
+    const la = a <= b ? Math.log(a / s) : Math.log1p(-b / s)
+    const lb = b < a ? Math.log(b / s) : Math.log1p(-a / s)
+    return (a - 0.5) * la + (b - 0.5) * lb - 0.5 * Math.log(s) + LN_SQRT_2PI + stirlingRemainder(a) + stirlingRemainder(b) - stirlingRemainder(s)
+  }
   return lgamma(a) + lgamma(b) - lgamma(a + b)
 }
 

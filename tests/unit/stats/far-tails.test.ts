@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { cdf, EngineInputError, logPdf, mean, pdf, quantile, sd, sf, toUnivariate, type PriorDistribution } from '@shared/stats'
+import { lbeta } from '@shared/stats/special'
 import fx from './fixtures/far-tails.json'
 
 const rel = (got: number, want: number) => Math.abs(got - want) / Math.abs(want)
@@ -67,6 +68,15 @@ describe('invalid parameters throw EngineInputError naming the field', () => {
         expect(err, name).toBeInstanceOf(EngineInputError)
         expect((err as EngineInputError).field, name).toBe('distribution')
       }
+    })
+  }
+})
+
+describe('ln B(a, b) at large arguments (DiDonato & Morris 1992, BETALN form)', () => {
+  for (const c of fx.lbetas) {
+    it(`a = ${c.a}, b = ${c.b}`, () => {
+      // a few units in the last place of a number near 1e12
+      expect(Math.abs(lbeta(c.a, c.b) - c.lbeta)).toBeLessThan(4 * Number.EPSILON * Math.max(1, Math.abs(c.lbeta)))
     })
   }
 })
