@@ -1,5 +1,5 @@
 import type { ElicitationMethod } from '../schemas/rounds'
-import type { Support } from '../stats/types'
+import type { EvidenceFile, Quantity } from './quantities'
 
 /** Response shapes of the round routes, returned by the server's mappers and read by the client. */
 
@@ -18,16 +18,9 @@ export interface RoundSummary {
   itemCount: number
 }
 
-export interface RoundQuantity {
-  id: number
-  name: string
-  symbol: string
-  unit: string
-  question: string
-  support: Support
-  assumptions: string
-  evidenceNotes: string
-  files: { id: number; filename: string; mimeType: string; sizeBytes: number }[]
+/** A quantity as a round shows it: its evidence files without their upload time. */
+export type RoundQuantity = Pick<Quantity, 'id' | 'name' | 'symbol' | 'unit' | 'question' | 'support' | 'assumptions' | 'evidenceNotes'> & {
+  files: Omit<EvidenceFile, 'createdAt'>[]
 }
 
 export interface RoundItem {
