@@ -6,9 +6,12 @@
 /** The highest cutoff the analyst may choose (below 1, as the schema requires). */
 export const CUTOFF_MAX = 0.99
 
-/** The lowest power of ten the plot shows: one decade below the lowest score or cutoff, at least 10^-2, at most 10^-16. */
-export function lowestDecade(scores: number[], cutoff: number): number {
-  const positive = [...scores, cutoff].filter((v) => v > 0 && Number.isFinite(v))
+/**
+ * The lowest power of ten the plot shows: one decade below the lowest score, at least 10^-2, at most 10^-16. It rests
+ * on the scores alone, so the scale stays put while the cutoff is dragged; a cutoff lower still sits at the bottom.
+ */
+export function lowestDecade(scores: number[]): number {
+  const positive = scores.filter((v) => v > 0 && Number.isFinite(v))
   const lowest = positive.length ? Math.min(...positive) : 1
   return Math.max(-16, Math.min(-2, Math.floor(Math.log10(lowest)) - 1))
 }
