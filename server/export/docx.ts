@@ -168,7 +168,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
     if (q.impact) {
       sections.push(
         p(`Dataset: ${q.impact.dataset.name}, version ${q.impact.dataset.version} (${label(PILOT_MODEL_LABELS, q.impact.dataset.model as PilotModel)}; ${q.impact.dataset.summary.description}).`),
-        table(['Candidate prior', 'Posterior mean', '95 % interval', 'log evidence', 'Bayes factor against the reference', 'Box p', 'Prior ESS', 'Cautions'], q.impact.candidates.map((c: Json) => [
+        table(['Candidate prior', 'Posterior mean', '95 % interval', 'log evidence', 'Bayes factor against the comparison prior', 'Box p', 'Prior ESS', 'Cautions'], q.impact.candidates.map((c: Json) => [
           c.label || (CANDIDATE_KIND_LABELS[c.kind] ?? '—'), fmt(c.posterior.mean), `${fmt(c.posterior.q025)} to ${fmt(c.posterior.q975)}`, fmt(c.logEvidence, 6),
           c.bayesFactor ? `${fmt(Math.exp(c.bayesFactor.logBF), 3)} (${c.bayesFactor.label})` : '—', fmt(c.priorPredictiveP, 3), fmt(c.priorEss, 3),
           c.flags.map(flagLabel).join('; ') || 'none',

@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto'
-import { dataSize, SWEEP_FACTORS, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
+import { chosenFit } from '../../shared/elicitation/fits'
+import { dataSize, mixtureLabel, SWEEP_FACTORS, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
 import { combine, fitCombination, fitConsensus, resolveWeights } from '../../shared/elicitation/reconcile'
 import { ENGINE_VERSION, EngineInputError, validateDistribution, type Distribution, type FitResult, type PilotData } from '../../shared/stats/index'
 import { runImpactTask } from '../compute/pool'
@@ -9,13 +10,13 @@ import { HttpError } from '../http/errors'
 import { canonicalJson, recordAudit } from './audit'
 import { getDataset } from './datasets'
 import { studyExpertLabels } from './expert-labels'
-import { getQuantity, supportOf } from './quantities'
+import { getQuantity, type Quantity } from './quantities'
 
 export interface ImpactInput {
   datasetId: number
-  reference: Record<string, unknown>
+  comparison: Record<string, unknown>
   mixtureWeight?: number | null
-  mixtureVague?: Record<string, unknown> | null
+  mixtureWide?: Record<string, unknown> | null
   decision?: DecisionRule | null
   factors?: number[]
   excludedExperts?: number[]
@@ -31,10 +32,9 @@ function checkedDistribution(d: unknown, field: string): Distribution {
   }
 }
 
-/** Candidate priors for a quantity: each expert's fit, the pool, the consensus, the reconciled choice, the reference. */
-async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Promise<{ list: CandidateInput[]; reconciled: Distribution | null; excluded: { expertId: number; label: string }[] }> {
-  const quantity = await getQuantity(db, quantityId)
-  const support = supportOf({ support_kind: quantity.support.kind, support_lower: 'lower' in quantity.support ? quantity.support.lower : null, support_upper: 'upper' in quantity.support ? quantity.support.upper : null })
+/** Candidate priors for a quantity: each expert's fit, the pool, the consensus, the reconciled choice, the comparison prior. */
+async function candidatesFor(db: Db, quantity: Quantity, input: ImpactInput): Promise<{ list: CandidateInput[]; reconciled: Distribution | null; excluded: { expertId: number; label: string }[] }> {
+  const { id: quantityId, support } = quantity
   const rec = await db('reconciliations').where({ quantity_id: quantityId }).first()
   const list: CandidateInput[] = []
   const roundId = rec?.round_id ?? (await db('judgements').where({ quantity_id: quantityId, status: 'submitted' }).max('round_id as r'))[0]?.r
@@ -50,8 +50,7 @@ async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Pr
         excluded.push({ expertId: r.expert_id, label })
         return
       }
-      const fits = r.fits as FitResult[]
-      const fit = fits.find((f) => f.distribution.family === r.chosen_family) ?? fits[0]
+      const fit = chosenFit(r.fits as FitResult[], r.chosen_family)
       if (!fit) return
       experts.push(fit.distribution)
       list.push({ key: `expert-${i + 1}`, label, kind: 'expert', prior: fit.distribution })
@@ -68,13 +67,13 @@ async function candidatesFor(db: Db, quantityId: number, input: ImpactInput): Pr
   }
   const reconciled: Distribution | null = rec?.distribution ?? null
   if (reconciled) list.push({ key: 'reconciled', label: rec.status === 'reconciled' ? 'Reconciled prior' : 'Reconciled prior (draft)', kind: 'reconciled', prior: reconciled })
-  list.push({ key: 'reference', label: 'Reference prior', kind: 'reference', prior: checkedDistribution(input.reference, 'reference') })
+  list.push({ key: 'comparison', label: 'Comparison prior', kind: 'comparison', prior: checkedDistribution(input.comparison, 'comparison') })
   if (input.mixtureWeight && reconciled) {
-    const vague = checkedDistribution(input.mixtureVague, 'mixtureVague')
+    const wide = checkedDistribution(input.mixtureWide, 'mixtureWide')
     const w = input.mixtureWeight
     list.push({
-      key: 'mixture', label: `Robust mixture (${Math.round(w * 100)} % vague)`, kind: 'mixture', prior: reconciled,
-      mixture: { components: [reconciled, vague], weights: [1 - w, w] },
+      key: 'mixture', label: mixtureLabel(w), kind: 'mixture', prior: reconciled,
+      mixture: { components: [reconciled, wide], weights: [1 - w, w] },
     })
   }
   return { list, reconciled, excluded }
@@ -90,8 +89,8 @@ export async function runImpact(db: Db, user: User, quantityId: number, input: I
   // Another study's dataset is answered as if it did not exist: its id says nothing about that study.
   if (dataset.studyId !== quantity.studyId) throw new HttpError(404, 'Dataset not found')
   if (dataset.quantityId !== quantityId) throw new HttpError(400, 'This dataset belongs to another quantity', { datasetId: 'Choose a dataset of this quantity' })
-  const support = supportOf({ support_kind: quantity.support.kind, support_lower: 'lower' in quantity.support ? quantity.support.lower : null, support_upper: 'upper' in quantity.support ? quantity.support.upper : null })
-  const { list, reconciled, excluded } = await candidatesFor(db, quantityId, input)
+  const support = quantity.support
+  const { list, reconciled, excluded } = await candidatesFor(db, quantity, input)
   const data = dataset.data as PilotData
   const factors = input.factors ?? SWEEP_FACTORS
   // Everything the numbers depend on: the data, every candidate prior (the final one included), the options and the engine.

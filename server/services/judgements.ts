@@ -1,4 +1,6 @@
 import { fitAnswer, type AnswerInput, type AnswerItem } from '../../shared/elicitation/answers'
+import { chosenFit } from '../../shared/elicitation/fits'
+import type { FitResult } from '../../shared/stats/index'
 import { RATIONALE_MIN, type JudgementBody } from '../../shared/schemas/judgements'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
@@ -6,7 +8,7 @@ import { HttpError } from '../http/errors'
 import { recordAudit } from './audit'
 import { calibrationAnsweredEarlier } from './invitations'
 import { studyExpertLabels } from './expert-labels'
-import { supportOf } from './quantities'
+import { supportFromRow } from './quantities'
 import { roundRow } from './rounds'
 
 interface JudgementRow {
@@ -60,7 +62,7 @@ async function answeringItem(db: Db, user: User, roundId: number, quantityId: nu
   refuseUnlessAnswering(row, !!row.panel_id)
   if (!row.method) throw new HttpError(404, 'This quantity is not part of the round')
   const item: AnswerItem = { method: row.method, edges: row.edges ?? undefined, chips: row.chips ?? undefined, askTails: row.ask_tails }
-  return { studyId: row.study_id as number, item, support: supportOf(row) }
+  return { studyId: row.study_id as number, item, support: supportFromRow(row) }
 }
 
 /** The refusals of every answering call, in their order: a closed round first, then a user not on its panel. */
@@ -257,8 +259,7 @@ export async function feedbackFor(db: Db, user: User, roundId: number) {
     }
     const rows: JudgementRow[] = await db('judgements').where({ round_id: prev.id, quantity_id: quantityId, status: 'submitted' }).orderBy('expert_id')
     const pick = (j: JudgementRow) => {
-      const fits = j.fits as { distribution: { family: string } }[]
-      return (fits.find((f) => f.distribution.family === j.chosen_family) ?? fits[0])?.distribution ?? null
+      return chosenFit(j.fits as FitResult[], j.chosen_family)?.distribution ?? null
     }
     const mine = rows.find((j) => j.expert_id === user.id)
     out.push({

@@ -1,12 +1,11 @@
 import { createHash } from 'node:crypto'
 import type { QuantityBody } from '../../shared/schemas/quantities'
 import { EVIDENCE_EXTENSIONS, EVIDENCE_MAX_BYTES, EVIDENCE_TYPES, nameFitsType } from '../../shared/schemas/quantities'
+import type { Support } from '../../shared/stats/index'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import { recordAudit } from './audit'
-
-export type Support = { kind: 'real' } | { kind: 'positive' } | { kind: 'proportion' } | { kind: 'bounded'; lower: number; upper: number }
 
 interface QuantityRow {
   id: number
@@ -26,7 +25,8 @@ interface QuantityRow {
   updated_at: Date
 }
 
-export function supportOf(r: Pick<QuantityRow, 'support_kind' | 'support_lower' | 'support_upper'>): Support {
+/** A quantity's support from its table columns. */
+export function supportFromRow(r: Pick<QuantityRow, 'support_kind' | 'support_lower' | 'support_upper'>): Support {
   return r.support_kind === 'bounded' ? { kind: 'bounded', lower: Number(r.support_lower), upper: Number(r.support_upper) } : { kind: r.support_kind }
 }
 
@@ -38,7 +38,7 @@ export function toQuantity(r: QuantityRow, files: EvidenceFileInfo[] = []) {
     symbol: r.symbol,
     unit: r.unit,
     question: r.question,
-    support: supportOf(r),
+    support: supportFromRow(r),
     assumptions: r.assumptions,
     evidenceNotes: r.evidence_notes,
     position: r.position,
@@ -120,7 +120,7 @@ export async function updateQuantity(db: Db, user: User, id: number, body: Quant
     const changed = Object.entries(columns(body)).filter(([k, v]) => (before as unknown as Record<string, unknown>)[k] !== v).map(([k]) => k)
     await recordAudit(trx, {
       actorId: user.id, studyId: before.study_id, action: 'quantity.update', subject: `quantity:${id}`,
-      details: { changed, before: { name: before.name, question: before.question, support: supportOf(before) }, after: { name: body.name, question: body.question, support: body.support } },
+      details: { changed, before: { name: before.name, question: before.question, support: supportFromRow(before) }, after: { name: body.name, question: body.question, support: body.support } },
     })
   })
   return getQuantity(db, id)

@@ -1,6 +1,7 @@
 import {
   combine, consensusNarrowerThanSpread, disagreements, fitCombination, fitConsensus, leaveOneOut, resolveWeights, summarise, type Component,
 } from '../../shared/elicitation/reconcile'
+import { chosenFit } from '../../shared/elicitation/fits'
 import { performanceWeightCautions } from '../../shared/elicitation/weights'
 import type { ReconciliationBody } from '../../shared/schemas/reconciliation'
 import {
@@ -11,7 +12,7 @@ import type { Db } from '../db/knex'
 import { HttpError } from '../http/errors'
 import { recordAudit } from './audit'
 import { studyExpertLabels } from './expert-labels'
-import { getQuantity, supportOf } from './quantities'
+import { getQuantity } from './quantities'
 import { followQuantities } from './round-status'
 
 const COOKE_QUANTILES = [0.05, 0.5, 0.95]
@@ -32,8 +33,7 @@ async function expertFits(db: Db, roundId: number, quantityId: number) {
   const { study_id: studyId } = await db('rounds').where({ id: roundId }).first('study_id')
   const labels = await studyExpertLabels(db, studyId)
   return rows.flatMap((r) => {
-    const fits = r.fits as (FitResult & { warnings?: string[] })[]
-    const fit = fits.find((f) => f.distribution.family === r.chosen_family) ?? fits[0]
+    const fit = chosenFit(r.fits as (FitResult & { warnings?: string[] })[], r.chosen_family)
     if (!fit) return []
     const d = fit.distribution
     return [{
@@ -88,7 +88,7 @@ interface Settings {
 /** Everything the reconciliation screen shows for one set of settings; the server's numbers are the record's. */
 async function evaluate(db: Db, quantityId: number, settings: Settings) {
   const quantity = await getQuantity(db, quantityId)
-  const support = supportOf({ support_kind: quantity.support.kind, support_lower: 'lower' in quantity.support ? quantity.support.lower : null, support_upper: 'upper' in quantity.support ? quantity.support.upper : null })
+  const support = quantity.support
   const experts = await expertFits(db, settings.roundId, quantityId)
   const included = experts.filter((e) => !settings.excludedExperts.includes(e.expertId))
   const cal = await calibrationData(db, quantity.studyId, included.map((e) => e.expertId))
@@ -185,10 +185,8 @@ export async function saveReconciliation(db: Db, user: User, quantityId: number,
     if (!fit) fields.family = 'This family was not fitted to the combination'
     else distribution = fit.distribution
   }
-  if (body.reconciled) {
-    if (!distribution) fields.family = 'Choose the family of the final prior'
-    if (body.rationale.trim().length < 20) fields.rationale = 'Explain the choice in at least 20 characters; it goes into the prior record'
-  }
+  // The schema asks a reconciled prior for a family (or adjusted parameters) and a reason; a family that was not fitted
+  // or parameters that are not valid have their field error above, so a reconciled save here always has its distribution.
   if (Object.keys(fields).length) throw new HttpError(400, 'Some fields need attention', fields)
 
   const row = {

@@ -1,11 +1,12 @@
 import { modelCodeWithCheck } from '../../shared/elicitation/model-code'
+import { chosenFit } from '../../shared/elicitation/fits'
 import { recordCautions } from '../../shared/elicitation/record-cautions'
 import { mean, quantile, sd, type Distribution, type FitResult } from '../../shared/stats/index'
 import type { Db } from '../db/knex'
 import { BUILD_INFO } from '../build-info'
 import { studyExpertLabels } from './expert-labels'
 import { priorHash } from './impact'
-import { supportOf } from './quantities'
+import { supportFromRow } from './quantities'
 import { savedWeightCautions } from './reconciliation'
 
 export const RECORD_SCHEMA_ID = 'https://priorsmith.example/schemas/prior-record-1.json'
@@ -80,15 +81,14 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       symbol: q.symbol,
       unit: q.unit,
       question: q.question,
-      support: supportOf(q),
+      support: supportFromRow(q),
       leftOut: leftOut.has(q.id) ? { reason: leftOut.get(q.id)! } : null,
       assumptions: q.assumptions,
       evidenceNotes: q.evidence_notes,
       evidenceFiles: files.filter((f) => f.quantity_id === q.id).map((f) => ({ filename: f.filename, sha256: f.sha256, bytes: f.size_bytes })),
       rounds: roundRefs,
       judgements: judgements.filter((j) => j.quantity_id === q.id).map((j) => {
-        const fits = j.fits as (FitResult & { warnings?: string[] })[]
-        const fit = fits.find((f) => f.distribution.family === j.chosen_family) ?? fits[0]
+        const fit = chosenFit(j.fits as (FitResult & { warnings?: string[] })[], j.chosen_family)
         return {
           round: rounds.find((r) => r.id === j.round_id)!.number, expert: who(j.expert_id), method: j.method, answer: j.answer, rationale: j.rationale,
           fit: fit ? { distribution: fit.distribution, sse: fit.sse, ...summary(fit.distribution), warnings: fit.warnings ?? [] } : null,

@@ -1,5 +1,5 @@
 import type { RoundBody, RoundUpdateBody } from '../../shared/schemas/rounds'
-import { supportBounds } from '../../shared/stats/index'
+import { supportBounds, type Support } from '../../shared/stats/index'
 import type { User } from '../../shared/types/index'
 import type { AppContext } from '../context'
 import type { Db } from '../db/knex'
@@ -8,7 +8,7 @@ import type { StudyAccess } from './access'
 import { recordAudit } from './audit'
 import { studyExpertLabels } from './expert-labels'
 import { followQuantities } from './round-status'
-import { supportOf, type Support } from './quantities'
+import { supportFromRow } from './quantities'
 import { sendPanelInvitation, sendReminder } from './notify'
 
 type RoundItemInput = RoundBody['items'][number]
@@ -52,7 +52,7 @@ function checkEdgesInSupport(support: Support, edges: number[], index: number): 
 async function validateItems(db: Db, studyId: number, items: RoundItemInput[]) {
   const ids = items.map((i) => i.quantityId)
   const rows = await db('quantities').where({ study_id: studyId }).whereIn('id', ids).select('id', 'support_kind', 'support_lower', 'support_upper')
-  const byId = new Map(rows.map((r) => [r.id, supportOf(r)]))
+  const byId = new Map(rows.map((r) => [r.id, supportFromRow(r)]))
   let fields: Record<string, string> = {}
   items.forEach((item, i) => {
     const support = byId.get(item.quantityId)
@@ -151,7 +151,7 @@ export async function getRound(db: Db, access: StudyAccess, id: number) {
       askTails: i.ask_tails,
       quantity: {
         id: i.quantity_id, name: i.name, symbol: i.symbol, unit: i.unit, question: i.question,
-        support: supportOf(i), assumptions: i.assumptions, evidenceNotes: i.evidence_notes,
+        support: supportFromRow(i), assumptions: i.assumptions, evidenceNotes: i.evidence_notes,
         files: files.filter((f) => f.quantity_id === i.quantity_id).map((f) => ({ id: f.id, filename: f.filename, mimeType: f.mime_type, sizeBytes: f.size_bytes })),
       },
     })),

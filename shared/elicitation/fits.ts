@@ -19,6 +19,11 @@ export const MAX_OUTSIDE_SHARE = 0.1
  */
 export const NEAR_TIE = 1e-3
 
+/** The fit the expert chose, else the best one (fits are kept best first); null when nothing was fitted. Priorsmith's own rule. */
+export function chosenFit<F extends { distribution: { family: string } }>(fits: readonly F[], chosenFamily: string | null | undefined): F | null {
+  return fits.find((f) => f.distribution.family === chosenFamily) ?? fits[0] ?? null
+}
+
 /** A tail beyond a point inside the plausible range is "almost no chance" below this: 100 times less than a bound's reading. */
 export const THIN_TAIL_PROB = PLAUSIBLE_BOUND_PROB / 100
 

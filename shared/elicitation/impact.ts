@@ -1,5 +1,5 @@
 import {
-  analyzePrior, bayesFactor, decimalSum, EngineInputError, mean as distMean, mixture, mixtureQuantile, posteriorOf, PRIOR_DRIVEN_RULE, quantile,
+  analyzePrior, bayesFactor, CONFLICT_LEVEL, decimalSum, EngineInputError, mean as distMean, mixture, mixtureQuantile, posteriorOf, PRIOR_DRIVEN_RULE, quantile,
   toUnivariate, widthSweep, type Analysis, type PilotData, type Pool, type Posterior, type PriorDistribution, type Support,
 } from '../stats/index'
 
@@ -9,9 +9,9 @@ export const SWEEP_FACTORS = [0.25, 0.35, 0.5, 0.71, 1, 1.41, 2, 2.83, 4, 5.66, 
 export interface CandidateInput {
   key: string
   label: string
-  kind: 'expert' | 'pooled' | 'consensus' | 'reconciled' | 'reference' | 'mixture'
+  kind: 'expert' | 'pooled' | 'consensus' | 'reconciled' | 'comparison' | 'mixture'
   prior: PriorDistribution
-  /** Robust mixture only: the reconciled prior at weight 1 − w, a vague component at w. */
+  /** Robust mixture only: the reconciled prior at weight 1 − w, a wide component at w. */
   mixture?: { components: [PriorDistribution, PriorDistribution]; weights: [number, number] }
 }
 
@@ -31,11 +31,16 @@ export interface CandidateResult {
   method: Analysis['method']
   posterior: Analysis['posterior']
   priorPredictiveP: number
+  /** ln of Box's p: finite when p underflows to 0 (a strong prior–data conflict). */
+  logPriorPredictiveP: number
   priorEss: number | null
   bayesFactor: { logBF: number; twoLnBF: number; label: string } | null
   decision: { probability: number; act: boolean } | null
   flags: string[]
 }
+
+/** The robust mixture's name with the weight on its wide component: "Robust mixture (20 % on the wide component)". */
+export const mixtureLabel = (weight: number) => `Robust mixture (${Math.round(weight * 100)} % on the wide component)`
 
 /** Posterior P(θ above or below the threshold). */
 function tailProbability(post: Posterior, rule: DecisionRule): number {
@@ -78,12 +83,16 @@ export function robustMixture(components: readonly PriorDistribution[], weights:
 function mixtureAnalysis(c: NonNullable<CandidateInput['mixture']>, data: PilotData) {
   const mix = robustMixture(c.components, c.weights, data)
   const post = mix.posterior
-  const priorP = mix.analyses.map((a) => a.priorPredictiveP)
+  const logPriorP = mix.analyses.map((a, i) => Math.log(c.weights[i]) + a.logPriorPredictiveP)
+  const top = Math.max(...logPriorP)
+  const logP = Math.min(0, top + Math.log(logPriorP.reduce((s, l) => s + Math.exp(l - top), 0)))
   return {
     analysis: {
       logEvidence: mix.logEvidence, method: 'quadrature' as const,
       posterior: { mean: post.mean(), sd: post.sd(), q025: post.quantile(0.025), q50: post.quantile(0.5), q975: post.quantile(0.975) },
-      priorPredictiveP: Math.min(1, c.weights[0] * priorP[0] + c.weights[1] * priorP[1]),
+      priorPredictiveP: Math.exp(logP),
+      logPriorPredictiveP: logP,
+      conflict: logP < Math.log(CONFLICT_LEVEL),
       priorEss: null,
     },
     post,
@@ -111,27 +120,27 @@ export function dataSize(data: PilotData): number {
   }
 }
 
-/** Every candidate prior against the pilot data: posterior, evidence, Bayes factor against the reference, checks. */
+/** Every candidate prior against the pilot data: posterior, evidence, Bayes factor against the comparison prior, checks. */
 export function evaluateCandidates(candidates: CandidateInput[], data: PilotData, rule: DecisionRule | null): CandidateResult[] {
   const n = dataSize(data)
   const results: CandidateResult[] = candidates.map((c): CandidateResult => {
     const { analysis, post } = namedFor(c, () => (c.mixture ? mixtureAnalysis(c.mixture, data) : { analysis: analyzePrior(c.prior, data), post: posteriorOf(c.prior, data) }))
     const flags: string[] = []
     if (analysis.priorEss !== null && analysis.priorEss > n) flags.push('prior-dominates')
-    if (analysis.priorPredictiveP < 0.05) flags.push('prior-data-conflict')
+    if (analysis.conflict) flags.push('prior-data-conflict')
     const probability = rule ? tailProbability(post, rule) : null
     return {
       key: c.key, label: c.label, kind: c.kind, prior: c.prior, priorSummary: priorSummaryOf(c),
       logEvidence: analysis.logEvidence, method: analysis.method, posterior: analysis.posterior,
-      priorPredictiveP: analysis.priorPredictiveP, priorEss: analysis.priorEss, bayesFactor: null,
+      priorPredictiveP: analysis.priorPredictiveP, logPriorPredictiveP: analysis.logPriorPredictiveP, priorEss: analysis.priorEss, bayesFactor: null,
       decision: rule && probability !== null ? { probability, act: probability > rule.probability } : null, flags,
     }
   })
-  const reference = results.find((r) => r.kind === 'reference')
-  if (reference) {
+  const comparison = results.find((r) => r.kind === 'comparison')
+  if (comparison) {
     for (const r of results) {
-      if (r === reference) continue
-      const bf = bayesFactor(r.logEvidence, reference.logEvidence)
+      if (r === comparison) continue
+      const bf = bayesFactor(r.logEvidence, comparison.logEvidence)
       r.bayesFactor = { logBF: bf.logBF, twoLnBF: bf.twoLnBF, label: bf.label }
     }
   }
@@ -169,6 +178,13 @@ export function sweepOf(prior: PriorDistribution, data: PilotData, support: Supp
 
 const fmt = (x: number) => (Math.abs(x) >= 100 ? x.toFixed(0) : Math.abs(x) >= 1 ? x.toFixed(2) : x.toPrecision(3))
 
+/** A p-value from its logarithm in words: "= 0.012", or a power of ten when it is below 1e-6 (it may underflow to 0). */
+export function formatSmallP(logP: number): string {
+  const log10 = logP / Math.LN10
+  if (log10 >= -6) return `= ${Math.exp(logP).toPrecision(2)}`
+  return `is about 10^${Math.round(log10)}, practically zero`
+}
+
 /** Plain-language findings from the numbers: what the width does, and each caution that applies. */
 export function findings(results: CandidateResult[], sweep: SweepSummary | null, n: number): string[] {
   const out: string[] = []
@@ -189,7 +205,7 @@ export function findings(results: CandidateResult[], sweep: SweepSummary | null,
   }
   for (const r of results) {
     if (r.flags.includes('prior-dominates')) out.push(`${r.label}: the prior carries more information than the pilot data (prior effective sample size ${fmt(r.priorEss!)} against n = ${fmt(n)}).`)
-    if (r.flags.includes('prior-data-conflict')) out.push(`${r.label}: the pilot data sit in the tail of what this prior predicts (Box's prior predictive p = ${r.priorPredictiveP.toPrecision(2)}); prior and data conflict.`)
+    if (r.flags.includes('prior-data-conflict')) out.push(`${r.label}: the pilot data sit in the tail of what this prior predicts (Box's prior predictive p ${formatSmallP(r.logPriorPredictiveP)}); prior and data conflict.`)
   }
   return out
 }

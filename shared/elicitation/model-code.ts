@@ -8,7 +8,7 @@ export function num(x: number): string {
   return Number(x.toPrecision(15)).toString()
 }
 
-const safeName = (symbol: string) => symbol.replace(/[^A-Za-z0-9_]/g, '_').replace(/^(?=\d)/, 'q_')
+export const safeName = (symbol: string) => symbol.replace(/[^A-Za-z0-9_]/g, '_').replace(/^(?=\d)/, 'q_')
 
 /**
  * Ready-to-paste prior lines in each language's own parameterisation:

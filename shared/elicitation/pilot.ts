@@ -1,4 +1,4 @@
-import { decimalSum, type PilotData, type PriorDistribution } from '../stats/index'
+import { decimalSum, type MultinomialData, type PilotData, type PriorDistribution } from '../stats/index'
 
 export const PILOT_MODELS = ['normal-known-sigma', 'normal', 'binomial', 'poisson'] as const
 export type PilotModel = (typeof PILOT_MODELS)[number]
@@ -117,4 +117,52 @@ export function extractPilotData(table: string[][], mapping: PilotMapping, fileL
       return { data: { model: 'poisson', counts, exposures }, summary: { rows: counts.length, n: exposure, description: `${total} events over ${exposure} exposure units` } }
     }
   }
+}
+
+/**
+ * Where the categories of multinomial pilot data are: one count column per category, in the composition's order
+ * (`columns`), or one observation per row with its category named in a column (`rows`).
+ */
+export type MultinomialMapping =
+  | { layout: 'columns'; categoryColumns: string[] }
+  | { layout: 'rows'; categoryColumn: string; categories: string[] }
+
+/**
+ * Turns parsed CSV rows (first row the header) into multinomial counts as recorded: a row of counts per line
+ * (`columns`), or a row with a single 1 per line (`rows`), so the evidence keeps each line's multinomial coefficient.
+ * Blank lines are ignored; the first bad cell is refused with its line and column.
+ */
+export function extractMultinomialData(table: string[][], mapping: MultinomialMapping, fileLines?: number[]): { data: MultinomialData; summary: PilotSummary } {
+  const kept = table.map((r, i) => ({ r, line: fileLines?.[i] ?? i + 1 })).filter(({ r }) => r.some((c) => c.trim() !== ''))
+  if (kept.length === 0) throw new PilotDataError('The file is empty.')
+  const [header, ...body] = kept
+  const names = header.r.map((h) => h.trim())
+  if (body.length === 0) throw new PilotDataError('The file has a header but no data rows.', 2)
+  if (body.length > PILOT_MAX_ROWS) throw new PilotDataError(`The file has ${body.length} data rows; at most ${PILOT_MAX_ROWS} are accepted.`)
+  let counts: number[][]
+  let categories: string[]
+  if (mapping.layout === 'columns') {
+    if (mapping.categoryColumns.length < 2) throw new PilotDataError('Choose one column for each category, at least two.')
+    categories = mapping.categoryColumns
+    const cols = categories.map((c) => columnIndex(names, c))
+    counts = body.map(({ r, line }) => cols.map((c, j) => numberAt(r, c, line, categories[j], 'count')))
+  } else {
+    if (mapping.categories.length < 2) throw new PilotDataError('A composition has at least two categories.')
+    categories = mapping.categories
+    const c = columnIndex(names, mapping.categoryColumn)
+    counts = body.map(({ r, line }) => {
+      const raw = (r[c] ?? '').trim()
+      const k = categories.findIndex((name) => name.trim() === raw)
+      if (k < 0) {
+        const found = raw === '' ? 'the cell is empty' : `found "${raw.slice(0, 40)}"`
+        throw new PilotDataError(`expected one of ${categories.map((n) => `"${n}"`).join(', ')}; ${found}`, line, mapping.categoryColumn, c + 1)
+      }
+      return categories.map((_, j) => (j === k ? 1 : 0))
+    })
+  }
+  const totals = categories.map((_, j) => counts.reduce((s, row) => s + row[j], 0))
+  const n = totals.reduce((s, x) => s + x, 0)
+  if (n === 0) throw new PilotDataError('The counts add up to 0; there is nothing to learn from.')
+  const description = categories.map((name, j) => `${name} ${totals[j]}`).join(', ') + ` (${n} in all)`
+  return { data: { model: 'multinomial', counts }, summary: { rows: body.length, n, description } }
 }

@@ -105,7 +105,7 @@ export const CANDIDATE_KIND_LABELS: Record<string, string> = {
   pooled: 'Pooled prior',
   consensus: 'Agreed consensus',
   reconciled: 'Final prior',
-  reference: 'Reference prior',
+  comparison: 'Comparison prior',
   mixture: 'Robust mixture',
 }
 
@@ -156,6 +156,7 @@ export const AUDIT_ACTIONS: Record<string, string> = {
   'record.new-version': 'New record version started',
   'record.leave-out': 'Quantity left out of the record',
   'record.put-back': 'Quantity put back into the record',
+  'record.reworded': 'Stored record reworded by a software update (old and new SHA-256 in the audit event)',
 }
 
 const humanise = (key: string) => {

@@ -5,10 +5,10 @@ const distribution = mixed<Record<string, unknown>>().test('object', 'Give a dis
 
 export const impactSchema = object({
   datasetId: number().typeError('Choose a pilot dataset').required('Choose a pilot dataset').integer().positive(),
-  reference: distribution.required('Set a reference prior (for example a wide one) to compare against'),
+  comparison: distribution.required('Set a comparison prior (for example a wide one) that every Bayes factor is taken against'),
   mixtureWeight: number().typeError('The weight must be a number').min(0.01, 'Between 0.01 and 0.99').max(0.99, 'Between 0.01 and 0.99').nullable().default(null),
-  mixtureVague: distribution.nullable().default(null)
-    .when('mixtureWeight', { is: (w: unknown) => typeof w === 'number', then: (s) => s.required('Give the vague component of the robust mixture') }),
+  mixtureWide: distribution.nullable().default(null)
+    .when('mixtureWeight', { is: (w: unknown) => typeof w === 'number', then: (s) => s.required('Give the wide component of the robust mixture') }),
   decision: object({
     direction: string().required().oneOf(['above', 'below'], 'Choose above or below'),
     threshold: number().typeError('The threshold must be a number').required('Enter the threshold'),

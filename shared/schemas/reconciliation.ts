@@ -10,6 +10,17 @@ export const POOL_METHOD_LABELS: Record<(typeof POOL_METHODS)[number], string> =
   consensus: 'Agreed consensus',
 }
 
+/** Shortest reason, after trimming, for marking a prior reconciled: it goes into the prior record. */
+export const RECONCILED_RATIONALE_MIN = 20
+
+/** What marking a prior reconciled asks for, by field. */
+export const RECONCILED_NEEDS = {
+  family: 'Choose the family of the final prior',
+  rationale: `Explain the choice in at least ${RECONCILED_RATIONALE_MIN} characters; it goes into the prior record`,
+} as const
+
+const chosen = (d: unknown) => d !== null && d !== undefined
+
 export const reconciliationSchema = object({
   roundId: number().typeError('Choose a round').required('Choose a round').integer().positive(),
   method: string().required('Choose how to combine').oneOf([...POOL_METHODS], 'Choose linear, logarithmic or consensus'),
@@ -26,12 +37,14 @@ export const reconciliationSchema = object({
     participants: string().trim().required('Say who took part in the discussion').max(2000),
     notes: string().trim().max(10000, 'Use at most 10000 characters').default(''),
   }).default(undefined).when('method', { is: 'consensus', then: (s) => s.required('Enter the agreed values'), otherwise: (s) => s.strip() }),
-  family: string().oneOf([...FAMILIES], 'Unknown distribution family').nullable().default(null),
+  family: string().oneOf([...FAMILIES], 'Unknown distribution family').nullable().default(null)
+    .when(['reconciled', 'distribution'], ([reconciled, distribution], s) => (reconciled === true && !chosen(distribution) ? s.required(RECONCILED_NEEDS.family) : s)),
   distribution: mixed<Record<string, unknown>>().nullable().default(null)
     .test('object', 'The distribution must be an object', (v) => v === null || v === undefined || (typeof v === 'object' && !Array.isArray(v))),
   adjustReason: string().trim().max(2000).default('')
-    .when('distribution', { is: (d: unknown) => d !== null && d !== undefined, then: (s) => s.required('Say why you adjusted the parameters by hand').min(10, 'Use at least 10 characters') }),
-  rationale: string().trim().max(10000, 'Use at most 10000 characters').default(''),
+    .when('distribution', { is: chosen, then: (s) => s.required('Say why you adjusted the parameters by hand').min(10, 'Use at least 10 characters') }),
+  rationale: string().trim().max(10000, 'Use at most 10000 characters').default('')
+    .when('reconciled', { is: true, then: (s) => s.min(RECONCILED_RATIONALE_MIN, RECONCILED_NEEDS.rationale) }),
   reconciled: boolean().typeError('Must be true or false').default(false),
   version: versionRule,
 }).noUnknown('Unknown field: ${unknown}')

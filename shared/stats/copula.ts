@@ -90,7 +90,8 @@ export function nearestCorrelation(R: number[][], tolerance = 1e-12): NearestCor
   let dS = R.map((row) => row.map(() => 0))
   let X = Y
   let iterations = 0
-  for (; iterations < 100000; iterations++) {
+  // Convergence is linear; the cap bounds the time, and the scaled positive semi-definite iterate is a valid answer either way.
+  for (; iterations < 5000; iterations++) {
     const Rk = Y.map((row, i) => row.map((y, j) => y - dS[i][j]))
     X = projectPsd(Rk)
     dS = X.map((row, i) => row.map((x, j) => x - Rk[i][j]))

@@ -31,8 +31,8 @@ export function validateDistribution(d: PriorDistribution, field = 'distribution
   }
 }
 
-/** Throws EngineInputError unless every parameter of d is finite and in range. */
-function validateParameters(d: PriorDistribution, field: string): void {
+/** Throws EngineInputError unless every parameter of d is finite and in range (every public entry point calls it first). */
+export function validateParameters(d: PriorDistribution, field: string): void {
   if (d === null || typeof d !== 'object') throw new EngineInputError(field, 'A distribution is required.')
   switch (d.family) {
     case 'normal':
@@ -99,14 +99,32 @@ export function studentTCdf(t: number, df: number): number {
   if (Number.isNaN(t)) return NaN
   if (t === -Infinity) return 0
   if (t === Infinity) return 1
+  if (Math.abs(t) > FAR_T) {
+    const tail = Math.exp(studentTLogFarTail(Math.abs(t), df))
+    return t < 0 ? tail : 1 - tail
+  }
   const t2 = t * t
   const tail = 0.5 * betaPQ(df / (df + t2), df / 2, 0.5, t2 / (df + t2)).p
   return t < 0 ? tail : 1 - tail
 }
 
-/** ln of the Student-t density of the standardised value t. */
+/** Beyond |t| = 1e150, t² overflows for small df: the tails and density use ln|t| instead. */
+const FAR_T = 1e150
+
+/**
+ * ln P(T > q) for q > FAR_T: ½ I_x(ν/2, ½) with x = ν/(ν + q²) below 1e-300 is ½ x^(ν/2) / ((ν/2) B(ν/2, ½)) to double
+ * precision (the leading term of the incomplete beta series, Abramowitz & Stegun 26.5.4), with ln x = ln ν − 2 ln q.
+ */
+function studentTLogFarTail(q: number, df: number): number {
+  const a = df / 2
+  return -Math.LN2 + a * (Math.log(df) - 2 * Math.log(q)) - Math.log(a) - lbeta(a, 0.5)
+}
+
+/** ln of the Student-t density of the standardised value t (Johnson, Kotz & Balakrishnan 1995, ch. 28); ln(1 + t²/ν) through ln|t| when t² would overflow. */
 export function studentTLogPdf(t: number, df: number): number {
-  return lgamma((df + 1) / 2) - lgamma(df / 2) - 0.5 * (Math.log(df) + LN_PI) - ((df + 1) / 2) * Math.log1p((t * t) / df)
+  const at = Math.abs(t)
+  const log1pT2 = at > FAR_T ? 2 * Math.log(at) - Math.log(df) : Math.log1p((t * t) / df)
+  return lgamma((df + 1) / 2) - lgamma(df / 2) - 0.5 * (Math.log(df) + LN_PI) - ((df + 1) / 2) * log1pT2
 }
 
 type Tails = { lower: (x: number) => number; upper: (x: number) => number; density: (x: number) => number }
@@ -176,6 +194,18 @@ export function studentTQuantile(p: number, df: number): number {
   if (p === 1) return Infinity
   if (p === 0.5) return 0
   if (p > 0.5) return -studentTQuantile(1 - p, df)
+  // Deep in a heavy tail the quantile is far out (about 1e200 at p = 1e-10 for ν = 0.05): solve for w = −1/t on a log
+  // scale, starting from the leading term of the tail (see studentTLogFarTail).
+  const a = df / 2
+  const logQ0 = (a * Math.log(df) - Math.LN2 - Math.log(a) - lbeta(a, 0.5) - Math.log(p)) / df
+  if (logQ0 > Math.log(1e4)) {
+    const far: Tails = {
+      lower: (w) => studentTCdf(-1 / w, df),
+      upper: (w) => studentTCdf(1 / w, df),
+      density: (w) => Math.exp(studentTLogPdf(1 / w, df) - 2 * Math.log(w)),
+    }
+    return -1 / refineQuantile(p, Math.exp(-logQ0), far, 'log')
+  }
   const x0 = jStat.studentt.inv(p, df)
   const tails: Tails = {
     lower: (t) => studentTCdf(t, df),
@@ -187,6 +217,7 @@ export function studentTQuantile(p: number, df: number): number {
 
 /** Natural-log density; −Infinity outside the support. */
 export function logPdf(d: PriorDistribution, x: number): number {
+  validateParameters(d, 'distribution')
   switch (d.family) {
     case 'normal':
       return logNormPdf((x - d.mu) / d.sigma) - Math.log(d.sigma)
@@ -220,11 +251,13 @@ function betaLogPdf(y: number, ycomp: number, a: number, b: number): number {
 
 /** Density f(x) (Johnson, Kotz & Balakrishnan 1994–95, the family's chapter). */
 export function pdf(d: PriorDistribution, x: number): number {
+  validateParameters(d, 'distribution')
   return Math.exp(logPdf(d, x))
 }
 
 /** Lower-tail probability P(X ≤ x). */
 export function cdf(d: PriorDistribution, x: number): number {
+  validateParameters(d, 'distribution')
   switch (d.family) {
     case 'normal':
       return normCdf((x - d.mu) / d.sigma)
@@ -249,6 +282,7 @@ export function cdf(d: PriorDistribution, x: number): number {
 
 /** Upper-tail probability P(X > x), computed directly (not as 1 − cdf). */
 export function sf(d: PriorDistribution, x: number): number {
+  validateParameters(d, 'distribution')
   switch (d.family) {
     case 'normal':
       return normCdf((d.mu - x) / d.sigma)
@@ -277,6 +311,7 @@ function clamp01(v: number): number {
 
 /** Quantile F⁻¹(p): closed forms where they exist, otherwise jstat's inverse refined by Newton steps on the accurate CDF. */
 export function quantile(d: PriorDistribution, p: number): number {
+  validateParameters(d, 'distribution')
   if (!(p >= 0 && p <= 1)) return NaN
   switch (d.family) {
     case 'normal':
@@ -329,6 +364,7 @@ function betaQuantile(p: number, a: number, b: number): number {
 
 /** Mean (NaN where it does not exist, e.g. Student-t with df ≤ 1). */
 export function mean(d: PriorDistribution): number {
+  validateParameters(d, 'distribution')
   switch (d.family) {
     case 'normal':
       return d.mu
@@ -351,6 +387,7 @@ export function mean(d: PriorDistribution): number {
 
 /** Standard deviation (Infinity for Student-t with 1 < df ≤ 2, NaN for df ≤ 1). */
 export function sd(d: PriorDistribution): number {
+  validateParameters(d, 'distribution')
   switch (d.family) {
     case 'normal':
       return d.sigma
@@ -382,6 +419,7 @@ export function median(d: PriorDistribution): number {
 
 /** Wraps a distribution as a Univariate (function-valued) object. */
 export function toUnivariate(d: PriorDistribution): Univariate {
+  validateParameters(d, 'distribution')
   return {
     pdf: (x) => pdf(d, x),
     cdf: (x) => cdf(d, x),

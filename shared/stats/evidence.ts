@@ -2,7 +2,7 @@ import { quantile, studentTLogPdf, supportOf, toUnivariate, validateDistribution
 import { EngineInputError } from './errors'
 import { mixtureQuantile } from './pool'
 import { findRoot, LogIntegral, maximize, type Hint } from './quadrature'
-import { betaPQ, gammaPQ, lbeta, lgamma, logNormCdf, logNormDiff, logNormPdf, normCdf, normPdf, softplus } from './special'
+import { gammaPQ, lbeta, lgamma, logBetaPQ, logGammaPQ, logNormCdf, logNormDiff, logNormPdf, normCdf, normPdf, softplus } from './special'
 import { dirichletMultinomialAnalysis } from './dirichlet'
 import type { Analysis, DirichletAnalysis, DirichletPrior, MultinomialData, PilotData, PosteriorSummary, PriorDistribution, Univariate } from './types'
 
@@ -22,7 +22,7 @@ export type AnalyzeOptions = {
  * A prior expressed on u ∈ ℝ: θ = u (real support), θ = e^u (positive), θ = L + (U − L)/(1 + e^(−u)) (bounded);
  * logPrior(u) is the log density of u, Jacobian included.
  */
-interface PriorScale {
+export interface PriorScale {
   theta(u: number): number
   /** 1 − θ without cancellation (meaningful when θ ∈ [0, 1]). */
   oneMinusTheta(u: number): number
@@ -31,7 +31,7 @@ interface PriorScale {
   hint: Hint
 }
 
-function priorScale(prior: PriorDistribution): PriorScale {
+export function priorScale(prior: PriorDistribution): PriorScale {
   switch (prior.family) {
     case 'normal':
     case 'student-t': {
@@ -99,7 +99,7 @@ function priorScale(prior: PriorDistribution): PriorScale {
 }
 
 /** A likelihood hint (centre and scale on θ) carried over to the prior's u scale. */
-function hintOnU(scale: PriorScale, center: number, spread: number): Hint | null {
+export function hintOnU(scale: PriorScale, center: number, spread: number): Hint | null {
   const u = scale.toU(center)
   if (!Number.isFinite(u)) return null
   const eps = Math.min(spread, Math.abs(center) + spread) * 1e-3
@@ -114,9 +114,9 @@ function priorHints(scale: PriorScale, extra: (Hint | null)[]): Hint[] {
 
 // ─── Data checks and sufficient statistics ───────────────────────────────────────────────────────
 
-type NormalStats = { n: number; mean: number; ss: number }
+export type NormalStats = { n: number; mean: number; ss: number }
 
-function normalStats(values: number[]): NormalStats {
+export function normalStats(values: number[]): NormalStats {
   if (!Array.isArray(values) || values.length === 0) throw new EngineInputError('values', 'The data contain no observations.')
   values.forEach((v, i) => {
     if (typeof v !== 'number' || !Number.isFinite(v)) throw new EngineInputError('values', `Observation ${i + 1} is not a finite number.`)
@@ -132,7 +132,7 @@ function requireSupportWithin(prior: PriorDistribution, lower: number, upper: nu
   if (s.lower < lower || s.upper > upper) throw new EngineInputError(field, `The prior must put all its mass on ${what}; a ${prior.family} prior does not.`)
 }
 
-function validateData(prior: PriorDistribution, data: PilotData): void {
+export function validateData(prior: PriorDistribution, data: PilotData): void {
   validateDistribution(prior, 'prior')
   if (!data || typeof data !== 'object') throw new EngineInputError('data', 'Pilot data are required.')
   switch (data.model) {
@@ -217,12 +217,12 @@ export function truncatedNormal(m: number, s: number, a: number, b: number): Uni
   }
 }
 
-function summarise(d: Pick<Univariate, 'quantile' | 'mean' | 'sd'>): PosteriorSummary {
+export function summarise(d: Pick<Univariate, 'quantile' | 'mean' | 'sd'>): PosteriorSummary {
   return { mean: d.mean(), sd: d.sd(), q025: d.quantile(PROBS[0]), q50: d.quantile(PROBS[1]), q975: d.quantile(PROBS[2]) }
 }
 
 /** Posterior moments, CDF and quantiles on θ from a LogIntegral on the prior's u scale. */
-function posteriorFromIntegral(li: LogIntegral, scale: PriorScale): PosteriorParts {
+export function posteriorFromIntegral(li: LogIntegral, scale: PriorScale): PosteriorParts {
   const mean = li.expect((u) => scale.theta(u))
   const variance = li.expect((u) => (scale.theta(u) - mean) ** 2)
   return {
@@ -364,12 +364,13 @@ function marginalOfMean(prior: PriorDistribution, st: NormalStats, sScale: Prior
 
 // ─── Box's prior predictive check for the sample mean ────────────────────────────────────────────
 
-type Predictive = { logDensity(t: number): number; lower(t: number): number; upper(t: number): number; symmetric: boolean; center: number; spread: number }
+/** Prior predictive of x̄: log density and log tails (kept in logs so that a strong conflict gives ln p, not 0). */
+type Predictive = { logDensity(t: number): number; logLower(t: number): number; logUpper(t: number): number; symmetric: boolean; center: number; spread: number }
 
 /** Error kernel of x̄ − μ: a normal (known σ) or a scale mixture of normals Σ w_j N(0, s_j²) (σ integrated over its prior). */
 type Kernel = { s: number[]; w: number[] }
 
-function logSumExp(terms: number[]): number {
+export function logSumExp(terms: number[]): number {
   const m = Math.max(...terms)
   if (!Number.isFinite(m)) return m
   let total = 0
@@ -388,26 +389,14 @@ function meanPredictive(prior: PriorDistribution, kernel: Kernel): Predictive {
   const sBar = Math.sqrt(s.reduce((acc, sj, j) => acc + w[j] * sj * sj, 0))
   if (prior.family === 'normal') {
     const total = s.map((sj) => Math.sqrt(prior.sigma ** 2 + sj * sj))
-    const tail = (z: number): number => total.reduce((acc, tj, j) => acc + w[j] * normCdf(z / tj), 0)
+    const logTail = (z: number): number => logSumExp(total.map((tj, j) => logW[j] + logNormCdf(z / tj)))
     return {
       logDensity: (t) => logSumExp(total.map((tj, j) => logW[j] + logNormPdf((t - prior.mu) / tj) - Math.log(tj))),
-      lower: (t) => tail(t - prior.mu),
-      upper: (t) => tail(prior.mu - t),
+      logLower: (t) => logTail(t - prior.mu),
+      logUpper: (t) => logTail(prior.mu - t),
       symmetric: true,
       center: prior.mu,
       spread: Math.sqrt(prior.sigma ** 2 + sBar * sBar),
-    }
-  }
-  if (prior.family === 'uniform') {
-    const { lower: a, upper: b } = prior
-    const lowerTail = (t: number): number => s.reduce((acc, sj, j) => acc + ((w[j] * sj) / (b - a)) * (psi((t - a) / sj) - psi((t - b) / sj)), 0)
-    return {
-      logDensity: (t) => logSumExp(s.map((sj, j) => logW[j] + logNormDiff((a - t) / sj, (b - t) / sj))) - Math.log(b - a),
-      lower: lowerTail,
-      upper: (t) => lowerTail(a + b - t),
-      symmetric: true,
-      center: (a + b) / 2,
-      spread: Math.sqrt((b - a) ** 2 / 12 + sBar * sBar),
     }
   }
   const scale = priorScale(prior)
@@ -415,11 +404,30 @@ function meanPredictive(prior: PriorDistribution, kernel: Kernel): Predictive {
   const logk = (e: number): number => logSumExp(s.map((sj, j) => logW[j] + logNormPdf(e / sj) - Math.log(sj)))
   const integral = (t: number, logKernel: (theta: number) => number): number =>
     new LogIntegral((u) => scale.logPrior(u) + logKernel(scale.theta(u)), priorHints(scale, [hintOnU(scale, t, sBar)])).logValue
+  const logLowerByQuadrature = (t: number): number => integral(t, (th) => logK(t - th))
+  const logUpperByQuadrature = (t: number): number => integral(t, (th) => logK(th - t))
+  if (prior.family === 'uniform') {
+    const { lower: a, upper: b } = prior
+    const lowerTail = (t: number): number => s.reduce((acc, sj, j) => acc + ((w[j] * sj) / (b - a)) * (psi((t - a) / sj) - psi((t - b) / sj)), 0)
+    // ψ(z) = zΦ(z) + φ(z) cancels for z ≪ 0: below 1e-8 the tail is taken by quadrature in logs instead.
+    const logTail = (t: number, byQuadrature: (t: number) => number): number => {
+      const v = lowerTail(t)
+      return v > 1e-8 ? Math.log(v) : byQuadrature(t)
+    }
+    return {
+      logDensity: (t) => logSumExp(s.map((sj, j) => logW[j] + logNormDiff((a - t) / sj, (b - t) / sj))) - Math.log(b - a),
+      logLower: (t) => logTail(t, logLowerByQuadrature),
+      logUpper: (t) => logTail(a + b - t, () => logUpperByQuadrature(t)),
+      symmetric: true,
+      center: (a + b) / 2,
+      spread: Math.sqrt((b - a) ** 2 / 12 + sBar * sBar),
+    }
+  }
   const iqr = quantile(prior, 0.75) - quantile(prior, 0.25)
   return {
     logDensity: (t) => integral(t, (th) => logk(t - th)),
-    lower: (t) => Math.exp(integral(t, (th) => logK(t - th))),
-    upper: (t) => Math.exp(integral(t, (th) => logK(th - t))),
+    logLower: logLowerByQuadrature,
+    logUpper: logUpperByQuadrature,
     symmetric: prior.family === 'student-t',
     center: quantile(prior, 0.5),
     spread: Math.sqrt((iqr / 1.349) ** 2 + sBar * sBar),
@@ -441,17 +449,17 @@ function sigmaMixtureKernel(sigmaPrior: PriorDistribution, n: number): Kernel {
  * symmetric; otherwise the two tails beyond x̄ and beyond the point on the other side of the mode with equal density
  * (g is unimodal when the prior is: normal errors are strongly unimodal, Ibragimov 1956).
  */
-function boxPForMean(pred: Predictive, xbar: number): number {
+function logBoxPForMean(pred: Predictive, xbar: number): number {
   if (pred.symmetric) {
-    const tail = xbar <= pred.center ? pred.lower(xbar) : pred.upper(xbar)
-    return Math.min(1, 2 * tail)
+    const logTail = xbar <= pred.center ? pred.logLower(xbar) : pred.logUpper(xbar)
+    return Math.min(0, Math.LN2 + logTail)
   }
   const mode = maximize((t) => pred.logDensity(t), pred.center, pred.spread).u
   const target = pred.logDensity(xbar)
-  if (xbar === mode) return 1
+  if (xbar === mode) return 0
   const dir = xbar < mode ? 1 : -1
   const g = (t: number): number => pred.logDensity(t) - target
-  if (g(mode) <= 0) return 1
+  if (g(mode) <= 0) return 0
   let step = pred.spread
   let far = mode + dir * step
   for (let i = 0; i < 60 && g(far) > 0; i++) {
@@ -461,21 +469,22 @@ function boxPForMean(pred: Predictive, xbar: number): number {
   const other = findRoot(g, Math.min(mode, far), Math.max(mode, far), 1e-10)
   const left = Math.min(xbar, other)
   const right = Math.max(xbar, other)
-  return Math.min(1, pred.lower(left) + pred.upper(right))
+  return Math.min(0, logSumExp([pred.logLower(left), pred.logUpper(right)]))
 }
 
 // ─── Counts ──────────────────────────────────────────────────────────────────────────────────────
 
 /** The Beta(a, b) on [0, 1] that a beta, a uniform or a scaled beta on exactly [0, 1] is; null otherwise. */
-function asStandardBeta(prior: PriorDistribution): { a: number; b: number } | null {
+export function asStandardBeta(prior: PriorDistribution): { a: number; b: number } | null {
   if (prior.family === 'beta') return { a: prior.alpha, b: prior.beta }
   if (prior.family === 'uniform' && prior.lower === 0 && prior.upper === 1) return { a: 1, b: 1 }
   if (prior.family === 'scaled-beta' && prior.lower === 0 && prior.upper === 1) return { a: prior.alpha, b: prior.beta }
   return null
 }
 
+/** ln C(n, k) = −ln(n + 1) − ln B(k + 1, n − k + 1), through lbeta so that large n does not cancel. */
 function lchoose(n: number, k: number): number {
-  return lgamma(n + 1) - lgamma(k + 1) - lgamma(n - k + 1)
+  return -Math.log(n + 1) - lbeta(k + 1, n - k + 1)
 }
 
 function validateBinomialRows(rows: { successes: number[]; trials: number[] }, successes: number, trials: number): void {
@@ -498,33 +507,58 @@ function binomialLogConstant(data: Extract<PilotData, { model: 'binomial' }>): n
   return data.rows.successes.reduce((s, y, i) => s + (data.rows!.trials[i] > 1 ? lchoose(data.rows!.trials[i], y) : 0), 0)
 }
 
-function countTailsToP(lower: number, upper: number): number {
-  return Math.min(1, 2 * Math.min(lower, upper))
+/** ln of Box's two-sided p for a discrete statistic, 2·min(P(T ≤ t), P(T ≥ t)) capped at 1, from the log tails. */
+function logCountP(logLower: number, logUpper: number): number {
+  return Math.min(0, Math.LN2 + Math.min(logLower, logUpper))
 }
 
-/** Beta-binomial tails P(T ≤ y) and P(T ≥ y), summing the pmf relative to its value at y (exact, no underflow). */
-function betaBinomialTails(y: number, n: number, a: number, b: number): { lower: number; upper: number } {
-  let lowerSum = 1
-  let term = 1
-  for (let k = y; k > 0; k--) {
-    term *= (k / (n - k + 1)) * ((b + n - k) / (a + k - 1))
-    lowerSum += term
-    if (term < 1e-300) break
+/** Largest n for which the beta-binomial tails are summed term by term; beyond it they are integrals over the prior. */
+const BETA_BINOMIAL_SUM_LIMIT = 20_000
+
+/**
+ * ln P(T ≤ y) and ln P(T ≥ y) for a beta-binomial, summing the pmf relative to its value at y; the running sums are
+ * rescaled in logs so that a y far in the tail (terms growing past 1e308 towards the mode) neither overflows nor underflows.
+ */
+function betaBinomialLogTails(y: number, n: number, a: number, b: number): { logLower: number; logUpper: number } {
+  const side = (step: (k: number) => number, from: number, to: number, dir: 1 | -1): number => {
+    let logScale = 0
+    let sum = 1
+    let term = 1
+    for (let k = from; dir < 0 ? k > to : k < to; k += dir) {
+      term *= step(k)
+      sum += term
+      if (sum > 1e280) {
+        logScale += Math.log(sum)
+        term /= sum
+        sum = 1
+      }
+      if (term < 1e-300 * sum) break
+    }
+    return logScale + Math.log(sum)
   }
-  let upperSum = 1
-  term = 1
-  for (let k = y; k < n; k++) {
-    term *= ((n - k) / (k + 1)) * ((a + k) / (b + n - k - 1))
-    upperSum += term
-    if (term < 1e-300) break
-  }
-  const total = lowerSum + upperSum - 1
-  return { lower: lowerSum / total, upper: upperSum / total }
+  const logLowerSum = side((k) => (k / (n - k + 1)) * ((b + n - k) / (a + k - 1)), y, 0, -1)
+  const logUpperSum = side((k) => ((n - k) / (k + 1)) * ((a + k) / (b + n - k - 1)), y, n, 1)
+  // total = lower + upper − the shared term at y (1 on the relative scale)
+  const logTotal = logSumExp([logLowerSum, logUpperSum]) + Math.log1p(-Math.exp(-logSumExp([logLowerSum, logUpperSum])))
+  return { logLower: logLowerSum - logTotal, logUpper: logUpperSum - logTotal }
 }
 
-/** Expected value under the prior of a probability depending on θ, by quadrature on the prior's u scale. */
-function priorExpectation(scale: PriorScale, logValue: (u: number) => number, hints: (Hint | null)[]): number {
-  return Math.exp(new LogIntegral((u) => scale.logPrior(u) + logValue(u), priorHints(scale, hints)).logValue)
+/** ln E[P(θ)] under the prior for a probability P given in logs, by quadrature on the prior's u scale. */
+function logPriorExpectation(scale: PriorScale, logValue: (u: number) => number, hints: (Hint | null)[]): number {
+  return new LogIntegral((u) => scale.logPrior(u) + logValue(u), priorHints(scale, hints)).logValue
+}
+
+/** ln P(T ≤ y) and ln P(T ≥ y) for T ~ Binomial(n, θ), θ from the prior: E[I_{1−θ}(n − y, y + 1)] and E[I_θ(y, n − y + 1)]. */
+function binomialLogTailsByQuadrature(scale: PriorScale, y: number, n: number, likHint: Hint | null): { logLower: number; logUpper: number } {
+  const logLower = y === n ? 0 : logPriorExpectation(scale, (u) => logBetaPQ(scale.oneMinusTheta(u), n - y, y + 1, scale.theta(u)).logP, [likHint])
+  const logUpper = y === 0 ? 0 : logPriorExpectation(scale, (u) => logBetaPQ(scale.theta(u), y, n - y + 1, scale.oneMinusTheta(u)).logP, [likHint])
+  return { logLower, logUpper }
+}
+
+/** Where the binomial likelihood sits on the prior's u scale: ŷ/n and its standard error. */
+function binomialLikelihoodHint(scale: PriorScale, y: number, n: number): Hint | null {
+  const pHat = (y + 0.5) / (n + 1)
+  return hintOnU(scale, pHat, Math.sqrt((pHat * (1 - pHat)) / n))
 }
 
 /** The binomial likelihood integrated against the prior on its u scale. */
@@ -535,8 +569,7 @@ function binomialIntegral(prior: PriorDistribution, y: number, n: number) {
     const om = scale.oneMinusTheta(u)
     return (y > 0 ? y * Math.log(th) : 0) + (n - y > 0 ? (n - y) * Math.log(om) : 0)
   }
-  const pHat = (y + 0.5) / (n + 1)
-  const likHint = hintOnU(scale, pHat, Math.sqrt((pHat * (1 - pHat)) / n))
+  const likHint = binomialLikelihoodHint(scale, y, n)
   const li = new LogIntegral((u) => scale.logPrior(u) + logLik(u), priorHints(scale, [likHint]))
   return { scale, li, likHint }
 }
@@ -548,28 +581,31 @@ function binomialAnalysis(prior: PriorDistribution, data: Extract<PilotData, { m
   if (asBeta && !opts.forceQuadrature) {
     const { a, b } = asBeta
     const post = { family: 'beta' as const, alpha: a + y, beta: b + n - y }
-    const tails = opts.skipPredictiveCheck ? null : betaBinomialTails(y, n, a, b)
+    let logP = NaN
+    if (!opts.skipPredictiveCheck) {
+      const tails =
+        n <= BETA_BINOMIAL_SUM_LIMIT ? betaBinomialLogTails(y, n, a, b) : binomialLogTailsByQuadrature(priorScale(prior), y, n, binomialLikelihoodHint(priorScale(prior), y, n))
+      logP = logCountP(tails.logLower, tails.logUpper)
+    }
     return {
       logEvidence: constant + lbeta(a + y, b + n - y) - lbeta(a, b),
       method: 'closed-form',
       posterior: summariseDistribution(post),
-      priorPredictiveP: tails ? countTailsToP(tails.lower, tails.upper) : NaN,
+      ...predictiveCheck(logP),
       priorEss: priorEffectiveSampleSize(prior, { model: 'binomial', successes: y, trials: n }),
     }
   }
   const { scale, li, likHint } = binomialIntegral(prior, y, n)
-  let p = NaN
+  let logP = NaN
   if (!opts.skipPredictiveCheck) {
-    const lower =
-      y === n ? 1 : priorExpectation(scale, (u) => Math.log(betaPQ(scale.oneMinusTheta(u), n - y, y + 1, scale.theta(u)).p), [likHint])
-    const upper = y === 0 ? 1 : priorExpectation(scale, (u) => Math.log(betaPQ(scale.theta(u), y, n - y + 1, scale.oneMinusTheta(u)).p), [likHint])
-    p = countTailsToP(lower, upper)
+    const tails = binomialLogTailsByQuadrature(scale, y, n, likHint)
+    logP = logCountP(tails.logLower, tails.logUpper)
   }
   return {
     logEvidence: constant + li.logValue,
     method: 'quadrature',
     posterior: summarise(posteriorFromIntegral(li, scale)),
-    priorPredictiveP: p,
+    ...predictiveCheck(logP),
     priorEss: priorEffectiveSampleSize(prior, { model: 'binomial', successes: y, trials: n }),
   }
 }
@@ -594,36 +630,44 @@ function poissonAnalysis(prior: PriorDistribution, counts: number[], exposures: 
   if (prior.family === 'gamma' && !opts.forceQuadrature) {
     const { shape: a, rate: b } = prior
     const post = { family: 'gamma' as const, shape: a + Y, rate: b + T }
-    let p = NaN
+    let logP = NaN
     if (!opts.skipPredictiveCheck) {
       const q = b / (b + T)
       const qc = T / (b + T)
-      const lower = betaPQ(q, a, Y + 1, qc).p
-      const upper = Y === 0 ? 1 : betaPQ(qc, Y, a, q).p
-      p = countTailsToP(lower, upper)
+      const logLower = logBetaPQ(q, a, Y + 1, qc).logP
+      const logUpper = Y === 0 ? 0 : logBetaPQ(qc, Y, a, q).logP
+      logP = logCountP(logLower, logUpper)
     }
     return {
       logEvidence: constant + a * Math.log(b) + lgamma(a + Y) - lgamma(a) - (a + Y) * Math.log(b + T),
       method: 'closed-form',
       posterior: summariseDistribution(post),
-      priorPredictiveP: p,
+      ...predictiveCheck(logP),
       priorEss: priorEffectiveSampleSize(prior, { model: 'poisson', counts, exposures }),
     }
   }
   const { scale, li, likHint } = poissonIntegral(prior, Y, T)
-  let p = NaN
+  let logP = NaN
   if (!opts.skipPredictiveCheck) {
-    const lower = priorExpectation(scale, (u) => Math.log(gammaPQ(Y + 1, scale.theta(u) * T).q), [likHint])
-    const upper = Y === 0 ? 1 : priorExpectation(scale, (u) => Math.log(gammaPQ(Y, scale.theta(u) * T).p), [likHint])
-    p = countTailsToP(lower, upper)
+    const logLower = logPriorExpectation(scale, (u) => logGammaPQ(Y + 1, scale.theta(u) * T).logQ, [likHint])
+    const logUpper = Y === 0 ? 0 : logPriorExpectation(scale, (u) => logGammaPQ(Y, scale.theta(u) * T).logP, [likHint])
+    logP = logCountP(logLower, logUpper)
   }
   return {
     logEvidence: constant + li.logValue,
     method: 'quadrature',
     posterior: summarise(posteriorFromIntegral(li, scale)),
-    priorPredictiveP: p,
+    ...predictiveCheck(logP),
     priorEss: priorEffectiveSampleSize(prior, { model: 'poisson', counts, exposures }),
   }
+}
+
+/** The level below which Box's p flags a prior–data conflict: the customary 5 % (Box 1980; docs/methods/box-check.md). */
+export const CONFLICT_LEVEL = 0.05
+
+/** Box's p from its logarithm, the log itself (finite where p underflows) and the conflict flag; NaN and false when skipped. */
+function predictiveCheck(logP: number): Pick<Analysis, 'priorPredictiveP' | 'logPriorPredictiveP' | 'conflict'> {
+  return { priorPredictiveP: Math.exp(logP), logPriorPredictiveP: logP, conflict: logP < Math.log(CONFLICT_LEVEL) }
 }
 
 function summariseDistribution(d: PriorDistribution): PosteriorSummary {
@@ -660,7 +704,7 @@ export function analyzePrior(
         logEvidence: c.logEvidence,
         method: c.closed ? 'closed-form' : 'quadrature',
         posterior: summarise(c.posterior()),
-        priorPredictiveP: pred ? boxPForMean(pred, st.mean) : NaN,
+        ...predictiveCheck(pred ? logBoxPForMean(pred, st.mean) : NaN),
         priorEss: priorEffectiveSampleSize(prior, data),
       }
     }
@@ -672,7 +716,7 @@ export function analyzePrior(
         logEvidence: r.logEvidence,
         method: 'quadrature',
         posterior: r.posterior(),
-        priorPredictiveP: pred ? boxPForMean(pred, st.mean) : NaN,
+        ...predictiveCheck(pred ? logBoxPForMean(pred, st.mean) : NaN),
         priorEss: null,
       }
     }

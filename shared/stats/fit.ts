@@ -768,9 +768,14 @@ export function fitAll(points: Point[], support: Support, weights?: readonly num
   if (!Number.isFinite(points[points.length - 1].value - points[0].value)) throw new EngineInputError('points', UNFITTABLE)
   const results: FitResult[] = []
   for (const family of familiesFor(support)) {
-    if (family === 'uniform') results.push(fitUniformInside(points, lower, upper, weights))
-    else if (family === 'scaled-beta') results.push(fitDistribution(points, family, { lower, upper, weights }))
-    else results.push(fitDistribution(points, family, { weights }))
+    try {
+      if (family === 'uniform') results.push(fitUniformInside(points, lower, upper, weights))
+      else if (family === 'scaled-beta') results.push(fitDistribution(points, family, { lower, upper, weights }))
+      else results.push(fitDistribution(points, family, { weights }))
+    } catch (err) {
+      // a fit that collapsed to parameters out of range (values near ±1e308) is not offered; the others still are
+      if (!(err instanceof EngineInputError && err.field === 'distribution')) throw err
+    }
   }
   // Values far out (near ±1e308) can make a least-squares fit collapse to a point: such a "fit" is never offered or stored.
   const proper = results.filter((r) => Number.isFinite(r.sse) && isComputable(r.distribution))

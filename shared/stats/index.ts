@@ -44,6 +44,7 @@ export { cookeClassical, decisionMaker, minimumInformationDistribution } from '.
 export {
   analyzePrior,
   boxCheckNormalNormal,
+  CONFLICT_LEVEL,
   normalInverseGamma,
   posteriorOf,
   type Posterior,
@@ -53,6 +54,25 @@ export {
 } from './evidence'
 export { bayesFactor, JEFFREYS_SCALE, KASS_RAFTERY_SCALE } from './bayes-factor'
 export { PRIOR_DRIVEN_CONVENTION, PRIOR_DRIVEN_RULE, scaleSpread, widthSweep } from './sweep'
+export {
+  CJS_DRAWS,
+  cumulativeJsDistance,
+  defaultTrainingFraction,
+  diagnose,
+  DIAGNOSIS_WORDS,
+  fractionalBayesFactor,
+  minimalTrainingSize,
+  observationCount,
+  POWER_SCALING_STEP,
+  POWER_SCALING_THRESHOLD,
+  powerScaledPosterior,
+  powerScalingSensitivity,
+  type CandidatePrior,
+  type FractionalBayesFactor,
+  type PowerScalingSensitivity,
+  type PriorMixture,
+  type SensitivityDiagnosis,
+} from './sensitivity'
 export { ENGINE_VERSION } from './version'
 export { decimalSum } from './sum'
 export { COMPOSITION_CONVENTION, dirichletFromMarginals, dirichletMarginal, dirichletMultinomialAnalysis, dirichletWidthSweep } from './dirichlet'

@@ -79,3 +79,27 @@ export function choleskyLower(S: number[][], tol = 1e-10): number[][] | null {
   }
   return L
 }
+
+/** Inverse of a symmetric positive-definite matrix through its Cholesky factor (Golub & Van Loan 2013, §4.2); null when it is singular. */
+export function inverseSpd(S: number[][]): number[][] | null {
+  const n = S.length
+  const L = choleskyLower(S, 1e-12)
+  if (!L || L.some((row, i) => !(row[i] > 0))) return null
+  // Solve L Lᵀ X = I column by column.
+  const X = Array.from({ length: n }, () => new Array<number>(n).fill(0))
+  for (let c = 0; c < n; c++) {
+    const y = new Array<number>(n).fill(0)
+    for (let i = 0; i < n; i++) {
+      let s = i === c ? 1 : 0
+      for (let k = 0; k < i; k++) s -= L[i][k] * y[k]
+      y[i] = s / L[i][i]
+    }
+    for (let i = n - 1; i >= 0; i--) {
+      let s = y[i]
+      for (let k = i + 1; k < n; k++) s -= L[k][i] * X[k][c]
+      X[i][c] = s / L[i][i]
+    }
+  }
+  for (let i = 0; i < n; i++) for (let j = 0; j < i; j++) X[i][j] = X[j][i] = (X[i][j] + X[j][i]) / 2
+  return X
+}

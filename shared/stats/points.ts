@@ -98,7 +98,7 @@ export function pointsFromIntervals(edges: number[], probs: number[]): Point[] {
   return points
 }
 
-/** Chip grid ("roulette"; Morris, Oakley & Crowe 2014, Environ. Model. Softw. 52:1–4): chips per bin → cumulative points at the bin edges. */
+/** Chip grid (histogram or "roulette" method; Gore 1987, from memory; reviewed in Johnson et al. 2010, J Clin Epidemiol 63:355–369): chips per bin → cumulative points at the bin edges. */
 export function pointsFromChips(edges: number[], chips: number[]): Point[] {
   validateEdges(edges)
   if (!Array.isArray(chips) || chips.length !== edges.length - 1)

@@ -44,8 +44,18 @@ export function digamma(x: number): number {
   return shift + Math.log(x) - 0.5 / x - x2 * (1 / 12 - x2 * (1 / 120 - x2 * (1 / 252 - x2 * (1 / 240 - x2 * (1 / 132)))))
 }
 
-/** ln B(a, b) = ln Γ(a) + ln Γ(b) − ln Γ(a + b). */
+/**
+ * ln B(a, b). For a, b ≥ 10 the three Stirling forms are combined before adding, (a − ½) ln(a/(a+b)) + (b − ½) ln(b/(a+b))
+ * − ½ ln(a+b) + ½ ln 2π + R(a) + R(b) − R(a+b), so that the large (x − ½) ln x − x terms do not cancel (DiDonato & Morris
+ * 1992, ACM TOMS 18:360–373, algorithm BETALN); otherwise ln Γ(a) + ln Γ(b) − ln Γ(a + b).
+ */
 export function lbeta(a: number, b: number): number {
+  if (a >= 10 && b >= 10 && Number.isFinite(a + b)) {
+    const s = a + b
+    const la = a <= b ? Math.log(a / s) : Math.log1p(-b / s)
+    const lb = b < a ? Math.log(b / s) : Math.log1p(-a / s)
+    return (a - 0.5) * la + (b - 0.5) * lb - 0.5 * Math.log(s) + LN_SQRT_2PI + stirlingRemainder(a) + stirlingRemainder(b) - stirlingRemainder(s)
+  }
   return lgamma(a) + lgamma(b) - lgamma(a + b)
 }
 
@@ -66,28 +76,28 @@ export function log1pmx(t: number): number {
 /** ln(x^a e^(−x) / Γ(a)), the prefactor of the incomplete gamma function, stable for large a (Temme 1979 form). */
 export function logGammaPrefactor(a: number, x: number): number {
   if (a < 10) return a * Math.log(x) - x - lgamma(a)
-  return a * log1pmx((x - a) / a) + 0.5 * Math.log(a) - LN_SQRT_2PI - stirlingRemainder(a)
+  const t = (x - a) / a
+  // far from the mode 1 + t loses x/a (it rounds to 0 for x ≪ a): a(ln x − ln a) − (x − a) keeps it
+  const main = Math.abs(t) <= 0.25 ? a * log1pmx(t) : a * (Math.log(x) - Math.log(a)) - (x - a)
+  return main + 0.5 * Math.log(a) - LN_SQRT_2PI - stirlingRemainder(a)
 }
 
-/** Regularised incomplete gamma P(a, x) and Q(a, x) by series / Lentz continued fraction (Press et al. 2007, Numerical Recipes 3rd ed., §6.2). */
-export function gammaPQ(a: number, x: number): { p: number; q: number } {
-  if (!(a > 0) || Number.isNaN(x)) return { p: NaN, q: NaN }
-  if (x <= 0) return { p: 0, q: 1 }
-  if (x === Infinity) return { p: 1, q: 0 }
-  const logPre = logGammaPrefactor(a, x)
-  if (x < a + 1) {
-    let ap = a
-    let del = 1 / a
-    let sum = del
-    for (let n = 0; n < 1_000_000; n++) {
-      ap += 1
-      del *= x / ap
-      sum += del
-      if (Math.abs(del) < Math.abs(sum) * 1e-17) break
-    }
-    const p = Math.min(1, sum * Math.exp(logPre))
-    return { p, q: 1 - p }
+/** Σ_{n≥0} x^n / (a(a+1)…(a+n)), so that P(a, x) = x^a e^(−x)/Γ(a) × this sum (Press et al. 2007, Numerical Recipes 3rd ed., §6.2). */
+function gammaSeries(a: number, x: number): number {
+  let ap = a
+  let del = 1 / a
+  let sum = del
+  for (let n = 0; n < 1_000_000; n++) {
+    ap += 1
+    del *= x / ap
+    sum += del
+    if (Math.abs(del) < Math.abs(sum) * 1e-17) break
   }
+  return sum
+}
+
+/** Lentz's continued fraction with Q(a, x) = x^a e^(−x)/Γ(a) × this value, for x ≥ a + 1 (Press et al. 2007, §6.2). */
+function gammaContinuedFraction(a: number, x: number): number {
   let b = x + 1 - a
   let c = 1 / TINY
   let d = 1 / b
@@ -104,8 +114,40 @@ export function gammaPQ(a: number, x: number): { p: number; q: number } {
     h *= del
     if (Math.abs(del - 1) <= EPS) break
   }
-  const q = Math.min(1, Math.exp(logPre) * h)
+  return h
+}
+
+/** Regularised incomplete gamma P(a, x) and Q(a, x) by series / Lentz continued fraction (Press et al. 2007, Numerical Recipes 3rd ed., §6.2). */
+export function gammaPQ(a: number, x: number): { p: number; q: number } {
+  if (!(a > 0) || Number.isNaN(x)) return { p: NaN, q: NaN }
+  if (x <= 0) return { p: 0, q: 1 }
+  if (x === Infinity) return { p: 1, q: 0 }
+  const logPre = logGammaPrefactor(a, x)
+  if (x < a + 1) {
+    const p = Math.min(1, gammaSeries(a, x) * Math.exp(logPre))
+    return { p, q: 1 - p }
+  }
+  const q = Math.min(1, Math.exp(logPre) * gammaContinuedFraction(a, x))
   return { p: 1 - q, q }
+}
+
+/** ln P(a, x) and ln Q(a, x) without underflow: the same series and continued fraction with the prefactor kept in logs. */
+export function logGammaPQ(a: number, x: number): { logP: number; logQ: number } {
+  if (!(a > 0) || Number.isNaN(x)) return { logP: NaN, logQ: NaN }
+  if (x <= 0) return { logP: -Infinity, logQ: 0 }
+  if (x === Infinity) return { logP: 0, logQ: -Infinity }
+  const logPre = logGammaPrefactor(a, x)
+  if (x < a + 1) {
+    const logP = Math.min(0, logPre + Math.log(gammaSeries(a, x)))
+    return { logP, logQ: log1mExp(logP) }
+  }
+  const logQ = Math.min(0, logPre + Math.log(gammaContinuedFraction(a, x)))
+  return { logP: log1mExp(logQ), logQ }
+}
+
+/** ln(1 − e^v) for v ≤ 0 without cancellation (Mächler 2012, "Accurately computing log(1 − exp(−|a|))", R package Rmpfr vignette). */
+export function log1mExp(v: number): number {
+  return v > -Math.LN2 ? Math.log(-Math.expm1(v)) : Math.log1p(-Math.exp(v))
 }
 
 function betaContinuedFraction(a: number, b: number, x: number): number {
@@ -155,6 +197,20 @@ export function betaPQ(x: number, a: number, b: number, y: number = 1 - x, logBe
   }
   const q = Math.min(1, (Math.exp(logBt) * betaContinuedFraction(b, a, y)) / b)
   return { p: 1 - q, q }
+}
+
+/** ln I_x(a, b) and ln(1 − I_x(a, b)) without underflow: the continued fraction of betaPQ with its prefactor kept in logs. */
+export function logBetaPQ(x: number, a: number, b: number, y: number = 1 - x, logBeta?: number): { logP: number; logQ: number } {
+  if (!(a > 0) || !(b > 0) || Number.isNaN(x)) return { logP: NaN, logQ: NaN }
+  if (x <= 0) return { logP: -Infinity, logQ: 0 }
+  if (y <= 0) return { logP: 0, logQ: -Infinity }
+  const logBt = -(logBeta ?? lbeta(a, b)) + a * Math.log(x) + b * Math.log(y)
+  if (x < (a + 1) / (a + b + 2)) {
+    const logP = Math.min(0, logBt + Math.log(betaContinuedFraction(a, b, x) / a))
+    return { logP, logQ: log1mExp(logP) }
+  }
+  const logQ = Math.min(0, logBt + Math.log(betaContinuedFraction(b, a, y) / b))
+  return { logP: log1mExp(logQ), logQ }
 }
 
 const ERFC_COF = [

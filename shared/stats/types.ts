@@ -61,6 +61,10 @@ export type Analysis = {
   method: 'closed-form' | 'quadrature'
   posterior: PosteriorSummary
   priorPredictiveP: number
+  /** ln of Box's p: finite when p itself underflows to 0 under a strong prior–data conflict. */
+  logPriorPredictiveP: number
+  /** Box's p is below CONFLICT_LEVEL (5 %): the data sit in the tail of what the prior predicts. */
+  conflict: boolean
   priorEss: number | null
 }
 

@@ -10,9 +10,9 @@ export type CandidateFlag = 'prior-dominates' | 'prior-data-conflict' | 'prior-d
 /** POST /api/quantities/:id/impact (shared/schemas/impact.ts). */
 export interface ImpactRequest {
   datasetId: number
-  reference: Distribution
+  comparison: Distribution
   mixtureWeight?: number | null
-  mixtureVague?: Distribution | null
+  mixtureWide?: Distribution | null
   decision?: DecisionRule | null
   factors?: number[]
 }

@@ -10,7 +10,7 @@ export const CHART_COLOURS = {
   pooled: '#1d2733',
   /** Muted tones for the priors other than the reconciled one. */
   mutedPrior: '#b89a6e',
-  mutedReference: '#8c97a2',
+  mutedComparison: '#8c97a2',
   mutedPosterior: '#6fa596',
 } as const
 
@@ -18,7 +18,7 @@ export const CHART_COLOURS = {
 export function curveStyle(kind: ImpactCandidate['kind'], role: 'prior' | 'posterior'): { color: string; dash: number[]; width: number } {
   if (role === 'posterior') {
     if (kind === 'reconciled') return { color: CHART_COLOURS.posterior, dash: [], width: 2.5 }
-    return { color: CHART_COLOURS.mutedPosterior, dash: kind === 'reference' ? [2, 3] : kind === 'mixture' ? [8, 3, 2, 3] : [5, 4], width: 1.5 }
+    return { color: CHART_COLOURS.mutedPosterior, dash: kind === 'comparison' ? [2, 3] : kind === 'mixture' ? [8, 3, 2, 3] : [5, 4], width: 1.5 }
   }
   switch (kind) {
     case 'reconciled':
@@ -26,8 +26,8 @@ export function curveStyle(kind: ImpactCandidate['kind'], role: 'prior' | 'poste
     case 'pooled':
     case 'consensus':
       return { color: CHART_COLOURS.pooled, dash: [6, 4], width: 1.5 }
-    case 'reference':
-      return { color: CHART_COLOURS.mutedReference, dash: [2, 3], width: 1.5 }
+    case 'comparison':
+      return { color: CHART_COLOURS.mutedComparison, dash: [2, 3], width: 1.5 }
     case 'mixture':
       return { color: CHART_COLOURS.mutedPrior, dash: [8, 3, 2, 3], width: 1.5 }
     default:
@@ -35,7 +35,7 @@ export function curveStyle(kind: ImpactCandidate['kind'], role: 'prior' | 'poste
   }
 }
 
-/** A candidate's prior as functions: a plain distribution, or the robust mixture of the reconciled prior and the vague component. */
+/** A candidate's prior as functions: a plain distribution, or the robust mixture of the reconciled prior and the wide component. */
 export interface PriorModel {
   pdf(x: number): number
   quantile(p: number): number
@@ -46,9 +46,9 @@ export interface PriorModel {
  * The prior and posterior of a candidate for drawing. The mixture's posterior weights follow from
  * each component's evidence (w_i p_i(x) / Σ w_j p_j(x)), computed here with the shared engine.
  */
-export function priorModel(candidate: ImpactCandidate, data: PilotData, input?: Pick<ImpactRequest, 'mixtureWeight' | 'mixtureVague'> | null): PriorModel {
-  if (candidate.kind === 'mixture' && input?.mixtureWeight && input.mixtureVague) {
-    const mix = robustMixture([candidate.prior, input.mixtureVague], [1 - input.mixtureWeight, input.mixtureWeight], data)
+export function priorModel(candidate: ImpactCandidate, data: PilotData, input?: Pick<ImpactRequest, 'mixtureWeight' | 'mixtureWide'> | null): PriorModel {
+  if (candidate.kind === 'mixture' && input?.mixtureWeight && input.mixtureWide) {
+    const mix = robustMixture([candidate.prior, input.mixtureWide], [1 - input.mixtureWeight, input.mixtureWeight], data)
     return { pdf: mix.prior.pdf, quantile: mix.prior.quantile, posterior: mix.posterior }
   }
   return { pdf: (x) => pdf(candidate.prior, x), quantile: (p) => quantile(candidate.prior, p), posterior: posteriorOf(candidate.prior, data) }
@@ -72,7 +72,7 @@ export interface Curve {
 
 /**
  * x range holding the central 99.8 % of every posterior and 99 % of every elicited prior, padded and
- * clipped to the support. The reference and the mixture's vague part are deliberately wide and would
+ * clipped to the support. The comparison prior and the mixture's wide component are deliberately wide and would
  * flatten the rest: they are drawn clipped to this range.
  */
 export function chartRange(models: { kind: ImpactCandidate['kind']; model: PriorModel }[], support?: Support): [number, number] {
@@ -84,7 +84,7 @@ export function chartRange(models: { kind: ImpactCandidate['kind']; model: Prior
   }
   for (const { kind, model } of models) {
     take(model.posterior.quantile(0.001), model.posterior.quantile(0.999))
-    if (kind !== 'reference' && kind !== 'mixture') take(model.quantile(0.005), model.quantile(0.995))
+    if (kind !== 'comparison' && kind !== 'mixture') take(model.quantile(0.005), model.quantile(0.995))
   }
   const { lower: slo, upper: shi } = support ? supportBounds(support) : { lower: -Infinity, upper: Infinity }
   if (!(lo < hi)) return [Number.isFinite(slo) ? slo : 0, Number.isFinite(shi) ? shi : 1]

@@ -17,16 +17,16 @@ export function extraFindings(result: ImpactResult, unit: string, symbol: string
       `(${fmt(rec.priorSummary.q025)} to ${fmt(rec.priorSummary.q975)}).`,
     )
     if (rec.bayesFactor) {
-      const favours = rec.bayesFactor.logBF >= 0 ? 'favour the reconciled prior over the reference' : 'favour the reference over the reconciled prior'
+      const favours = rec.bayesFactor.logBF >= 0 ? 'favour the reconciled prior over the comparison prior' : 'favour the comparison prior over the reconciled prior'
       out.push(`The pilot data ${favours} by a Bayes factor of ${bfText(Math.abs(rec.bayesFactor.logBF))} (${rec.bayesFactor.label}); read it with the width sweep below.`)
     }
   } else {
     out.push('No reconciled prior is saved for this quantity yet, so there is no width sweep or tipping point; reconcile the experts’ judgements first.')
   }
-  const others = result.candidates.filter((c) => c.kind !== 'reference')
+  const others = result.candidates.filter((c) => c.kind !== 'comparison')
   if (others.length > 1) {
     const means = others.map((c) => c.posterior.mean)
-    out.push(`Across the ${others.length} candidate priors other than the reference the posterior mean ranges from ${fmt(Math.min(...means))} to ${withUnit(fmt(Math.max(...means)), unit)}.`)
+    out.push(`Across the ${others.length} candidate priors other than the comparison prior the posterior mean ranges from ${fmt(Math.min(...means))} to ${withUnit(fmt(Math.max(...means)), unit)}.`)
   }
   if (result.decision) {
     const decided = result.candidates.filter((c) => c.decision)

@@ -10,16 +10,16 @@ export type DistributionValues = { family: Family } & Record<string, number | st
 
 export interface ImpactFormValues {
   datasetId: number | undefined
-  reference: DistributionValues
+  comparison: DistributionValues
   mixtureOn: boolean
   mixtureWeight: number | string | undefined
-  vague: DistributionValues
+  wide: DistributionValues
   decisionOn: boolean
   decision: { direction: 'above' | 'below'; threshold: number | string | undefined; probability: number | string | undefined }
 }
 
-/** Families the reference prior (and the vague component) may take for the quantity's support. */
-export const referenceFamilies = (support: Support): Family[] => familiesFor(support)
+/** Families the comparison prior (and the mixture's wide component) may take for the quantity's support. */
+export const priorFamilies = (support: Support): Family[] => familiesFor(support)
 
 /** Two significant digits: defaults that read as chosen by a person (10, 0.05, 120). */
 function round2(x: number): number {
@@ -52,7 +52,7 @@ export function dataScale(data: PilotData | undefined): { centre: number; spread
 
 /**
  * A wide prior of the family, valid for the support, around the pilot data's scale: the analyst's
- * starting point for a reference (or a vague mixture component), to be edited.
+ * starting point for a comparison prior (or the mixture's wide component), to be edited.
  */
 export function widePrior(family: Family, support: Support, data?: PilotData): Distribution {
   const { centre, spread } = dataScale(data)
@@ -80,9 +80,9 @@ export function widePrior(family: Family, support: Support, data?: PilotData): D
   }
 }
 
-/** The default reference: the first family of the support, drawn wide. */
-export function defaultReference(support: Support, data?: PilotData): Distribution {
-  const first = support.kind === 'positive' ? 'gamma' : referenceFamilies(support)[0]
+/** The default comparison prior: the first family of the support, drawn wide. */
+export function defaultComparison(support: Support, data?: PilotData): Distribution {
+  const first = support.kind === 'positive' ? 'gamma' : priorFamilies(support)[0]
   return widePrior(first, support, data)
 }
 
@@ -107,7 +107,7 @@ export function toValues(d: Distribution): DistributionValues {
  */
 export function distributionProblem(values: DistributionValues | undefined, support: Support): { param: string; message: string } | null {
   if (!values?.family) return { param: 'family', message: 'Choose a family' }
-  if (!referenceFamilies(support).includes(values.family)) return { param: 'family', message: 'This family does not fit the quantity’s possible values' }
+  if (!priorFamilies(support).includes(values.family)) return { param: 'family', message: 'This family does not fit the quantity’s possible values' }
   for (const p of FAMILY_PARAMS[values.family]) {
     const raw = values[p.key]
     if (raw === undefined || raw === null || (typeof raw === 'string' && raw.trim() === '')) return { param: p.key, message: `Enter the ${p.label.toLowerCase()}` }
@@ -149,14 +149,14 @@ export function impactFormSchema(support: Support) {
   const rule = shared.decision as AnyObjectSchema
   return object({
     datasetId: shared.datasetId,
-    reference: distributionSchema(support),
+    comparison: distributionSchema(support),
     mixtureOn: boolean().default(false),
     mixtureWeight: mixed().when('mixtureOn', {
       is: true,
-      then: () => weight.nonNullable('Enter the weight of the vague component').required('Enter the weight of the vague component'),
+      then: () => weight.nonNullable('Enter the weight on the wide component').required('Enter the weight on the wide component'),
       otherwise: (s) => s,
     }),
-    vague: mixed().when('mixtureOn', { is: true, then: () => distributionSchema(support), otherwise: (s) => s }),
+    wide: mixed().when('mixtureOn', { is: true, then: () => distributionSchema(support), otherwise: (s) => s }),
     decisionOn: boolean().default(false),
     decision: mixed().when('decisionOn', { is: true, then: () => rule.nonNullable().required(), otherwise: (s) => s }),
   })
@@ -169,22 +169,22 @@ export function requestOf(values: ImpactFormValues): ImpactRequest {
     : null
   return {
     datasetId: Number(values.datasetId),
-    reference: toDistribution(values.reference)!,
+    comparison: toDistribution(values.comparison)!,
     mixtureWeight: values.mixtureOn ? toNumber(values.mixtureWeight) : null,
-    mixtureVague: values.mixtureOn ? toDistribution(values.vague) : null,
+    mixtureWide: values.mixtureOn ? toDistribution(values.wide) : null,
     decision,
   }
 }
 
-/** Initial form values: the last run's inputs when there is one, else a wide reference and no options. */
+/** Initial form values: the last run's inputs when there is one, else a wide comparison prior and no options. */
 export function initialValues(support: Support, datasetId: number | undefined, data: PilotData | undefined, last?: ImpactRequest | null): ImpactFormValues {
-  const reference = last?.reference ?? defaultReference(support, data)
+  const comparison = last?.comparison ?? defaultComparison(support, data)
   return {
     datasetId: last?.datasetId ?? datasetId,
-    reference: toValues(reference),
+    comparison: toValues(comparison),
     mixtureOn: !!last?.mixtureWeight,
     mixtureWeight: last?.mixtureWeight ?? 0.2,
-    vague: toValues(last?.mixtureVague ?? reference),
+    wide: toValues(last?.mixtureWide ?? comparison),
     decisionOn: !!last?.decision,
     decision: last?.decision
       ? { ...last.decision }

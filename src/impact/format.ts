@@ -16,6 +16,12 @@ export function fmt(value: number | null | undefined, digits = 4): string {
 }
 
 /** Probabilities and p-values as decimals in tables (0.034, 0.0012 → 1.2e-3). */
+/** Box's p from p and ln p: as fmtP, or "≈ 10^−1664" when p is below 1e-300 (it underflows to 0). */
+export function fmtBoxP(p: number, logP: number): string {
+  if (Number.isFinite(logP) && logP / Math.LN10 < -300) return `≈ 10^${Math.round(logP / Math.LN10)}`.replace('-', '−')
+  return fmtP(p)
+}
+
 export function fmtP(value: number | null | undefined): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '—'
   if (value === 0) return '0'
@@ -61,7 +67,7 @@ export const KIND_LABELS: Record<CandidateKind, string> = {
   pooled: 'Pooled',
   consensus: 'Consensus',
   reconciled: 'Reconciled',
-  reference: 'Reference',
+  comparison: 'Comparison',
   mixture: 'Robust mixture',
 }
 

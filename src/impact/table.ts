@@ -18,6 +18,8 @@ export interface CandidateRow {
   logBF: number | null
   bfLabel: string | null
   boxP: number
+  /** ln of Box's p, finite where p underflows to 0. */
+  logBoxP: number
   ess: number | null
   n: number
   decisionP: number | null
@@ -42,6 +44,7 @@ export function candidateRows(result: Pick<ImpactResult, 'candidates' | 'n'>): C
     logBF: c.bayesFactor?.logBF ?? null,
     bfLabel: c.bayesFactor?.label ?? null,
     boxP: c.priorPredictiveP,
+    logBoxP: c.logPriorPredictiveP,
     ess: c.priorEss,
     n: result.n,
     decisionP: c.decision?.probability ?? null,
@@ -76,7 +79,7 @@ export function candidatesCsv(rows: CandidateRow[], unit = ''): string {
   const header = [
     'candidate', 'kind', 'prior', `prior mean${u}`, `prior 2.5%${u}`, `prior 97.5%${u}`,
     `posterior mean${u}`, `posterior sd${u}`, `posterior 2.5%${u}`, `posterior 97.5%${u}`,
-    'log evidence', 'log Bayes factor vs reference', 'Bayes factor vs reference', 'Kass-Raftery label',
+    'log evidence', 'log Bayes factor vs comparison prior', 'Bayes factor vs comparison prior', 'Kass-Raftery label',
     'prior predictive p (Box)', 'prior ESS', 'pilot n', 'P(decision rule)', 'act', 'flags',
   ]
   return toCsv([

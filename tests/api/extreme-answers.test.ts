@@ -76,19 +76,19 @@ describe('impact analysis with an expert that cannot be computed with', () => {
     const broken = [{ distribution: { family: 'uniform', lower: -1e308, upper: -1e308 }, sse: 0.375 }]
     await h.db('judgements').where({ round_id: roundId, quantity_id: quantityId, expert_id: expertIds[1] })
       .update({ fits: JSON.stringify(broken), chosen_family: 'uniform' })
-    const reference = { family: 'normal', mu: 0, sigma: 10 }
-    const refused = await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId, reference })
+    const comparison = { family: 'normal', mu: 0, sigma: 10 }
+    const refused = await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId, comparison })
     expect(refused.status).toBe(400)
     expect(Object.keys(refused.body.error.fields)).toEqual(['components[1]'])
-    const left = await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId, reference, excludedExperts: [expertIds[1]] })
+    const left = await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId, comparison, excludedExperts: [expertIds[1]] })
     expect(left.status, JSON.stringify(left.body)).toBe(200)
     expect(left.body.excludedExperts).toEqual([{ expertId: expertIds[1], label: 'Expert B' }])
-    expect(left.body.candidates.map((c: { label: string }) => c.label)).toEqual(['Expert A', 'Expert C', 'Pooled (linear, equal weights)', 'Reference prior'])
+    expect(left.body.candidates.map((c: { label: string }) => c.label)).toEqual(['Expert A', 'Expert C', 'Pooled (linear, equal weights)', 'Comparison prior'])
   })
 
-  it('a reference prior too narrow to compute with, lognormal(700, 1e-300), answers 400 on the reference field', async () => {
-    const res = await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId, reference: { family: 'lognormal', meanlog: 700, sdlog: 1e-300 }, excludedExperts: [expertIds[1]] })
+  it('a comparison prior too narrow to compute with, lognormal(700, 1e-300), answers 400 on the comparison field', async () => {
+    const res = await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId, comparison: { family: 'lognormal', meanlog: 700, sdlog: 1e-300 }, excludedExperts: [expertIds[1]] })
     expect(res.status).toBe(400)
-    expect(res.body.error.fields.reference).toMatch(/too narrow for its location/)
+    expect(res.body.error.fields.comparison).toMatch(/too narrow for its location/)
   })
 })

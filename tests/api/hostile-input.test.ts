@@ -14,7 +14,7 @@ const FIELDS = [
   'title', 'context', 'name', 'symbol', 'unit', 'question', 'support', 'kind', 'lower', 'upper', 'assumptions', 'evidenceNotes', 'items', 'quantityId',
   'method', 'edges', 'chips', 'opensAt', 'closesAt', 'points', 'value', 'prob', 'probs', 'rationale', 'version', 'email', 'password', 'displayName',
   'role', 'disabled', 'userId', 'studyRole', 'expertise', 'interests', 'interestsText', 'seenPilotData', 'q05', 'q50', 'q95', 'weights', 'cutoff',
-  'family', 'distribution', 'datasetId', 'reference', 'decision', 'showNames', 'comment', 'section', 'body', 'png', 'trueValue', 'reason', 'expertId', 'roundId',
+  'family', 'distribution', 'datasetId', 'comparison', 'decision', 'showNames', 'comment', 'section', 'body', 'png', 'trueValue', 'reason', 'expertId', 'roundId',
   '__proto__', 'constructor', 'prototype',
 ]
 

@@ -3,6 +3,7 @@ import { analyzePrior, bayesFactor } from '../../shared/stats/index'
 import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
 import { check } from '../unit/stats/checks'
 import outside from './fixtures/impact-checks.json'
+import conflictFixture from '../unit/stats/fixtures/conflict.json'
 
 let h: ApiHarness
 let analyst: Client
@@ -69,7 +70,7 @@ describe('pilot data uploads', () => {
     expect(res.status).toBe(201)
     expect(res.body.summary.n).toBe(8)
     expect(res.body.summary.description).toBe('81 events over 8 exposure units')
-    const run = await analyst.post(`/api/quantities/${countsId}/impact`, { datasetId: res.body.id, reference: { family: 'gamma', shape: 1, rate: 0.1 } })
+    const run = await analyst.post(`/api/quantities/${countsId}/impact`, { datasetId: res.body.id, comparison: { family: 'gamma', shape: 1, rate: 0.1 } })
     expect(run.status).toBe(200)
     expect(run.body.n).toBe(8)
   })
@@ -150,14 +151,14 @@ describe('impact analysis', () => {
     })
   })
 
-  it('stores the engine’s values: U(0,10) against a 4× wider reference gives BF 4, posterior unchanged (WIDTH-uniform, mpmath)', async () => {
+  it('stores the engine’s values: U(0,10) against a 4× wider comparison prior gives BF 4, posterior unchanged (WIDTH-uniform, mpmath)', async () => {
     const res = await analyst.post(`/api/quantities/${flowId}/impact`, {
-      datasetId, reference: { family: 'uniform', lower: 0, upper: 40 }, decision: { direction: 'above', threshold: 2.5, probability: 0.8 },
+      datasetId, comparison: { family: 'uniform', lower: 0, upper: 40 }, decision: { direction: 'above', threshold: 2.5, probability: 0.8 },
     })
     expect(res.status).toBe(200)
     expect(res.body.cached).toBe(false)
     const rec = res.body.candidates.find((c: { kind: string }) => c.kind === 'reconciled')
-    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'reference')
+    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'comparison')
     const data = { model: 'normal-known-sigma' as const, sigma: 2, values: X }
     const engine = analyzePrior({ family: 'uniform', lower: 0, upper: 10 }, data)
     expect(rec.logEvidence).toBe(engine.logEvidence)
@@ -187,7 +188,7 @@ describe('impact analysis', () => {
 
   it('returns the cached analysis for the same inputs', async () => {
     const again = await analyst.post(`/api/quantities/${flowId}/impact`, {
-      datasetId, reference: { family: 'uniform', lower: 0, upper: 40 }, decision: { direction: 'above', threshold: 2.5, probability: 0.8 },
+      datasetId, comparison: { family: 'uniform', lower: 0, upper: 40 }, decision: { direction: 'above', threshold: 2.5, probability: 0.8 },
     })
     expect(again.body.cached).toBe(true)
     expect((await h.db('impact_analyses').where({ quantity_id: flowId })).length).toBe(1)
@@ -195,7 +196,7 @@ describe('impact analysis', () => {
 
   it('flags a prior that conflicts with the data and one that dominates it', async () => {
     await h.db('reconciliations').where({ quantity_id: flowId }).update({ family: 'normal', distribution: JSON.stringify({ family: 'normal', mu: 10, sigma: 0.3 }) })
-    const res = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId, reference: { family: 'normal', mu: 3, sigma: 20 } })
+    const res = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId, comparison: { family: 'normal', mu: 3, sigma: 20 } })
     const rec = res.body.candidates.find((c: { kind: string }) => c.kind === 'reconciled')
     // ESS = σ²/τ² = 4/0.09 ≈ 44.4 > n = 5 (Morita, Thall & Müller 2008); Box p for N(10, 0.3²): z = (3 − 10)/√(0.09 + 0.8) ≈ −7.4
     // (values from fixtures/generate_impact_checks.py, scipy).
@@ -207,28 +208,74 @@ describe('impact analysis', () => {
 
   it('adds a robust mixture whose evidence is the weighted sum of its parts', async () => {
     const res = await analyst.post(`/api/quantities/${flowId}/impact`, {
-      datasetId, reference: { family: 'normal', mu: 3, sigma: 20 }, mixtureWeight: 0.2, mixtureVague: { family: 'normal', mu: 3, sigma: 20 },
+      datasetId, comparison: { family: 'normal', mu: 3, sigma: 20 }, mixtureWeight: 0.2, mixtureWide: { family: 'normal', mu: 3, sigma: 20 },
     })
     const mix = res.body.candidates.find((c: { kind: string }) => c.kind === 'mixture')
     const rec = res.body.candidates.find((c: { kind: string }) => c.kind === 'reconciled')
-    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'reference')
+    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'comparison')
     const expected = Math.log(0.8 * Math.exp(rec.logEvidence) + 0.2 * Math.exp(ref.logEvidence))
     expect(mix.logEvidence).toBeCloseTo(expected, 10)
+    expect(mix.label).toBe('Robust mixture (20 % on the wide component)')
+    expect(ref.label).toBe('Comparison prior')
     // Outside values (scipy, fixtures/generate_impact_checks.py): the data outweigh N(10, 0.3²) by ~1e10, so the mixture's
-    // posterior is the vague component's and its mean is 3.0000000006.
+    // posterior is the wide component's and its mean is 3.0000000006.
     const mixed = outside.mixture_0_8_normal_10_0_3_and_0_2_normal_3_20
     expect(mix.logEvidence).toBeCloseTo(mixed.log_evidence, 9)
     expect(mix.posterior.mean).toBeCloseTo(mixed.posterior_mean, 8)
   })
 
-  it('refuses a dataset of another quantity and an invalid reference, and is closed to experts', async () => {
+  it('refuses a dataset of another quantity and an invalid comparison prior, and is closed to experts', async () => {
     const other = (await h.db('pilot_datasets').where({ quantity_id: shareId }).first('id')).id
-    const wrong = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId: other, reference: { family: 'normal', mu: 0, sigma: 1 } })
+    const wrong = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId: other, comparison: { family: 'normal', mu: 0, sigma: 1 } })
     expect(wrong.body.error.fields).toEqual({ datasetId: 'Choose a dataset of this quantity' })
-    const bad = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId, reference: { family: 'normal', mu: 0, sigma: -1 } })
+    const bad = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId, comparison: { family: 'normal', mu: 0, sigma: -1 } })
     expect(bad.status).toBe(400)
-    expect(Object.keys(bad.body.error.fields)[0]).toMatch(/^reference/)
+    expect(Object.keys(bad.body.error.fields)[0]).toMatch(/^comparison/)
     const expert = await signedIn(h, 'expert1@kestrel.example')
-    expect((await expert.post(`/api/quantities/${flowId}/impact`, { datasetId, reference: { family: 'normal', mu: 0, sigma: 1 } })).status).toBe(403)
+    expect((await expert.post(`/api/quantities/${flowId}/impact`, { datasetId, comparison: { family: 'normal', mu: 0, sigma: 1 } })).status).toBe(403)
+  })
+})
+
+// Outside values: tests/unit/stats/fixtures/conflict.json (mpmath at 50 digits, generate_conflict.py).
+describe('strong prior–data conflict on the impact route', () => {
+  const conflict = (model: string, family: string) => (conflictFixture.cases as { model: string; prior: { family: string; lower?: number }; logEvidence: number; logBoxP: number }[])
+    .find((c) => c.model === model && c.prior.family === family && (family !== 'uniform' || c.prior.lower === 0))!
+  /** A study of its own with one quantity and one uploaded dataset (a single Kestrel Valley district). */
+  async function conflictDataset(kind: string, mapping: Record<string, string>, text: string) {
+    const sid = (await analyst.post('/api/studies', { title: `engine conflict ${kind}`, context: 'Prior far from the data.' }).expect(201)).body.id
+    const qid = (await analyst.post(`/api/studies/${sid}/quantities`, {
+      name: `engine ${kind}`, symbol: 'q', unit: '', question: 'What is this quantity for the Kestrel Valley network?', support: { kind },
+    }).expect(201)).body.id as number
+    let req = analyst.agent.post(`/api/studies/${sid}/datasets`).set('x-csrf-token', analyst.token)
+    for (const [k, v] of Object.entries({ quantityId: String(qid), name: `engine ${kind} data`, ...mapping })) req = req.field(k, v)
+    const ds = await req.attach('file', csv(text), { filename: `engine-${kind}.csv`, contentType: 'text/csv' })
+    expect(ds.status).toBe(201)
+    return { qid, datasetId: ds.body.id as number }
+  }
+
+  it('answers 200 with the evidence, ln p and the conflict flag for a uniform(0, 0.01) prior and 900 of 1000', async () => {
+    const { qid, datasetId } = await conflictDataset('proportion', { model: 'binomial', binomialLayout: 'counts', successesColumn: 'joined', trialsColumn: 'asked' }, 'district,joined,asked\nKV-01,900,1000\n')
+    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId, comparison: { family: 'uniform', lower: 0, upper: 0.01 } })
+    expect(res.status).toBe(200)
+    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'comparison')
+    const expected = conflict('binomial', 'uniform')
+    expect(ref.logEvidence).toBeCloseTo(expected.logEvidence, 6)
+    expect(ref.logEvidence).toBeCloseTo(-3830.547298, 6)
+    expect(ref.logPriorPredictiveP).toBeCloseTo(expected.logBoxP, 6)
+    expect(ref.priorPredictiveP).toBe(0)
+    expect(ref.flags).toContain('prior-data-conflict')
+    expect(res.body.findings).toContain("Comparison prior: the pilot data sit in the tail of what this prior predicts (Box's prior predictive p is about 10^-1663, practically zero); prior and data conflict.")
+  })
+
+  it('answers 200 for a uniform(0, 1) prior on a rate against a count of 10,000', async () => {
+    const { qid, datasetId } = await conflictDataset('positive', { model: 'poisson', countColumn: 'bursts', exposureColumn: 'km' }, 'district,bursts,km\nKV-01,10000,1\n')
+    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId, comparison: { family: 'uniform', lower: 0, upper: 1 } })
+    expect(res.status).toBe(200)
+    const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'comparison')
+    const expected = conflict('poisson', 'uniform')
+    expect(ref.logEvidence).toBeCloseTo(expected.logEvidence, 6)
+    expect(ref.logPriorPredictiveP).toBeCloseTo(expected.logBoxP, 6)
+    expect(ref.flags).toContain('prior-data-conflict')
+    expect(res.body.findings.some((f: string) => /10\^-35664, practically zero\); prior and data conflict\.$/.test(f))).toBe(true)
   })
 })

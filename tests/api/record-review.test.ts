@@ -102,7 +102,7 @@ beforeAll(async () => {
     .attach('file', Buffer.from('district,bursts,km_years\nKV-01,3,12.5\nKV-02,5,14\nKV-03,2,9.5\n'), { filename: 'bursts.csv', contentType: 'text/csv' })
   expect(upload.status).toBe(201)
   datasetId = (await h.db('pilot_datasets').where({ quantity_id: q.bursts }).first('id')).id
-  await analyst.post(`/api/quantities/${q.bursts}/impact`, { datasetId, reference: { family: 'gamma', shape: 0.5, rate: 0.05 } }).expect(200)
+  await analyst.post(`/api/quantities/${q.bursts}/impact`, { datasetId, comparison: { family: 'gamma', shape: 0.5, rate: 0.05 } }).expect(200)
   // Uptake has no pilot data here: the record needs the analyst's reason why no impact analysis was run.
   await analyst.put(`/api/quantities/${q.uptake}/impact/not-run`, { reason: 'No pilot survey of uptake exists yet; the first survey is planned for next spring.' }).expect(200)
 }, 60_000)
@@ -206,14 +206,14 @@ describe('review by e-mail, with comments answered', () => {
   })
 
   it('returning sends one e-mail to each analyst, and the record says it was returned with comments', async () => {
-    const res = await reviewer.post(`/api/studies/${studyId}/record/return`, { section: 'Burst rate (bursts)', comment: 'Say why the reference prior is Gamma(0.5, 0.05).' }).expect(200)
+    const res = await reviewer.post(`/api/studies/${studyId}/record/return`, { section: 'Burst rate (bursts)', comment: 'Say why the comparison prior is Gamma(0.5, 0.05).' }).expect(200)
     expect(res.body.record).toMatchObject({ status: 'draft', returned: true })
     returnCommentId = res.body.comments.find((c: { kind: string }) => c.kind === 'return').id
     expect(res.body.record.openComments).toEqual([returnCommentId])
     const rows = await mailFor('record-returned')
     expect(rows.map((r) => r.to_address)).toEqual(['analyst@kestrel.example'])
     const delivered = await waitFor('the return e-mail', async () => fake.messages.find((m) => m.to === 'analyst@kestrel.example' && m.subject.startsWith('Prior record returned')))
-    expect(delivered.text).toContain('Say why the reference prior is Gamma(0.5, 0.05).')
+    expect(delivered.text).toContain('Say why the comparison prior is Gamma(0.5, 0.05).')
   })
 
   it('refuses to resubmit until each comment is answered, with a field error per comment', async () => {
@@ -234,7 +234,7 @@ describe('review by e-mail, with comments answered', () => {
   })
 
   it('resubmits with the answer stored beside the comment; the reviewers are told again', async () => {
-    const reply = 'The reference is a vague gamma with mean 10 bursts per km-year; the rationale now says so.'
+    const reply = 'The comparison prior is a wide gamma with mean 10 bursts per km-year; the rationale now says so.'
     const res = await analyst.post(`/api/studies/${studyId}/record/submit`, { responses: [{ commentId: returnCommentId, outcome: 'not-changed', reply }] }).expect(200)
     expect(res.body.record).toMatchObject({ status: 'in_review', returned: false, openComments: [] })
     expect(res.body.comments.find((c: { kind: string }) => c.kind === 'response')).toMatchObject({ replyTo: returnCommentId, outcome: 'not-changed', body: reply, author: 'Priya Natarajan' })
@@ -306,6 +306,6 @@ describe('the .docx a reviewer keeps', () => {
   it('names experts by their study label, with the comment and its answer in the review table', () => {
     expect(text).toContain('Expert A')
     expect(text).not.toMatch(/Helen Okafor|Tomasz Wierzbicki|\bE1\b/)
-    expect(text).toContain('Not changed: The reference is a vague gamma')
+    expect(text).toContain('Not changed: The comparison prior is a wide gamma')
   })
 })

@@ -42,7 +42,7 @@ describe('text the database cannot store is refused at validation, naming the fi
       ['round briefing', analyst, 'patch', `/api/rounds/${round}`, { briefing: LONE_HIGH, version: 2 }, 'briefing'],
       ['record comment', analyst, 'post', `/api/studies/${studyId}/record/comments`, { section: 'General', body: LONE_LOW }, 'body'],
       ['answer rationale', expert, 'put', `/api/rounds/${round}/judgements/${q}`, { method: 'quantile', lower: 0, upper: 10, points: [], rationale: LONE_HIGH, version: 1 }, 'rationale'],
-      ['a key inside a distribution', analyst, 'post', `/api/quantities/${q}/impact`, { datasetId: Number(f.params['datasets/:id']), reference: { family: 'normal', mu: 0, sigma: 10, ['x\ud800']: 1 } }, 'reference.x\ud800'],
+      ['a key inside a distribution', analyst, 'post', `/api/quantities/${q}/impact`, { datasetId: Number(f.params['datasets/:id']), comparison: { family: 'normal', mu: 0, sigma: 10, ['x\ud800']: 1 } }, 'comparison.x\ud800'],
       ['a value in a list', analyst, 'post', `/api/rounds/${round}/invitations`, { email: 'whole-writes.panel@kestrel.example', name: 'Ingrid \udfff Berg' }, 'name'],
     ]
   }

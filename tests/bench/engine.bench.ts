@@ -1,5 +1,5 @@
 // Speed benchmark of the statistics engine (not a test): `npm run bench`.
-// Prints fitting times, a width sweep per data model, Cooke weights, and — where python3 with scipy is installed —
+// Prints fitting times, a width sweep per data model, the fractional Bayes factor and power-scaling sensitivity, Cooke weights, and — where python3 with scipy is installed —
 // the same least-squares fits done by scipy.optimize.least_squares for comparison.
 import { spawnSync } from 'node:child_process'
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
@@ -15,6 +15,9 @@ import {
   fitAll,
   fitDistribution,
   fittingStarts,
+  fractionalBayesFactor,
+  POWER_SCALING_THRESHOLD,
+  powerScalingSensitivity,
   quantile,
   widthSweep,
   type Family,
@@ -204,6 +207,33 @@ for (const s of sweeps) {
   let flagged = 0
   for (const prior of s.priors) if (widthSweep(prior, s.data, factors, s.support).priorDriven) flagged++
   console.log(`  ${s.label.padEnd(42)} ${fmt(performance.now() - start).padStart(9)}   (${flagged} of 10 flagged prior-driven)`)
+}
+
+// Fractional Bayes factor (each prior against the first, default b) and power-scaling sensitivity for the same 10 priors
+// per data model, timed apart for the conjugate priors (closed forms) and the others (quadrature).
+console.log('')
+console.log('Fractional Bayes factor + power-scaling sensitivity, 10 candidates per data model')
+for (const s of sweeps) {
+  powerScalingSensitivity(s.priors[0], s.data)
+  const conjugate = (p: PriorDistribution): boolean =>
+    (s.data.model === 'normal-known-sigma' && (p.family === 'normal' || p.family === 'uniform')) ||
+    (s.data.model === 'binomial' && (p.family === 'beta' || ((p.family === 'uniform' || p.family === 'scaled-beta') && p.lower === 0 && p.upper === 1))) ||
+    (s.data.model === 'poisson' && p.family === 'gamma')
+  const times = { closed: 0, quadrature: 0, nClosed: 0, nQuadrature: 0 }
+  let sensitive = 0
+  const start = performance.now()
+  for (const prior of s.priors) {
+    const t0 = performance.now()
+    fractionalBayesFactor(prior, s.priors[0], s.data)
+    if (powerScalingSensitivity(prior, s.data).prior >= POWER_SCALING_THRESHOLD) sensitive++
+    const kind = conjugate(prior) ? 'closed' : 'quadrature'
+    times[kind] += performance.now() - t0
+    times[kind === 'closed' ? 'nClosed' : 'nQuadrature']++
+  }
+  console.log(
+    `  ${s.label.padEnd(42)} ${fmt(performance.now() - start).padStart(9)} for 10` +
+    `   (closed form ${times.nClosed}: ${fmt(times.closed)}; quadrature ${times.nQuadrature}: ${fmt(times.quadrature)}; ${sensitive} prior-sensitive)`,
+  )
 }
 
 // Cooke's classical model: 20 experts × 15 calibration questions.

@@ -118,7 +118,7 @@ function impactLoad(seconds = SECONDS) {
     headers: { cookie: analyst.cookie, 'x-csrf-token': analyst.token, 'content-type': 'application/json' },
     requests: [{
       method: 'POST', path: `/api/quantities/${quantity.id}/impact`,
-      setupRequest: (req) => ({ ...req, body: JSON.stringify({ datasetId: dataset.id, reference: { family: 'gamma', shape: 1, rate: 0.05 }, decision: { direction: 'above', threshold: 3 + (k++ % 1000) / 1000, probability: 0.8 } }) }),
+      setupRequest: (req) => ({ ...req, body: JSON.stringify({ datasetId: dataset.id, comparison: { family: 'gamma', shape: 1, rate: 0.05 }, decision: { direction: 'above', threshold: 3 + (k++ % 1000) / 1000, probability: 0.8 } }) }),
     }],
   })
 }

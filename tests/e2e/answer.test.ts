@@ -7,6 +7,7 @@ import { formatValue } from '../../src/rounds/numbers'
 import { openBrowser, signInAs, type BrowserSession, completeEntry, field, inPage, type Call, keepFailureEvidence } from '../support/browser'
 import { expectAccessible } from '../support/axe'
 import { expectPhoneLayout } from '../support/phone'
+import { handleCentre, mouseDrag, screenX } from '../support/answer-line'
 
 /**
  * The expert answering screen in chromium. The analyst sets up a round on the demo study through the API (from the
@@ -175,9 +176,20 @@ describe('answering a round', () => {
 
     await field(page, 'q-upper').fill('25')
     await expect(page.getByTestId('q-problem').count()).resolves.toBe(0)
+    // The typed range sits on the number line as two named sliders; the middle value is not asked yet.
+    const sliders = page.locator('[data-testid="answer-line"] [role="slider"]')
+    await expect.poll(() => sliders.evaluateAll((els) => els.map((e) => [e.getAttribute('aria-label'), e.getAttribute('aria-valuenow')]))).toEqual([
+      ['Lowest plausible value', '4'],
+      ['Highest plausible value', '25'],
+    ])
     await page.getByTestId('q-next').click()
     await field(page, 'q-median').fill('10')
     await expect(page.getByTestId('q-q1').count()).resolves.toBe(0)
+    await expect(page.getByTestId('handle-q1').count()).resolves.toBe(0)
+    expect(await page.getByTestId('q-statement').allInnerTexts()).toEqual([
+      'You would be very surprised if it were below 4 bursts per 100 km per year or above 25 bursts per 100 km per year.',
+      'You think it is as likely to be below 10 bursts per 100 km per year as above.',
+    ])
     await waitSaved(page)
   })
 
@@ -207,17 +219,40 @@ describe('answering a round', () => {
     expect(before[0]).toMatch(/^You are saying there is a 1 in 4 chance that the burst rate of old cast-iron mains is below [\d.]+ bursts per 100 km per year\.$/)
     expect(before[2]).toMatch(/1 in 10 chance that it is above [\d.]+ bursts per 100 km per year\.$/)
     expect(await page.getByTestId('fit-quality').innerText()).toBe('Close fit — the curve passes close to your values.')
-    // Experts read shapes in words, never family names or error sums.
-    const options = await page.locator('[data-testid="family-option"]').allInnerTexts()
-    expect(options.join(' ')).not.toMatch(/SSE|normal|gamma|squared/i)
-    expect(options.some((o) => /stretched towards high values/i.test(o))).toBe(true)
+    // Experts read the drawn shape in words, on the line's own axis; no list of families, error sums or ranking.
+    await page.getByTestId('answer-line-curve').waitFor()
+    expect(await page.getByTestId('answer-line-shape').innerText()).toBe('Shaded: the shape drawn through your values, stretched towards high values.')
+    await expect(page.locator('[data-testid="family-option"]').count()).resolves.toBe(0)
+    expect(await page.getByTestId('quantity-screen').innerText()).not.toMatch(/best fit|\bSSE\b|squared|lognormal|gamma/i)
     expect(await page.getByTestId('quantity-screen').innerText()).toMatch(/How you answer: a range, then a middle value/i)
     expect(await page.getByTestId('feedback-card').getAttribute('data-family')).toBe('lognormal')
-    await expect(page.locator('[data-testid="family-option"]').count()).resolves.toBe(3)
 
-    // A wider upper quartile moves the statements.
-    await field(page, 'q-q3').fill('16')
+    // A wider upper quartile, dragged on the line with the mouse, moves the field and the statements.
+    await mouseDrag(page, 'q3', await screenX(page, 16, ['lower', 'upper']))
+    await expect.poll(() => field(page, 'q-q3').inputValue()).toBe('16')
+    expect(await page.getByTestId('handle-q3').getAttribute('aria-valuenow')).toBe('16')
     await statementChanged(page, 2, before)
+    expect(await page.getByTestId('q-statement').allInnerTexts()).toContain('1 chance in 4 it is above 16 bursts per 100 km per year.')
+
+    // The arrow keys move a handle by one step (0.5 on this line) and never past its neighbours.
+    await page.getByTestId('handle-median').focus()
+    await page.keyboard.press('ArrowRight')
+    await page.keyboard.press('ArrowRight')
+    await expect.poll(() => field(page, 'q-median').inputValue()).toBe('11')
+    await page.keyboard.press('ArrowLeft')
+    await page.keyboard.press('ArrowLeft')
+    await expect.poll(() => field(page, 'q-median').inputValue()).toBe('10')
+    // A drag far past the upper quarter stops just before it.
+    await mouseDrag(page, 'median', (await handleCentre(page, 'upper')).x)
+    await expect.poll(() => field(page, 'q-median').inputValue()).toBe('15.5')
+    await field(page, 'q-median').fill('10')
+    await expect.poll(() => page.getByTestId('handle-median').getAttribute('aria-valuenow')).toBe('10')
+    await expect
+      .poll(async () => {
+        const saved = (await savedJudgements(page, setup.roundId)).find((j) => j.quantityId === setup.burst)!
+        return (saved.answer.points as { value: number; prob: number }[]).map((p) => p.value)
+      })
+      .toEqual([8, 10, 16])
     await waitSaved(page)
   })
 
@@ -230,17 +265,14 @@ describe('answering a round', () => {
     expect(await page.getByTestId('feedback-q95').innerText()).toBe(`${formatValue(quantile(saved.fits[0].distribution, 0.95))} bursts per 100 km per year`)
   })
 
-  it('lets the expert pick another fitted family and writes the rationale', async () => {
+  it('keeps the family choice for the analyst, and writes the rationale', async () => {
     const { page } = expert1
-    const before = await statements(page)
-    await page.locator('[data-testid="family-option"][data-family="gamma"]').click()
-    await expect.poll(() => page.getByTestId('feedback-card').getAttribute('data-family')).toBe('gamma')
-    await statementChanged(page, 0, before)
     await field(page, 'rationale').fill('Burst logs 2015–2025 and the neighbouring boards’ reports for similar stock.')
     await waitSaved(page)
     await expect.poll(() => rail(page, `q-${setup.burst}`).getAttribute('data-status')).toBe('complete')
     const saved = (await savedJudgements(page, setup.roundId)).find((j) => j.quantityId === setup.burst)!
-    expect(saved.chosenFamily).toBe('gamma')
+    expect(saved.chosenFamily).toBeNull()
+    expect(saved.answer).toEqual({ lower: 4, upper: 25, points: [{ value: 8, prob: 0.25 }, { value: 10, prob: 0.5 }, { value: 16, prob: 0.75 }] })
     await shot(expert1, 'answer-02-quantile')
     await expectAccessible(expert1.page, '02-quantile')
   })
@@ -277,6 +309,9 @@ describe('answering a round', () => {
     await expect(page.getByTestId('interval-prob').count()).resolves.toBe(5)
     const prob = (i: number) => page.getByTestId('interval-prob').nth(i).locator('input')
     for (const [i, p] of ['10', '30', '30', '20'].entries()) await prob(i).fill(p)
+    // The percentage fields line up in one column, whatever the length of each interval's label.
+    const lefts = await page.getByTestId('interval-prob').locator('input').evaluateAll((els) => els.map((e) => Math.round(e.getBoundingClientRect().left)))
+    expect(new Set(lefts).size).toBe(1)
     expect(await page.getByTestId('interval-remaining').innerText()).toBe('Remaining: 10 %')
     await expect(page.getByTestId('feedback-statement').count()).resolves.toBe(0)
     await waitSaved(page)

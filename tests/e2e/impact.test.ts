@@ -182,7 +182,7 @@ describe('pilot data and impact analysis', () => {
     await page.waitForURL(new RegExp(`/studies/${studyId}/impact/${quantityId}$`))
     await page.getByTestId('impact-run').waitFor()
     expect(await page.getByTestId('impact-dataset').innerText()).toContain('v1 · Burst logs 2025, eight districts')
-    expect(await page.getByTestId('impact-reference-family').innerText()).toContain('Gamma')
+    expect(await page.getByTestId('impact-comparison-family').innerText()).toContain('Gamma')
 
     await page.getByTestId('impact-mixture-on').click()
     await field(page, 'mixture-weight').fill('0.2')
@@ -196,7 +196,7 @@ describe('pilot data and impact analysis', () => {
     const table = page.getByTestId('impact-table')
     await table.waitFor({ timeout: 30_000 })
     const kinds = await page.getByTestId('candidate-row').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-kind')))
-    expect(kinds).toEqual(['expert', 'expert', 'expert', 'pooled', 'reconciled', 'reference', 'mixture'])
+    expect(kinds).toEqual(['expert', 'expert', 'expert', 'pooled', 'reconciled', 'comparison', 'mixture'])
     expect(await page.locator('[data-testid="candidate-row"][data-kind="reconciled"]').innerText()).toMatch(/\d/)
     await expect(page.getByTestId('impact-progress').count()).resolves.toBe(0)
 

@@ -5,6 +5,7 @@ import { DEMO_STUDY_TITLE } from '../../seeds/demo'
 import { openBrowser, signInAs, field, inPage, type BrowserSession, type Call, keepFailureEvidence } from '../support/browser'
 import { expectAccessible } from '../support/axe'
 import { expectPhoneLayout, PHONES } from '../support/phone'
+import { screenX, touchDrag } from '../support/answer-line'
 
 /**
  * The expert's pages on phones (360 × 740 and 390 × 844): one expert per screen size walks a round from the sign-in
@@ -164,6 +165,21 @@ describe.each(PHONES.map((p, i) => ({ ...p, email: `expert${i + 1}@kestrel.examp
     await field(page, 'q-p05').fill('6')
     await field(page, 'q-p95').fill('22')
     await expect.poll(() => page.getByTestId('feedback-card').getAttribute('data-ready')).toBe('true')
+    // The middle value dragged with a finger on the number line: the field follows, and the server stores it.
+    // Centred on the screen, clear of the feedback docked at the bottom.
+    await page.getByTestId('handle-median').evaluate((el) => el.scrollIntoView({ block: 'center' }))
+    await touchDrag(page, 'median', await screenX(page, 12, ['lower', 'upper']))
+    await expect.poll(async () => Number(await field(page, 'q-median').inputValue())).toBeGreaterThanOrEqual(11.5)
+    const dragged = Number(await field(page, 'q-median').inputValue())
+    expect(dragged).toBeLessThanOrEqual(12.5)
+    expect(await page.getByTestId('handle-median').getAttribute('aria-valuenow')).toBe(String(dragged))
+    type Saved = { answer: { points?: { value: number; prob: number }[] } }[]
+    const savedMedians = async () => {
+      const saved = await inPage(page, (call: Call, args: { roundId: number }) => call<Saved>('GET', `/api/rounds/${args.roundId}/judgements`), { roundId: setup.roundId })
+      return saved.flatMap((j) => j.answer.points ?? []).filter((p) => p.prob === 0.5).map((p) => p.value)
+    }
+    await expect.poll(savedMedians, { timeout: 10_000 }).toContain(dragged)
+    await check(s, at('07b-quantile-line-touch'))
     // The summary of the fit sits on screen together with the field just typed in, without scrolling.
     await field(page, 'q-p95').scrollIntoViewIfNeeded()
     const onScreen = await page.evaluate(() => {

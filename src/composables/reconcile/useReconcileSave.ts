@@ -1,4 +1,5 @@
 import { ref, watch, type Ref } from 'vue'
+import { RECONCILED_NEEDS, RECONCILED_RATIONALE_MIN } from '@shared/schemas/reconciliation'
 import { ApiError, errorMessage } from '@/api/client'
 import type { ReconciliationSaveBody, ReconciliationView } from '@/api/reconciliation'
 import { useReconciliationStore } from '@/stores/reconciliation'
@@ -11,7 +12,6 @@ const KNOWN_FIELDS = [
   'roundId', 'method', 'weights', 'weightsReason', 'cutoff', 'excludedExperts', 'consensus', 'consensus.points', 'consensus.participants',
   'consensus.notes', 'family', 'distribution', 'adjustReason', 'rationale',
 ] as const
-const RATIONALE_MIN = 20
 const INVALID = 'Some choices need attention; see the messages in the sections above.'
 
 /**
@@ -32,11 +32,11 @@ export function useReconcileSave(view: Ref<ReconciliationView | null>, quantityI
     if (reconciled) {
       let blocked = false
       if (!form.family.value) {
-        form.setFieldError('family', 'Choose the family of the final prior')
+        form.setFieldError('family', RECONCILED_NEEDS.family)
         blocked = true
       }
-      if ((form.rationale.value ?? '').trim().length < RATIONALE_MIN) {
-        form.setFieldError('rationale', 'Explain the choice in at least 20 characters; it goes into the prior record')
+      if ((form.rationale.value ?? '').trim().length < RECONCILED_RATIONALE_MIN) {
+        form.setFieldError('rationale', RECONCILED_NEEDS.rationale)
         blocked = true
       }
       if (blocked) {

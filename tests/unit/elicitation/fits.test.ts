@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { fitAnswer, plausibleRange } from '@shared/elicitation/answers'
 import { PLAUSIBLE_BOUND_PROB } from '@shared/elicitation/bounds'
-import { BOUND_WEIGHT, criterionPoints, judgeFit, MAX_OUTSIDE_SHARE, NEAR_TIE, orderFits } from '@shared/elicitation/fits'
+import { BOUND_WEIGHT, chosenFit, criterionPoints, judgeFit, MAX_OUTSIDE_SHARE, NEAR_TIE, orderFits } from '@shared/elicitation/fits'
 import { cdf, pdf, sf, sumSquaredError, type Distribution, type FitResult, type Support } from '@shared/stats'
 
 const quartiles = (q: number[]) => q.map((value, i) => ({ value, prob: [0.25, 0.5, 0.75][i] }))
@@ -116,5 +116,23 @@ describe('the default-fit rule (constructed cases)', () => {
     expect(box.contradicts).toBe(true)
     expect(box.warnings[0]).toMatch(/^This shape says values (above|below) [\d.]+ are impossible, but your answer gives some chance to values (up|down) to (10|0)\.$/)
     expect(fits[0].distribution.family).not.toBe('uniform')
+  })
+})
+
+describe('the fit shown for an expert (Priorsmith convention: the chosen family, else the best; constructed cases)', () => {
+  const fits = [
+    { distribution: { family: 'gamma' as const, shape: 4, rate: 2 }, sse: 1e-4 },
+    { distribution: { family: 'lognormal' as const, mu: 0.6, sigma: 0.5 }, sse: 3e-4 },
+  ]
+  it('takes the family the expert chose', () => {
+    expect(chosenFit(fits, 'lognormal')).toBe(fits[1])
+  })
+  it('falls back to the best (first) fit when nothing was chosen or the chosen family was not fitted', () => {
+    expect(chosenFit(fits, null)).toBe(fits[0])
+    expect(chosenFit(fits, undefined)).toBe(fits[0])
+    expect(chosenFit(fits, 'beta')).toBe(fits[0])
+  })
+  it('gives null when nothing was fitted', () => {
+    expect(chosenFit([], 'gamma')).toBeNull()
   })
 })

@@ -14,11 +14,11 @@ describe('distributions one cannot compute with', () => {
     ['uniform(-1e308, -1e308)', { family: 'uniform', lower: -1e308, upper: -1e308 }],
   ]
   it.each(improper)('%s is refused with the field named', (_, d) => {
-    expect(() => validateDistribution(d, 'reference')).toThrow(EngineInputError)
+    expect(() => validateDistribution(d, 'comparison')).toThrow(EngineInputError)
     try {
-      validateDistribution(d, 'reference')
+      validateDistribution(d, 'comparison')
     } catch (err) {
-      expect((err as EngineInputError).field).toBe('reference')
+      expect((err as EngineInputError).field).toBe('comparison')
     }
   })
 

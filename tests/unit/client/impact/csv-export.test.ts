@@ -5,7 +5,7 @@ import type { ImpactResult } from '@/api/impact'
 const candidate = (over: Partial<ImpactResult['candidates'][number]>): ImpactResult['candidates'][number] => ({
   key: 'reconciled', label: 'Reconciled prior', kind: 'reconciled', prior: { family: 'gamma', shape: 6, rate: 0.5 },
   priorSummary: { mean: 12, q025: 4.4, q975: 23.3 }, logEvidence: -18.5, method: 'closed-form',
-  posterior: { mean: 10.4, sd: 1.09, q025: 8.3, q50: 10.3, q975: 12.6 }, priorPredictiveP: 0.45, priorEss: 0.5,
+  posterior: { mean: 10.4, sd: 1.09, q025: 8.3, q50: 10.3, q975: 12.6 }, priorPredictiveP: 0.45, logPriorPredictiveP: Math.log(0.45), priorEss: 0.5,
   bayesFactor: { logBF: Math.log(4), twoLnBF: 2 * Math.log(4), label: 'positive' }, decision: null, flags: [],
   ...over,
 })
@@ -37,7 +37,7 @@ describe('CSV export of the candidates table', () => {
       n: 8,
       candidates: [
         candidate({}),
-        candidate({ key: 'reference', label: 'Reference prior', kind: 'reference', bayesFactor: null, priorEss: 20, flags: ['prior-dominates', 'prior-data-conflict'] }),
+        candidate({ key: 'comparison', label: 'Comparison prior', kind: 'comparison', bayesFactor: null, priorEss: 20, flags: ['prior-dominates', 'prior-data-conflict'] }),
       ],
     }
     const csv = candidatesCsv(candidateRows(result), 'bursts per 100 km, per year')

@@ -6,7 +6,7 @@ import type { ImpactCandidate } from '@/api/impact'
 
 const candidate = (kind: ImpactCandidate['kind'], prior: ImpactCandidate['prior']): ImpactCandidate => ({
   key: kind, label: kind, kind, prior, priorSummary: { mean: 0, q025: 0, q975: 0 }, logEvidence: 0, method: 'closed-form',
-  posterior: { mean: 0, sd: 0, q025: 0, q50: 0, q975: 0 }, priorPredictiveP: 0.5, priorEss: null, bayesFactor: null, decision: null, flags: [],
+  posterior: { mean: 0, sd: 0, q025: 0, q50: 0, q975: 0 }, priorPredictiveP: 0.5, logPriorPredictiveP: Math.log(0.5), priorEss: null, bayesFactor: null, decision: null, flags: [],
 })
 const flow = { model: 'normal-known-sigma' as const, sigma: 2, values: [2.2, 3.5, 2.8, 3.9, 2.6] }
 
@@ -31,13 +31,13 @@ describe('densities drawn in the browser', () => {
     expect(m.pdf(0)).toBeCloseTo(pdf({ family: 'normal', mu: 0, sigma: 10 }, 0), 12)
   })
 
-  it('weights the robust mixture by weight and evidence and keeps the wide reference out of the x range', () => {
+  it('weights the robust mixture by weight and evidence and keeps the wide comparison prior out of the x range', () => {
     const rec = candidate('reconciled', { family: 'normal', mu: 3, sigma: 0.5 })
-    const mix = priorModel(candidate('mixture', rec.prior), flow, { mixtureWeight: 0.2, mixtureVague: { family: 'normal', mu: 3, sigma: 50 } })
+    const mix = priorModel(candidate('mixture', rec.prior), flow, { mixtureWeight: 0.2, mixtureWide: { family: 'normal', mu: 3, sigma: 50 } })
     expect(mix.pdf(3)).toBeCloseTo(0.8 * pdf(rec.prior, 3) + 0.2 * pdf({ family: 'normal', mu: 3, sigma: 50 }, 3), 12)
-    const ref = candidate('reference', { family: 'uniform', lower: -100, upper: 100 })
-    const [lo, hi] = chartRange([{ kind: 'reconciled', model: priorModel(rec, flow) }, { kind: 'reference', model: priorModel(ref, flow) }])
-    // The reference's posterior (≈ N(3.0, 0.894²)) sets the range, not the reference prior's ±100.
+    const ref = candidate('comparison', { family: 'uniform', lower: -100, upper: 100 })
+    const [lo, hi] = chartRange([{ kind: 'reconciled', model: priorModel(rec, flow) }, { kind: 'comparison', model: priorModel(ref, flow) }])
+    // The comparison prior's posterior (≈ N(3.0, 0.894²)) sets the range, not that prior's own ±100.
     expect(lo).toBeCloseTo(3 - 3.0902 * (2 / Math.sqrt(5)) - 0.04 * (hi - lo), 1)
     expect(hi).toBeLessThan(6.5)
     expect(lo).toBeLessThan(quantile(rec.prior, 0.005))
@@ -46,9 +46,9 @@ describe('densities drawn in the browser', () => {
 
   it('draws the robust mixture with the same prior and posterior quantiles as the server summary, to one tolerance', () => {
     const rec = { family: 'normal' as const, mu: 1.5, sigma: 0.4 }
-    const vague = { family: 'normal' as const, mu: 1.5, sigma: 40 }
-    const [server] = evaluateCandidates([{ key: 'mix', label: 'Mixture', kind: 'mixture', prior: rec, mixture: { components: [rec, vague], weights: [0.7, 0.3] } }], flow, null)
-    const drawn = priorModel(candidate('mixture', rec), flow, { mixtureWeight: 0.3, mixtureVague: vague })
+    const wide = { family: 'normal' as const, mu: 1.5, sigma: 40 }
+    const [server] = evaluateCandidates([{ key: 'mix', label: 'Mixture', kind: 'mixture', prior: rec, mixture: { components: [rec, wide], weights: [0.7, 0.3] } }], flow, null)
+    const drawn = priorModel(candidate('mixture', rec), flow, { mixtureWeight: 0.3, mixtureWide: wide })
     for (const [p, key] of [[0.025, 'q025'], [0.5, 'q50'], [0.975, 'q975']] as const) {
       expect(Math.abs(drawn.posterior.quantile(p) - server.posterior[key])).toBeLessThan(1e-13 * Math.max(1, Math.abs(server.posterior[key])))
     }

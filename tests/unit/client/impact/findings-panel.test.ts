@@ -9,7 +9,7 @@ import type { ImpactCandidate, ImpactResult } from '@/api/impact'
 const candidate = (over: Partial<ImpactCandidate>): ImpactCandidate => ({
   key: 'reconciled', label: 'Reconciled prior', kind: 'reconciled', prior: { family: 'uniform', lower: 0, upper: 10 },
   priorSummary: { mean: 5, q025: 0.25, q975: 9.75 }, logEvidence: -9.79, method: 'closed-form',
-  posterior: { mean: 3.0, sd: 0.89, q025: 1.25, q50: 3, q975: 4.75 }, priorPredictiveP: 0.3, priorEss: null,
+  posterior: { mean: 3.0, sd: 0.89, q025: 1.25, q50: 3, q975: 4.75 }, priorPredictiveP: 0.3, logPriorPredictiveP: Math.log(0.3), priorEss: null,
   bayesFactor: { logBF: Math.log(4), twoLnBF: 2.77, label: 'positive' }, decision: null, flags: [], ...over,
 })
 
@@ -27,17 +27,17 @@ const mountPanel = (r: ImpactResult) => mount(FindingsPanel, { props: { result: 
 
 describe('FindingsPanel', () => {
   it('lists plain-language findings beside the numbers, the server’s included', () => {
-    const w = mountPanel(result([candidate({}), candidate({ key: 'reference', label: 'Reference prior', kind: 'reference', bayesFactor: null })], false))
+    const w = mountPanel(result([candidate({}), candidate({ key: 'comparison', label: 'Comparison prior', kind: 'comparison', bayesFactor: null })], false))
     const items = w.get('[data-testid="impact-findings"]').findAll('li').map((li) => li.text())
     expect(items[0]).toBe('Under the reconciled prior the posterior mean of flow is 3 L/s (95 % interval 1.25 to 4.75); the prior alone said 5 (0.25 to 9.75).')
-    expect(items[1]).toContain('favour the reconciled prior over the reference by a Bayes factor of 4 (positive)')
+    expect(items[1]).toContain('favour the reconciled prior over the comparison prior by a Bayes factor of 4 (positive)')
     expect(items.at(-1)).toContain('divides the evidence by about 4.00')
   })
 
   it('shows each caution with the candidates it applies to, and the prior-driven rule where that flag shows', () => {
     const w = mountPanel(result([
       candidate({ flags: ['prior-driven-bayes-factor'] }),
-      candidate({ key: 'expert-1', label: 'Expert A', kind: 'expert', flags: ['prior-dominates', 'prior-data-conflict'], priorEss: 44.4, priorPredictiveP: 0.001 }),
+      candidate({ key: 'expert-1', label: 'Expert A', kind: 'expert', flags: ['prior-dominates', 'prior-data-conflict'], priorEss: 44.4, priorPredictiveP: 0.001, logPriorPredictiveP: Math.log(0.001) }),
     ], true))
     const cautions = w.get('[data-testid="impact-cautions"]')
     expect(cautions.findAll('[data-testid="impact-caution"]').map((c) => c.attributes('data-flag'))).toEqual(['prior-dominates', 'prior-data-conflict', 'prior-driven-bayes-factor'])

@@ -1,0 +1,426 @@
+// Fractional Bayes factors (O'Hagan 1995) and power-scaling sensitivity (Kallioinen, Paananen, Bürkner & Vehtari 2023),
+// for every data model of the engine and for two-component robust mixtures; formulas in docs/methods/sensitivity.md.
+import { logPdf, supportOf, toUnivariate } from './distributions'
+import { EngineInputError } from './errors'
+import {
+  asStandardBeta, hintOnU, logSumExp, normalStats, posteriorFromIntegral, priorScale, summarise, truncatedNormal, validateData,
+  type NormalStats, type Posterior, type PriorScale,
+} from './evidence'
+import { integrate, LogIntegral, type Hint } from './quadrature'
+import { lbeta, lgamma, logNormDiff, softplus } from './special'
+import type { PilotData, PosteriorSummary, PriorDistribution } from './types'
+
+/** A robust mixture prior: Σ wᵢ πᵢ(θ), weights summing to 1. */
+export type PriorMixture = { family: 'mixture'; components: PriorDistribution[]; weights: number[] }
+
+/** A candidate prior as the sensitivity tools take it: one distribution or a robust mixture. */
+export type CandidatePrior = PriorDistribution | PriorMixture
+
+export type FractionalBayesFactor = { logBF: number; b: number }
+
+export type SensitivityDiagnosis = 'none' | 'prior-data-conflict' | 'weak-likelihood' | 'likelihood-dominated'
+
+export type PowerScalingSensitivity = { prior: number; likelihood: number; diagnosis: SensitivityDiagnosis }
+
+/** Kallioinen et al. (2023), §4: a sensitivity of 0.05 or more counts as sensitive. */
+export const POWER_SCALING_THRESHOLD = 0.05
+
+/** Kallioinen et al. (2023), §3.3: the derivative is the finite difference between α = 1/1.01 and α = 1.01. */
+export const POWER_SCALING_STEP = 1.01
+
+/**
+ * Number of posterior draws whose expected extent bounds the cumulative distributions' integrals (Priorsmith's convention
+ * for a draw-free computation: 4000 draws, the default of four chains of 1000 in the paper's software).
+ */
+export const CJS_DRAWS = 4000
+
+// ─── Data ────────────────────────────────────────────────────────────────────────────────────────
+
+/** Minimal training sample size m₀ (O'Hagan 1995, §3): 1 for the one-parameter models, 2 for the normal with σ unknown. */
+export function minimalTrainingSize(data: PilotData): number {
+  return data.model === 'normal' ? 2 : 1
+}
+
+/** Number of observations n behind b = m₀/n: values (normal models), trials (binomial), counts (Poisson). */
+export function observationCount(data: PilotData): number {
+  switch (data.model) {
+    case 'normal-known-sigma':
+    case 'normal':
+      return data.values.length
+    case 'binomial':
+      return data.trials
+    case 'poisson':
+      return data.counts.length
+  }
+}
+
+/** O'Hagan's (1995, §3) default training fraction b = m₀/n; needs more observations than m₀. */
+export function defaultTrainingFraction(data: PilotData): number {
+  const n = observationCount(data)
+  const m0 = minimalTrainingSize(data)
+  if (!(n > m0))
+    throw new EngineInputError('b', `The default training fraction m₀/n needs more than ${m0} observation${m0 > 1 ? 's' : ''}; give a training fraction between 0 and 1.`)
+  return m0 / n
+}
+
+function requireTrainingFraction(b: number): void {
+  if (typeof b !== 'number' || !Number.isFinite(b)) throw new EngineInputError('b', 'The training fraction b must be a finite number.')
+  if (!(b > 0 && b < 1)) throw new EngineInputError('b', 'The training fraction b must be greater than 0 and less than 1.')
+}
+
+function requireAlpha(alpha: number): void {
+  if (typeof alpha !== 'number' || !Number.isFinite(alpha)) throw new EngineInputError('alpha', 'The power α must be a finite number.')
+  if (!(alpha > 0)) throw new EngineInputError('alpha', 'The power α must be greater than 0.')
+}
+
+function validateCandidate(prior: CandidatePrior, data: PilotData): void {
+  if (prior && prior.family === 'mixture') {
+    const { components, weights } = prior
+    if (!Array.isArray(components) || components.length < 1 || !Array.isArray(weights) || weights.length !== components.length)
+      throw new EngineInputError('prior', 'A mixture needs one weight per component.')
+    weights.forEach((w) => {
+      if (!(w > 0 && Number.isFinite(w))) throw new EngineInputError('prior', 'Mixture weights must be positive numbers.')
+    })
+    if (Math.abs(weights.reduce((s, w) => s + w, 0) - 1) > 1e-9) throw new EngineInputError('prior', 'Mixture weights must add up to 1.')
+    components.forEach((c) => validateData(c, data))
+    return
+  }
+  validateData(prior, data)
+}
+
+// ─── A prior on its unconstrained scale, its density on θ kept apart from the Jacobian ───────────
+
+/** log |dθ/du| of priorScale's transform: 0 (real line), u (θ = eᵘ), ln(U − L) + ln σ(u) + ln σ(−u) (bounded). */
+function logJacobian(prior: PriorDistribution): (u: number) => number {
+  const s = supportOf(prior)
+  if (s.lower === -Infinity) return () => 0
+  if (s.upper === Infinity) return (u) => u
+  const logWidth = Math.log(s.upper - s.lower)
+  return (u) => logWidth - softplus(-u) - softplus(u)
+}
+
+type PriorOnU = { scale: PriorScale; logDensity(u: number): number; logJacobian(u: number): number }
+
+function priorOnU(prior: CandidatePrior): PriorOnU {
+  if (prior.family !== 'mixture') {
+    const scale = priorScale(prior)
+    const jac = logJacobian(prior)
+    return { scale, logDensity: (u) => scale.logPrior(u) - jac(u), logJacobian: jac }
+  }
+  // The transform of the component whose support holds every other's.
+  const widest = prior.components.find((c) => {
+    const s = supportOf(c)
+    return prior.components.every((o) => supportOf(o).lower >= s.lower && supportOf(o).upper <= s.upper)
+  })
+  if (!widest) throw new EngineInputError('prior', 'One mixture component must cover the ranges of all the others.')
+  const scale = priorScale(widest)
+  const logW = prior.weights.map(Math.log)
+  return {
+    scale,
+    logDensity: (u) => logSumExp(prior.components.map((c, i) => logW[i] + logPdf(c, scale.theta(u)))),
+    logJacobian: logJacobian(widest),
+  }
+}
+
+// ─── Likelihood kernels raised to a power ────────────────────────────────────────────────────────
+
+/** The likelihood raised to α without its θ-free constants, on the prior's u scale, with a hint for the quadrature. */
+type Kernel = { logLik(u: number): number; hint: Hint | null }
+
+function kernelFor(data: PilotData, scale: PriorScale, alpha: number): Kernel {
+  switch (data.model) {
+    case 'normal-known-sigma': {
+      const st = normalStats(data.values)
+      const c = (alpha * st.n) / (2 * data.sigma * data.sigma)
+      return { logLik: (u) => -c * (st.mean - scale.theta(u)) ** 2, hint: hintOnU(scale, st.mean, data.sigma / Math.sqrt(alpha * st.n)) }
+    }
+    case 'binomial': {
+      const { successes: y, trials: n } = data
+      const pHat = (y + 0.5) / (n + 1)
+      return {
+        logLik: (u) => alpha * ((y > 0 ? y * Math.log(scale.theta(u)) : 0) + (n - y > 0 ? (n - y) * Math.log(scale.oneMinusTheta(u)) : 0)),
+        hint: hintOnU(scale, pHat, Math.sqrt((pHat * (1 - pHat)) / (alpha * n))),
+      }
+    }
+    case 'poisson': {
+      const Y = data.counts.reduce((s, c) => s + c, 0)
+      const T = data.exposures.reduce((s, t) => s + t, 0)
+      return {
+        logLik: (u) => {
+          const lam = scale.theta(u)
+          return alpha * ((Y > 0 ? Y * Math.log(lam) : 0) - lam * T)
+        },
+        hint: hintOnU(scale, (Y + 0.5) / T, Math.sqrt(Y + 0.5) / (T * Math.sqrt(alpha))),
+      }
+    }
+    case 'normal': {
+      const st = normalStats(data.values)
+      const inner = sigmaIntegral(data.sigmaPrior, st, alpha)
+      const sigmaHat = Math.sqrt(st.ss / Math.max(1, st.n - 1))
+      return { logLik: (u) => inner(st.ss + st.n * (st.mean - scale.theta(u)) ** 2), hint: hintOnU(scale, st.mean, sigmaHat / Math.sqrt(alpha * st.n)) }
+    }
+  }
+}
+
+/**
+ * ln ∫ π(σ) σ^(−nα) exp(−α q / 2σ²) dσ as a function of q = Σ(xᵢ − μ)², the normal likelihood raised to α with σ
+ * integrated out ((2π)^(−nα/2) left off). Interpolated in ln q by a Chebyshev series on 64 nodes over the range μ can
+ * reach (Trefethen 2013, Approximation Theory and Approximation Practice, ch. 3–8); direct quadrature outside it.
+ */
+function sigmaIntegral(sigmaPrior: PriorDistribution, st: NormalStats, alpha: number): (q: number) => number {
+  const key = JSON.stringify([sigmaPrior, st.n, st.mean, st.ss, alpha])
+  let fn = SIGMA_INTEGRALS.get(key)
+  if (!fn) {
+    if (SIGMA_INTEGRALS.size >= 64) SIGMA_INTEGRALS.clear()
+    fn = buildSigmaIntegral(sigmaPrior, st, alpha)
+    SIGMA_INTEGRALS.set(key, fn)
+  }
+  return fn
+}
+
+/** Interpolants already built, by σ prior, sufficient statistics and power: every candidate of one analysis shares them. */
+const SIGMA_INTEGRALS = new Map<string, (q: number) => number>()
+
+function buildSigmaIntegral(sigmaPrior: PriorDistribution, st: NormalStats, alpha: number): (q: number) => number {
+  const sScale = priorScale(sigmaPrior)
+  const { n, ss } = st
+  const direct = (q: number): number => {
+    const h = (v: number): number => {
+      const sigma = sScale.theta(v)
+      if (!(sigma > 0) || !Number.isFinite(sigma)) return -Infinity
+      return sScale.logPrior(v) - n * alpha * Math.log(sigma) - (alpha * q) / (2 * sigma * sigma)
+    }
+    const likHint = hintOnU(sScale, Math.sqrt(q / n), Math.sqrt(q / n) / Math.sqrt(2 * n * alpha))
+    return new LogIntegral(h, [sScale.hint, ...(likHint ? [likHint] : [])]).logValue
+  }
+  if (!(ss > 0)) return direct
+  const sigmaHat = Math.sqrt(ss / Math.max(1, n - 1))
+  const lo = Math.log(ss)
+  const hi = Math.log(ss + n * (40 * sigmaHat) ** 2)
+  const N = 64
+  const values = Array.from({ length: N }, (_, k) => direct(Math.exp(lo + ((hi - lo) * (1 + Math.cos((Math.PI * (k + 0.5)) / N))) / 2)))
+  const coef = Array.from({ length: N }, (_, j) => (2 / N) * values.reduce((s, f, k) => s + f * Math.cos((Math.PI * j * (k + 0.5)) / N), 0))
+  return (q) => {
+    const s = Math.log(q)
+    if (!(s >= lo && s <= hi)) return direct(q)
+    const x = (2 * (s - lo)) / (hi - lo) - 1
+    let b1 = 0
+    let b2 = 0
+    for (let j = N - 1; j >= 1; j--) {
+      const b0 = 2 * x * b1 - b2 + coef[j]
+      b2 = b1
+      b1 = b0
+    }
+    return x * b1 - b2 + coef[0] / 2
+  }
+}
+
+// ─── The tempered integral Z = ∫ π(θ)^αp f(x | θ)^αl dθ and its normalised density ───────────────
+
+type Tempered = { logZ: number; posterior: () => Posterior }
+
+/**
+ * Closed forms of Z and the posterior for the conjugate pairs (BDA3 §2.4–2.6 with the powers carried through: a normal
+ * prior to the power α is normal with variance divided by α, a beta or gamma kernel keeps its family); null otherwise.
+ */
+function temperedClosedForm(prior: PriorDistribution, data: PilotData, ap: number, al: number): Tempered | null {
+  if (data.model === 'normal-known-sigma' && (prior.family === 'normal' || prior.family === 'uniform')) {
+    const st = normalStats(data.values)
+    const v2 = (data.sigma * data.sigma) / (st.n * al)
+    if (prior.family === 'normal') {
+      const tau2 = prior.sigma * prior.sigma
+      const v1 = tau2 / ap
+      const v = (v1 * v2) / (v1 + v2)
+      const m = v * (prior.mu / v1 + st.mean / v2)
+      return {
+        logZ: -(ap / 2) * Math.log(2 * Math.PI * tau2) + 0.5 * Math.log(2 * Math.PI * v) - (st.mean - prior.mu) ** 2 / (2 * (v1 + v2)),
+        posterior: () => toUnivariate({ family: 'normal', mu: m, sigma: Math.sqrt(v) }),
+      }
+    }
+    const s = Math.sqrt(v2)
+    return {
+      logZ: -ap * Math.log(prior.upper - prior.lower) + 0.5 * Math.log(2 * Math.PI * v2) + logNormDiff((prior.lower - st.mean) / s, (prior.upper - st.mean) / s),
+      posterior: () => truncatedNormal(st.mean, s, prior.lower, prior.upper),
+    }
+  }
+  if (data.model === 'binomial') {
+    const beta = asStandardBeta(prior)
+    if (!beta) return null
+    const A = ap * (beta.a - 1) + 1 + al * data.successes
+    const B = ap * (beta.b - 1) + 1 + al * (data.trials - data.successes)
+    if (!(A > 0 && B > 0)) throw new EngineInputError('alpha', 'At this power the prior cannot be normalised with these data; choose a power nearer 1.')
+    return { logZ: lbeta(A, B) - ap * lbeta(beta.a, beta.b), posterior: () => toUnivariate({ family: 'beta', alpha: A, beta: B }) }
+  }
+  if (data.model === 'poisson' && prior.family === 'gamma') {
+    const Y = data.counts.reduce((s, c) => s + c, 0)
+    const T = data.exposures.reduce((s, t) => s + t, 0)
+    const A = ap * (prior.shape - 1) + 1 + al * Y
+    const R = ap * prior.rate + al * T
+    if (!(A > 0)) throw new EngineInputError('alpha', 'At this power the prior cannot be normalised with these data; choose a power nearer 1.')
+    return {
+      logZ: ap * (prior.shape * Math.log(prior.rate) - lgamma(prior.shape)) + lgamma(A) - A * Math.log(R),
+      posterior: () => toUnivariate({ family: 'gamma', shape: A, rate: R }),
+    }
+  }
+  return null
+}
+
+/** Z by adaptive Gauss–Kronrod quadrature in log space on the prior's u scale (the engine's LogIntegral). */
+function temperedQuadrature(prior: CandidatePrior, data: PilotData, ap: number, al: number): Tempered {
+  const p = priorOnU(prior)
+  const kernel = kernelFor(data, p.scale, al)
+  const h = (u: number): number => ap * p.logDensity(u) + p.logJacobian(u) + kernel.logLik(u)
+  const priorHint = { center: p.scale.hint.center, scale: p.scale.hint.scale / Math.sqrt(ap) }
+  const li = new LogIntegral(h, [priorHint, ...(kernel.hint ? [kernel.hint] : [])])
+  if (!Number.isFinite(li.logValue)) throw new EngineInputError('alpha', 'At this power the prior cannot be normalised with these data; choose a power nearer 1.')
+  return { logZ: li.logValue, posterior: () => posteriorFromIntegral(li, p.scale) }
+}
+
+function tempered(prior: CandidatePrior, data: PilotData, ap: number, al: number, options: { forceQuadrature?: boolean }): Tempered {
+  if (!options.forceQuadrature && prior.family !== 'mixture') {
+    const closed = temperedClosedForm(prior, data, ap, al)
+    if (closed) return closed
+  }
+  return temperedQuadrature(prior, data, ap, al)
+}
+
+/** ln ∫ π(θ) f(x | θ)^a dθ without the likelihood's θ-free constants; a mixture's is the weighted sum of its components'. */
+function logTemperedEvidence(prior: CandidatePrior, data: PilotData, a: number, options: { forceQuadrature?: boolean }): number {
+  if (prior.family === 'mixture') return logSumExp(prior.components.map((c, i) => Math.log(prior.weights[i]) + tempered(c, data, 1, a, options).logZ))
+  return tempered(prior, data, 1, a, options).logZ
+}
+
+// ─── Fractional Bayes factor ─────────────────────────────────────────────────────────────────────
+
+/**
+ * O'Hagan's (1995, JRSS B 57:99–138, §3) fractional Bayes factor of prior 1 against prior 2: B = q₁/q₂ with
+ * qᵢ = mᵢ(x)/mᵢᵇ(x) and mᵢᵇ = ∫ πᵢ(θ) f(x | θ)ᵇ dθ; b defaults to m₀/n. Closed forms for conjugate pairs, adaptive
+ * quadrature otherwise, all in log space (the likelihood's constants cancel between q₁ and q₂).
+ */
+export function fractionalBayesFactor(
+  prior1: CandidatePrior, prior2: CandidatePrior, data: PilotData, b?: number, options: { forceQuadrature?: boolean } = {},
+): FractionalBayesFactor {
+  validateCandidate(prior1, data)
+  validateCandidate(prior2, data)
+  const fraction = b === undefined ? defaultTrainingFraction(data) : b
+  requireTrainingFraction(fraction)
+  const logQ = (p: CandidatePrior): number => logTemperedEvidence(p, data, 1, options) - logTemperedEvidence(p, data, fraction, options)
+  return { logBF: logQ(prior1) - logQ(prior2), b: fraction }
+}
+
+// ─── Power scaling ───────────────────────────────────────────────────────────────────────────────
+
+function scaledPosterior(prior: CandidatePrior, data: PilotData, alpha: number, target: 'prior' | 'likelihood', options: { forceQuadrature?: boolean }): Posterior {
+  return target === 'prior' ? tempered(prior, data, alpha, 1, options).posterior() : tempered(prior, data, 1, alpha, options).posterior()
+}
+
+function requireTarget(target: unknown): asserts target is 'prior' | 'likelihood' {
+  if (target !== 'prior' && target !== 'likelihood') throw new EngineInputError('target', 'Power-scale either the prior or the likelihood.')
+}
+
+/**
+ * The posterior when the prior (π(θ)^α f(x | θ)) or the likelihood (π(θ) f(x | θ)^α) is raised to the power α
+ * (Kallioinen et al. 2023, Statistics and Computing 34:57, §3.1); with σ unknown only the prior of the mean is scaled.
+ */
+export function powerScaledPosterior(
+  prior: CandidatePrior, data: PilotData, alpha: number, target: 'prior' | 'likelihood' = 'prior', options: { forceQuadrature?: boolean } = {},
+): PosteriorSummary {
+  validateCandidate(prior, data)
+  requireAlpha(alpha)
+  requireTarget(target)
+  return summarise(scaledPosterior(prior, data, alpha, target, options))
+}
+
+/** (1+r)ln(1+r) + (1−r)ln(1−r) without cancellation for small r (its series Σ r^2k / k(2k−1)). */
+function jsTerm(r: number): number {
+  const a = Math.abs(r)
+  if (a < 1e-3) {
+    const r2 = r * r
+    return r2 * (1 + r2 * (1 / 6 + r2 / 15))
+  }
+  if (a >= 1) return 2 * Math.LN2
+  return (1 + r) * Math.log1p(r) + (1 - r) * Math.log1p(-r)
+}
+
+/**
+ * Cumulative Jensen–Shannon distance between two distributions given by their CDFs (Nguyen & Vreeken 2015, as normalised
+ * by Kallioinen et al. 2023, §3.2): √((CJS(P‖Q) + CJS(Q‖P)) / ∫(P + Q)) over [lower, upper], the larger of the value for
+ * the variable and for its negative (the latter uses the survival functions).
+ */
+export function cumulativeJsDistance(P: (x: number) => number, Q: (x: number) => number, lower: number, upper: number, breaks: number[] = []): number {
+  const points = [lower, ...breaks.filter((x) => x > lower && x < upper).sort((a, b) => a - b), upper]
+  const pAt = memo(P)
+  const qAt = memo(Q)
+  const distance = (F: (x: number) => number, G: (x: number) => number): number => {
+    const bound = integrate((x) => F(x) + G(x), points, { epsrel: 1e-10 }).value
+    if (!(bound > 0)) return 0
+    // Absolute tolerance 1e-14·bound: D is then known to 1e-7 even when the two CDFs differ only by rounding.
+    const div = integrate((x) => {
+      const f = F(x)
+      const g = G(x)
+      const s = f + g
+      return s > 0 ? (s / 2) * jsTerm((g - f) / s) : 0
+    }, points, { epsrel: 1e-9, epsabs: 1e-14 * bound * Math.LN2, limit: 400 }).value / Math.LN2
+    return Math.sqrt(Math.max(0, div) / bound)
+  }
+  return Math.max(distance(pAt, qAt), distance((x) => 1 - pAt(x), (x) => 1 - qAt(x)))
+}
+
+/** f with its values kept by argument (the CDFs are read at the same points by several integrals). */
+function memo(f: (x: number) => number): (x: number) => number {
+  const seen = new Map<number, number>()
+  return (x) => {
+    let v = seen.get(x)
+    if (v === undefined) {
+      v = f(x)
+      seen.set(x, v)
+    }
+    return v
+  }
+}
+
+/**
+ * Power-scaling sensitivity of the posterior (Kallioinen et al. 2023, §3.3): for the prior and for the likelihood, the
+ * derivative of the cumulative Jensen–Shannon distance between the base and the power-scaled posterior with respect to
+ * log₂ α at α = 1, by the finite difference (D(1/1.01) + D(1.01)) / (2 log₂ 1.01); 0.05 or more counts as sensitive.
+ * The diagnosis reads the pair as docs/methods/sensitivity.md explains.
+ */
+export function powerScalingSensitivity(prior: CandidatePrior, data: PilotData, options: { forceQuadrature?: boolean } = {}): PowerScalingSensitivity {
+  validateCandidate(prior, data)
+  if (data.model === 'normal' && data.values.length < 2) throw new EngineInputError('values', 'With σ unknown, power scaling needs at least 2 observations.')
+  const base = scaledPosterior(prior, data, 1, 'prior', options)
+  const tail = 1 / (CJS_DRAWS + 1)
+  const lower = base.quantile(tail)
+  const upper = base.quantile(1 - tail)
+  const breaks = [0.01, 0.1, 0.3, 0.5, 0.7, 0.9, 0.99].map((p) => base.quantile(p))
+  const baseCdf = memo((x) => base.cdf(x))
+  const step = (target: 'prior' | 'likelihood'): number => {
+    const d = [1 / POWER_SCALING_STEP, POWER_SCALING_STEP].map((a) => {
+      const q = scaledPosterior(prior, data, a, target, options)
+      return cumulativeJsDistance(baseCdf, (x) => q.cdf(x), lower, upper, breaks)
+    })
+    return (d[0] + d[1]) / (2 * Math.log2(POWER_SCALING_STEP))
+  }
+  const p = step('prior')
+  const l = step('likelihood')
+  return { prior: p, likelihood: l, diagnosis: diagnose(p, l) }
+}
+
+/** The diagnoses in plain words, for screens and the record (docs/methods/sensitivity.md). */
+export const DIAGNOSIS_WORDS: Record<SensitivityDiagnosis, string> = {
+  'prior-data-conflict': 'Prior and data pull apart: the result moves when either is given more weight.',
+  'weak-likelihood': 'The data say little here: the result follows the prior.',
+  'likelihood-dominated': 'The data drive the result; the prior matters little.',
+  none: 'The result moves little whichever side is given more weight.',
+}
+
+/** Reading of the two sensitivities (Kallioinen et al. 2023, §4): both → prior–data conflict; prior only → weak likelihood. */
+export function diagnose(priorSensitivity: number, likelihoodSensitivity: number): SensitivityDiagnosis {
+  const p = priorSensitivity >= POWER_SCALING_THRESHOLD
+  const l = likelihoodSensitivity >= POWER_SCALING_THRESHOLD
+  if (p && l) return 'prior-data-conflict'
+  if (p) return 'weak-likelihood'
+  if (l) return 'likelihood-dominated'
+  return 'none'
+}
+
