@@ -17,5 +17,6 @@ export default defineConfig({
     },
   },
   server: { port: 5173, proxy: { '/api': 'http://localhost:3000' } },
-  build: { outDir: 'dist', chunkSizeWarningLimit: 700 },
+  // The manifest lets tests/bench/bundle.ts attribute chunks to screens.
+  build: { outDir: 'dist', chunkSizeWarningLimit: 700, manifest: true },
 })

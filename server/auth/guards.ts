@@ -1,6 +1,6 @@
 import type { Request, RequestHandler } from 'express'
 import type { Role, User } from '../../shared/types/index'
-import { HttpError } from '../http/errors'
+import { HttpError } from '../http/http-error'
 
 export function currentUser(req: Request): User {
   if (!req.user) throw new HttpError(401, 'Sign in to continue')

@@ -1,6 +1,6 @@
 import { createRequire } from 'node:module'
 import { Worker } from 'node:worker_threads'
-import { HttpError } from '../http/errors'
+import { HttpError } from '../http/http-error'
 
 // bcrypt is CPU work by design (about 80 ms at cost 10). bcryptjs computes on the thread that calls it, in 100 ms
 // slices, so a burst of sign-ins would stall every other request for that long at a time. Comparisons therefore run

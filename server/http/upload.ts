@@ -1,6 +1,6 @@
 import type { Request, Response } from 'express'
 import multer from 'multer'
-import { HttpError } from './errors'
+import { HttpError } from './http-error'
 
 /** Control characters, path separators, bidi overrides and broken surrogates have no place in a stored file name. */
 const UNSAFE_IN_NAME = /[\u0000-\u001f\u007f-\u009f\\/\u200e\u200f\u202a-\u202e\u2066-\u2069\ufffe\uffff]|[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g

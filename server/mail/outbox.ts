@@ -1,7 +1,7 @@
 import type { Knex } from 'knex'
 import { BIDI_CONTROLS } from '../../shared/schemas/users'
+import type { OutboxMessage } from '../../shared/api/outbox'
 
-export type OutboxStatus = 'queued' | 'sending' | 'sent' | 'failed'
 export type MailKind = 'invitation' | 'round-notice' | 'reminder' | 'test' | (string & {})
 
 /** One e-mail to queue; bodies come from ./templates. */
@@ -16,20 +16,6 @@ export interface OutgoingMail {
   kind: MailKind
   studyId?: number | null
   roundId?: number | null
-}
-
-/** A row of the analyst's outbox view. */
-export interface OutboxEntry {
-  id: number
-  kind: string
-  to: string
-  toName: string | null
-  subject: string
-  status: OutboxStatus
-  attempts: number
-  lastError: string | null
-  createdAt: string
-  sentAt: string | null
 }
 
 export const OUTBOX_TABLE = 'outbox_messages'
@@ -75,7 +61,7 @@ const iso = (d: Date | string | null): string | null => (d == null ? null : new 
 export async function listOutbox(
   db: Knex,
   filter: { studyId?: number | null; roundId?: number; limit?: number } = {},
-): Promise<OutboxEntry[]> {
+): Promise<OutboxMessage[]> {
   const q = db(OUTBOX_TABLE)
     .select('id', 'kind', 'to_address', 'to_name', 'subject', 'status', 'attempts', 'last_error', 'created_at', 'sent_at')
     .orderBy([{ column: 'created_at', order: 'desc' }, { column: 'id', order: 'desc' }])

@@ -1,6 +1,7 @@
 import { Router, type RequestHandler } from 'express'
 import { requireRole } from '../auth/guards'
-import { HttpError, idParam } from '../http/errors'
+import { HttpError } from '../http/http-error'
+import { idParam } from '../http/id-param'
 import type { FakeMessage, SmtpFake } from '../mail/smtp-fake'
 
 /**

@@ -1,7 +1,7 @@
 import { Router } from 'express'
 import { acceptInvitationSchema } from '../../shared/schemas/rounds'
 import type { Db } from '../db/knex'
-import { validateBody } from '../http/errors'
+import { validateBody } from '../http/validate-body'
 import { acceptInvitation, describeInvitation } from '../services/invitations'
 
 /** Reached from the e-mailed link, before the expert has an account. */

@@ -2,13 +2,13 @@ import { Router, type Request } from 'express'
 import { calibrationAnswerSchema, judgementSchema, reopenSchema } from '../../shared/schemas/judgements'
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
-import { HttpError, idParam, validateBody } from '../http/errors'
-import { allow, canAnalyse, studyAccess, accessVia } from '../services/access'
-import { recordAuditAlone } from '../services/audit'
+import { HttpError } from '../http/http-error'
+import { idParam } from '../http/id-param'
+import { validateBody } from '../http/validate-body'
+import { allow, accessVia } from '../services/access'
 import {
   feedbackFor, judgementHistory, listCalibrationAnswers, listJudgements, reopenSubmission, saveCalibrationAnswer, saveJudgement, submitRound,
 } from '../services/judgements'
-import { assertExpertOpens, roundRow } from '../services/rounds'
 
 /** Experts' answers: their own drafts and submission; analysts read everything and may reopen. */
 export function judgementsRouter(db: Db): Router {
@@ -52,13 +52,7 @@ export function judgementsRouter(db: Db): Router {
   })
 
   r.get('/judgements/:id/history', async (req, res) => {
-    const user = currentUser(req)
-    const jid = idParam(req.params.id, 'Judgement')
-    const j = await db('judgements as j').join('rounds as r', 'r.id', 'j.round_id').where('j.id', jid).first('j.expert_id', 'r.study_id')
-    if (!j) throw new HttpError(404, 'Judgement not found')
-    const access = await studyAccess(db, user, j.study_id)
-    if (!canAnalyse(access) && access.role !== 'reviewer' && j.expert_id !== user.id) throw new HttpError(403, 'You can only see your own answers')
-    res.json(await judgementHistory(db, jid))
+    res.json(await judgementHistory(db, currentUser(req), idParam(req.params.id, 'Judgement')))
   })
 
   r.get('/rounds/:id/calibration-answers', async (req, res) => {
@@ -76,8 +70,6 @@ export function judgementsRouter(db: Db): Router {
   r.get('/rounds/:id/feedback', async (req, res) => {
     const { id, access } = await roundAccess(req)
     if (access.role !== 'expert') throw new HttpError(403, 'Feedback is shown to the panel’s experts')
-    await assertExpertOpens(db, access.user, await roundRow(db, id))
-    await recordAuditAlone(db, { actorId: access.user.id, studyId: access.studyId, action: 'feedback.view', subject: `round:${id}` })
     res.json(await feedbackFor(db, access.user, id))
   })
 

@@ -1,7 +1,7 @@
 import { Router } from 'express'
 import { currentUser, requireAuth } from '../auth/guards'
 import type { Db } from '../db/knex'
-import { idParam } from '../http/errors'
+import { idParam } from '../http/id-param'
 import { listOutbox } from '../mail/outbox'
 import { allow, studyAccess } from '../services/access'
 

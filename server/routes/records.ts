@@ -4,7 +4,9 @@ import {
 } from '../../shared/schemas/records'
 import { currentUser } from '../auth/guards'
 import { recordDocx } from '../export/docx'
-import { HttpError, idParam, validateBody } from '../http/errors'
+import { HttpError } from '../http/http-error'
+import { idParam } from '../http/id-param'
+import { validateBody } from '../http/validate-body'
 import { allow, studyAccess } from '../services/access'
 import {
   addComment, excludeQuantity, getRecord, includeQuantity, newVersion, recordForExport, returnRecord, saveChart, setShowNames, signOffRecord, submitRecord,

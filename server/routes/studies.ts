@@ -3,7 +3,8 @@ import { studyMemberSchema, studySchema, studyUpdateSchema } from '../../shared/
 import type { StudyRole } from '../../shared/types/index'
 import { currentUser, requireAuth, requireRole } from '../auth/guards'
 import type { Db } from '../db/knex'
-import { idParam, validateBody } from '../http/errors'
+import { idParam } from '../http/id-param'
+import { validateBody } from '../http/validate-body'
 import { allow, studyAccess } from '../services/access'
 import { addMember, createStudy, getStudyDetail, listStudiesFor, removeMember, studyAudit, updateStudy } from '../services/studies'
 

@@ -1,6 +1,6 @@
 import type { StudyRole, User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
-import { HttpError } from '../http/errors'
+import { HttpError } from '../http/http-error'
 
 export type StudyAccessRole = StudyRole | 'admin'
 

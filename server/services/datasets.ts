@@ -4,7 +4,7 @@ import { readCsvTable } from '../../shared/elicitation/csv'
 import { extractPilotData, PILOT_MAX_BYTES, PilotDataError, type PilotMapping } from '../../shared/elicitation/pilot'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
-import { HttpError } from '../http/errors'
+import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
 
 export interface UploadFields {

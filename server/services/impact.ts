@@ -6,11 +6,12 @@ import { ENGINE_VERSION, EngineInputError, validateDistribution, type Distributi
 import { runImpactTask } from '../compute/pool'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
-import { HttpError } from '../http/errors'
+import { HttpError } from '../http/http-error'
 import { canonicalJson, recordAudit } from './audit'
 import { getDataset } from './datasets'
 import { studyExpertLabels } from './expert-labels'
-import { getQuantity, type Quantity } from './quantities'
+import type { Quantity } from '../../shared/api/quantities'
+import { getQuantity } from './quantities'
 
 export interface ImpactInput {
   datasetId: number

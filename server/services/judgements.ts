@@ -4,12 +4,13 @@ import type { FitResult } from '../../shared/stats/index'
 import { RATIONALE_MIN, type JudgementBody } from '../../shared/schemas/judgements'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
-import { HttpError } from '../http/errors'
-import { recordAudit } from './audit'
+import { HttpError } from '../http/http-error'
+import { canAnalyse, studyAccess } from './access'
+import { recordAudit, recordAuditAlone } from './audit'
 import { calibrationAnsweredEarlier } from './invitations'
 import { studyExpertLabels } from './expert-labels'
 import { supportFromRow } from './quantities'
-import { roundRow } from './rounds'
+import { assertExpertOpens, roundRow } from './rounds'
 
 interface JudgementRow {
   id: number
@@ -200,8 +201,12 @@ export async function reopenSubmission(db: Db, analyst: User, roundId: number, e
   })
 }
 
-/** Every saved version of one judgement, oldest first. */
-export async function judgementHistory(db: Db, judgementId: number) {
+/** Every saved version of one judgement, oldest first, for the study team or the expert who gave it. */
+export async function judgementHistory(db: Db, user: User, judgementId: number) {
+  const j = await db('judgements as j').join('rounds as r', 'r.id', 'j.round_id').where('j.id', judgementId).first('j.expert_id', 'r.study_id')
+  if (!j) throw new HttpError(404, 'Judgement not found')
+  const access = await studyAccess(db, user, j.study_id)
+  if (!canAnalyse(access) && access.role !== 'reviewer' && j.expert_id !== user.id) throw new HttpError(403, 'You can only see your own answers')
   const rows = await db('judgement_versions as v').join('users as u', 'u.id', 'v.saved_by').where('v.judgement_id', judgementId)
     .select('v.version', 'v.answer', 'v.rationale', 'v.fits', 'v.chosen_family', 'v.status', 'v.saved_at', 'u.display_name as saved_by').orderBy('v.version')
   return rows.map((r) => ({ version: r.version, answer: r.answer, rationale: r.rationale, fits: r.fits, chosenFamily: r.chosen_family, status: r.status, savedAt: r.saved_at.toISOString(), savedBy: r.saved_by }))
@@ -244,6 +249,8 @@ export async function saveCalibrationAnswer(db: Db, user: User, roundId: number,
  */
 export async function feedbackFor(db: Db, user: User, roundId: number) {
   const round = await roundRow(db, roundId)
+  await assertExpertOpens(db, user, round)
+  await recordAuditAlone(db, { actorId: user.id, studyId: round.study_id, action: 'feedback.view', subject: `round:${roundId}` })
   if (!round.feedback_enabled) throw new HttpError(404, 'This round shows no feedback from earlier rounds')
   const items = await db('round_items').where({ round_id: roundId }).pluck('quantity_id')
   const labels = await studyExpertLabels(db, round.study_id)

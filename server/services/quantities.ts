@@ -1,10 +1,11 @@
 import { createHash } from 'node:crypto'
 import type { QuantityBody } from '../../shared/schemas/quantities'
 import { EVIDENCE_EXTENSIONS, EVIDENCE_MAX_BYTES, EVIDENCE_TYPES, nameFitsType } from '../../shared/schemas/quantities'
+import type { EvidenceFile, Quantity } from '../../shared/api/quantities'
 import type { Support } from '../../shared/stats/index'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
-import { HttpError } from '../http/errors'
+import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
 
 interface QuantityRow {
@@ -30,7 +31,7 @@ export function supportFromRow(r: Pick<QuantityRow, 'support_kind' | 'support_lo
   return r.support_kind === 'bounded' ? { kind: 'bounded', lower: Number(r.support_lower), upper: Number(r.support_upper) } : { kind: r.support_kind }
 }
 
-export function toQuantity(r: QuantityRow, files: EvidenceFileInfo[] = []) {
+export function toQuantity(r: QuantityRow, files: EvidenceFile[] = []): Quantity {
   return {
     id: r.id,
     studyId: r.study_id,
@@ -48,12 +49,9 @@ export function toQuantity(r: QuantityRow, files: EvidenceFileInfo[] = []) {
     updatedAt: r.updated_at.toISOString(),
   }
 }
-export type Quantity = ReturnType<typeof toQuantity>
 
-export interface EvidenceFileInfo { id: number; filename: string; mimeType: string; sizeBytes: number; createdAt: string }
-
-async function filesByQuantity(db: Db, quantityIds: number[]): Promise<Map<number, EvidenceFileInfo[]>> {
-  const map = new Map<number, EvidenceFileInfo[]>()
+async function filesByQuantity(db: Db, quantityIds: number[]): Promise<Map<number, EvidenceFile[]>> {
+  const map = new Map<number, EvidenceFile[]>()
   if (quantityIds.length === 0) return map
   const rows = await db('evidence_files').whereIn('quantity_id', quantityIds).select('id', 'quantity_id', 'filename', 'mime_type', 'size_bytes', 'created_at').orderBy('id')
   for (const r of rows) {
@@ -144,7 +142,7 @@ function isUtf8(buf: Buffer): boolean {
   }
 }
 
-export async function addEvidenceFile(db: Db, user: User, quantityId: number, file: { originalname: string; buffer: Buffer }): Promise<EvidenceFileInfo> {
+export async function addEvidenceFile(db: Db, user: User, quantityId: number, file: { originalname: string; buffer: Buffer }): Promise<EvidenceFile> {
   const q = await db('quantities').where({ id: quantityId }).first('study_id')
   if (!q) throw new HttpError(404, 'Quantity not found')
   if (file.buffer.length === 0) throw new HttpError(400, 'The file is empty', { file: 'The file is empty' })

@@ -9,7 +9,7 @@ import {
 } from '../../shared/stats/index'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
-import { HttpError } from '../http/errors'
+import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
 import { studyExpertLabels } from './expert-labels'
 import { getQuantity } from './quantities'

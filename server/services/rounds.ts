@@ -1,9 +1,10 @@
 import type { RoundBody, RoundUpdateBody } from '../../shared/schemas/rounds'
+import type { PanelMember, Round, RoundSummary } from '../../shared/api/rounds'
 import { supportBounds, type Support } from '../../shared/stats/index'
 import type { User } from '../../shared/types/index'
 import type { AppContext } from '../context'
 import type { Db } from '../db/knex'
-import { HttpError } from '../http/errors'
+import { HttpError } from '../http/http-error'
 import type { StudyAccess } from './access'
 import { recordAudit } from './audit'
 import { studyExpertLabels } from './expert-labels'
@@ -115,7 +116,7 @@ export async function assertExpertOpens(db: Db, user: User, round: Pick<RoundRow
 }
 
 /** A round as its reader may see it: analysts and reviewers get the panel; an expert only their own entry. */
-export async function getRound(db: Db, access: StudyAccess, id: number) {
+export async function getRound(db: Db, access: StudyAccess, id: number): Promise<Round> {
   const r = await roundRow(db, id)
   const items = await db('round_items as i').join('quantities as q', 'q.id', 'i.quantity_id').where('i.round_id', id)
     .select('i.*', 'q.name', 'q.symbol', 'q.unit', 'q.question', 'q.support_kind', 'q.support_lower', 'q.support_upper', 'q.assumptions', 'q.evidence_notes')
@@ -159,7 +160,7 @@ export async function getRound(db: Db, access: StudyAccess, id: number) {
   }
 }
 
-async function panelOf(db: Db, roundId: number) {
+async function panelOf(db: Db, roundId: number): Promise<PanelMember[]> {
   const rows = await db('round_panel as p').where('p.round_id', roundId)
     .leftJoin('invitations as i', function () {
       this.on('i.panel_id', '=', 'p.id').andOnNull('i.revoked_at')
@@ -180,7 +181,7 @@ async function panelOf(db: Db, roundId: number) {
   }))
 }
 
-export async function listRounds(db: Db, access: StudyAccess) {
+export async function listRounds(db: Db, access: StudyAccess): Promise<RoundSummary[]> {
   const q = db('rounds as r').where('r.study_id', access.studyId)
     .select('r.id', 'r.number', 'r.title', 'r.status', 'r.opens_at', 'r.closes_at',
       db.raw('(SELECT count(*)::int FROM round_panel p WHERE p.round_id = r.id) as panel_size'),

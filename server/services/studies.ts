@@ -1,7 +1,7 @@
 import type { Knex } from 'knex'
 import type { Role, StudyRole, StudySummary, User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
-import { HttpError } from '../http/errors'
+import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
 
 export type QuantityStage = 'framed' | 'judged' | 'reconciled' | 'in-record'

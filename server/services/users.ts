@@ -3,7 +3,7 @@ import { normaliseEmail } from '../../shared/schemas/auth'
 import type { Role, StudyRole, User } from '../../shared/types/index'
 import { checkPassword } from '../auth/passwords'
 import type { Db } from '../db/knex'
-import { HttpError } from '../http/errors'
+import { HttpError } from '../http/http-error'
 import { ACCOUNT_ROLES_FOR } from './studies'
 
 interface UserRow {

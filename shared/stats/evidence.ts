@@ -1,7 +1,7 @@
 import { quantile, studentTLogPdf, supportOf, toUnivariate, validateDistribution } from './distributions'
 import { EngineInputError } from './errors'
-import { mixtureQuantile } from './pool'
 import { findRoot, LogIntegral, maximize, type Hint } from './quadrature'
+import { SigmaMarginal } from './sigma-marginal'
 import { gammaPQ, lbeta, lgamma, logBetaPQ, logGammaPQ, logNormCdf, logNormDiff, logNormPdf, normCdf, normPdf, softplus } from './special'
 import { dirichletMultinomialAnalysis } from './dirichlet'
 import type { Analysis, DirichletAnalysis, DirichletPrior, MultinomialData, PilotData, PosteriorSummary, PriorDistribution, Univariate } from './types'
@@ -241,18 +241,28 @@ export function posteriorFromIntegral(li: LogIntegral, scale: PriorScale): Poste
 
 type Conditional = { logEvidence: number; closed: boolean; posterior: () => PosteriorParts }
 
-/** Marginal likelihood and posterior of μ for normal data with known σ (BDA3 §2.5; docs/methods/evidence.md). */
-function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: number, force: boolean): Conditional {
+type ClosedMeanPrior = Extract<PriorDistribution, { family: 'normal' | 'uniform' }>
+
+/** Log marginal likelihood of normal data with known σ under a normal or uniform prior on μ, all constants included (BDA3 §2.5). */
+function closedMeanLogEvidence(prior: ClosedMeanPrior, st: NormalStats, sigma: number): number {
   const { n, mean: xbar, ss } = st
   const se = sigma / Math.sqrt(n)
-  const base = -(n / 2) * (LN_2PI + 2 * Math.log(sigma)) - ss / (2 * sigma * sigma)
-  const shift = 0.5 * (LN_2PI + 2 * Math.log(se))
+  const base = -(n / 2) * (LN_2PI + 2 * Math.log(sigma)) - ss / (2 * sigma * sigma) + 0.5 * (LN_2PI + 2 * Math.log(se))
+  if (prior.family === 'normal') {
+    const predSd = Math.sqrt(prior.sigma * prior.sigma + se * se)
+    return base + logNormPdf((xbar - prior.mu) / predSd) - Math.log(predSd)
+  }
+  return base + logNormDiff((prior.lower - xbar) / se, (prior.upper - xbar) / se) - Math.log(prior.upper - prior.lower)
+}
+
+/** Marginal likelihood and posterior of μ for normal data with known σ (BDA3 §2.5; docs/methods/evidence.md). */
+function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: number, force: boolean): Conditional {
+  const { n, mean: xbar } = st
+  const se = sigma / Math.sqrt(n)
   if (!force && prior.family === 'normal') {
     const tau = prior.sigma
-    const predSd = Math.sqrt(tau * tau + se * se)
-    const logEvidence = base + shift + logNormPdf((xbar - prior.mu) / predSd) - Math.log(predSd)
     return {
-      logEvidence,
+      logEvidence: closedMeanLogEvidence(prior, st, sigma),
       closed: true,
       posterior: () => {
         const precision = 1 / (tau * tau) + 1 / (se * se)
@@ -263,9 +273,8 @@ function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: numb
     }
   }
   if (!force && prior.family === 'uniform') {
-    const logZ = logNormDiff((prior.lower - xbar) / se, (prior.upper - xbar) / se)
     return {
-      logEvidence: base + shift + logZ - Math.log(prior.upper - prior.lower),
+      logEvidence: closedMeanLogEvidence(prior, st, sigma),
       closed: true,
       posterior: () => {
         const d = truncatedNormal(xbar, se, prior.lower, prior.upper)
@@ -273,6 +282,8 @@ function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: numb
       },
     }
   }
+  const { ss } = st
+  const base = -(n / 2) * (LN_2PI + 2 * Math.log(sigma)) - ss / (2 * sigma * sigma)
   const scale = priorScale(prior)
   const h = (u: number): number => scale.logPrior(u) - (n * (xbar - scale.theta(u)) ** 2) / (2 * sigma * sigma)
   const li = new LogIntegral(h, priorHints(scale, [hintOnU(scale, xbar, se)]))
@@ -286,80 +297,150 @@ function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: numb
 
 // ─── Normal data with unknown σ ──────────────────────────────────────────────────────────────────
 
-/** μ and σ independent a priori: μ integrated out for each σ (closed form for normal and uniform priors), then σ by quadrature on ln σ (docs/methods/evidence.md). */
+/** μ and σ independent a priori: σ by quadrature on ln σ with μ integrated out in closed form (normal and uniform priors), otherwise μ by quadrature against the σ-marginal likelihood (docs/methods/evidence.md). */
 function normalUnknownSigma(prior: PriorDistribution, st: NormalStats, sigmaPrior: PriorDistribution, force: boolean) {
+  if (force || (prior.family !== 'normal' && prior.family !== 'uniform')) return marginalOfMean(prior, st, sigmaPrior)
+  const closedPrior = prior
   const sScale = priorScale(sigmaPrior)
-  const cache = new Map<number, Conditional>()
-  const conditional = (sigma: number): Conditional => {
-    let c = cache.get(sigma)
-    if (!c) {
-      c = normalKnownSigma(prior, st, sigma, force)
-      cache.set(sigma, c)
-    }
-    return c
-  }
   const h = (v: number): number => {
     const sigma = sScale.theta(v)
     if (!(sigma > 0) || !Number.isFinite(sigma)) return -Infinity
-    return sScale.logPrior(v) + conditional(sigma).logEvidence
+    return sScale.logPrior(v) + closedMeanLogEvidence(closedPrior, st, sigma)
   }
   const sigmaHat = Math.sqrt(st.ss / Math.max(1, st.n - 1))
   const hints = priorHints(sScale, [sigmaHat > 0 ? hintOnU(sScale, sigmaHat, sigmaHat / Math.sqrt(2 * st.n)) : null])
   const li = new LogIntegral(h, hints)
-  const posteriorParts = (): Posterior => {
-    if (prior.family !== 'normal' && prior.family !== 'uniform') {
-      const fast = marginalOfMean(prior, st, sScale, li)
-      if (fast && Math.abs(fast.logValue - li.logValue) <= 1e-9 * Math.max(1, Math.abs(li.logValue))) return fast.posterior
-    }
-    const nodes = li.nodes().filter((nd) => nd.weight > 0)
-    const top = Math.max(...nodes.map((nd) => nd.weight))
-    const kept = nodes.filter((nd) => nd.weight > 1e-17 * top)
-    const total = kept.reduce((s, nd) => s + nd.weight, 0)
-    const comps = kept.map((nd) => conditional(sScale.theta(nd.u)).posterior())
-    const w = kept.map((nd) => nd.weight / total)
-    const mean = comps.reduce((s, c, i) => s + w[i] * c.mean(), 0)
-    const variance = comps.reduce((s, c, i) => s + w[i] * (c.variance + (c.mean() - mean) ** 2), 0)
-    return {
-      cdf: (x) => comps.reduce((s, c, i) => s + w[i] * c.cdf(x), 0),
-      quantile: (p) => mixtureQuantile(comps, w, p),
-      mean: () => mean,
-      sd: () => Math.sqrt(variance),
-    }
-  }
+  let parts: Posterior | null = null
+  const posteriorParts = (): Posterior => (parts ??= sigmaMixturePosterior(closedPrior, st, li.nodes().map((nd) => ({ sigma: sScale.theta(nd.u), weight: nd.weight }))))
   const posterior = (): PosteriorSummary => summarise(posteriorParts())
   return { logEvidence: li.logValue, posterior, posteriorParts }
 }
 
 /**
- * Marginal posterior of μ for a non-conjugate prior when σ is unknown: σ is integrated out with the fixed G–K rule of the
- * σ quadrature (valid while the result reproduces the evidence), then μ by quadrature. Null when the rule is empty.
+ * The posterior of μ as the mixture over the σ quadrature nodes of the conditional posteriors given σ (normal for a normal
+ * prior, truncated normal for a uniform one; BDA3 §2.5), nodes below 1e-17 of the largest weight left out.
  */
-function marginalOfMean(prior: PriorDistribution, st: NormalStats, sScale: PriorScale, outer: LogIntegral) {
-  const { n, mean: xbar, ss } = st
-  const rule = outer
-    .rule()
-    .map(({ u, w }) => ({ sigma: sScale.theta(u), c: Math.log(w) + sScale.logPrior(u) }))
-    .filter((r) => r.sigma > 0 && Number.isFinite(r.c))
-  if (rule.length === 0) return null
-  const base = rule.map((r) => r.c - n * Math.log(r.sigma) - (n / 2) * LN_2PI)
-  const inv = rule.map((r) => 1 / (2 * r.sigma * r.sigma))
-  const scale = priorScale(prior)
-  const terms = new Float64Array(rule.length)
-  const h = (u: number): number => {
-    const q = ss + n * (xbar - scale.theta(u)) ** 2
-    let m = -Infinity
-    for (let j = 0; j < terms.length; j++) {
-      terms[j] = base[j] - q * inv[j]
-      if (terms[j] > m) m = terms[j]
+function sigmaMixturePosterior(prior: ClosedMeanPrior, st: NormalStats, nodes: { sigma: number; weight: number }[]): Posterior {
+  const positive = nodes.filter((nd) => nd.weight > 0)
+  const top = Math.max(...positive.map((nd) => nd.weight))
+  const kept = positive.filter((nd) => nd.weight > 1e-17 * top)
+  const total = kept.reduce((s, nd) => s + nd.weight, 0)
+  const count = kept.length
+  const w = new Float64Array(count)
+  const m = new Float64Array(count)
+  const sd = new Float64Array(count)
+  const { n, mean: xbar } = st
+  const truncated: Univariate[] = []
+  for (let i = 0; i < count; i++) {
+    w[i] = kept[i].weight / total
+    const se = kept[i].sigma / Math.sqrt(n)
+    if (prior.family === 'normal') {
+      const tau = prior.sigma
+      const v = 1 / (1 / (tau * tau) + 1 / (se * se))
+      m[i] = v * (prior.mu / (tau * tau) + xbar / (se * se))
+      sd[i] = Math.sqrt(v)
+    } else {
+      const d = truncatedNormal(xbar, se, prior.lower, prior.upper)
+      truncated.push(d)
+      m[i] = d.mean()
+      sd[i] = d.sd()
     }
-    if (m === -Infinity) return -Infinity
-    let total = 0
-    for (let j = 0; j < terms.length; j++) total += Math.exp(terms[j] - m)
-    return scale.logPrior(u) + m + Math.log(total)
   }
+  let mean = 0
+  for (let i = 0; i < count; i++) mean += w[i] * m[i]
+  let variance = 0
+  for (let i = 0; i < count; i++) variance += w[i] * (sd[i] * sd[i] + (m[i] - mean) ** 2)
+  const cdf = (x: number): number => {
+    let s = 0
+    if (prior.family === 'normal') for (let i = 0; i < count; i++) s += w[i] * normCdf((x - m[i]) / sd[i])
+    else for (let i = 0; i < count; i++) s += w[i] * truncated[i].cdf(x)
+    return s
+  }
+  const pdf = (x: number): number => {
+    let s = 0
+    if (prior.family === 'normal') for (let i = 0; i < count; i++) s += (w[i] * normPdf((x - m[i]) / sd[i])) / sd[i]
+    else for (let i = 0; i < count; i++) s += w[i] * truncated[i].pdf(x)
+    return s
+  }
+  const bounds = supportOf(prior)
+  const spread = Math.sqrt(variance)
+  return { cdf, quantile: (p) => quantileByNewton(cdf, pdf, p, mean, spread, bounds.lower, bounds.upper), mean: () => mean, sd: () => spread }
+}
+
+/**
+ * The p-quantile of a continuous distribution with the given CDF, density, mean and sd on [lower, upper]: a bracket grown
+ * from mean ± 2 sd by doubling steps, then Newton steps from the normal approximation, kept inside the bracket by
+ * bisection, to 1e-15 of the sd (common practice).
+ */
+function quantileByNewton(cdf: (x: number) => number, pdf: (x: number) => number, p: number, mean: number, sd: number, lower: number, upper: number): number {
+  if (!(p >= 0 && p <= 1)) return NaN
+  if (p === 0) return lower
+  if (p === 1) return upper
+  let x = Math.min(upper, Math.max(lower, mean + sd * quantile({ family: 'normal', mu: 0, sigma: 1 }, p)))
+  let lo = lower
+  let hi = upper
+  for (let i = 0; i < 100; i++) {
+    const f = cdf(x) - p
+    if (f === 0) return x
+    if (f < 0) lo = x
+    else hi = x
+    const density = pdf(x)
+    let next = x - f / density
+    if (!(next > lo && next < hi)) {
+      if (Number.isFinite(lo) && Number.isFinite(hi)) next = 0.5 * (lo + hi)
+      else next = f < 0 ? x + Math.max(sd, Math.abs(x - lo) || sd) : x - Math.max(sd, Math.abs(hi - x) || sd)
+      next = Math.min(upper, Math.max(lower, next))
+    }
+    const step = Math.abs(next - x)
+    x = next
+    if (step <= 1e-15 * (Math.abs(x) + sd)) break
+  }
+  return x
+}
+
+/** The σ-marginal likelihood tables in use, keyed by (n, S, σ prior); a few are kept so that a whole impact analysis shares one. */
+const sigmaMarginals = new Map<string, SigmaMarginal>()
+
+function sigmaMarginalFor(st: NormalStats, sigmaPrior: PriorDistribution): SigmaMarginal {
+  const key = `${st.n}|${st.ss}|${JSON.stringify(sigmaPrior)}`
+  let m = sigmaMarginals.get(key)
+  if (!m) {
+    const sScale = priorScale(sigmaPrior)
+    m = new SigmaMarginal(
+      {
+        theta: sScale.theta,
+        logPrior: sScale.logPrior,
+        hints: (sigma, spread) => priorHints(sScale, [sigma !== null && spread !== null ? hintOnU(sScale, sigma, spread) : null]),
+      },
+      st.n,
+      st.ss,
+      sScale.theta(sScale.hint.center),
+    )
+    if (sigmaMarginals.size >= 16) sigmaMarginals.delete(sigmaMarginals.keys().next().value!)
+    sigmaMarginals.set(key, m)
+  }
+  return m
+}
+
+/**
+ * Evidence and marginal posterior of μ when σ is unknown, for any prior on μ: σ is integrated out first, giving the
+ * likelihood of μ as a function of q = S + n(x̄ − μ)² alone (SigmaMarginal, shared by every prior for the same data), then
+ * μ by adaptive quadrature on the prior's scale (Fubini: the same double integral in the other order).
+ */
+function marginalOfMean(prior: PriorDistribution, st: NormalStats, sigmaPrior: PriorDistribution) {
+  const { n, mean: xbar, ss } = st
+  const marginal = sigmaMarginalFor(st, sigmaPrior)
+  const scale = priorScale(prior)
+  const h = (u: number): number => {
+    const d = xbar - scale.theta(u)
+    return scale.logPrior(u) + marginal.logM(ss + n * d * d)
+  }
+  const sScale = priorScale(sigmaPrior)
   const sigmaHat = Math.sqrt(ss / Math.max(1, n - 1)) || sScale.theta(sScale.hint.center)
   const li = new LogIntegral(h, priorHints(scale, [hintOnU(scale, xbar, sigmaHat / Math.sqrt(n))]))
-  return { logValue: li.logValue, posterior: posteriorFromIntegral(li, scale) }
+  let parts: PosteriorParts | null = null
+  const posteriorParts = (): Posterior => (parts ??= posteriorFromIntegral(li, scale))
+  return { logEvidence: li.logValue, posterior: (): PosteriorSummary => summarise(posteriorParts()), posteriorParts }
 }
 
 // ─── Box's prior predictive check for the sample mean ────────────────────────────────────────────
@@ -400,8 +481,8 @@ function meanPredictive(prior: PriorDistribution, kernel: Kernel): Predictive {
     }
   }
   const scale = priorScale(prior)
-  const logK = (e: number): number => logSumExp(s.map((sj, j) => logW[j] + logNormCdf(e / sj)))
-  const logk = (e: number): number => logSumExp(s.map((sj, j) => logW[j] + logNormPdf(e / sj) - Math.log(sj)))
+  const logK = (e: number): number => kernelLogCdf(kernel, e)
+  const logk = (e: number): number => kernelLogPdf(kernel, e)
   const integral = (t: number, logKernel: (theta: number) => number): number =>
     new LogIntegral((u) => scale.logPrior(u) + logKernel(scale.theta(u)), priorHints(scale, [hintOnU(scale, t, sBar)])).logValue
   const logLowerByQuadrature = (t: number): number => integral(t, (th) => logK(t - th))
@@ -432,6 +513,43 @@ function meanPredictive(prior: PriorDistribution, kernel: Kernel): Predictive {
     center: quantile(prior, 0.5),
     spread: Math.sqrt((iqr / 1.349) ** 2 + sBar * sBar),
   }
+}
+
+/** ln Σ w_j Φ(e / s_j): the kernel's log CDF, in one pass without allocation (it runs inside nested quadratures). */
+function kernelLogCdf(kernel: Kernel, e: number): number {
+  const { s, w } = kernel
+  let top = -Infinity
+  for (let j = 0; j < s.length; j++) top = Math.max(top, logNormCdf(e / s[j]))
+  if (!Number.isFinite(top)) return top
+  let total = 0
+  for (let j = 0; j < s.length; j++) total += w[j] * Math.exp(logNormCdf(e / s[j]) - top)
+  return top + Math.log(total)
+}
+
+/** Per-kernel constants of its log density: 1/s_j and ln w_j − ln s_j − ½ ln 2π. */
+const kernelConstants = new WeakMap<Kernel, { inv: Float64Array; c: Float64Array }>()
+
+/** ln Σ w_j φ(e / s_j) / s_j: the kernel's log density, in one pass without allocation (it runs inside nested quadratures). */
+function kernelLogPdf(kernel: Kernel, e: number): number {
+  let k = kernelConstants.get(kernel)
+  if (!k) {
+    k = { inv: Float64Array.from(kernel.s, (sj) => 1 / sj), c: Float64Array.from(kernel.s, (sj, j) => Math.log(kernel.w[j]) - Math.log(sj) - 0.5 * LN_2PI) }
+    kernelConstants.set(kernel, k)
+  }
+  const { inv, c } = k
+  let top = -Infinity
+  for (let j = 0; j < inv.length; j++) {
+    const z = e * inv[j]
+    const t = c[j] - 0.5 * z * z
+    if (t > top) top = t
+  }
+  if (!Number.isFinite(top)) return top
+  let total = 0
+  for (let j = 0; j < inv.length; j++) {
+    const z = e * inv[j]
+    total += Math.exp(c[j] - 0.5 * z * z - top)
+  }
+  return top + Math.log(total)
 }
 
 /** The kernel of x̄ − μ when σ has a prior: the σ prior's quadrature nodes as a scale mixture of N(0, σ²/n). */

@@ -1,3 +1,5 @@
+import { niceStep } from '@/utils/axis'
+
 /** What a key press on a chip-grid bin does: move the focus to another bin, or add or remove a chip. */
 export type ChipAction = { type: 'focus'; index: number } | { type: 'add'; index: number } | { type: 'remove'; index: number }
 
@@ -71,13 +73,7 @@ export interface ChipScale {
   ticks: number[]
 }
 
-/** A step of 1, 2 or 5 times a power of ten close to `range / count` (common practice for axis ticks). */
-export function niceStep(range: number, count = 3): number {
-  const raw = range / count
-  const power = 10 ** Math.floor(Math.log10(raw))
-  const m = raw / power
-  return (m <= 1 ? 1 : m <= 2 ? 2 : m <= 5 ? 5 : 10) * power
-}
+export { niceStep }
 
 /**
  * The chip grid as a histogram drawn to scale: each column spans its bin on a linear value axis and its height is

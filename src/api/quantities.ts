@@ -1,35 +1,11 @@
-import type { QuantityBody, SupportKind } from '@shared/schemas/quantities'
+import type { QuantityBody } from '@shared/schemas/quantities'
+import type { Support } from '@shared/stats'
+import type { EvidenceFile, Quantity } from '@shared/api/quantities'
 import { api, type CsrfProvider } from './client'
 import { uploadFile } from './upload'
 
-export type Support =
-  | { kind: Exclude<SupportKind, 'bounded'> }
-  | { kind: 'bounded'; lower: number; upper: number }
-
-export interface EvidenceFile {
-  id: number
-  filename: string
-  mimeType: string
-  sizeBytes: number
-  createdAt: string
-}
-
-export interface Quantity {
-  id: number
-  studyId: number
-  name: string
-  symbol: string
-  unit: string
-  question: string
-  support: Support
-  assumptions: string
-  evidenceNotes: string
-  position: number
-  version: number
-  files: EvidenceFile[]
-  createdAt: string
-  updatedAt: string
-}
+export type { EvidenceFile, Quantity } from '@shared/api/quantities'
+export type { Support } from '@shared/stats'
 
 /** What POST/PATCH accept: lower/upper only for bounded support. */
 export type QuantityInput = Omit<QuantityBody, 'support'> & { support: Support }

@@ -1,3 +1,4 @@
+import type { LeaveOneOut } from '@shared/elicitation/reconcile'
 import type { Distribution, Family, FitResult, Point, Support } from '@shared/stats'
 import type { Quantity } from './quantities'
 import type { RoundStatus } from './rounds'
@@ -37,16 +38,6 @@ export interface PoolSummary {
   q95: number
   mean?: number
   sd?: number
-}
-
-export interface LeaveOneOutRow {
-  expertId: number
-  label: string
-  q50: number
-  q05: number
-  q95: number
-  medianShift: number
-  widthRatio: number
 }
 
 export interface CookeScore {
@@ -108,7 +99,7 @@ export interface ReconciliationView {
   weights: number[]
   pool: PoolSummary | null
   fits: FitResult[]
-  leaveOneOut: LeaveOneOutRow[]
+  leaveOneOut: LeaveOneOut[]
   disagreements: { a: string; b: string }[]
   consensusCheck: { narrow: boolean; width: number; spread: number } | null
   problems: Record<string, string>

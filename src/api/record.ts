@@ -1,3 +1,4 @@
+import type { TippingPoint } from '@shared/elicitation/tipping'
 import type { Distribution, PriorDistribution, Support } from '@shared/stats'
 import type { ModelLanguage } from '@shared/elicitation/model-code'
 import type { RecordCaution } from '@shared/elicitation/record-cautions'
@@ -132,7 +133,7 @@ export interface RecordImpact {
   n: number
   candidates: ImpactCandidate[]
   sweep: { evidenceRatio: number; priorDriven: boolean; rule: string } | null
-  tipping: unknown
+  tipping: TippingPoint | null
   decision: { direction: 'above' | 'below'; threshold: number; probability: number } | null
   findings: string[]
 }

@@ -1,90 +1,13 @@
-import type { Distribution, Point, Support } from '@shared/stats'
+import type { Distribution, Point } from '@shared/stats'
 import type { DeclarationBody, ElicitationMethod } from '@shared/schemas/rounds'
 import { api } from './client'
 import type { Quantity } from './quantities'
+import type { PanelInvitation, Round, RoundStatus, RoundSummary } from '@shared/api/rounds'
 
-export type RoundStatus = 'draft' | 'open' | 'closed' | 'reconciled'
-
-/** A row of GET /api/studies/:id/rounds. */
-export interface RoundSummary {
-  id: number
-  number: number
-  title: string
-  status: RoundStatus
-  opensAt: string
-  closesAt: string
-  panelSize: number
-  submitted: number
-  itemCount: number
-}
+export type { PanelInvitation, PanelMember, Round, RoundItem, RoundQuantity, RoundStatus, RoundSummary } from '@shared/api/rounds'
 
 /** A quantity as the round form needs it (GET /api/studies/:id/quantities). */
 export type StudyQuantity = Omit<Quantity, 'files' | 'createdAt' | 'updatedAt'>
-
-export interface RoundQuantity {
-  id: number
-  name: string
-  symbol: string
-  unit: string
-  question: string
-  support: Support
-  assumptions: string
-  evidenceNotes: string
-  files: { id: number; filename: string; mimeType: string; sizeBytes: number }[]
-}
-
-export interface RoundItem {
-  quantityId: number
-  method: ElicitationMethod
-  edges?: number[]
-  chips?: number
-  askTails: boolean
-  quantity: RoundQuantity
-}
-
-export interface PanelInvitation {
-  id: number
-  invitedAt: string | null
-  expiresAt: string | null
-  acceptedAt: string | null
-  expired: boolean
-}
-
-export interface PanelMember {
-  id: number
-  email: string
-  name: string
-  userId: number | null
-  notifiedAt: string | null
-  firstOpenedAt: string | null
-  submittedAt: string | null
-  invitation: PanelInvitation | null
-}
-
-export interface Round {
-  id: number
-  studyId: number
-  number: number
-  title: string
-  briefing: string
-  opensAt: string
-  closesAt: string
-  status: RoundStatus
-  reminderHoursBefore: number | null
-  reminderSentAt: string | null
-  /** IANA zone in which the round's e-mails state its times. */
-  timeZone: string
-  calibrationPosition: 'before' | 'after'
-  feedbackEnabled: boolean
-  /** `answer` is left out for experts. */
-  practice: { question: string; unit: string; answer?: number }
-  openedAt: string | null
-  closedAt: string | null
-  version: number
-  items: RoundItem[]
-  /** Empty for experts. */
-  panel: PanelMember[]
-}
 
 /** Body of POST /api/studies/:id/rounds (dates as Date or ISO text; JSON turns a Date into ISO). */
 export interface RoundWriteBody {

@@ -1,5 +1,8 @@
 import type { Role } from '@shared/types'
+import type { OutboxMessage } from '@shared/api/outbox'
 import { api } from './client'
+
+export type { OutboxMessage, OutboxStatus } from '@shared/api/outbox'
 
 export interface AuditEvent {
   id: number
@@ -9,21 +12,6 @@ export interface AuditEvent {
   details: Record<string, unknown> | null
   actorName: string
   hash: string
-}
-
-export type OutboxStatus = 'queued' | 'sending' | 'sent' | 'failed'
-
-export interface OutboxMessage {
-  id: number
-  kind: string
-  to: string
-  toName: string | null
-  subject: string
-  status: OutboxStatus
-  attempts: number
-  lastError: string | null
-  createdAt: string
-  sentAt: string | null
 }
 
 export interface DirectoryUser {

@@ -20,8 +20,6 @@ import {
 } from '@/answer/status'
 import { useAutosave, type Autosave, type SaveStatus } from './useAutosave'
 
-/** A round as the expert's GET returns it (the client's Round type predates `askCalibration`). */
-export type AnswerRound = Round & { askCalibration?: boolean }
 
 export interface Conflict {
   message: string
@@ -130,7 +128,7 @@ function answerItemOf(item: RoundItem): AnswerItem {
  * between items), live checks and fits from the shared engine, autosave with versions, the calibration block,
  * the rail's statuses and the submit.
  */
-export function useAnswerSession(round: Ref<AnswerRound>, calibrationAnsweredEarlier: Ref<number[]> = ref([])) {
+export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: Ref<number[]> = ref([])) {
   const store = useJudgementsStore()
   const quantities = shallowRef<QuantityState[]>([])
   const calibrations = shallowRef<CalibrationState[]>([])

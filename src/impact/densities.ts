@@ -1,38 +1,48 @@
 import { pdf, posteriorOf, quantile, supportBounds, type PilotData, type Posterior, type Support } from '@shared/stats'
 import type { ImpactCandidate, ImpactRequest } from '@/api/impact'
 import { robustMixture } from '@shared/elicitation/impact'
+import { niceAxis } from '@/utils/axis'
 
-/** Chart colours fixed app-wide (theme.css): prior amber, likelihood slate, posterior green, pooled/consensus ink dashed. */
+/** Chart colours fixed app-wide (theme.css): prior amber, likelihood slate, posterior green, pooled/consensus ink. */
 export const CHART_COLOURS = {
   prior: '#c9821a',
   likelihood: '#5b6b7a',
   posterior: '#1f6f5c',
   pooled: '#1d2733',
-  /** Muted tones for the priors other than the reconciled one. */
-  mutedPrior: '#b89a6e',
-  mutedComparison: '#8c97a2',
-  mutedPosterior: '#6fa596',
 } as const
 
-/** How each candidate's prior and posterior are drawn. */
-export function curveStyle(kind: ImpactCandidate['kind'], role: 'prior' | 'posterior'): { color: string; dash: number[]; width: number } {
-  if (role === 'posterior') {
-    if (kind === 'reconciled') return { color: CHART_COLOURS.posterior, dash: [], width: 2.5 }
-    return { color: CHART_COLOURS.mutedPosterior, dash: kind === 'comparison' ? [2, 3] : kind === 'mixture' ? [8, 3, 2, 3] : [5, 4], width: 1.5 }
-  }
-  switch (kind) {
-    case 'reconciled':
-      return { color: CHART_COLOURS.prior, dash: [], width: 2.5 }
-    case 'pooled':
-    case 'consensus':
-      return { color: CHART_COLOURS.pooled, dash: [6, 4], width: 1.5 }
-    case 'comparison':
-      return { color: CHART_COLOURS.mutedComparison, dash: [2, 3], width: 1.5 }
-    case 'mixture':
-      return { color: CHART_COLOURS.mutedPrior, dash: [8, 3, 2, 3], width: 1.5 }
-    default:
-      return { color: CHART_COLOURS.mutedPrior, dash: [1, 3], width: 1.5 }
-  }
+/** Marker shapes (chart.js point styles) that tell candidates apart without colour. */
+export type Marker = 'circle' | 'rect' | 'triangle' | 'rectRot' | 'star' | 'crossRot' | 'cross' | 'rectRounded'
+
+/** How one candidate is drawn: its own colour and marker; its prior dashed, its posterior solid. */
+export interface CandidateLook {
+  color: string
+  marker: Marker
+  width: number
+}
+
+export const ROLE_DASH: Record<'prior' | 'posterior', number[]> = { prior: [7, 4], posterior: [] }
+
+const KIND_LOOKS: Partial<Record<ImpactCandidate['kind'], Omit<CandidateLook, 'width'>>> = {
+  reconciled: { color: CHART_COLOURS.posterior, marker: 'circle' },
+  comparison: { color: CHART_COLOURS.likelihood, marker: 'rect' },
+  mixture: { color: CHART_COLOURS.prior, marker: 'triangle' },
+  pooled: { color: CHART_COLOURS.pooled, marker: 'rectRot' },
+  consensus: { color: '#7b4b94', marker: 'star' },
+}
+/** The experts' looks in turn, none sharing a colour or a marker with another kind. */
+const EXPERT_LOOKS: Omit<CandidateLook, 'width'>[] = [
+  { color: '#2a6fb0', marker: 'crossRot' },
+  { color: '#b5446e', marker: 'cross' },
+  { color: '#8a6d1c', marker: 'rectRounded' },
+  { color: '#3b8ea5', marker: 'star' },
+  { color: '#9c5b2e', marker: 'rect' },
+]
+
+/** A candidate's look on the density chart; `expertIndex` counts the experts before it (0 for the first). */
+export function candidateLook(kind: ImpactCandidate['kind'], expertIndex = 0): CandidateLook {
+  const look = KIND_LOOKS[kind] ?? EXPERT_LOOKS[expertIndex % EXPERT_LOOKS.length]
+  return { ...look, width: kind === 'reconciled' ? 2.75 : 2 }
 }
 
 /** A candidate's prior as functions: a plain distribution, or the robust mixture of the reconciled prior and the wide component. */
@@ -67,7 +77,24 @@ export interface Curve {
   color: string
   dash: number[]
   width: number
+  marker: Marker
+  /** Grid indices where the candidate's marker is drawn on this curve. */
+  markerAt: number[]
   points: CurvePoint[]
+}
+
+/** One legend entry per drawn candidate, in the order of the analysis. */
+export interface LegendEntry extends CandidateLook {
+  key: string
+  label: string
+}
+
+/** Every `every`-th grid index from `offset`, where the curve stands above 5 % of its peak (markers on visible ink). */
+export function markerIndices(points: CurvePoint[], offset: number, every = 30): number[] {
+  const peak = Math.max(0, ...points.map((p) => p.y ?? 0))
+  const out: number[] = []
+  for (let i = offset % every; i < points.length; i += every) if ((points[i].y ?? 0) >= 0.05 * peak && peak > 0) out.push(i)
+  return out
 }
 
 /**
@@ -119,8 +146,9 @@ export function densityFromPdf(f: (x: number) => number, xs: number[]): CurvePoi
 const nextFrame = () => new Promise<void>((resolve) => setTimeout(resolve, 0))
 
 /**
- * Prior and posterior curves of the chosen candidates. One candidate at a time, yielding to the
- * browser in between so the page stays responsive; `isStale` stops early when the choice changed.
+ * Prior and posterior curves of the chosen candidates on round axis ends (niceAxis). One candidate at a time,
+ * yielding to the browser in between so the page stays responsive; `isStale` stops early when the choice changed.
+ * Each candidate's look follows its place among all the analysis's candidates, so it keeps it whatever else is chosen.
  */
 export async function computeCurves(
   candidates: ImpactCandidate[],
@@ -128,22 +156,31 @@ export async function computeCurves(
   input: ImpactRequest | null | undefined,
   support: Support | undefined,
   isStale: () => boolean = () => false,
-): Promise<{ curves: Curve[]; range: [number, number] } | null> {
+  all: ImpactCandidate[] = candidates,
+): Promise<{ curves: Curve[]; range: [number, number]; step: number; legend: LegendEntry[] } | null> {
   const models: { c: ImpactCandidate; kind: ImpactCandidate['kind']; model: PriorModel }[] = []
   for (const c of candidates) {
     models.push({ c, kind: c.kind, model: priorModel(c, data, input) })
     await nextFrame()
     if (isStale()) return null
   }
-  const range = chartRange(models, support)
+  const [lo, hi] = chartRange(models, support)
+  const { lower, upper } = support ? supportBounds(support) : { lower: -Infinity, upper: Infinity }
+  const axis = niceAxis(lo, hi, 6, lower, upper)
+  const range: [number, number] = [axis.min, axis.max]
   const xs = grid(range)
   const curves: Curve[] = []
-  for (const { c, model } of models) {
-    curves.push({ id: `${c.key}-prior`, label: `${c.label}: prior`, kind: c.kind, role: 'prior', ...curveStyle(c.kind, 'prior'), points: densityFromPdf(model.pdf, xs) })
-    curves.push({ id: `${c.key}-posterior`, label: `${c.label}: posterior`, kind: c.kind, role: 'posterior', ...curveStyle(c.kind, 'posterior'), points: densityFromCdf(model.posterior.cdf, xs) })
+  const legend: LegendEntry[] = []
+  for (const [n, { c, model }] of models.entries()) {
+    const look = candidateLook(c.kind, all.filter((o) => o.kind === 'expert').findIndex((o) => o.key === c.key))
+    legend.push({ key: c.key, label: c.label, ...look })
+    const prior = densityFromPdf(model.pdf, xs)
+    const posterior = densityFromCdf(model.posterior.cdf, xs)
+    const offset = 6 + 7 * n
+    curves.push({ id: `${c.key}-prior`, label: `${c.label}: prior`, kind: c.kind, role: 'prior', ...look, dash: ROLE_DASH.prior, markerAt: markerIndices(prior, offset), points: prior })
+    curves.push({ id: `${c.key}-posterior`, label: `${c.label}: posterior`, kind: c.kind, role: 'posterior', ...look, dash: ROLE_DASH.posterior, markerAt: markerIndices(posterior, offset), points: posterior })
     await nextFrame()
     if (isStale()) return null
   }
-  return { curves, range }
+  return { curves, range, step: axis.step, legend }
 }
-

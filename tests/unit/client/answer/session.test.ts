@@ -4,7 +4,8 @@ import { ref } from 'vue'
 import { createPinia, setActivePinia } from 'pinia'
 import { fitAnswer } from '@shared/elicitation/answers'
 import type { Judgement } from '@/api/judgements'
-import { useAnswerSession, shownFits, sameFit, type AnswerRound } from '@/composables/useAnswerSession'
+import { useAnswerSession, shownFits, sameFit } from '@/composables/useAnswerSession'
+import type { Round } from '@/api/rounds'
 import { mockFetch, type RecordedCall, type Reply } from '../fetch-mock'
 
 const quantity = (id: number, name: string, support: object) => ({ id, name, symbol: `q${id}`, unit: 'u', question: `${name}?`, support, assumptions: '', evidenceNotes: '', files: [] })
@@ -16,7 +17,7 @@ const round = {
     { quantityId: 1, method: 'quantile', askTails: false, quantity: quantity(1, 'Burst rate', { kind: 'positive' }) },
     { quantityId: 2, method: 'fixed-interval', edges: [0, 0.5, 1], askTails: false, quantity: quantity(2, 'Uptake', { kind: 'proportion' }) },
   ],
-} as unknown as AnswerRound
+} as unknown as Round
 
 const judgement = (over: Partial<Judgement>): Judgement => ({
   id: 40, roundId: 9, quantityId: 1, expertId: 3, method: 'quantile', answer: { lower: 4, upper: 25, points: [] }, rationale: '', fits: [], chosenFamily: null,

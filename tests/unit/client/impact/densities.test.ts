@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { pdf, quantile } from '@shared/stats'
 import { evaluateCandidates } from '@shared/elicitation/impact'
-import { chartRange, curveStyle, densityFromCdf, grid, priorModel } from '@/impact/densities'
+import { candidateLook, chartRange, densityFromCdf, grid, markerIndices, priorModel, ROLE_DASH } from '@/impact/densities'
 import type { ImpactCandidate } from '@/api/impact'
 
 const candidate = (kind: ImpactCandidate['kind'], prior: ImpactCandidate['prior']): ImpactCandidate => ({
@@ -58,9 +58,21 @@ describe('densities drawn in the browser', () => {
     expect(drawn.posterior.cdf(server.posterior.q50)).toBeCloseTo(0.5, 12)
   })
 
-  it('draws the reconciled prior amber and its posterior green, the pool ink dashed', () => {
-    expect(curveStyle('reconciled', 'prior')).toMatchObject({ color: '#c9821a', dash: [] })
-    expect(curveStyle('reconciled', 'posterior')).toMatchObject({ color: '#1f6f5c', dash: [] })
-    expect(curveStyle('pooled', 'prior')).toMatchObject({ color: '#1d2733', dash: [6, 4] })
+  it('gives every candidate kind and the first five experts a colour and a marker of its own; priors dashed, posteriors solid', () => {
+    const looks = [...(['reconciled', 'comparison', 'mixture', 'pooled', 'consensus'] as const).map((k) => candidateLook(k)), ...[0, 1, 2, 3, 4].map((i) => candidateLook('expert', i))]
+    expect(new Set(looks.map((l) => l.color)).size).toBe(looks.length)
+    expect(candidateLook('reconciled')).toEqual({ color: '#1f6f5c', marker: 'circle', width: 2.75 })
+    expect(candidateLook('comparison')).toEqual({ color: '#5b6b7a', marker: 'rect', width: 2 })
+    // Beside the five kinds, every expert's marker differs from the others' (the reconciled prior and the comparison prior keep theirs).
+    const experts = [0, 1, 2, 3, 4].map((i) => candidateLook('expert', i).marker)
+    expect(new Set(experts).size).toBe(5)
+    expect(experts).not.toContain('circle')
+    expect(ROLE_DASH).toEqual({ prior: [7, 4], posterior: [] })
+  })
+
+  it('puts markers every 30 grid points from the offset, only where the curve stands above 5 % of its peak', () => {
+    const points = grid([0, 240]).map((x) => ({ x, y: x < 100 ? 0 : x < 200 ? 1 : 0.01 }))
+    expect(markerIndices(points, 6)).toEqual([126, 156, 186])
+    expect(markerIndices(points.map((p) => ({ ...p, y: 0 })), 6)).toEqual([])
   })
 })

@@ -17,7 +17,7 @@ const quantities = [quantity(11, 'burst', { kind: 'positive' }), quantity(12, 'u
 
 const draft: Round = {
   id: 7, studyId: 1, number: 1, title: 'Round 1', briefing: '', opensAt: '2030-01-01T09:00:00.000Z', closesAt: '2030-01-15T17:00:00.000Z',
-  status: 'draft', reminderHoursBefore: 24, reminderSentAt: null, timeZone: 'Europe/Berlin', calibrationPosition: 'after', feedbackEnabled: false,
+  status: 'draft', reminderHoursBefore: 24, reminderSentAt: null, timeZone: 'Europe/Berlin', calibrationPosition: 'after', feedbackEnabled: false, askCalibration: false,
   practice: { question: 'Practice: how many kilometres of mains?', unit: 'km', answer: 1840 }, openedAt: null, closedAt: null, version: 3,
   items: [
     { quantityId: 11, method: 'quantile', askTails: false, quantity: { ...quantities[0], files: [] } },
