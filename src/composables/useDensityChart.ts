@@ -1,5 +1,4 @@
-import { computed, type Ref } from 'vue'
-import type { ChartData, ChartOptions } from 'chart.js'
+import type { ChartData } from 'chart.js'
 
 /** One density drawn as a line: a function of x, its look, and its quantile function to choose the x range. */
 export interface DensityCurve {
@@ -19,14 +18,6 @@ export interface DensityCurve {
 
 /** Every how many grid points a curve with markers shows one. */
 const MARKER_EVERY = 20
-
-export interface DensityChartOptions {
-  xLabel: string
-  /** Values outside [min, max] are not drawn (the support). */
-  min?: number
-  max?: number
-  points?: number
-}
 
 /** Range that holds the central 99 % of every curve, padded a little, clipped to the support. */
 export function densityRange(curves: DensityCurve[], min = -Infinity, max = Infinity): [number, number] {
@@ -68,48 +59,4 @@ export function densityData(curves: DensityCurve[], range: [number, number], n =
       order: -(c.order ?? 0),
     })),
   }
-}
-
-/** Chart data and options for a set of densities on one linear x axis; recomputed when the curves change. */
-export function useDensityChart(curves: Ref<DensityCurve[]>, options: Ref<DensityChartOptions>) {
-  const range = computed(() => densityRange(curves.value, options.value.min, options.value.max))
-  const data = computed(() => densityData(curves.value, range.value, options.value.points))
-  const chartOptions = computed<ChartOptions<'line'>>(() => ({
-    responsive: true,
-    maintainAspectRatio: false,
-    animation: false,
-    parsing: false,
-    normalized: true,
-    interaction: { mode: 'index', intersect: false },
-    scales: {
-      x: {
-        type: 'linear',
-        min: range.value[0],
-        max: range.value[1],
-        title: { display: true, text: options.value.xLabel, color: '#3d4753' },
-        grid: { color: '#ece9e1' },
-        ticks: { color: '#5f6873', maxTicksLimit: 10, includeBounds: false },
-      },
-      y: {
-        type: 'linear',
-        beginAtZero: true,
-        title: { display: true, text: 'Density', color: '#3d4753' },
-        grid: { color: '#ece9e1' },
-        ticks: { color: '#5f6873', maxTicksLimit: 6 },
-      },
-    },
-    plugins: {
-      legend: {
-        position: 'bottom',
-        labels: { usePointStyle: true, pointStyle: 'line', color: '#1d2733', boxWidth: 28, padding: 14, sort: (a, b) => (a.datasetIndex ?? 0) - (b.datasetIndex ?? 0) },
-      },
-      tooltip: {
-        callbacks: {
-          title: (items) => (items.length ? `x = ${Number(items[0].parsed.x).toPrecision(4)}` : ''),
-          label: (item) => `${item.dataset.label}: ${item.parsed.y === null ? '—' : Number(item.parsed.y).toPrecision(3)}`,
-        },
-      },
-    },
-  }))
-  return { range, data, options: chartOptions }
 }

@@ -87,6 +87,31 @@ async function setUpRound(page: Page): Promise<Setup> {
 let s: BrowserSession
 let setup: Setup
 
+/** Every row of the panel view lies inside the screen, its 5–95 % bar and median notch inside its track, and the axis ends on round values. */
+async function expectPanelInView(page: Page, width: number): Promise<void> {
+  const panel = await page.getByTestId('panel-ranges').boundingBox()
+  expect(panel!.x).toBeGreaterThanOrEqual(0)
+  expect(panel!.x + panel!.width).toBeLessThanOrEqual(width)
+  const rows = await page.getByTestId('panel-row').evaluateAll((els) => els.map((el) => {
+    const track = el.getBoundingClientRect()
+    const bar = el.querySelector('[data-testid="panel-range"]')!.getBoundingClientRect()
+    const median = el.querySelector('[data-testid="panel-median"]')!.getBoundingClientRect()
+    return { track: [track.left, track.right], bar: [bar.left, bar.right], median: median.left + median.width / 2 }
+  }))
+  expect(rows).toHaveLength(3)
+  for (const r of rows) {
+    expect(r.bar[1] - r.bar[0]).toBeGreaterThan(4)
+    expect(r.bar[0]).toBeGreaterThanOrEqual(r.track[0] - 0.5)
+    expect(r.bar[1]).toBeLessThanOrEqual(r.track[1] + 0.5)
+    expect(r.median).toBeGreaterThan(r.bar[0])
+    expect(r.median).toBeLessThan(r.bar[1])
+  }
+  const ticks = (await page.getByTestId('panel-tick').allTextContents()).map(Number)
+  expect(ticks.length).toBeGreaterThanOrEqual(3)
+  const step = ticks[1] - ticks[0]
+  for (const t of ticks) expect(Math.abs(t / step - Math.round(t / step))).toBeLessThan(1e-9)
+}
+
 beforeAll(async () => {
   s = await openBrowser()
 })
@@ -106,9 +131,14 @@ describe('reconciling a quantity', () => {
     const card = page.getByTestId('quantity-card').filter({ hasText: QUANTITY.name })
     await card.getByTestId('quantity-reconcile').click()
     await page.waitForURL(new RegExp(`/studies/${setup.studyId}/reconcile/${setup.quantityId}$`))
-    await page.getByTestId('reconcile-chart').locator('canvas').waitFor()
+    await page.getByTestId('panel-ranges').waitFor()
     await expect(page.getByTestId('expert-row').count()).resolves.toBe(3)
     await expect(page.getByTestId('expert-row').first().textContent()).resolves.toContain('Tomasz Wierzbicki')
+    // The panel view names the experts with the same study-wide labels as the table, one row each, and fills the combination beneath.
+    const tableLabels = await page.getByTestId('expert-row').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-label')))
+    await expect(page.getByTestId('panel-row').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-label')))).resolves.toEqual(tableLabels)
+    await page.getByTestId('panel-combined-shape').waitFor()
+    await expectPanelInView(page, 1280)
     await expect(page.getByTestId('reconcile-status').getAttribute('data-status')).resolves.toBe('new')
     await s.shot('reconcile-01-experts')
     await expectAccessible(s.page, 'analyst reconcile')
@@ -118,16 +148,25 @@ describe('reconciling a quantity', () => {
     const { page } = s
     await page.getByTestId('method-linear').click()
     await page.getByTestId('weights-performance').click()
-    await page.getByTestId('cooke-table').waitFor()
+    await page.getByTestId('cutoff-plot').waitFor()
     await expect(page.getByTestId('cooke-row').count()).resolves.toBe(3)
     const weights = async () => (await page.getByTestId('cooke-weight').allTextContents()).map(Number)
     const before = await weights()
     expect(before[0]).toBeGreaterThan(0.5)
     expect(before[1]).toBeGreaterThan(0)
 
+    const bars = async () => page.getByTestId('weight-bar').evaluateAll((els) => els.map((el) => Number(el.getAttribute('data-weight'))))
+    expect((await bars())[1]).toBeGreaterThan(0)
+
+    // A typed cutoff moves the line as well.
     await field(page, 'cooke-cutoff').fill('0.01')
     await field(page, 'cooke-cutoff').press('Tab')
     await expect.poll(async () => (await weights())[1]).toBe(0)
+    await expect(page.getByTestId('cutoff-handle').getAttribute('aria-valuenow')).resolves.toBe('0.01')
+    // The plot greys out the expert below the line, the weight bars follow and so does the combination the analyst sees.
+    await expect(page.getByTestId('cutoff-point').nth(1).getAttribute('data-below')).resolves.toBe('true')
+    await expect.poll(async () => (await bars())[1]).toBe(0)
+
     // Labels are the study's (joining order across all its rounds), so read the second expert's from the table.
     const secondLabel = (await page.getByTestId('cooke-row').nth(1).textContent())?.match(/Expert [A-Z]+/)?.[0]
     expect(secondLabel).toMatch(/^Expert [A-Z]+$/)
@@ -161,5 +200,18 @@ describe('reconciling a quantity', () => {
     expect(saved.weights[1]).toBe(0)
     await s.shot('reconcile-03-reconciled')
     await expectAccessible(s.page, 'analyst reconcile, reconciled')
+  })
+
+  it('shows the panel view, with the reconciled prior over the combination, on a 360 px phone', async () => {
+    const { page } = s
+    await page.getByTestId('panel-prior-line').waitFor()
+    await page.setViewportSize({ width: 360, height: 740 })
+    try {
+      await page.getByTestId('panel-ranges').scrollIntoViewIfNeeded()
+      await expectPanelInView(page, 360)
+      await s.shot('reconcile-04-panel-phone')
+    } finally {
+      await page.setViewportSize({ width: 1280, height: 800 })
+    }
   })
 })

@@ -13,16 +13,6 @@ import type { ReconciliationView } from '@/api/reconciliation'
 import { mockFetch, type RecordedCall, type Reply } from '../fetch-mock'
 import { expert, viewFixture } from './fixture'
 
-// chart.js needs a canvas; the chart is checked in the browser. This stand-in records what it was asked to draw.
-vi.mock('@/components/reconcile/ReconcileChart.vue', () => ({
-  __esModule: true,
-  default: {
-    name: 'ReconcileChart',
-    props: ['curves', 'xLabel', 'caption', 'min', 'max'],
-    template: '<figure data-testid="reconcile-chart" :data-curves="curves.map((c) => c.id).join(\',\')">{{ caption }}</figure>',
-  },
-}))
-
 const study: StudySummary = {
   id: 1, title: 'Kestrel', context: 'ctx', status: 'reconciling', ownerId: 2, ownerName: 'Priya', myRole: 'analyst',
   quantityCount: 3, memberCount: 5, version: 1, createdAt: '', updatedAt: '',
@@ -105,10 +95,14 @@ describe('ReconcileView', { timeout: 15000 }, () => {
     expect(rows[0].text()).toContain('Tomasz Wierzbicki')
     expect(rows[0].text()).toContain('Night-flow records')
     expect(wrapper.get('[data-testid="combination-summary"]').text()).toContain('median 11.6')
-    expect(wrapper.get('[data-testid="reconcile-chart"]').attributes('data-curves')).toBe('expert-3,expert-4,combination')
+    const panel = wrapper.get('[data-testid="panel-ranges"]')
+    expect(panel.findAll('[data-testid="panel-row"]').map((r) => r.attributes('data-label'))).toEqual(['Expert A', 'Expert B'])
+    expect(panel.find('[data-testid="panel-combined-shape"]').exists()).toBe(true)
+    expect(panel.find('[data-testid="panel-prior-line"]').exists()).toBe(false)
     await radio(wrapper, 'fit-row"][data-family="normal"] [data-testid="fit-choose').setValue(true)
     await settle()
-    expect(wrapper.get('[data-testid="reconcile-chart"]').attributes('data-curves')).toBe('expert-3,expert-4,combination,prior')
+    expect(panel.find('[data-testid="panel-prior-line"]').exists()).toBe(true)
+    expect(panel.text()).toContain('Normal prior (chosen fit)')
     expect(wrapper.get('[data-testid="fit-row"][data-family="normal"]').classes()).toContain('is-chosen')
   })
 

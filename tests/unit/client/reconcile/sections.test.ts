@@ -1,10 +1,10 @@
 // @vitest-environment happy-dom
-import { describe, expect, it, vi } from 'vitest'
+import { describe, expect, it } from 'vitest'
 import { mount } from '@vue/test-utils'
 import {
   ElAlert, ElButton, ElCheckbox, ElEmpty, ElForm, ElFormItem, ElInput, ElInputNumber, ElOption, ElRadio, ElRadioButton, ElRadioGroup, ElSelect, ElSlider, ElTag,
 } from 'element-plus'
-import { fitAll } from '@shared/stats'
+import { fitAll, toUnivariate } from '@shared/stats'
 import type { Summary } from '@shared/elicitation/reconcile'
 import ExpertsSection from '@/components/reconcile/ExpertsSection.vue'
 import CombineSection from '@/components/reconcile/CombineSection.vue'
@@ -12,13 +12,8 @@ import FitSection from '@/components/reconcile/FitSection.vue'
 import RobustnessSection from '@/components/reconcile/RobustnessSection.vue'
 import DecisionSection from '@/components/reconcile/DecisionSection.vue'
 import { computePreview, liveCooke } from '@/reconcile/preview'
+import { rangeOf } from '@/composables/reconcile/usePanelView'
 import { expert, viewFixture } from './fixture'
-
-// chart.js needs a canvas; the chart is checked in the browser.
-vi.mock('@/components/reconcile/ReconcileChart.vue', () => ({
-  __esModule: true,
-  default: { name: 'ReconcileChart', props: ['curves', 'xLabel', 'caption', 'min', 'max'], template: '<figure data-testid="reconcile-chart">{{ caption }}</figure>' },
-}))
 
 const components = {
   ElAlert, ElButton, ElCheckbox, ElEmpty, ElForm, ElFormItem, ElInput, ElInputNumber, ElOption, ElRadio, ElRadioButton, ElRadioGroup, ElSelect, ElSlider, ElTag,
@@ -29,7 +24,12 @@ describe('ExpertsSection', () => {
   const v = viewFixture({ rounds: [{ id: 7, number: 1, title: 'Round 1', status: 'closed', submitted: 2 }, { id: 9, number: 2, title: 'Round 2', status: 'open', submitted: 1 }] })
   const base = {
     view: v, loading: false, answeredRounds: v.rounds, otherRounds: [v.rounds[1]], compareError: null, compare: null, compareRoundId: null,
-    curves: [], xLabel: 'flow (L/s)', caption: 'Two experts.', bounds: {}, excluded: [4], tones: { 3: '#5f87ad', 4: '#b0707f' }, weights: { 3: 1 }, unit: 'L/s', disabled: false,
+    panel: {
+      rows: v.experts.map((e, i) => ({ id: e.expertId, label: e.label, range: rangeOf(e.distribution), excluded: i === 1, tone: '#5f87ad', compare: null })),
+      compareLabel: null, combined: toUnivariate(v.experts[0].distribution), combinedLabel: 'Linear pool, equal weights', prior: null, priorLabel: '',
+      bounds: { lower: -Infinity, upper: Infinity }, xLabel: 'flow (L/s)', caption: 'Two experts.',
+    },
+    excluded: [4], tones: { 3: '#5f87ad', 4: '#b0707f' }, weights: { 3: 1 }, unit: 'L/s', disabled: false,
   }
 
   it('lists the answered rounds, emits the round picked and which expert is toggled', async () => {
@@ -40,6 +40,7 @@ describe('ExpertsSection', () => {
     const rows = wrapper.findAll('[data-testid="expert-row"]')
     expect(rows.map((r) => r.attributes('data-label'))).toEqual(['Expert A', 'Expert B'])
     expect(rows[1].classes()).toContain('is-excluded')
+    expect(wrapper.findAll('[data-testid="panel-row"]').map((r) => r.attributes('data-excluded'))).toEqual(['false', 'true'])
     await rows[1].get('[data-testid="expert-toggle"] input').setValue(true)
     expect(wrapper.emitted('toggle')).toEqual([[4, true]])
   })
