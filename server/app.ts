@@ -33,6 +33,8 @@ export interface AppOptions {
   secureCookies?: boolean
   /** Sign-in attempts per client address and account in 15 minutes; an address (over every account) or an account (over every address) may fail five times as often. */
   signInLimitPerWindow?: number
+  /** How long an answer to an already refused address is held back (default 1 s; tests set 0). */
+  holdRefusedSignInMs?: number
   /** Folder of the built client (vite build); served with a fallback to index.html for client routes. */
   clientDir?: string
   /** Address used in e-mailed links. */
@@ -72,6 +74,9 @@ export function createApp(opts: AppOptions): PriorsmithApp {
       strictTransportSecurity: opts.secureCookies ? undefined : false,
     }),
   )
+  const signInGuard = createSignInGuard({ databaseUrl: opts.databaseUrl, limitPerWindow: opts.signInLimitPerWindow ?? 20, holdRefusedMs: opts.holdRefusedSignInMs })
+  // Before sessions, CSRF and body parsing: a flood from an address already refused costs no database work.
+  app.post('/api/auth/sign-in', signInGuard.refusedAddress)
   app.use(express.json({ limit: '4mb' }))
 
   const sessions = createSessionMiddleware({ databaseUrl: opts.databaseUrl, secret: opts.sessionSecret, secure: !!opts.secureCookies })
@@ -87,7 +92,6 @@ export function createApp(opts: AppOptions): PriorsmithApp {
     res.json({ devMailbox: !!opts.mailFake?.running })
   })
   app.use('/api', csrf.protection)
-  const signInGuard = createSignInGuard({ databaseUrl: opts.databaseUrl, limitPerWindow: opts.signInLimitPerWindow ?? 20 })
   app.use('/api/auth', authRouter(db, passport, { guard: signInGuard, generateCsrfToken: csrf.generateToken }))
   app.use('/api/users', usersRouter(db))
   const ctx: AppContext = { db, publicUrl: opts.publicUrl ?? 'http://localhost:3000', kickMail: opts.kickMail ?? (async () => {}) }

@@ -44,6 +44,12 @@ class PostgresStore implements Store {
     return this.prefix + createHash('sha256').update(raw).digest('hex')
   }
 
+  /** Until when `raw` is known here to be refused, or null. */
+  knownRefusedUntil(raw: string): Date | null {
+    const until = this.refusedUntil.get(this.key(raw))
+    return until && until.getTime() > Date.now() ? until : null
+  }
+
   async increment(raw: string): Promise<ClientRateLimitInfo> {
     const key = this.key(raw)
     const until = this.refusedUntil.get(key)
@@ -75,7 +81,17 @@ class PostgresStore implements Store {
 const emailOf = (req: Request) => normaliseEmail(typeof req.body?.email === 'string' ? req.body.email : '')
 const addressOf = (req: Request) => ipKeyGenerator(req.ip ?? '')
 
+/** How long the answer to an address already refused is held back: a flooding client then gets at most as many answers a second as it has requests in flight. */
+const HOLD_REFUSED_MS = 1000
+/** Refusals held back at once at most; beyond it they are answered at once (each held answer is one timer and one open socket). */
+const MAX_HELD = 512
+
 export interface SignInGuard {
+  /**
+   * Mounted before the session, CSRF and body handling: an address this instance already knows to be refused is answered
+   * 429 there, without a session look-up or any other database work, after a short hold.
+   */
+  refusedAddress: RequestHandler
   /** Run before the sign-in handler; the first limit reached answers 429 and the others are not counted. */
   limiters: RequestHandler[]
   /** Counts one failed sign-in in the bounded failure log (not the audit chain). */
@@ -89,16 +105,16 @@ export interface SignInGuard {
  * (many clients guessing one password). Counters and the failure log live in PostgreSQL on a small pool of their own,
  * so a flood of sign-ins waits there and not on the connections everyone else's requests use.
  */
-export function createSignInGuard(opts: { databaseUrl: string; limitPerWindow: number }): SignInGuard {
+export function createSignInGuard(opts: { databaseUrl: string; limitPerWindow: number; holdRefusedMs?: number }): SignInGuard {
   const pool = new pg.Pool({ connectionString: opts.databaseUrl, max: 3 })
   pool.on('error', (err) => console.error('sign-in guard pool error:', err.message))
-  const limiter = (prefix: string, limit: number, key: (req: Request) => string, onlyFailures: boolean) => rateLimit({
+  const limiter = (prefix: string, limit: number, key: (req: Request) => string, onlyFailures: boolean, store = new PostgresStore(pool, prefix)) => rateLimit({
     windowMs: WINDOW_MS,
     limit,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     identifier: prefix,
-    store: new PostgresStore(pool, prefix),
+    store,
     keyGenerator: key,
     skipSuccessfulRequests: onlyFailures,
     handler: (_req, res) => {
@@ -106,8 +122,24 @@ export function createSignInGuard(opts: { databaseUrl: string; limitPerWindow: n
     },
   })
   const ceiling = opts.limitPerWindow * CEILING_FACTOR
+  const addressStore = new PostgresStore(pool, 'address:')
+  let held = 0
+  const refusedAddress: RequestHandler = (req, res, next) => {
+    const until = addressStore.knownRefusedUntil(addressOf(req))
+    if (!until) return next()
+    const answer = () => {
+      res.setHeader('Retry-After', String(Math.max(1, Math.ceil((until.getTime() - Date.now()) / 1000))))
+      res.status(429).json({ error: { message: TOO_MANY } })
+    }
+    if (held >= MAX_HELD || opts.holdRefusedMs === 0) return answer()
+    held++
+    setTimeout(() => {
+      held--
+      answer()
+    }, opts.holdRefusedMs ?? HOLD_REFUSED_MS).unref()
+  }
   const limiters = [
-    limiter('address:', ceiling, addressOf, true),
+    limiter('address:', ceiling, addressOf, true, addressStore),
     limiter('account:', ceiling, emailOf, true),
     limiter('pair:', opts.limitPerWindow, (req) => `${addressOf(req)}|${emailOf(req)}`, false),
   ]
@@ -128,6 +160,7 @@ export function createSignInGuard(opts: { databaseUrl: string; limitPerWindow: n
   pruning.unref()
 
   return {
+    refusedAddress,
     limiters,
     recordFailure,
     close: async () => {

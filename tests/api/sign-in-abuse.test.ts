@@ -1,4 +1,5 @@
 import { createHash } from 'node:crypto'
+import request from 'supertest'
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest'
 import * as passwords from '../../server/auth/passwords'
 import { CEILING_FACTOR } from '../../server/auth/sign-in-guard'
@@ -56,6 +57,12 @@ describe('a flood of failed sign-ins from one address', () => {
     expect(statuses).toEqual(Array(16).fill(429))
     // Without the memory each refused attempt was one more upsert of the counter (CEILING + 17 here).
     expect(await hitsNow()).toBe(CEILING + 1)
+    // The refusal comes before sessions and CSRF: a bare request from the refused address, with no session cookie and
+    // no token, is answered 429 (not 403), so a flood from it costs no session look-up either.
+    const bare = await request(h.built.app).post('/api/auth/sign-in').set('X-Forwarded-For', address).send({ email: 'bare@flood.example', password: 'guess-guess' })
+    expect(bare.status).toBe(429)
+    expect(bare.headers['set-cookie']).toBeUndefined()
+    expect(Number(bare.headers['retry-after'])).toBeGreaterThan(0)
   })
 
   it('a second address is not held back by the first one’s flood', async () => {

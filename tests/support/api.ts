@@ -18,6 +18,7 @@ export function startApi(options: Partial<Pick<AppOptions, 'signInLimitPerWindow
   const built = createApp({
     db, databaseUrl, sessionSecret: 'test-secret', publicUrl: 'http://localhost:3000', ...options,
     signInLimitPerWindow: options.signInLimitPerWindow ?? 1000,
+    holdRefusedSignInMs: 0,
   })
   return {
     db,
