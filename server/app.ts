@@ -76,7 +76,7 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   )
   const signInGuard = createSignInGuard({ databaseUrl: opts.databaseUrl, limitPerWindow: opts.signInLimitPerWindow ?? 20, holdRefusedMs: opts.holdRefusedSignInMs })
   // Before sessions, CSRF and body parsing: a flood from an address already refused costs no database work.
-  app.post('/api/auth/sign-in', signInGuard.refusedAddress)
+  app.use('/api/auth/sign-in', (req, res, next) => (req.method === 'POST' ? signInGuard.refusedAddress(req, res, next) : next()))
   app.use(express.json({ limit: '4mb' }))
 
   const sessions = createSessionMiddleware({ databaseUrl: opts.databaseUrl, secret: opts.sessionSecret, secure: !!opts.secureCookies })
