@@ -6,7 +6,9 @@ const candidate = (over: Partial<ImpactResult['candidates'][number]>): ImpactRes
   key: 'reconciled', label: 'Reconciled prior', kind: 'reconciled', prior: { family: 'gamma', shape: 6, rate: 0.5 },
   priorSummary: { mean: 12, q025: 4.4, q975: 23.3 }, logEvidence: -18.5, method: 'closed-form',
   posterior: { mean: 10.4, sd: 1.09, q025: 8.3, q50: 10.3, q975: 12.6 }, priorPredictiveP: 0.45, logPriorPredictiveP: Math.log(0.45), priorEss: 0.5,
-  bayesFactor: { logBF: Math.log(4), twoLnBF: 2 * Math.log(4), label: 'positive' }, decision: null, flags: [],
+  bayesFactor: { logBF: Math.log(4), twoLnBF: 2 * Math.log(4), label: 'positive' },
+  fractionalBayesFactor: { logBF: Math.log(1.5), b: 0.125 }, sensitivity: { prior: 0.08, likelihood: 0.02, diagnosis: 'weak-likelihood' }, diagnosticNotes: [],
+  decision: null, flags: [],
   ...over,
 })
 
