@@ -215,10 +215,11 @@ function namedFor<T>(c: CandidateInput, run: () => T): T {
 export interface SweepSummary {
   factors: number[]
   /**
-   * logFractionalBF: ln of the fractional Bayes factor of the widened prior against the prior as it stands (k = 1), with
-   * training fraction `trainingFraction`; null when it cannot be computed (`notes` says why).
+   * logBF and logFractionalBF: ln of the ordinary and of the fractional Bayes factor (training fraction `trainingFraction`)
+   * of the widened prior against the prior as it stands (k = 1); logFractionalBF is null when it cannot be computed
+   * (`notes` says why).
    */
-  points: { factor: number; logEvidence: number; logFractionalBF: number | null; posteriorMean: number; q025: number; q975: number }[]
+  points: { factor: number; logEvidence: number; logBF: number; logFractionalBF: number | null; posteriorMean: number; q025: number; q975: number }[]
   evidenceRatio: number
   /** The fractional Bayes factor's largest over smallest value across k = 0.5–2, the counterpart of evidenceRatio. */
   fractionalRatio: number | null
@@ -238,13 +239,14 @@ export interface SweepSummary {
  */
 export function sweepOf(prior: PriorDistribution, data: PilotData, support: Support, factors = SWEEP_FACTORS, trainingFraction: number | null = null): SweepSummary {
   const s = widthSweep(prior, data, factors, support)
+  const reference = s.points.find((p) => p.factor === 1)?.logEvidence ?? analyzePrior(prior, data, { skipPredictiveCheck: true }).logEvidence
   const notes: string[] = []
   const fractional = attempt(notes, 'The fractional Bayes factor curve', () => fractionalBayesFactors(s.points.map((p) => p.prior), prior, data, trainingFraction ?? undefined))
   const inRange = fractional?.filter((_, i) => factors[i] >= PRIOR_DRIVEN_CONVENTION.fromFactor && factors[i] <= PRIOR_DRIVEN_CONVENTION.toFactor).map((f) => f.logBF) ?? []
   return {
     factors,
     points: s.points.map((p, i) => ({
-      factor: p.factor, logEvidence: p.logEvidence, logFractionalBF: fractional ? fractional[i].logBF : null, posteriorMean: p.posteriorMean, q025: p.q025, q975: p.q975,
+      factor: p.factor, logEvidence: p.logEvidence, logBF: p.logEvidence - reference, logFractionalBF: fractional ? fractional[i].logBF : null, posteriorMean: p.posteriorMean, q025: p.q025, q975: p.q975,
     })),
     evidenceRatio: s.evidenceRatio,
     // The prior itself (k = 1, ln FBF = 0) belongs to the range whether or not the factors include it.

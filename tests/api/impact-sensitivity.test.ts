@@ -114,6 +114,8 @@ describe('fractional Bayes factor and power scaling on the demo burst logs (Pois
     }
     expect(sweep.trainingFraction).toBe(1 / 8)
     expect(sweep.points.find((p) => p.factor === 1)!.logFractionalBF).toBe(0)
+    const atOneEvidence = (sweep.points as unknown as { factor: number; logEvidence: number }[]).find((p) => p.factor === 1)!.logEvidence
+    for (const p of sweep.points as unknown as { logEvidence: number; logBF: number }[]) expect(p.logBF).toBe(p.logEvidence - atOneEvidence)
     for (const p of sweep.points) {
       const widened = scaleSpread(reconciled, p.factor, { kind: 'positive' })
       expect(p.logFractionalBF, `k = ${p.factor}`).toBeCloseTo(fractionalBayesFactor(widened, reconciled, data).logBF, 9)

@@ -39,7 +39,11 @@ describe('CSV export of the candidates table', () => {
       n: 8,
       candidates: [
         candidate({}),
-        candidate({ key: 'comparison', label: 'Comparison prior', kind: 'comparison', bayesFactor: null, priorEss: 20, flags: ['prior-dominates', 'prior-data-conflict'] }),
+        candidate({
+          key: 'comparison', label: 'Comparison prior', kind: 'comparison', bayesFactor: null, fractionalBayesFactor: null, sensitivity: null,
+          diagnosticNotes: ['The power-scaling sensitivity could not be computed: At this power the prior cannot be normalised with these data; choose a power nearer 1.'],
+          priorEss: 20, flags: ['prior-dominates', 'prior-data-conflict'],
+        }),
       ],
     }
     const csv = candidatesCsv(candidateRows(result), 'bursts per 100 km, per year')
@@ -48,7 +52,30 @@ describe('CSV export of the candidates table', () => {
     expect(lines[0]).toContain('"prior mean (bursts per 100 km, per year)"')
     expect(lines[0].split(',').slice(-4)).toEqual(['pilot n', 'P(decision rule)', 'act', 'flags'])
     expect(lines[1].startsWith('Reconciled prior,reconciled,"Gamma (shape = 6, rate = 0.5)",12,4.4,23.3,10.4,1.09,8.3,12.6,-18.5,')).toBe(true)
-    expect(lines[1]).toContain(`,${Math.log(4)},${Math.exp(Math.log(4))},positive,0.45,0.5,8,,,`)
-    expect(lines[2]).toContain(',,,,0.45,20,8,,,prior-dominates; prior-data-conflict')
+    expect(lines[1]).toContain(`,${Math.log(4)},${Math.exp(Math.log(4))},positive,`)
+    expect(lines[1]).toContain(',0.45,0.5,8,,,')
+    expect(lines[2]).toContain(',0.45,20,8,,,prior-dominates; prior-data-conflict')
+  })
+
+  it('adds the fractional Bayes factor with its b and both power-scaling sensitivities with the diagnosis in words', () => {
+    const result = {
+      n: 8,
+      candidates: [
+        candidate({}),
+        candidate({
+          key: 'comparison', label: 'Comparison prior', kind: 'comparison', bayesFactor: null, fractionalBayesFactor: null, sensitivity: null,
+          diagnosticNotes: ['The power-scaling sensitivity could not be computed: choose a power nearer 1.'],
+        }),
+      ],
+    }
+    const lines = candidatesCsv(candidateRows(result)).trimEnd().split('\r\n')
+    const header = lines[0].split(',')
+    const at = header.indexOf('log fractional Bayes factor vs comparison prior')
+    expect(header.slice(at, at + 6)).toEqual([
+      'log fractional Bayes factor vs comparison prior', 'fractional Bayes factor vs comparison prior', 'training fraction b',
+      'prior sensitivity (power scaling)', 'likelihood sensitivity (power scaling)', 'sensitivity diagnosis',
+    ])
+    expect(lines[1]).toContain(`,positive,${Math.log(1.5)},${Math.exp(Math.log(1.5))},0.125,0.08,0.02,The data say little here: the result follows the prior.,0.45,`)
+    expect(lines[2]).toContain(',,,,,,,,The power-scaling sensitivity could not be computed: choose a power nearer 1.,')
   })
 })
