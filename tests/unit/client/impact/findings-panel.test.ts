@@ -47,6 +47,8 @@ describe('FindingsPanel', () => {
     expect(cautions.get('[data-flag="prior-dominates"]').text()).toContain('Priorsmith’s rule of thumb, not a published test: the prior counts as that many observations')
     expect(cautions.get('[data-flag="prior-data-conflict"]').text()).toContain('the customary 5 % level, a convention')
     expect(cautions.get('[data-testid="prior-driven-rule"]').text()).toBe(PRIOR_DRIVEN_RULE)
+    // The prior-driven flag names the fractional Bayes factor as the alternative.
+    expect(cautions.get('[data-flag="prior-driven-bayes-factor"]').text()).toContain('The fractional Bayes factor in the table does not hang on the width: report it instead.')
   })
 
   it('always carries the note on review by a qualified statistician, also without flags', () => {
@@ -55,5 +57,9 @@ describe('FindingsPanel', () => {
     expect(w.find('[data-testid="prior-driven-rule"]').exists()).toBe(false)
     expect(w.get('[data-testid="statistician-note"]').text()).toContain('reviewed under the applicable guidance')
     expect(w.get('[data-testid="statistician-note"]').text()).toContain('qualified statistician')
+    // The fractional Bayes factor and the power-scaling sensitivities are aids to judgement, not tests.
+    expect(w.get('[data-testid="diagnostics-caution"]').text()).toBe(
+      'The fractional Bayes factor and the power-scaling sensitivities are aids to judgement, not tests: they say how much a conclusion leans on the prior, not which prior is right. Regulatory guidance on the choice of priors still applies.',
+    )
   })
 })
