@@ -12,6 +12,18 @@ const candidate = (over: Partial<ImpactResult['candidates'][number]>): ImpactRes
   ...over,
 })
 
+/** The reconciled prior and a comparison prior whose sensitivity could not be computed (no Bayes factors of its own). */
+const withComparison = (over: Partial<ImpactResult['candidates'][number]>) => ({
+  n: 8,
+  candidates: [
+    candidate({}),
+    candidate({
+      key: 'comparison', label: 'Comparison prior', kind: 'comparison', bayesFactor: null, fractionalBayesFactor: null, sensitivity: null,
+      diagnosticNotes: ['The power-scaling sensitivity could not be computed: choose a power nearer 1.'], ...over,
+    }),
+  ],
+})
+
 describe('CSV export of the candidates table', () => {
   it('quotes fields with commas, quotes or line breaks and doubles the quotes', () => {
     expect(csvCell('plain')).toBe('plain')
@@ -35,17 +47,7 @@ describe('CSV export of the candidates table', () => {
   })
 
   it('writes one row per candidate, unrounded, with the unit in the headers and the flags joined', () => {
-    const result = {
-      n: 8,
-      candidates: [
-        candidate({}),
-        candidate({
-          key: 'comparison', label: 'Comparison prior', kind: 'comparison', bayesFactor: null, fractionalBayesFactor: null, sensitivity: null,
-          diagnosticNotes: ['The power-scaling sensitivity could not be computed: At this power the prior cannot be normalised with these data; choose a power nearer 1.'],
-          priorEss: 20, flags: ['prior-dominates', 'prior-data-conflict'],
-        }),
-      ],
-    }
+    const result = withComparison({ priorEss: 20, flags: ['prior-dominates', 'prior-data-conflict'] })
     const csv = candidatesCsv(candidateRows(result), 'bursts per 100 km, per year')
     const lines = csv.trimEnd().split('\r\n')
     expect(lines).toHaveLength(3)
@@ -58,16 +60,7 @@ describe('CSV export of the candidates table', () => {
   })
 
   it('adds the fractional Bayes factor with its b and both power-scaling sensitivities with the diagnosis in words', () => {
-    const result = {
-      n: 8,
-      candidates: [
-        candidate({}),
-        candidate({
-          key: 'comparison', label: 'Comparison prior', kind: 'comparison', bayesFactor: null, fractionalBayesFactor: null, sensitivity: null,
-          diagnosticNotes: ['The power-scaling sensitivity could not be computed: choose a power nearer 1.'],
-        }),
-      ],
-    }
+    const result = withComparison({})
     const lines = candidatesCsv(candidateRows(result)).trimEnd().split('\r\n')
     const header = lines[0].split(',')
     const at = header.indexOf('log fractional Bayes factor vs comparison prior')
