@@ -111,3 +111,13 @@ export function countNoun(count: number, singular: string, plural = `${singular}
   if (count === 0) return `no ${plural}`
   return `${new Intl.NumberFormat('en-GB').format(count)} ${count === 1 ? singular : plural}`
 }
+
+/** A written value with its unit: "3.389 L/s"; no unit, or no value ("—"), just the text. */
+export function withUnit(text: string, unit: string | null | undefined): string {
+  return unit && text !== '—' ? `${text} ${unit}` : text
+}
+
+/** The unit in a column header or caption: " (L/s)"; nothing without a unit. */
+export function unitSuffix(unit: string | null | undefined): string {
+  return unit ? ` (${unit})` : ''
+}

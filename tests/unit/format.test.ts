@@ -104,6 +104,9 @@ describe('dates and times', () => {
     expect(formatDateTime(winter, { timeZone: 'America/New_York', words: 'long', zone: true })).toBe('Thursday 24 December 2026, 12:00 (America/New_York, UTC-5)')
     expect(formatDateTime(winter, { timeZone: 'Europe/London', words: 'long', zone: true })).toBe('Thursday 24 December 2026, 17:00 (Europe/London, UTC+0)')
     expect(formatDateTime(winter, { timeZone: 'UTC', words: 'long', zone: true, seconds: true })).toBe('Thursday 24 December 2026, 17:00:00 (UTC)')
+    expect(formatDateTime(summer, { timeZone: 'America/New_York', words: 'long', zone: true, seconds: true })).toBe('Wednesday 1 July 2026, 08:00:05 (America/New_York, UTC-4)')
+    // Past midnight in the zone: the date moves too.
+    expect(formatDateTime('2026-12-24T23:30:00Z', { timeZone: 'Pacific/Auckland', words: 'long', zone: true })).toBe('Friday 25 December 2026, 12:30 (Pacific/Auckland, UTC+13)')
   })
 
   it('short forms: day and time without the year, a day, a time of day', () => {
