@@ -106,10 +106,15 @@ export function formatBytes(bytes: number): string {
   return `${(bytes / (1024 * 1024)).toFixed(1)} MB`
 }
 
-/** A count with its noun: "1 quantity", "3 quantities", "no quantities"; counts from 1,000 grouped. */
+/** A count of things in prose or a table, thousands grouped: "100,000" (a count is never copied into code). */
+export function formatCount(count: number): string {
+  return notFinite(count) ?? new Intl.NumberFormat('en-GB', { maximumFractionDigits: 0 }).format(count)
+}
+
+/** A count with its noun: "1 quantity", "3 quantities", "no quantities", "1,200 rows". */
 export function countNoun(count: number, singular: string, plural = `${singular}s`): string {
   if (count === 0) return `no ${plural}`
-  return `${new Intl.NumberFormat('en-GB').format(count)} ${count === 1 ? singular : plural}`
+  return `${formatCount(count)} ${count === 1 ? singular : plural}`
 }
 
 /** A written value with its unit: "3.389 L/s"; no unit, or no value ("—"), just the text. */
