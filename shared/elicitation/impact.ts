@@ -4,6 +4,7 @@ import {
   toUnivariate, widthSweep, type Analysis, type CandidatePrior, type FractionalBayesFactor, type PilotData, type Pool, type Posterior, type PowerScaledPoint,
   type PowerScalingSensitivity, type PriorDistribution, type Support,
 } from '../stats/index'
+import { formatNumber } from '../format/numbers'
 
 /** Width factors k of the sweep (0.25 to 8; docs/methods/width-sweep.md), evenly spaced on a log scale. */
 export const SWEEP_FACTORS = [0.25, 0.35, 0.5, 0.71, 1, 1.41, 2, 2.83, 4, 5.66, 8]
@@ -259,8 +260,6 @@ export function sweepOf(prior: PriorDistribution, data: PilotData, support: Supp
   }
 }
 
-const fmt = (x: number) => (Math.abs(x) >= 100 ? x.toFixed(0) : Math.abs(x) >= 1 ? x.toFixed(2) : x.toPrecision(3))
-
 /** A p-value from its logarithm in words: "= 0.012", or a power of ten when it is below 1e-6 (it may underflow to 0). */
 export function formatSmallP(logP: number): string {
   const log10 = logP / Math.LN10
@@ -280,8 +279,8 @@ export function findings(results: CandidateResult[], sweep: SweepSummary | null,
       const moved = Math.abs(wide.posteriorMean - base.posteriorMean)
       const relative = moved / Math.max(1e-12, (base.q975 - base.q025) / 3.92)
       out.push(
-        `Widening the reconciled prior 4× moves the posterior mean from ${fmt(base.posteriorMean)} to ${fmt(wide.posteriorMean)}` +
-        ` (${relative < 0.1 ? 'barely' : relative < 0.5 ? 'a little' : 'noticeably'}) and ${ratio >= 1 ? 'divides' : 'multiplies'} the evidence by about ${fmt(ratio >= 1 ? ratio : 1 / ratio)}.`,
+        `Widening the reconciled prior 4× moves the posterior mean from ${formatNumber(base.posteriorMean, 3)} to ${formatNumber(wide.posteriorMean, 3)}` +
+        ` (${relative < 0.1 ? 'barely' : relative < 0.5 ? 'a little' : 'noticeably'}) and ${ratio >= 1 ? 'divides' : 'multiplies'} the evidence by about ${formatNumber(ratio >= 1 ? ratio : 1 / ratio, 3)}.`,
       )
     }
     const fractional = base?.logFractionalBF != null && wide?.logFractionalBF != null ? Math.exp(wide.logFractionalBF - base.logFractionalBF) : null
@@ -289,10 +288,10 @@ export function findings(results: CandidateResult[], sweep: SweepSummary | null,
       const ratio = Math.exp(base.logEvidence - wide.logEvidence)
       const change = Math.abs(fractional - 1)
       out.push(
-        `Over the same widening the fractional Bayes factor (training fraction b = ${fmt(sweep.trainingFraction!)}) ` +
+        `Over the same widening the fractional Bayes factor (training fraction b = ${formatNumber(sweep.trainingFraction!, 3)}) ` +
         (change < 0.1
-          ? `stays level (it changes by ${change < 0.001 ? 'less than 0.1' : (change * 100).toFixed(1)} %), where the ordinary Bayes factor changes by a factor of about ${fmt(ratio >= 1 ? ratio : 1 / ratio)}.`
-          : `changes by a factor of ${fmt(fractional >= 1 ? fractional : 1 / fractional)}, against about ${fmt(ratio >= 1 ? ratio : 1 / ratio)} for the ordinary Bayes factor.`),
+          ? `stays level (it changes by ${change < 0.001 ? 'less than 0.1' : (change * 100).toFixed(1)} %), where the ordinary Bayes factor changes by a factor of about ${formatNumber(ratio >= 1 ? ratio : 1 / ratio, 3)}.`
+          : `changes by a factor of ${formatNumber(fractional >= 1 ? fractional : 1 / fractional, 3)}, against about ${formatNumber(ratio >= 1 ? ratio : 1 / ratio, 3)} for the ordinary Bayes factor.`),
       )
     }
     if (sweep.priorDriven) {
@@ -304,19 +303,19 @@ export function findings(results: CandidateResult[], sweep: SweepSummary | null,
     for (const note of sweep.notes) out.push(`Reconciled prior: ${note}`)
   }
   for (const r of results) {
-    if (r.flags.includes('prior-dominates')) out.push(`${r.label}: the prior carries more information than the pilot data (prior effective sample size ${fmt(r.priorEss!)} against n = ${fmt(n)}).`)
+    if (r.flags.includes('prior-dominates')) out.push(`${r.label}: the prior carries more information than the pilot data (prior effective sample size ${formatNumber(r.priorEss!, 3)} against n = ${formatNumber(n, 3)}).`)
     if (r.flags.includes('prior-data-conflict')) out.push(`${r.label}: the pilot data sit in the tail of what this prior predicts (Box's prior predictive p ${formatSmallP(r.logPriorPredictiveP)}); prior and data conflict.`)
     const sens = r.sensitivity
     if (sens?.diagnosis === 'prior-data-conflict') {
       out.push(
-        `${r.label}: the posterior moves when either the prior or the data is given more weight (power-scaling sensitivity ${fmt(sens.prior)} to the prior ` +
-        `and ${fmt(sens.likelihood)} to the data, both at or above ${POWER_SCALING_THRESHOLD}): prior and data may be in conflict.`,
+        `${r.label}: the posterior moves when either the prior or the data is given more weight (power-scaling sensitivity ${formatNumber(sens.prior, 3)} to the prior ` +
+        `and ${formatNumber(sens.likelihood, 3)} to the data, both at or above ${POWER_SCALING_THRESHOLD}): prior and data may be in conflict.`,
       )
     }
     if (sens?.diagnosis === 'weak-likelihood') {
       out.push(
-        `${r.label}: the posterior moves when the prior is given more or less weight (sensitivity ${fmt(sens.prior)}) but hardly when the data are ` +
-        `(${fmt(sens.likelihood)}, below ${POWER_SCALING_THRESHOLD}): the data say little here, so the prior carries the result.`,
+        `${r.label}: the posterior moves when the prior is given more or less weight (sensitivity ${formatNumber(sens.prior, 3)}) but hardly when the data are ` +
+        `(${formatNumber(sens.likelihood, 3)}, below ${POWER_SCALING_THRESHOLD}): the data say little here, so the prior carries the result.`,
       )
     }
     for (const note of r.diagnosticNotes) out.push(`${r.label}: ${note}`)

@@ -1,6 +1,6 @@
+import { describeDistribution } from '@shared/format'
 import { DIAGNOSIS_WORDS, type SensitivityDiagnosis } from '@shared/stats'
 import type { ImpactCandidate, ImpactResult } from '@/api/impact'
-import { distributionText } from './format'
 
 /** One candidate's numbers, as the table shows them and the CSV exports them (full precision). */
 export interface CandidateRow {
@@ -41,7 +41,7 @@ export function candidateRows(result: Pick<ImpactResult, 'candidates' | 'n'>): C
     key: c.key,
     kind: c.kind,
     label: c.label,
-    prior: distributionText(c.prior),
+    prior: describeDistribution(c.prior),
     priorMean: c.priorSummary.mean,
     priorQ025: c.priorSummary.q025,
     priorQ975: c.priorSummary.q975,

@@ -7,6 +7,7 @@ import {
 } from '../../shared/stats/index'
 import { lgamma } from '../../shared/stats/special'
 import { DEMO_PILOT } from '../../seeds/demo'
+import { formatNumber } from '../../shared/format'
 import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
 
 // The fractional Bayes factor and power-scaling sensitivity of every candidate on the demo pilot data (seeds/pilot/), the
@@ -174,7 +175,7 @@ describe('findings in plain words', () => {
     expect(sweep.evidenceRatio).toBeGreaterThan(3.99)
     expect(sweep.fractionalRatio).toBeLessThan(1.0001)
     expect(sweep.priorDriven).toBe(true)
-    expect(findings).toContain('Over the same widening the fractional Bayes factor (training fraction b = 0.125) stays level (it changes by less than 0.1 %), where the ordinary Bayes factor changes by a factor of about 4.00.')
+    expect(findings).toContain('Over the same widening the fractional Bayes factor (training fraction b = 0.125) stays level (it changes by less than 0.1 %), where the ordinary Bayes factor changes by a factor of about 4.')
     expect(findings.find((f) => f.startsWith('A Bayes factor built on this prior reflects its width'))).toMatch(/The fractional Bayes factor, which does not hang on the width, is the alternative to report\.$/)
   })
 
@@ -186,7 +187,7 @@ describe('findings in plain words', () => {
     expect(weak).toEqual(powerScalingSensitivity({ family: 'normal', mu: 3.7, sigma: 0.3 }, data))
     expect(weak.diagnosis).toBe('weak-likelihood')
     expect(near.body.findings).toContain(
-      `Reconciled prior: the posterior moves when the prior is given more or less weight (sensitivity ${weak.prior.toPrecision(3)}) but hardly when the data are (${weak.likelihood.toPrecision(3)}, below 0.05): the data say little here, so the prior carries the result.`,
+      `Reconciled prior: the posterior moves when the prior is given more or less weight (sensitivity ${formatNumber(weak.prior, 3)}) but hardly when the data are (${formatNumber(weak.likelihood, 3)}, below 0.05): the data say little here, so the prior carries the result.`,
     )
 
     await reconcile('night_flow_cut', { family: 'normal', mu: 8, sigma: 0.5 })

@@ -2,7 +2,7 @@ import {
   Chart, Filler, Legend, LinearScale, LineController, LineElement, LogarithmicScale, PointElement, Tooltip,
   type ChartOptions, type ChartType, type Plugin,
 } from 'chart.js'
-import { fmt } from '@/impact/format'
+import { formatNumber } from '@shared/format'
 import { downloadUrl } from '@/impact/table'
 import './impact-chart.css'
 
@@ -73,8 +73,8 @@ export function lineOptions(x: object, yTitle: string, xName: string, unlisted: 
       legend: { position: 'bottom', labels: { usePointStyle: true, pointStyle: 'line', color: '#1d2733', boxWidth: 24, padding: 10, filter: (item) => item.text !== unlisted } },
       tooltip: {
         callbacks: {
-          title: (items) => (items.length ? `${xName} = ${Number(items[0].parsed.x).toPrecision(3)}` : ''),
-          label: (item) => `${item.dataset.label}: ${fmt(Number(item.parsed.y))}`,
+          title: (items) => (items.length ? `${xName} = ${formatNumber(Number(items[0].parsed.x), 3)}` : ''),
+          label: (item) => `${item.dataset.label}: ${formatNumber(Number(item.parsed.y))}`,
         },
       },
     },
