@@ -331,15 +331,38 @@ function logBasym(a: number, b: number, lambda: number): number {
   return -f + Math.log(TWO_OVER_SQRT_PI) - bcorr + Math.log(sum)
 }
 
+/** a + b as an unevaluated sum hi + lo, exact (Knuth 1969, The Art of Computer Programming vol. 2, TwoSum). */
+function twoSum(a: number, b: number): { hi: number; lo: number } {
+  const hi = a + b
+  const bb = hi - a
+  return { hi, lo: a - (hi - bb) + (b - bb) }
+}
+
+/**
+ * λ = a y − b x with y = 1 − x taken exactly from the smaller of x and y (the one a caller can pass without rounding):
+ * 1 − x is formed as a double-double and both products are exact, so that λ keeps its digits where a y and b x agree to
+ * twelve (a, b ≈ 1e12 at the mean).
+ */
+function exactLambda(a: number, b: number, x: number, y: number): number {
+  if (x <= y) {
+    const yy = twoSum(1, -x)
+    const ay = twoProduct(a, yy.hi)
+    const bx = twoProduct(b, x)
+    return ay.hi - bx.hi + (ay.lo - bx.lo + a * yy.lo)
+  }
+  const xx = twoSum(1, -y)
+  const ay = twoProduct(a, y)
+  const bx = twoProduct(b, xx.hi)
+  return ay.hi - bx.hi + (ay.lo - bx.lo - b * xx.lo)
+}
+
 /**
  * ln of the smaller tail of I_x(a, b) (lower: I_x itself, else 1 − I_x) by logBasym when a, b > 100 and x lies within
  * |λ| ≤ 0.03 min(a, b) of the mean, λ = a y − b x formed exactly; null elsewhere (DiDonato & Morris 1992, BRATIO's choice).
  */
 function largeBetaLogSmallTail(x: number, a: number, b: number, y: number): { logTail: number; lower: boolean } | null {
   if (!(Math.min(a, b) > BASYM_MIN_PARAMETER) || !Number.isFinite(a + b)) return null
-  const ay = twoProduct(a, y)
-  const bx = twoProduct(b, x)
-  const lambda = ay.hi - bx.hi + (ay.lo - bx.lo)
+  const lambda = exactLambda(a, b, x, y)
   if (Math.abs(lambda) > BASYM_BAND * Math.min(a, b)) return null
   return lambda >= 0 ? { logTail: Math.min(0, logBasym(a, b, lambda)), lower: true } : { logTail: Math.min(0, logBasym(b, a, -lambda)), lower: false }
 }
