@@ -114,33 +114,33 @@ afterAll(async () => {
 })
 
 describe('one anonymous label per expert', () => {
-  it('is the same on the reconciliation, impact, progress and record screens: Expert A joined the panel first', async () => {
+  it('is the same on the reconciliation, impact, progress and record screens: Expert 1 joined the panel first', async () => {
     const rec = (await analyst.get(`/api/quantities/${q.bursts}/reconciliation`).expect(200)).body
-    expect(rec.experts.map((e: { name: string; label: string }) => [e.label, e.name]).sort()).toEqual([['Expert A', 'Helen Okafor'], ['Expert B', 'Tomasz Wierzbicki']])
+    expect(rec.experts.map((e: { name: string; label: string }) => [e.label, e.name]).sort()).toEqual([['Expert 1', 'Helen Okafor'], ['Expert 2', 'Tomasz Wierzbicki']])
 
     const impact = (await analyst.get(`/api/quantities/${q.bursts}/impact`).expect(200)).body
     const expertCandidates = impact.candidates.filter((c: { kind: string }) => c.kind === 'expert')
     // Helen's prior has median 0.3, Tomasz's 0.5: each is found under its own label.
     const median = (label: string) => expertCandidates.find((c: { label: string }) => c.label === label).prior.meanlog
-    expect(Math.exp(median('Expert A'))).toBeCloseTo(0.3, 6)
-    expect(Math.exp(median('Expert B'))).toBeCloseTo(0.5, 6)
+    expect(Math.exp(median('Expert 1'))).toBeCloseTo(0.3, 6)
+    expect(Math.exp(median('Expert 2'))).toBeCloseTo(0.5, 6)
 
     const progress = (await analyst.get(`/api/rounds/${roundId}/progress`).expect(200)).body
     expect(progress.experts.map((e: { label: string; email: string }) => [e.label, e.email])).toEqual([
-      ['Expert A', 'expert2@kestrel.example'], ['Expert B', 'expert1@kestrel.example'],
+      ['Expert 1', 'expert2@kestrel.example'], ['Expert 2', 'expert1@kestrel.example'],
     ])
 
     const record = (await analyst.get(`/api/studies/${studyId}/record`).expect(200)).body
-    expect(record.content.panel.map((e: { code: string }) => e.code)).toEqual(['Expert A', 'Expert B'])
+    expect(record.content.panel.map((e: { code: string }) => e.code)).toEqual(['Expert 1', 'Expert 2'])
     const bursts = record.content.quantities.find((x: { symbol: string }) => x.symbol === 'bursts')
     const byLabel = Object.fromEntries(bursts.judgements.map((j: { expert: { code: string }; answer: { points: { value: number }[] } }) => [j.expert.code, j.answer.points[1].value]))
-    expect(byLabel).toEqual({ 'Expert A': 0.3, 'Expert B': 0.5 })
+    expect(byLabel).toEqual({ 'Expert 1': 0.3, 'Expert 2': 0.5 })
   })
 
   it('keeps the experts’ names out of the record’s change history while names are hidden', async () => {
     const record = (await reviewer.get(`/api/studies/${studyId}/record`).expect(200)).body
     const submits = record.changeHistory.filter((e: { action: string }) => e.action === 'round.submit')
-    expect(submits.map((e: { actor: string }) => e.actor).sort()).toEqual(['Expert A', 'Expert B'])
+    expect(submits.map((e: { actor: string }) => e.actor).sort()).toEqual(['Expert 1', 'Expert 2'])
     expect(JSON.stringify(record.changeHistory)).not.toMatch(/Helen Okafor|Tomasz Wierzbicki/)
   })
 })
@@ -304,7 +304,7 @@ describe('the .docx a reviewer keeps', () => {
   })
 
   it('names experts by their study label, with the comment and its answer in the review table', () => {
-    expect(text).toContain('Expert A')
+    expect(text).toContain('Expert 1')
     expect(text).not.toMatch(/Helen Okafor|Tomasz Wierzbicki|\bE1\b/)
     expect(text).toContain('Not changed: The comparison prior is a wide gamma')
   })

@@ -168,8 +168,8 @@ describe('reconciling a quantity', () => {
     await expect.poll(async () => (await bars())[1]).toBe(0)
 
     // Labels are the study's (joining order across all its rounds), so read the second expert's from the table.
-    const secondLabel = (await page.getByTestId('cooke-row').nth(1).textContent())?.match(/Expert [A-Z]+/)?.[0]
-    expect(secondLabel).toMatch(/^Expert [A-Z]+$/)
+    const secondLabel = (await page.getByTestId('cooke-row').nth(1).textContent())?.match(/Expert \d+/)?.[0]
+    expect(secondLabel).toMatch(/^Expert \d+$/)
     await expect(page.getByTestId('cooke-effect').textContent()).resolves.toContain(`${secondLabel} falls below the cutoff`)
     await expect.poll(async () => (await page.getByTestId('expert-weight').allTextContents())[1].trim()).toBe('0')
     await expect(page.getByTestId('combination-summary').textContent()).resolves.toContain('performance weights')
@@ -188,7 +188,7 @@ describe('reconciling a quantity', () => {
     await page.getByTestId('mark-reconciled').click()
     await expect(page.getByTestId('rationale').textContent()).resolves.toContain('at least 20 characters')
 
-    await field(page, 'rationale').fill('Performance weights: Expert A answered the calibration questions best; Expert B was confidently too high and is cut at α = 0.01.')
+    await field(page, 'rationale').fill('Performance weights: Expert 1 answered the calibration questions best; Expert 2 was confidently too high and is cut at α = 0.01.')
     await page.getByTestId('mark-reconciled').click()
     await page.locator('[data-testid="reconcile-status"][data-status="reconciled"]').waitFor()
     await expect(page.getByTestId('reconcile-status').textContent()).resolves.toContain('Reconciled')
