@@ -1,7 +1,6 @@
-/** Chart colours fixed app-wide (the palette of src/styles/theme.css): the expert's fitted prior amber, the group ink dashed. */
+/** Chart colours fixed app-wide (the palette of src/styles/theme.css): the expert’s fitted prior amber. */
 export const ANSWER_CHART = {
   prior: '#c9821a',
-  pooled: '#1d2733',
   point: '#8a5a12',
 } as const
 

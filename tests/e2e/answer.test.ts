@@ -514,11 +514,11 @@ describe('answering a round', () => {
     await page.goto(`${expert1.baseUrl}/answer/${round2.roundId}`)
     const panel = page.getByTestId('feedback-round-panel')
     await panel.waitFor()
-    await panel.locator('canvas').waitFor()
+    await panel.getByTestId('panel-combined-shape').waitFor()
     const rows = await page.getByTestId('feedback-round-row').allInnerTexts()
-    // The others carry the study's own expert labels (the letter depends on the study's order of experts).
+    // The others carry the study's own expert labels (the number depends on the study's order of experts).
     const labels = rows.map((r) => r.split('\t')[0].trim())
-    expect(labels).toEqual([expect.stringMatching(/^You \(round \d+\)$/), expect.stringMatching(/^Expert \d+$/), expect.stringMatching(/^Expert \d+$/)])
+    expect(labels).toEqual(['You', expect.stringMatching(/^Expert \d+$/), expect.stringMatching(/^Expert \d+$/)])
     expect(new Set(labels).size).toBe(3)
     expect(await panel.innerText()).not.toContain('Helen')
     // The panel comes before the answer form.
@@ -530,14 +530,34 @@ describe('answering a round', () => {
     expect(order).toBeTruthy()
     await shot(expert1, 'answer-10-feedback-round')
     await expectAccessible(page, 'feedback-round')
-    // Your own curve reads apart from the others without colour: solid, thick, with diamonds; the others dotted.
-    expect(await panel.locator('[data-testid="feedback-round-row"] .fpanel__swatch').evaluateAll((els) => els.map((e) => e.classList.contains('is-mine') ? 'mine' : e.classList.contains('is-dotted') ? 'dotted' : '?'))).toEqual(['mine', 'dotted', 'dotted'])
-    expect(await panel.locator('canvas').getAttribute('aria-describedby')).toBe('fpanel-table')
-    // On a phone, the panel, its chart and its table fit the screen.
+    // Strips, not curves: one row per expert under the same labels as the table, yours marked, the panel filled beneath.
+    expect(await panel.locator('canvas').count()).toBe(0)
+    const strips = panel.getByTestId('panel-row')
+    expect(await strips.evaluateAll((els) => els.map((e) => [e.getAttribute('data-label'), e.getAttribute('data-mine')]))).toEqual([
+      ['You', 'true'], [labels[1], null], [labels[2], null],
+    ])
+    expect(await panel.locator('.panel-ranges__label.is-mine').innerText()).toBe('You')
+    // On a phone, the panel, its strips and its table fit the screen, every bar and notch inside its row.
     await page.setViewportSize({ width: 360, height: 740 })
-    await panel.locator('canvas').waitFor()
     await expectPhoneLayout(page, 'feedback-round-360')
     await expectAccessible(page, 'feedback-round-360')
+    const box = await panel.getByTestId('panel-ranges').boundingBox()
+    expect(box!.x).toBeGreaterThanOrEqual(0)
+    expect(box!.x + box!.width).toBeLessThanOrEqual(360)
+    const geometry = await strips.evaluateAll((els) => els.map((el) => {
+      const track = el.getBoundingClientRect()
+      const bar = el.querySelector('[data-testid="panel-range"]')!.getBoundingClientRect()
+      const notch = el.querySelector('[data-testid="panel-median"]')!.getBoundingClientRect()
+      return { track: [track.left, track.right], bar: [bar.left, bar.right], notch: notch.left + notch.width / 2 }
+    }))
+    for (const g of geometry) {
+      expect(g.bar[1] - g.bar[0]).toBeGreaterThan(4)
+      expect(g.bar[0]).toBeGreaterThanOrEqual(g.track[0] - 0.5)
+      expect(g.bar[1]).toBeLessThanOrEqual(g.track[1] + 0.5)
+      expect(g.notch).toBeGreaterThan(g.bar[0])
+      expect(g.notch).toBeLessThan(g.bar[1])
+    }
+    await expert1.shot('answer-11-feedback-round-360')
     await page.setViewportSize({ width: 1280, height: 800 })
   })
 

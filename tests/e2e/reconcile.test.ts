@@ -3,6 +3,7 @@ import type { Page } from 'playwright-core'
 import { DEMO_PASSWORD, DEMO_STUDY_TITLE } from '../../seeds/demo'
 import { openBrowser, signInAs, type BrowserSession, field, inPage, keepFailureEvidence } from '../support/browser'
 import { expectAccessible } from '../support/axe'
+import { cutoffFromHeight, heightOfCutoff } from '../../src/reconcile/cutoff'
 
 /**
  * The reconciliation workspace in chromium: a quantity of the demo study gets a round answered by the three demo
@@ -157,6 +158,33 @@ describe('reconciling a quantity', () => {
 
     const bars = async () => page.getByTestId('weight-bar').evaluateAll((els) => els.map((el) => Number(el.getAttribute('data-weight'))))
     expect((await bars())[1]).toBeGreaterThan(0)
+
+    // Dragging the amber line with the mouse sets the cutoff: grabbed by the middle of its handle (at cutoff 0 the lower
+    // half hangs over the axis labels, which once took the pointer) and let go at the height of 0.01. The mouse acts
+    // where the plot is on the screen, so it is scrolled into view first.
+    const area = page.getByTestId('cutoff-area')
+    await page.getByTestId('cutoff-plot').scrollIntoViewIfNeeded()
+    const bottom = Number(await area.getAttribute('data-lowest-decade'))
+    expect(bottom).toBeLessThanOrEqual(-2)
+    const box = (await area.boundingBox())!
+    const handle = (await page.getByTestId('cutoff-handle').boundingBox())!
+    const targetY = Math.round(box.y + box.height * (1 - heightOfCutoff(0.01, bottom)))
+    const dragged = cutoffFromHeight(1 - (targetY - box.y) / box.height, bottom)
+    expect(dragged).toBeGreaterThan(0.005)
+    expect(dragged).toBeLessThan(0.02)
+    await page.mouse.move(handle.x + handle.width / 2, handle.y + handle.height / 2)
+    await page.mouse.down()
+    await page.mouse.move(handle.x + handle.width / 2, (handle.y + targetY) / 2, { steps: 4 })
+    await page.mouse.move(handle.x + handle.width / 2, targetY, { steps: 4 })
+    await page.mouse.up()
+    await expect(page.getByTestId('cutoff-handle').getAttribute('aria-valuenow')).resolves.toBe(String(dragged))
+    await expect(page.getByTestId('cutoff-status').textContent()).resolves.toBe(`Cutoff ${dragged}: 2 of 3 experts keep a weight.`)
+    // The expert below the line is greyed out, the other two stay, and the weights follow.
+    await expect(page.getByTestId('cutoff-point').evaluateAll((els) => els.map((e) => e.getAttribute('data-below')))).resolves.toEqual(['false', 'true', 'false'])
+    await expect.poll(async () => (await weights())[1]).toBe(0)
+    const line = (await page.locator('.cutoff-plot__line').boundingBox())!
+    expect(Math.abs(line.y - targetY)).toBeLessThan(3)
+    await s.shot('reconcile-02a-cutoff-dragged')
 
     // A typed cutoff moves the line as well.
     await field(page, 'cooke-cutoff').fill('0.01')

@@ -3,8 +3,7 @@ import { describe, expect, it } from 'vitest'
 import { mount } from '@vue/test-utils'
 import { toUnivariate, type Distribution } from '@shared/stats'
 import PanelRanges from '@/components/reconcile/PanelRanges.vue'
-import { rangeOf } from '@/composables/reconcile/usePanelView'
-import { axisPercent, densityPath, roundedAxis } from '@/reconcile/panel'
+import { axisPercent, densityPath, rangeOf, roundedAxis } from '@/reconcile/panel'
 
 const REAL = { lower: -Infinity, upper: Infinity }
 

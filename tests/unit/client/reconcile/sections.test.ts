@@ -12,7 +12,7 @@ import FitSection from '@/components/reconcile/FitSection.vue'
 import RobustnessSection from '@/components/reconcile/RobustnessSection.vue'
 import DecisionSection from '@/components/reconcile/DecisionSection.vue'
 import { computePreview, liveCooke } from '@/reconcile/preview'
-import { rangeOf } from '@/composables/reconcile/usePanelView'
+import { rangeOf } from '@/reconcile/panel'
 import { expert, viewFixture } from './fixture'
 
 const components = {
