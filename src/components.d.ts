@@ -25,6 +25,8 @@ declare module 'vue' {
     CombineSection: typeof import('./components/reconcile/CombineSection.vue')['default']
     CommentDialog: typeof import('./components/record/CommentDialog.vue')['default']
     CommentList: typeof import('./components/record/CommentList.vue')['default']
+    CompositionDialog: typeof import('./components/study/CompositionDialog.vue')['default']
+    CompositionsSection: typeof import('./components/study/CompositionsSection.vue')['default']
     ConflictAlert: typeof import('./components/study/ConflictAlert.vue')['default']
     ConsensusPoints: typeof import('./components/reconcile/ConsensusPoints.vue')['default']
     CookeTable: typeof import('./components/reconcile/CookeTable.vue')['default']
