@@ -93,7 +93,7 @@ beforeAll(async () => {
   // Fixtures: final priors (the reconciliation workflow is tested in reconciliation.test.ts).
   for (const [quantityId, distribution] of [[q.bursts, { family: 'gamma', shape: 4, rate: 10 }], [q.uptake, { family: 'beta', alpha: 4, beta: 5 }]] as const) {
     await h.db('reconciliations').insert({
-      quantity_id: quantityId, round_id: roundId, method: 'linear', weights_mode: 'equal', family: distribution.family, distribution: JSON.stringify(distribution),
+      quantity_id: quantityId, round_id: roundId, method: 'linear', weights_mode: 'equal', weights: JSON.stringify([0.5, 0.5]), family: distribution.family, distribution: JSON.stringify(distribution),
       status: 'reconciled', rationale: 'Fixture for the record review test.',
     })
   }
@@ -135,6 +135,26 @@ describe('one anonymous label per expert', () => {
     const bursts = record.content.quantities.find((x: { symbol: string }) => x.symbol === 'bursts')
     const byLabel = Object.fromEntries(bursts.judgements.map((j: { expert: { code: string }; answer: { points: { value: number }[] } }) => [j.expert.code, j.answer.points[1].value]))
     expect(byLabel).toEqual({ 'Expert 1': 0.3, 'Expert 2': 0.5 })
+  })
+
+  it('keeps each weight with its expert’s label in the record, whatever order the weights are stored in', async () => {
+    // The weights are stored in the order of the experts' accounts (Tomasz's first), the labels follow the joining order.
+    const record = (await analyst.get(`/api/studies/${studyId}/record`).expect(200)).body
+    const bursts = record.content.quantities.find((x: { symbol: string }) => x.symbol === 'bursts')
+    expect(bursts.combination.expertWeights).toEqual([{ expert: { code: 'Expert 2' }, weight: 0.5 }, { expert: { code: 'Expert 1' }, weight: 0.5 }])
+  })
+
+  it('names experts by label on the audit trail (names beside it only for analysts) and in the outbox', async () => {
+    const submitters = (events: { action: string; actorName: string }[]) => events.filter((e) => e.action === 'round.submit').map((e) => e.actorName).sort()
+    const forReviewer = (await reviewer.get(`/api/studies/${studyId}/audit`).expect(200)).body
+    expect(submitters(forReviewer)).toEqual(['Expert 1', 'Expert 2'])
+    expect(JSON.stringify(forReviewer.map((e: { actorName: string }) => e.actorName))).not.toMatch(/Helen Okafor|Tomasz Wierzbicki/)
+    const forAnalyst = (await analyst.get(`/api/studies/${studyId}/audit`).expect(200)).body
+    expect(submitters(forAnalyst)).toEqual(['Expert 1 (Helen Okafor)', 'Expert 2 (Tomasz Wierzbicki)'])
+    expect(forAnalyst.find((e: { action: string }) => e.action === 'study.create').actorName).toBe('Priya Natarajan')
+    const outbox = (await analyst.get(`/api/studies/${studyId}/outbox`).expect(200)).body as { to: string; expertLabel: string | null }[]
+    const labelOf = Object.fromEntries(outbox.filter((m) => m.to.startsWith('expert')).map((m) => [m.to, m.expertLabel]))
+    expect(labelOf).toEqual({ 'expert2@kestrel.example': 'Expert 1', 'expert1@kestrel.example': 'Expert 2' })
   })
 
   it('keeps the experts’ names out of the record’s change history while names are hidden', async () => {
@@ -305,6 +325,7 @@ describe('the .docx a reviewer keeps', () => {
 
   it('names experts by their study label, with the comment and its answer in the review table', () => {
     expect(text).toContain('Expert 1')
+    expect(text).toContain('Weights: Expert 2 0.5; Expert 1 0.5.')
     expect(text).not.toMatch(/Helen Okafor|Tomasz Wierzbicki|\bE1\b/)
     expect(text).toContain('Not changed: The comparison prior is a wide gamma')
   })
