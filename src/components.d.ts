@@ -27,6 +27,7 @@ declare module 'vue' {
     CommentList: typeof import('./components/record/CommentList.vue')['default']
     CompositionDialog: typeof import('./components/study/CompositionDialog.vue')['default']
     CompositionsSection: typeof import('./components/study/CompositionsSection.vue')['default']
+    CompositionSum: typeof import('./components/answer/CompositionSum.vue')['default']
     ConflictAlert: typeof import('./components/study/ConflictAlert.vue')['default']
     ConsensusPoints: typeof import('./components/reconcile/ConsensusPoints.vue')['default']
     CookeTable: typeof import('./components/reconcile/CookeTable.vue')['default']
