@@ -7,6 +7,7 @@ import { formatValue } from '../../shared/format'
 import { openBrowser, signInAs, type BrowserSession, completeEntry, field, inPage, type Call, keepFailureEvidence } from '../support/browser'
 import { expectAccessible } from '../support/axe'
 import { expectPhoneLayout } from '../support/phone'
+import { expectPanelInView } from '../support/panel-ranges'
 import { handleCentre, mouseDrag, screenX } from '../support/answer-line'
 
 /**
@@ -541,22 +542,7 @@ describe('answering a round', () => {
     await page.setViewportSize({ width: 360, height: 740 })
     await expectPhoneLayout(page, 'feedback-round-360')
     await expectAccessible(page, 'feedback-round-360')
-    const box = await panel.getByTestId('panel-ranges').boundingBox()
-    expect(box!.x).toBeGreaterThanOrEqual(0)
-    expect(box!.x + box!.width).toBeLessThanOrEqual(360)
-    const geometry = await strips.evaluateAll((els) => els.map((el) => {
-      const track = el.getBoundingClientRect()
-      const bar = el.querySelector('[data-testid="panel-range"]')!.getBoundingClientRect()
-      const notch = el.querySelector('[data-testid="panel-median"]')!.getBoundingClientRect()
-      return { track: [track.left, track.right], bar: [bar.left, bar.right], notch: notch.left + notch.width / 2 }
-    }))
-    for (const g of geometry) {
-      expect(g.bar[1] - g.bar[0]).toBeGreaterThan(4)
-      expect(g.bar[0]).toBeGreaterThanOrEqual(g.track[0] - 0.5)
-      expect(g.bar[1]).toBeLessThanOrEqual(g.track[1] + 0.5)
-      expect(g.notch).toBeGreaterThan(g.bar[0])
-      expect(g.notch).toBeLessThan(g.bar[1])
-    }
+    await expectPanelInView(panel, 360, 3)
     await expert1.shot('answer-11-feedback-round-360')
     await page.setViewportSize({ width: 1280, height: 800 })
   })

@@ -3,6 +3,7 @@ import type { Page } from 'playwright-core'
 import { DEMO_PASSWORD, DEMO_STUDY_TITLE } from '../../seeds/demo'
 import { openBrowser, signInAs, type BrowserSession, field, inPage, keepFailureEvidence } from '../support/browser'
 import { expectAccessible } from '../support/axe'
+import { expectPanelInView } from '../support/panel-ranges'
 import { cutoffFromHeight, heightOfCutoff } from '../../src/reconcile/cutoff'
 
 /**
@@ -88,31 +89,6 @@ async function setUpRound(page: Page): Promise<Setup> {
 let s: BrowserSession
 let setup: Setup
 
-/** Every row of the panel view lies inside the screen, its 5–95 % bar and median notch inside its track, and the axis ends on round values. */
-async function expectPanelInView(page: Page, width: number): Promise<void> {
-  const panel = await page.getByTestId('panel-ranges').boundingBox()
-  expect(panel!.x).toBeGreaterThanOrEqual(0)
-  expect(panel!.x + panel!.width).toBeLessThanOrEqual(width)
-  const rows = await page.getByTestId('panel-row').evaluateAll((els) => els.map((el) => {
-    const track = el.getBoundingClientRect()
-    const bar = el.querySelector('[data-testid="panel-range"]')!.getBoundingClientRect()
-    const median = el.querySelector('[data-testid="panel-median"]')!.getBoundingClientRect()
-    return { track: [track.left, track.right], bar: [bar.left, bar.right], median: median.left + median.width / 2 }
-  }))
-  expect(rows).toHaveLength(3)
-  for (const r of rows) {
-    expect(r.bar[1] - r.bar[0]).toBeGreaterThan(4)
-    expect(r.bar[0]).toBeGreaterThanOrEqual(r.track[0] - 0.5)
-    expect(r.bar[1]).toBeLessThanOrEqual(r.track[1] + 0.5)
-    expect(r.median).toBeGreaterThan(r.bar[0])
-    expect(r.median).toBeLessThan(r.bar[1])
-  }
-  const ticks = (await page.getByTestId('panel-tick').allTextContents()).map(Number)
-  expect(ticks.length).toBeGreaterThanOrEqual(3)
-  const step = ticks[1] - ticks[0]
-  for (const t of ticks) expect(Math.abs(t / step - Math.round(t / step))).toBeLessThan(1e-9)
-}
-
 beforeAll(async () => {
   s = await openBrowser()
 })
@@ -139,7 +115,7 @@ describe('reconciling a quantity', () => {
     const tableLabels = await page.getByTestId('expert-row').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-label')))
     await expect(page.getByTestId('panel-row').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-label')))).resolves.toEqual(tableLabels)
     await page.getByTestId('panel-combined-shape').waitFor()
-    await expectPanelInView(page, 1280)
+    await expectPanelInView(page, 1280, 3)
     await expect(page.getByTestId('reconcile-status').getAttribute('data-status')).resolves.toBe('new')
     await s.shot('reconcile-01-experts')
     await expectAccessible(s.page, 'analyst reconcile')
@@ -236,7 +212,7 @@ describe('reconciling a quantity', () => {
     await page.setViewportSize({ width: 360, height: 740 })
     try {
       await page.getByTestId('panel-ranges').scrollIntoViewIfNeeded()
-      await expectPanelInView(page, 360)
+      await expectPanelInView(page, 360, 3)
       await s.shot('reconcile-04-panel-phone')
     } finally {
       await page.setViewportSize({ width: 1280, height: 800 })
