@@ -9,6 +9,7 @@ import { answerText, CANDIDATE_KIND_LABELS, flagLabel, LANGUAGE_LABELS, SUPPORT_
 import { COMMENT_OUTCOME_LABELS, type CommentOutcome } from '../../shared/schemas/records'
 import { POOL_METHOD_LABELS } from '../../shared/schemas/reconciliation'
 import { METHOD_LABELS, type ElicitationMethod } from '../../shared/schemas/rounds'
+import { DIAGNOSIS_WORDS, type SensitivityDiagnosis } from '../../shared/stats/index'
 
 type Json = Record<string, any>
 
@@ -36,6 +37,19 @@ const runs = (text: unknown, style: RunStyle = {}) => docxText(text).split('\n')
 const p = (text: string, opts: RunStyle = {}) =>
   new Paragraph({ spacing: { after: 120 }, children: runs(text, opts) })
 const h = (text: string, level: (typeof HeadingLevel)[keyof typeof HeadingLevel]) => new Paragraph({ children: runs(text), heading: level, spacing: { before: 240, after: 120 } })
+
+/** The fractional Bayes factors and power-scaling sensitivities of the candidates; nothing for analyses run before them. */
+function diagnosticsTable(candidates: Json[]): Table[] {
+  if (!candidates.some((c) => c.fractionalBayesFactor || c.sensitivity)) return []
+  return [table(['Candidate prior', 'Fractional Bayes factor against the comparison prior', 'Training fraction b', 'Sensitivity to the prior', 'Sensitivity to the data', 'Reading'], candidates.map((c) => [
+    c.label || (CANDIDATE_KIND_LABELS[c.kind] ?? '—'),
+    c.fractionalBayesFactor ? formatNumber(Math.exp(c.fractionalBayesFactor.logBF), 3) : '—',
+    c.fractionalBayesFactor ? formatNumber(c.fractionalBayesFactor.b, 3) : '—',
+    c.sensitivity ? formatNumber(c.sensitivity.prior, 3) : '—',
+    c.sensitivity ? formatNumber(c.sensitivity.likelihood, 3) : '—',
+    c.sensitivity ? DIAGNOSIS_WORDS[c.sensitivity.diagnosis as SensitivityDiagnosis] : '—',
+  ]), 1)]
+}
 
 function table(header: string[], rows: string[][], numericFrom = 1): Table {
   const cell = (text: string, i: number, head: boolean) => new TableCell({
@@ -173,8 +187,10 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
           c.bayesFactor ? `${formatNumber(Math.exp(c.bayesFactor.logBF), 3)} (${c.bayesFactor.label})` : '—', formatProbability(c.priorPredictiveP), formatNumber(c.priorEss, 3),
           c.flags.map(flagLabel).join('; ') || 'none',
         ]), 1),
+        ...diagnosticsTable(q.impact.candidates),
         ...q.impact.findings.map((f: string) => p(f)),
-        ...(q.impact.sweep ? [p(`Width sweep: the evidence changes by a factor ${formatNumber(q.impact.sweep.evidenceRatio, 4)} as the prior is made from half to twice as wide; ${q.impact.sweep.priorDriven ? `so ${flagLabel('prior-driven-bayes-factor').toLowerCase()}.` : 'Bayes factors built on this prior are not driven by its width.'} ${q.impact.sweep.rule}`, { size: 20 })] : []),
+        ...(q.impact.sweep ? [p(`Width sweep: the evidence changes by a factor ${formatNumber(q.impact.sweep.evidenceRatio, 4)} as the prior is made from half to twice as wide; ${q.impact.sweep.priorDriven ? `so ${flagLabel('prior-driven-bayes-factor').toLowerCase()}.` : 'Bayes factors built on this prior are not driven by its width.'}${q.impact.sweep.fractionalRatio != null ? ` The fractional Bayes factor (b = ${formatNumber(q.impact.sweep.trainingFraction, 3)}) changes by a factor ${formatNumber(q.impact.sweep.fractionalRatio, 4)} over the same range.` : ''} ${q.impact.sweep.rule}`, { size: 20 })] : []),
+        ...(q.impact.diagnosticsCaution ? [p(q.impact.diagnosticsCaution, { size: 20 })] : []),
       )
     } else if (q.finalPrior) {
       sections.push(p(q.impactNotRunReason

@@ -1,5 +1,6 @@
 import { modelCodeWithCheck } from '../../shared/elicitation/model-code'
 import { chosenFit } from '../../shared/elicitation/fits'
+import { DIAGNOSTICS_CAUTION } from '../../shared/elicitation/impact'
 import { recordCautions } from '../../shared/elicitation/record-cautions'
 import { mean, quantile, sd, type Distribution, type FitResult } from '../../shared/stats/index'
 import type { Db } from '../db/knex'
@@ -121,8 +122,14 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
         candidates: impact.result.candidates.map((c: Record<string, any>) => ({
           label: c.label, kind: c.kind, prior: c.prior, logEvidence: c.logEvidence, posterior: c.posterior, bayesFactor: c.bayesFactor,
           priorPredictiveP: c.priorPredictiveP, priorEss: c.priorEss, flags: c.flags, decision: c.decision,
+          // Analyses run before the diagnostics existed have neither.
+          fractionalBayesFactor: c.fractionalBayesFactor ?? null, sensitivity: c.sensitivity ?? null,
         })),
-        sweep: impact.result.sweep ? { evidenceRatio: impact.result.sweep.evidenceRatio, priorDriven: impact.result.sweep.priorDriven, rule: impact.result.sweep.rule } : null,
+        sweep: impact.result.sweep ? {
+          evidenceRatio: impact.result.sweep.evidenceRatio, priorDriven: impact.result.sweep.priorDriven, rule: impact.result.sweep.rule,
+          fractionalRatio: impact.result.sweep.fractionalRatio ?? null, trainingFraction: impact.result.sweep.trainingFraction ?? null,
+        } : null,
+        diagnosticsCaution: impact.result.candidates.some((c: Record<string, any>) => c.fractionalBayesFactor || c.sensitivity) ? DIAGNOSTICS_CAUTION : null,
         tipping: impact.result.tipping,
         decision: impact.result.decision,
         findings: impact.result.findings,

@@ -1,5 +1,5 @@
 import type { TippingPoint } from '@shared/elicitation/tipping'
-import type { Distribution, PriorDistribution, Support } from '@shared/stats'
+import type { Distribution, FractionalBayesFactor, PowerScalingSensitivity, PriorDistribution, Support } from '@shared/stats'
 import type { ModelLanguage } from '@shared/elicitation/model-code'
 import type { RecordCaution } from '@shared/elicitation/record-cautions'
 import type { CommentOutcome } from '@shared/schemas/records'
@@ -128,13 +128,18 @@ export interface ImpactCandidate {
   priorEss: number | null
   flags: string[]
   decision: { probability: number; act: boolean } | null
+  /** Null for the comparison prior; absent in records stored before the diagnostics. */
+  fractionalBayesFactor?: FractionalBayesFactor | null
+  sensitivity?: PowerScalingSensitivity | null
 }
 
 export interface RecordImpact {
   dataset: { name: string; version: number; model: string; summary?: { description?: string } }
   n: number
   candidates: ImpactCandidate[]
-  sweep: { evidenceRatio: number; priorDriven: boolean; rule: string } | null
+  sweep: { evidenceRatio: number; priorDriven: boolean; rule: string; fractionalRatio?: number | null; trainingFraction?: number | null } | null
+  /** That the diagnostics are aids to judgement, not tests; null or absent without them. */
+  diagnosticsCaution?: string | null
   tipping: TippingPoint | null
   decision: { direction: 'above' | 'below'; threshold: number; probability: number } | null
   findings: string[]
