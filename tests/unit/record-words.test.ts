@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { expertLabel, labelExperts, labelLetters } from '../../shared/record/expert-labels'
+import { expertLabel, labelExperts, labelLetters, labelWithName } from '../../shared/record/expert-labels'
 import { actionLabel, answerText, subjectLabel } from '../../shared/record/format'
 
 describe('expert labels', () => {
@@ -12,6 +12,11 @@ describe('expert labels', () => {
   it('gives each expert the label of their first joining, whatever comes later', () => {
     const labels = labelExperts(['user:7', 'user:3', 'user:7', 'email:new@example.org', 'user:3'])
     expect([...labels]).toEqual([['user:7', 'Expert A'], ['user:3', 'Expert B'], ['email:new@example.org', 'Expert C']])
+  })
+
+  it('adds the name only when the record shows names', () => {
+    expect(labelWithName({ code: 'Expert B', name: 'Helen Okafor' })).toBe('Expert B (Helen Okafor)')
+    expect([labelWithName({ code: 'Expert B' }), labelWithName({ code: 'Expert B', name: null }), labelWithName({ code: 'Expert B', name: '' })]).toEqual(['Expert B', 'Expert B', 'Expert B'])
   })
 })
 
