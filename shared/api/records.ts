@@ -8,6 +8,7 @@ import type { CommentOutcome } from '../schemas/records'
 import type { ElicitationMethod } from '../schemas/rounds'
 import type { Distribution, FitResult, PriorDistribution, Support } from '../stats/types'
 import type { AuditChainCheck, ChangeHistoryEntry } from './audit'
+import type { CandidateKind } from './impact'
 import type { Consensus, PoolMethod, ReconciliationStatus, WeightsMode } from './reconciliation'
 
 /**
@@ -134,7 +135,7 @@ export interface FinalPrior {
 /** A candidate prior of the impact analysis, as the record keeps it. */
 export interface RecordImpactCandidate {
   label: string
-  kind?: string
+  kind: CandidateKind
   prior: PriorDistribution
   logEvidence: number
   posterior: { mean: number; sd: number; q025: number; q50: number; q975: number }
