@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto'
 import Papa from 'papaparse'
-import type { CsvPreview, Dataset } from '../../shared/api/datasets'
+import type { CsvPreview, Dataset, PilotUploadFields } from '../../shared/api/datasets'
 import { readCsvTable } from '../../shared/elicitation/csv'
 import { extractPilotData, PILOT_MAX_BYTES, PilotDataError, type PilotMapping } from '../../shared/elicitation/pilot'
 import type { User } from '../../shared/types/index'
@@ -8,24 +8,7 @@ import type { Db } from '../db/knex'
 import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
 
-export interface UploadFields {
-  quantityId: number
-  name: string
-  model: string
-  delimiter: string
-  valueColumn?: string
-  sigma?: number
-  sigmaPriorScale?: number
-  binomialLayout?: string
-  successesColumn?: string
-  trialsColumn?: string
-  binaryColumn?: string
-  countColumn?: string
-  exposureColumn?: string
-  allowDuplicate?: boolean
-}
-
-export function mappingFrom(f: UploadFields): PilotMapping {
+export function mappingFrom(f: PilotUploadFields): PilotMapping {
   switch (f.model) {
     case 'normal-known-sigma':
       return { model: 'normal-known-sigma', valueColumn: f.valueColumn!, sigma: f.sigma! }
@@ -71,7 +54,7 @@ function toDataset(r: Record<string, any>, withCsv = false): Dataset {
 }
 
 /** Validates the whole file against the mapping before anything is stored: a bad file saves nothing. */
-export async function createDataset(db: Db, user: User, studyId: number, fields: UploadFields, file: { originalname: string; buffer: Buffer }): Promise<Dataset> {
+export async function createDataset(db: Db, user: User, studyId: number, fields: PilotUploadFields, file: { originalname: string; buffer: Buffer }): Promise<Dataset> {
   const quantity = await db('quantities').where({ id: fields.quantityId, study_id: studyId }).first('id')
   if (!quantity) throw new HttpError(400, 'Choose a quantity of this study', { quantityId: 'Choose a quantity of this study' })
   const { text, table, lines } = parseCsv(file.buffer, fields.delimiter)

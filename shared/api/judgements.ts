@@ -1,6 +1,6 @@
 import type { AnswerInput } from '../elicitation/answers'
 import type { ElicitationMethod } from '../schemas/rounds'
-import type { Distribution, Family, FitResult, Point } from '../stats/types'
+import type { Distribution, Family, FitResult } from '../stats/types'
 
 /** Request and response shapes of the answering routes (judgements, calibration answers, feedback, history). */
 
@@ -25,15 +25,9 @@ export interface Judgement {
   updatedAt: string
 }
 
-/** Body of PUT /api/rounds/:id/judgements/:quantityId (`version` 0 for a first save). */
-export interface JudgementSave {
+/** Body of PUT /api/rounds/:id/judgements/:quantityId: the answer's values (`version` 0 for a first save). */
+export interface JudgementSave extends AnswerInput {
   method: ElicitationMethod
-  lower?: number | null
-  upper?: number | null
-  points?: Point[]
-  edges?: number[]
-  probs?: (number | null)[]
-  chips?: number[]
   rationale: string
   chosenFamily: Family | null
   version: number
