@@ -23,7 +23,7 @@ export interface ReconcileExpert {
   judgementId: number
   expertId: number
   name: string
-  /** The expert's study-wide anonymous label. */
+  /** The study-wide label: "Expert 1", "Expert 2", … in the order the experts first joined the study's panels */
   label: string
   distribution: Distribution
   sse: number

@@ -114,6 +114,8 @@ export interface RecordCombination {
   status: ReconciliationStatus
   /** Performance weights from fewer calibration questions or experts than the stated minimums. */
   weightCautions?: string[]
+  /** Each weight with the expert it belongs to (records made before it was kept hold only `weights`). */
+  expertWeights?: { expert: ExpertRef; weight: number }[]
 }
 
 export interface ModelCodeLine {
