@@ -17,6 +17,8 @@ export interface ImpactRequest {
   mixtureWide?: Distribution | null
   decision?: DecisionRule | null
   factors?: number[]
+  /** Training fraction b of the fractional Bayes factors; null or absent: m₀/n. */
+  trainingFraction?: number | null
   /** Experts (user ids) whose priors the analysis leaves out. */
   excludedExperts?: number[]
 }
