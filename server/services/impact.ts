@@ -21,6 +21,8 @@ export interface ImpactInput {
   decision?: DecisionRule | null
   factors?: number[]
   excludedExperts?: number[]
+  /** Training fraction b of the fractional Bayes factors; null or absent: m₀/n. */
+  trainingFraction?: number | null
 }
 
 function checkedDistribution(d: unknown, field: string): Distribution {
@@ -95,14 +97,14 @@ export async function runImpact(db: Db, user: User, quantityId: number, input: I
   const data = dataset.data as PilotData
   const factors = input.factors ?? SWEEP_FACTORS
   // Everything the numbers depend on: the data, every candidate prior (the final one included), the options and the engine.
-  const hashInput = { datasetSha: dataset.sha256, datasetId: dataset.id, datasetVersion: dataset.version, candidates: list, decision: input.decision ?? null, factors, support, engine: ENGINE_VERSION }
+  const hashInput = { datasetSha: dataset.sha256, datasetId: dataset.id, datasetVersion: dataset.version, candidates: list, decision: input.decision ?? null, factors, trainingFraction: input.trainingFraction ?? null, support, engine: ENGINE_VERSION }
   const inputHash = createHash('sha256').update(canonicalJson(hashInput)).digest('hex')
   const cached = await db('impact_analyses').where({ quantity_id: quantityId, input_hash: inputHash }).orderBy('id', 'desc').first()
   if (cached) return { id: cached.id, cached: true, createdAt: cached.created_at.toISOString(), ...cached.result }
 
   let result
   try {
-    const computed = await runImpactTask({ candidates: list, data, decision: input.decision ?? null, reconciled, support, factors, n: dataSize(data) })
+    const computed = await runImpactTask({ candidates: list, data, decision: input.decision ?? null, reconciled, support, factors, trainingFraction: input.trainingFraction ?? null, n: dataSize(data) })
     result = {
       quantityId, datasetId: dataset.id, dataset: { name: dataset.name, version: dataset.version, model: dataset.model, summary: dataset.summary },
       n: dataSize(data), decision: input.decision ?? null, excludedExperts: excluded, ...computed,
