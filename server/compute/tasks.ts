@@ -1,3 +1,4 @@
+import type { ImpactComputation } from '../../shared/api/impact'
 import { evaluateCandidates, findings, sweepOf, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
 import { tippingPoint } from '../../shared/elicitation/tipping'
 import type { Distribution, PilotData, Support } from '../../shared/stats/index'
@@ -15,7 +16,7 @@ export interface ImpactTask {
 }
 
 /** The heavy part of an impact analysis: every candidate's evidence and posterior, the width sweep, the tipping point. */
-export function computeImpact(t: ImpactTask) {
+export function computeImpact(t: ImpactTask): ImpactComputation {
   const started = Date.now()
   const candidates = evaluateCandidates(t.candidates, t.data, t.decision, t.trainingFraction ?? null)
   const sweep = t.reconciled ? sweepOf(t.reconciled, t.data, t.support, t.factors, t.trainingFraction ?? null) : null

@@ -4,7 +4,8 @@ import { mount } from '@vue/test-utils'
 import { DIAGNOSTICS_CAUTION } from '@shared/elicitation/impact'
 import { DIAGNOSIS_WORDS } from '@shared/stats'
 import ImpactSummary from '@/components/record/ImpactSummary.vue'
-import type { ImpactCandidate, RecordImpact } from '@/api/record'
+import type { RecordImpactCandidate as ImpactCandidate } from '@shared/api/records'
+import type { RecordImpact } from '@/api/record'
 
 // Constructed record content: the numbers are the record's own, shown as they are stored.
 const candidate = (over: Partial<ImpactCandidate>): ImpactCandidate => ({
