@@ -5,7 +5,7 @@ import type { Db } from '../db/knex'
 import { idParam } from '../http/id-param'
 import { validateBody } from '../http/validate-body'
 import { accessVia, allow, studyAccess } from '../services/access'
-import { createComposition, deleteComposition, getComposition, listCompositions, updateComposition } from '../services/compositions'
+import { compositionDirichlet, createComposition, deleteComposition, getComposition, listCompositions, updateComposition } from '../services/compositions'
 
 /** Compositions of a study: proportion quantities whose shares add up to one. */
 export function compositionsRouter(db: Db): Router {
@@ -36,6 +36,14 @@ export function compositionsRouter(db: Db): Router {
     allow(access, 'analyst')
     const body = await validateBody(compositionUpdateSchema, req.body)
     res.json(await updateComposition(db, access.user, id, body))
+  })
+
+  // The joint prior is the analysts' and reviewers' (as the reconciliation it is built from).
+  r.get('/compositions/:id/dirichlet', async (req, res) => {
+    const id = idParam(req.params.id, 'Composition')
+    const access = await accessVia(db, currentUser(req), 'compositions', id, 'Composition')
+    allow(access, 'analyst', 'reviewer')
+    res.json(await compositionDirichlet(db, id))
   })
 
   r.delete('/compositions/:id', async (req, res) => {

@@ -1,5 +1,7 @@
 import type { Knex } from 'knex'
-import type { Composition, CompositionShare } from '../../shared/api/compositions'
+import type { Composition, CompositionDirichlet, CompositionShare } from '../../shared/api/compositions'
+import { compositionPrior } from '../../shared/elicitation/composition-prior'
+import type { Distribution } from '../../shared/stats/index'
 import { COMPOSITION_NOT_PROPORTION_MESSAGE, COMPOSITION_OTHER_STUDY_MESSAGE, DEFAULT_RESIDUAL_LABEL, type CompositionBody } from '../../shared/schemas/compositions'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
@@ -144,4 +146,14 @@ export async function deleteComposition(db: Db, user: User, id: number): Promise
 export async function compositionsOfQuantity(db: Db | Knex.Transaction, quantityId: number): Promise<string[]> {
   const rows = await db('composition_shares as s').join('compositions as c', 'c.id', 's.composition_id').where('s.quantity_id', quantityId).orderBy('c.id').select('c.name')
   return rows.map((r) => r.name as string)
+}
+
+/** The composition's Dirichlet from its shares' reconciled priors (a share not reconciled yet holds it back). */
+export async function compositionDirichlet(db: Db, id: number): Promise<CompositionDirichlet> {
+  const c = await getComposition(db, id)
+  const recs: { quantity_id: number; status: string; distribution: Distribution | null }[] = await db('reconciliations')
+    .whereIn('quantity_id', c.shares.map((s) => s.quantityId)).select('quantity_id', 'status', 'distribution')
+  const finals = new Map(recs.filter((r) => r.status === 'reconciled' && r.distribution).map((r) => [r.quantity_id, r.distribution as Distribution]))
+  const shares = c.shares.map((s) => ({ quantityId: s.quantityId, name: s.name, symbol: s.symbol, prior: finals.get(s.quantityId) ?? null }))
+  return { compositionId: c.id, name: c.name, residual: c.residual, ...compositionPrior(c.name, shares, c.residual ? c.residualLabel : null) }
 }

@@ -1,3 +1,5 @@
+import type { CompositionPrior } from '../elicitation/composition-prior'
+
 /** Response shapes of the composition routes, returned by the server's mappers and read by the client. */
 
 /** One share of a composition: a proportion quantity of the study, in the composition's order. */
@@ -20,4 +22,11 @@ export interface Composition {
   version: number
   createdAt: string
   updatedAt: string
+}
+
+/** GET /api/compositions/:id/dirichlet: the composition's joint prior from its shares' reconciled priors. */
+export interface CompositionDirichlet extends CompositionPrior {
+  compositionId: number
+  name: string
+  residual: boolean
 }

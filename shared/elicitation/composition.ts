@@ -1,4 +1,5 @@
 import { COMPOSITION_CONVENTION } from '../stats/dirichlet'
+import { formatPercentPoints } from '../format/numbers'
 
 /** One share as the expert has answered it so far: the mean of the shape fitted to their answer, or null before it has one. */
 export interface ShareMean {
@@ -22,7 +23,8 @@ export interface CompositionSumReading {
   message: string
 }
 
-const percent = (x: number) => `${Math.round(x * 100)} %`
+/** A total or a remainder of shares in whole per cent ("104 %"): a sum, not a probability, so it may pass 100 %. */
+const percent = (x: number) => formatPercentPoints(Math.round(x * 100))
 const list = (names: string[]) => (names.length <= 1 ? names.join('') : `${names.slice(0, -1).join(', ')} and ${names[names.length - 1]}`)
 
 /**

@@ -77,6 +77,19 @@ export function formatTiny(x: number): string {
   return notFinite(x) ?? x.toExponential(0).replace('e+', 'e')
 }
 
+/** A number exactly as stored, for an edge or a limit the analyst typed and reads back: "0.1", "2", "∞", "-∞". */
+export function formatExact(x: number): string {
+  return notFinite(x) ?? String(x === 0 ? 0 : x)
+}
+
+/** Percentage points as typed by an expert: "20 %", "12.5 %", "0.25 %", "-10 %" (two decimals below 1 point, else one). */
+export function formatPercentPoints(points: number): string {
+  const special = notFinite(points)
+  if (special !== null) return special
+  const rounded = Number(points.toFixed(Math.abs(points) < 1 && points !== 0 ? 2 : 1))
+  return `${rounded === 0 ? 0 : rounded} %`
+}
+
 /** A signed change with two decimals: "+0.12", "-0.09", "0.00" (within rounding of zero, no sign). */
 export function formatSigned(x: number): string {
   const special = notFinite(x)

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
+import { dirichletFromMarginals, type Distribution } from '../../shared/stats/index'
+import { Client, signedIn, startApi, Z75, type ApiHarness } from '../support/api'
 
 let h: ApiHarness
 let analyst: Client
@@ -146,5 +147,73 @@ describe('compositions', () => {
     expect(await h.db('composition_shares').where({ composition_id: extra.id })).toEqual([])
     expect((await analyst.get(`/api/quantities/${ids.alerts}`)).status).toBe(200)
     expect((await auditOf(`composition:${extra.id}`)).map((e) => e.action)).toEqual(['composition.create', 'composition.delete'])
+  })
+})
+
+describe('the joint prior of a composition (Dirichlet from the reconciled shares)', () => {
+  let wholeId: number
+  let roundId: number
+  const uptake: Record<string, number> = {}
+  /** An expert's quartile answer for a share with median m and spread s (constructed values). */
+  const answer = (m: number, s: number) => ({ method: 'quantile', lower: Math.max(0.01, m - 4 * s), upper: Math.min(0.99, m + 4 * s), points: [{ value: m - s * Z75, prob: 0.25 }, { value: m, prob: 0.5 }, { value: m + s * Z75, prob: 0.75 }], rationale: 'Uptake of similar offers in two neighbouring boards.', version: 0 })
+
+  beforeAll(async () => {
+    for (const [symbol, name] of [['u_join', 'Join (joint prior)'], ['u_meter', 'Meter only (joint prior)'], ['u_decline', 'Decline (joint prior)']])
+      uptake[symbol] = await quantity(studyId, symbol, name)
+    wholeId = (await analyst.post(`/api/studies/${studyId}/compositions`, {
+      name: 'Household uptake (joint prior)', wording: 'How households answer the offer, in three shares.', quantityIds: Object.values(uptake),
+    }).expect(201)).body.id
+    roundId = (await analyst.post(`/api/studies/${studyId}/rounds`, {
+      title: 'joint: uptake shares', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * 864e5).toISOString(),
+      askCalibration: false, items: Object.values(uptake).map((quantityId) => ({ quantityId, method: 'quantile' })),
+    }).expect(201)).body.id
+    await analyst.post(`/api/rounds/${roundId}/invitations`, { email: 'expert1@kestrel.example', name: 'Expert 1' }).expect(201)
+    await analyst.post(`/api/rounds/${roundId}/open`).expect(200)
+    await expert1.put(`/api/rounds/${roundId}/declaration`, { expertise: 'Twenty years of customer surveys at the Board.', interests: 'none', interestsText: '', seenPilotData: false }).expect(200)
+    for (const [symbol, [m, sd]] of Object.entries({ u_join: [0.3, 0.06], u_meter: [0.2, 0.05], u_decline: [0.5, 0.07] }))
+      await expert1.put(`/api/rounds/${roundId}/judgements/${uptake[symbol]}`, answer(m, sd)).expect(200)
+    await expert1.post(`/api/rounds/${roundId}/submit`).expect(200)
+  }, 60_000)
+
+  async function reconcile(quantityId: number): Promise<Distribution> {
+    const res = await analyst.put(`/api/quantities/${quantityId}/reconciliation`, {
+      roundId, method: 'linear', weights: 'equal', family: 'beta', reconciled: true, version: 0, rationale: 'One expert answered; the beta fits the answer closely.',
+    }).expect(200)
+    return res.body.saved.distribution
+  }
+
+  it('waits for every share to be reconciled, naming those still open', async () => {
+    await reconcile(uptake.u_join)
+    const res = await analyst.get(`/api/compositions/${wholeId}/dirichlet`).expect(200)
+    expect(res.body).toMatchObject({ compositionId: wholeId, symbol: 'household_uptake_joint_prior', fit: null, problem: null, modelCode: [] })
+    expect(res.body.waitingFor).toEqual(['Meter only (joint prior)', 'Decline (joint prior)'])
+    expect(res.body.shares.map((s: { prior: unknown }) => s.prior !== null)).toEqual([true, false, false])
+  })
+
+  it('fits the Dirichlet to the reconciled priors once all are in, with the mismatch per share and model code that reads back', async () => {
+    await reconcile(uptake.u_meter)
+    await reconcile(uptake.u_decline)
+    const finals = await Promise.all(Object.values(uptake).map(async (id) => (await analyst.get(`/api/quantities/${id}/reconciliation`).expect(200)).body.saved.distribution as Distribution))
+    expect(finals.map((d) => d.family)).toEqual(['beta', 'beta', 'beta'])
+    const res = await reviewer.get(`/api/compositions/${wholeId}/dirichlet`).expect(200)
+    const engine = dirichletFromMarginals(finals)
+    expect(res.body.waitingFor).toEqual([])
+    expect(res.body.fit).toEqual(JSON.parse(JSON.stringify(engine)))
+    // Means in proportion to the reconciled means (constructed answers add up to about 1).
+    const sumAlpha = engine.alpha.reduce((a, b) => a + b, 0)
+    expect(res.body.fit.meanSum).toBeGreaterThan(0.95)
+    expect(res.body.fit.meanSum).toBeLessThan(1.05)
+    res.body.shares.forEach((s: { alpha: number; elicitedMean: number; marginal: Distribution; mismatch: number }, i: number) => {
+      expect(s.alpha).toBe(engine.alpha[i])
+      expect(s.alpha / sumAlpha).toBeCloseTo(s.elicitedMean / engine.meanSum, 12)
+      expect(s.marginal).toEqual({ family: 'beta', alpha: engine.alpha[i], beta: sumAlpha - engine.alpha[i] })
+      expect(s.mismatch).toBe(engine.mismatch[i])
+    })
+    expect(res.body.modelCode.map((m: { language: string; check: { ok: boolean } }) => [m.language, m.check.ok])).toEqual([['stan', true], ['pymc', true], ['jags', true], ['brms', true]])
+    expect(res.body.modelCode[0].code).toMatch(/^\/\/ household_uptake_joint_prior: shares in order: u_join, u_meter, u_decline\nhousehold_uptake_joint_prior ~ dirichlet\(\[/)
+  })
+
+  it('refuses the joint prior to experts', async () => {
+    expect((await expert1.get(`/api/compositions/${wholeId}/dirichlet`)).status).toBe(403)
   })
 })

@@ -8,7 +8,8 @@ import { expectPhoneLayout } from '../support/phone'
  * Shares of a whole in chromium, in the Kestrel Valley household-uptake scenario: the analyst groups three proportion
  * quantities of a new study into a composition on the quantities screen (inline errors first), reorders and saves it;
  * a round asks the three shares; one expert answers on a 360 px phone and sees the total of their shares live, the
- * other answers through the API.
+ * other answers through the API; the analyst reconciles two shares through the API and the last on its reconcile
+ * screen, where the Dirichlet fitted to the three reconciled shares appears with its mismatch and model code.
  */
 
 const TAG = `joint-${Date.now() % 100000}`
@@ -44,6 +45,7 @@ async function answerQuantile(page: Page, [lower, upper, median, q1, q3]: number
   await field(page, 'q-q1').fill(String(q1))
   await field(page, 'q-q3').fill(String(q3))
   await expect.poll(() => page.getByTestId('feedback-card').getAttribute('data-ready')).toBe('true')
+  await field(page, 'rationale').fill('Take-up of the meter offer in the 2024 survey of the Board’s customers.')
 }
 
 beforeAll(async () => {
@@ -170,6 +172,70 @@ describe('compositions', () => {
     expect(fits.map((f) => f.distribution.family)).toEqual(['beta', 'beta', 'beta'])
     const sum = fits.reduce((t, f) => t + f.distribution.alpha! / (f.distribution.alpha! + f.distribution.beta!), 0)
     expect(shown).toContain(`about ${Math.round(sum * 100)} %`)
+  })
+})
+
+describe('the joint prior on the reconcile screen', () => {
+  it('both experts submit; once the last share is reconciled the screen shows the Dirichlet, its mismatch and its model code', async () => {
+    const { page } = expert
+    await inPage(page, async (call, { roundId }) => {
+      await call('POST', `/api/rounds/${roundId}/submit`)
+    }, { roundId })
+    // The second expert answers through the API.
+    await inPage(page, async (call, { roundId, quantityIds, answers, password }) => {
+      await call('POST', '/api/auth/sign-out')
+      await call('POST', '/api/auth/sign-in', { email: 'expert2@kestrel.example', password })
+      await call('PUT', `/api/rounds/${roundId}/declaration`, { expertise: 'Customer surveys for three water companies since 2012.', interests: 'none', interestsText: '', seenPilotData: false })
+      for (const [i, quantityId] of quantityIds.entries()) {
+        const [lower, upper, median, q1, q3] = answers[i]
+        await call('PUT', `/api/rounds/${roundId}/judgements/${quantityId}`, {
+          method: 'quantile', lower, upper, points: [{ value: q1, prob: 0.25 }, { value: median, prob: 0.5 }, { value: q3, prob: 0.75 }],
+          rationale: 'Take-up of the meter offer in the 2024 survey of the Board’s customers.', version: 0,
+        })
+      }
+      await call('POST', `/api/rounds/${roundId}/submit`)
+    }, { roundId, quantityIds: setup.quantityIds, answers: ANSWERS.expert2, password: 'priorsmith-demo' })
+
+    await inPage(s.page, async (call, { quantityIds }) => {
+      for (const quantityId of quantityIds.slice(0, 2)) {
+        const view = await call<{ roundId: number }>('GET', `/api/quantities/${quantityId}/reconciliation`)
+        await call('PUT', `/api/quantities/${quantityId}/reconciliation`, {
+          roundId: view.roundId, method: 'linear', weights: 'equal', family: 'beta', reconciled: true, version: 0,
+          rationale: 'Equal weights: both experts know the Board’s customers; the beta fits the pool closely.',
+        })
+      }
+    }, { quantityIds: setup.quantityIds })
+
+    const analyst = s.page
+    await analyst.goto(`${s.baseUrl}/studies/${setup.studyId}/reconcile/${setup.quantityIds[2]}`)
+    const panel = analyst.getByTestId('composition-prior')
+    await panel.waitFor()
+    await expect(panel.getAttribute('data-ready')).resolves.toBe('false')
+    await expect(analyst.getByTestId('composition-prior-waiting').innerText()).resolves.toContain(`${SHARES[2].name} (this quantity)`)
+
+    await analyst.locator('[data-testid="fit-row"][data-family="beta"]').getByTestId('fit-choose').click()
+    await field(analyst, 'rationale').fill('Equal weights: both experts know the Board’s customers; the beta fits the pool closely.')
+    await analyst.getByTestId('mark-reconciled').click()
+    await analyst.locator('[data-testid="reconcile-status"][data-status="reconciled"]').waitFor()
+    await analyst.locator('[data-testid="composition-prior"][data-ready="true"]').waitFor()
+
+    const prior = await inPage(analyst, async (call, { studyId }) => {
+      const [whole] = await call<{ id: number }[]>('GET', `/api/studies/${studyId}/compositions`)
+      return call<{ fit: { alpha: number[]; mismatch: number[] }; modelCode: { language: string; code: string }[] }>('GET', `/api/compositions/${whole.id}/dirichlet`)
+    }, { studyId: setup.studyId })
+    expect(prior.fit.alpha).toHaveLength(3)
+    await expect(analyst.getByTestId('composition-prior-row').count()).resolves.toBe(3)
+    const alphas = (await analyst.getByTestId('composition-prior-alpha').allInnerTexts()).map(Number)
+    alphas.forEach((a, i) => expect(a).toBeCloseTo(prior.fit.alpha[i], 2))
+    await expect(analyst.getByTestId('composition-model-code').evaluateAll((els) => els.map((e) => e.getAttribute('data-language')))).resolves.toEqual(['stan', 'pymc', 'jags', 'brms'])
+    await expect(analyst.getByTestId('composition-model-code').first().innerText()).resolves.toBe(prior.modelCode[0].code)
+    await expect(analyst.getByTestId('composition-model-check').evaluateAll((els) => els.map((e) => e.getAttribute('data-ok')))).resolves.toEqual(['true', 'true', 'true', 'true'])
+
+    const [download] = await Promise.all([analyst.waitForEvent('download'), analyst.locator('[data-testid="composition-model-download"][data-language="stan"]').click()])
+    expect(download.suggestedFilename()).toBe('household_uptake.stan')
+    await analyst.getByTestId('composition-prior').scrollIntoViewIfNeeded()
+    await s.shot('compositions-05-reconcile-dirichlet')
+    await expectAccessible(analyst, 'composition joint prior on the reconcile screen')
   })
 })
 

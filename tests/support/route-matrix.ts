@@ -45,6 +45,7 @@ export const MATRIX: Record<string, Rule> = {
   'POST /api/studies/:id/compositions': ['admin', 'analyst'],
   'GET /api/compositions/:id': MEMBERS,
   'PATCH /api/compositions/:id': ['admin', 'analyst'],
+  'GET /api/compositions/:id/dirichlet': ['admin', 'analyst', 'reviewer'],
   // Last of the composition routes: the analyst deletes the fixture's composition.
   'DELETE /api/compositions/:id': ['admin', 'analyst'],
   'GET /api/studies/:id/rounds': MEMBERS,

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import {
-  countNoun, describeDistribution, formatCount, FAMILY_LABELS, FAMILY_PARAMS, formatBytes, formatClockTime, formatDate, formatDateTime, formatNumber, formatPercent,
+  countNoun, describeDistribution, formatCount, formatExact, formatPercentPoints, FAMILY_LABELS, FAMILY_PARAMS, formatBytes, formatClockTime, formatDate, formatDateTime, formatNumber, formatPercent,
   formatProbability, formatProbabilityFromLog, formatRelativeTime, formatShortDateTime, formatSigned, formatTiny, formatValue, paramsText,
 } from '../../shared/format'
 
@@ -78,6 +78,8 @@ describe('other numbers', () => {
     expect([0.123, -0.094, 0.001, -0.001, -0].map(formatSigned)).toEqual(['+0.12', '-0.09', '0.00', '0.00', '0.00'])
     expect([812, 14540, 3250585].map(formatBytes)).toEqual(['812 B', '14.2 kB', '3.1 MB'])
     expect([countNoun(0, 'quantity', 'quantities'), countNoun(1, 'member'), countNoun(1200, 'row')]).toEqual(['no quantities', '1 member', '1,200 rows'])
+    expect([0.1, 2, -0, 1234567.891, Infinity, -Infinity].map(formatExact)).toEqual(['0.1', '2', '0', '1234567.891', '∞', '-∞'])
+    expect([20, 12.5, 0.25, -10, 33.333333, -0.004].map(formatPercentPoints)).toEqual(['20 %', '12.5 %', '0.25 %', '-10 %', '33.3 %', '0 %'])
     expect([0, 999, 100001, 1234567].map(formatCount)).toEqual(['0', '999', '100,001', '1,234,567'])
   })
 })

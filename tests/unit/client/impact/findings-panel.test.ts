@@ -37,11 +37,11 @@ describe('FindingsPanel', () => {
   it('shows each caution with the candidates it applies to, and the prior-driven rule where that flag shows', () => {
     const w = mountPanel(result([
       candidate({ flags: ['prior-driven-bayes-factor'] }),
-      candidate({ key: 'expert-1', label: 'Expert A', kind: 'expert', flags: ['prior-dominates', 'prior-data-conflict'], priorEss: 44.4, priorPredictiveP: 0.001, logPriorPredictiveP: Math.log(0.001) }),
+      candidate({ key: 'expert-1', label: 'Expert 1', kind: 'expert', flags: ['prior-dominates', 'prior-data-conflict'], priorEss: 44.4, priorPredictiveP: 0.001, logPriorPredictiveP: Math.log(0.001) }),
     ], true))
     const cautions = w.get('[data-testid="impact-cautions"]')
     expect(cautions.findAll('[data-testid="impact-caution"]').map((c) => c.attributes('data-flag'))).toEqual(['prior-dominates', 'prior-data-conflict', 'prior-driven-bayes-factor'])
-    expect(cautions.get('[data-flag="prior-dominates"]').text()).toContain('The prior dominates the data — Expert A.')
+    expect(cautions.get('[data-flag="prior-dominates"]').text()).toContain('The prior dominates the data — Expert 1.')
     // The product's rules of thumb are labelled as its own conventions, with their reasoning (docs/methods/).
     expect(cautions.get('[data-flag="prior-dominates"]').text()).toContain('Priorsmith’s rule of thumb, not a published test: the prior counts as that many observations')
     expect(cautions.get('[data-flag="prior-data-conflict"]').text()).toContain('the customary 5 % level, a convention')
