@@ -5,7 +5,7 @@ import { digamma, gammaPQ, logGammaPrefactor } from './special'
 
 const TINY = 1e-300
 const EPS = 2.220446049250313e-16
-/** Above this shape the series and continued fraction need more than ~10⁴ terms; differences of P are used instead. */
+/** Above this shape the series below the mode needs more than ~10⁴ terms (√a of them); differences of P are used instead. */
 const SERIES_MAX_SHAPE = 1e7
 
 /** Trigamma ψ′(a) for a > 0: recurrence ψ′(a) = ψ′(a + 1) + 1/a² up to a ≥ 10, then the asymptotic series (Abramowitz & Stegun 1964, 6.4.12). */
@@ -34,7 +34,7 @@ export function gammaPShapeDerivatives(a: number, x: number, out: Float64Array):
   }
   const logPre = logGammaPrefactor(a, x)
   const pre = Math.exp(logPre)
-  if (a > SERIES_MAX_SHAPE) {
+  if (a > SERIES_MAX_SHAPE && x < a + 1) {
     shapeDifferences(a, x, out)
     out[3] = pre
     return
@@ -134,10 +134,10 @@ export function gammaPShapeDerivatives(a: number, x: number, out: Float64Array):
 /**
  * P(a, x) and its shape derivatives at very large shape by Richardson's five-point differences in ln a (Press et al. 2007,
  * Numerical Recipes 3rd ed., §5.7), the step scaled to the distribution's width: P depends on a through (x − a)/√a, so a
- * step of 10⁻³/√a in ln a moves it by about 10⁻³ (truncation ~10⁻¹², rounding ~10⁻¹³ in the first derivative).
+ * step of 10⁻²/√a in ln a moves it by about 10⁻² (truncation ~10⁻⁹, rounding ~10⁻¹² in the first derivative).
  */
 function shapeDifferences(a: number, x: number, out: Float64Array): void {
-  const h = 1e-3 / Math.sqrt(a)
+  const h = 1e-2 / Math.sqrt(a)
   const f = (k: number): number => gammaPQ(a * Math.exp(k * h), x).p
   const f0 = f(0)
   const p1 = f(1)
