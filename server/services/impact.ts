@@ -1,4 +1,5 @@
 import { createHash } from 'node:crypto'
+import type { ImpactFindings, ImpactNotRun, ImpactResult } from '../../shared/api/impact'
 import { chosenFit } from '../../shared/elicitation/fits'
 import { dataSize, mixtureLabel, SWEEP_FACTORS, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
 import { combine, fitCombination, fitConsensus, resolveWeights } from '../../shared/elicitation/reconcile'
@@ -21,6 +22,8 @@ export interface ImpactInput {
   decision?: DecisionRule | null
   factors?: number[]
   excludedExperts?: number[]
+  /** Training fraction b of the fractional Bayes factors; null or absent: m₀/n. */
+  trainingFraction?: number | null
 }
 
 function checkedDistribution(d: unknown, field: string): Distribution {
@@ -84,7 +87,7 @@ async function candidatesFor(db: Db, quantity: Quantity, input: ImpactInput): Pr
 export const priorHash = (prior: Distribution) => createHash('sha256').update(canonicalJson(prior)).digest('hex')
 
 /** Runs (or returns the cached) impact analysis of every candidate prior on one pilot dataset. */
-export async function runImpact(db: Db, user: User, quantityId: number, input: ImpactInput) {
+export async function runImpact(db: Db, user: User, quantityId: number, input: ImpactInput): Promise<ImpactResult> {
   const dataset = await getDataset(db, input.datasetId)
   const quantity = await getQuantity(db, quantityId)
   // Another study's dataset is answered as if it did not exist: its id says nothing about that study.
@@ -95,14 +98,14 @@ export async function runImpact(db: Db, user: User, quantityId: number, input: I
   const data = dataset.data as PilotData
   const factors = input.factors ?? SWEEP_FACTORS
   // Everything the numbers depend on: the data, every candidate prior (the final one included), the options and the engine.
-  const hashInput = { datasetSha: dataset.sha256, datasetId: dataset.id, datasetVersion: dataset.version, candidates: list, decision: input.decision ?? null, factors, support, engine: ENGINE_VERSION }
+  const hashInput = { datasetSha: dataset.sha256, datasetId: dataset.id, datasetVersion: dataset.version, candidates: list, decision: input.decision ?? null, factors, trainingFraction: input.trainingFraction ?? null, support, engine: ENGINE_VERSION }
   const inputHash = createHash('sha256').update(canonicalJson(hashInput)).digest('hex')
   const cached = await db('impact_analyses').where({ quantity_id: quantityId, input_hash: inputHash }).orderBy('id', 'desc').first()
   if (cached) return { id: cached.id, cached: true, createdAt: cached.created_at.toISOString(), ...cached.result }
 
-  let result
+  let result: ImpactFindings
   try {
-    const computed = await runImpactTask({ candidates: list, data, decision: input.decision ?? null, reconciled, support, factors, n: dataSize(data) })
+    const computed = await runImpactTask({ candidates: list, data, decision: input.decision ?? null, reconciled, support, factors, trainingFraction: input.trainingFraction ?? null, n: dataSize(data) })
     result = {
       quantityId, datasetId: dataset.id, dataset: { name: dataset.name, version: dataset.version, model: dataset.model, summary: dataset.summary },
       n: dataSize(data), decision: input.decision ?? null, excludedExperts: excluded, ...computed,
@@ -123,13 +126,13 @@ export async function runImpact(db: Db, user: User, quantityId: number, input: I
 }
 
 /** The newest analysis of a quantity, for the record and for reopening the page. */
-export async function latestImpact(db: Db, quantityId: number) {
+export async function latestImpact(db: Db, quantityId: number): Promise<ImpactResult | null> {
   const row = await db('impact_analyses').where({ quantity_id: quantityId }).orderBy('id', 'desc').first()
   return row ? { id: row.id, cached: true, createdAt: row.created_at.toISOString(), input: row.input, ...row.result } : null
 }
 
 /** The analyst's reason for stating the final prior without an impact analysis; it holds for this prior only. */
-export async function recordImpactNotRun(db: Db, user: User, quantityId: number, reason: string) {
+export async function recordImpactNotRun(db: Db, user: User, quantityId: number, reason: string): Promise<ImpactNotRun> {
   const quantity = await getQuantity(db, quantityId)
   const rec = await db('reconciliations').where({ quantity_id: quantityId }).first('status', 'distribution')
   if (rec?.status !== 'reconciled' || !rec.distribution) throw new HttpError(409, 'Reconcile the quantity first: the reason is recorded for its final prior')

@@ -40,7 +40,7 @@ export {
 } from './fit'
 export { pointsFromChips, pointsFromIntervals, supportBounds, validatePoints } from './points'
 export { linearPool, logPool, mixture, mixtureQuantile, poolSummary } from './pool'
-export { cookeClassical, decisionMaker, minimumInformationDistribution } from './cooke'
+export { cookeClassical, decisionMaker, minimumInformationDistribution, optimisedCutoff, type CutoffCandidate } from './cooke'
 export {
   analyzePrior,
   boxCheckNormalNormal,
@@ -61,14 +61,17 @@ export {
   diagnose,
   DIAGNOSIS_WORDS,
   fractionalBayesFactor,
+  fractionalBayesFactors,
   minimalTrainingSize,
   observationCount,
   POWER_SCALING_STEP,
   POWER_SCALING_THRESHOLD,
   powerScaledPosterior,
   powerScalingSensitivity,
+  priorPowerCurve,
   type CandidatePrior,
   type FractionalBayesFactor,
+  type PowerScaledPoint,
   type PowerScalingSensitivity,
   type PriorMixture,
   type SensitivityDiagnosis,
