@@ -69,9 +69,7 @@ async function calibrationData(db: Db, studyId: number, listed: { expertId: numb
 }
 
 /** The experts a saved reconciliation's weights belong to, in the order of its weights: the round's fitted experts, minus those left out. */
-export async function weightedExpertIds(db: Db, rec: { quantity_id: number; round_id: number | null; excluded_experts: number[] }): Promise<number[]> {
-  // A reconciliation saved without a round (the column allows it) weighs no round's experts.
-  if (rec.round_id === null) return []
+export async function weightedExpertIds(db: Db, rec: { quantity_id: number; round_id: number; excluded_experts: number[] }): Promise<number[]> {
   return (await expertFits(db, rec.round_id, rec.quantity_id)).filter((e) => !rec.excluded_experts.includes(e.expertId)).map((e) => e.expertId)
 }
 
