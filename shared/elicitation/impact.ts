@@ -120,8 +120,11 @@ export function dataSize(data: PilotData): number {
   }
 }
 
-/** Every candidate prior against the pilot data: posterior, evidence, Bayes factor against the comparison prior, checks. */
-export function evaluateCandidates(candidates: CandidateInput[], data: PilotData, rule: DecisionRule | null): CandidateResult[] {
+/**
+ * Every candidate prior against the pilot data: posterior, evidence, Bayes factor against the comparison prior, checks.
+ * `onStep` is called after each candidate (a progress report).
+ */
+export function evaluateCandidates(candidates: CandidateInput[], data: PilotData, rule: DecisionRule | null, onStep?: () => void): CandidateResult[] {
   const n = dataSize(data)
   const results: CandidateResult[] = candidates.map((c): CandidateResult => {
     const { analysis, post } = namedFor(c, () => (c.mixture ? mixtureAnalysis(c.mixture, data) : { analysis: analyzePrior(c.prior, data), post: posteriorOf(c.prior, data) }))
@@ -129,6 +132,7 @@ export function evaluateCandidates(candidates: CandidateInput[], data: PilotData
     if (analysis.priorEss !== null && analysis.priorEss > n) flags.push('prior-dominates')
     if (analysis.conflict) flags.push('prior-data-conflict')
     const probability = rule ? tailProbability(post, rule) : null
+    onStep?.()
     return {
       key: c.key, label: c.label, kind: c.kind, prior: c.prior, priorSummary: priorSummaryOf(c),
       logEvidence: analysis.logEvidence, method: analysis.method, posterior: analysis.posterior,
@@ -165,8 +169,8 @@ export interface SweepSummary {
   rule: string
 }
 
-export function sweepOf(prior: PriorDistribution, data: PilotData, support: Support, factors = SWEEP_FACTORS): SweepSummary {
-  const s = widthSweep(prior, data, factors, support)
+export function sweepOf(prior: PriorDistribution, data: PilotData, support: Support, factors = SWEEP_FACTORS, onStep?: () => void): SweepSummary {
+  const s = widthSweep(prior, data, factors, support, onStep)
   return {
     factors,
     points: s.points.map((p) => ({ factor: p.factor, logEvidence: p.logEvidence, posteriorMean: p.posteriorMean, q025: p.q025, q975: p.q975 })),
