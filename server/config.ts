@@ -23,6 +23,8 @@ export interface AnalysisSettings {
   pollingIntervalSeconds: number
   /** ANALYSIS_TIME_LIMIT_SECONDS: an analysis computing longer is stopped and reported failed. */
   timeLimitSeconds: number
+  /** ANALYSIS_WORKER_NAME: written on the jobs this process computes (default host:pid). */
+  name: string | undefined
 }
 
 /** A whole number from the environment within [min, max], or a start that stops with a message naming the variable. */
@@ -39,6 +41,7 @@ export function analysisSettings(env: NodeJS.ProcessEnv = process.env): Analysis
     threads: Math.round(numberSetting(env, 'ANALYSIS_THREADS', 1, 1, 64)),
     pollingIntervalSeconds: numberSetting(env, 'ANALYSIS_POLL_SECONDS', 1, 0.5, 60),
     timeLimitSeconds: numberSetting(env, 'ANALYSIS_TIME_LIMIT_SECONDS', 600, 5, 86_400),
+    name: env.ANALYSIS_WORKER_NAME?.trim().slice(0, 200) || undefined,
   }
 }
 
