@@ -11,6 +11,7 @@ import type { AppContext } from './context'
 import type { SmtpFake } from './mail/smtp-fake'
 import { authRouter } from './routes/auth'
 import { calibrationRouter } from './routes/calibration'
+import { compositionsRouter } from './routes/compositions'
 import { datasetsRouter } from './routes/datasets'
 import { devMailboxRouter } from './routes/dev-mailbox'
 import { healthRouter } from './routes/health'
@@ -105,6 +106,7 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   app.use('/api/dev/mailbox', devMailboxRouter(opts.mailFake ?? null))
   app.use('/api', quantitiesRouter(db))
   app.use('/api', calibrationRouter(db))
+  app.use('/api', compositionsRouter(db))
   app.use('/api', roundsRouter(ctx))
   app.use('/api', judgementsRouter(db))
   app.use('/api', reconciliationRouter(db))

@@ -4,9 +4,8 @@ import {
 } from 'docx'
 import { PILOT_MODEL_LABELS, type PilotModel } from '../../shared/elicitation/pilot'
 import { cautionText, type RecordCaution } from '../../shared/elicitation/record-cautions'
-import {
-  answerText, CANDIDATE_KIND_LABELS, dateTimeIn, describeDistribution as describe, flagLabel, fmt, LANGUAGE_LABELS, SUPPORT_LABELS, WEIGHTS_LABELS,
-} from '../../shared/record/format'
+import { describeDistribution as describe, formatDateTime, formatNumber, formatProbability } from '../../shared/format'
+import { answerText, CANDIDATE_KIND_LABELS, flagLabel, LANGUAGE_LABELS, SUPPORT_LABELS, WEIGHTS_LABELS } from '../../shared/record/format'
 import { COMMENT_OUTCOME_LABELS, type CommentOutcome } from '../../shared/schemas/records'
 import { POOL_METHOD_LABELS } from '../../shared/schemas/reconciliation'
 import { METHOD_LABELS, type ElicitationMethod } from '../../shared/schemas/rounds'
@@ -88,7 +87,7 @@ function producedBySection(outline: Outline, produced: Json | undefined, n: numb
 /** The prior record as a Word document: title page, contents, one section per quantity, cautions, sign-off, history. */
 export async function recordDocx(content: Json, meta: Json, charts: Map<string, Buffer>, comments: Json[], history: Json[], options: DocxOptions): Promise<Buffer> {
   const tz = options.timeZone
-  const when = (v: unknown, seconds = false) => dateTimeIn(v as string | null, tz, seconds)
+  const when = (v: unknown, seconds = false, timeZone = tz) => formatDateTime(v as string | null, { timeZone, words: 'long', zone: true, seconds })
   const outline = new Outline()
   const sections: (Paragraph | Table)[] = []
   sections.push(
@@ -105,7 +104,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       ])), 1),
     outline.heading('3. Calibration questions', 1),
     p(content.calibration.method),
-    table(['Question', 'Unit', 'True value'], (content.calibration.questions as Json[]).map((q) => [q.question, q.unit, q.trueValue === null ? 'not known yet' : fmt(q.trueValue, 6)]), 2),
+    table(['Question', 'Unit', 'True value'], (content.calibration.questions as Json[]).map((q) => [q.question, q.unit, q.trueValue === null ? 'not known yet' : formatNumber(q.trueValue, 6)]), 2),
   )
   ;(content.quantities as Json[]).forEach((q, i) => {
     const n = i + 4
@@ -113,7 +112,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       outline.heading(`${n}. ${q.name} (${q.symbol})`, 1),
       ...(q.leftOut ? [p(`Left out of this record. Reason: ${q.leftOut.reason}`, { bold: true, color: '8A5A12' })] : []),
       p(`Question as put to the experts: ${q.question}`),
-      p(`Unit: ${q.unit || '—'} · Values: ${label(SUPPORT_LABELS, q.support.kind)}${q.support.kind === 'bounded' ? ` from ${fmt(q.support.lower, 6)} to ${fmt(q.support.upper, 6)}` : ''}`),
+      p(`Unit: ${q.unit || '—'} · Values: ${label(SUPPORT_LABELS, q.support.kind)}${q.support.kind === 'bounded' ? ` from ${formatNumber(q.support.lower, 6)} to ${formatNumber(q.support.upper, 6)}` : ''}`),
       ...(q.assumptions ? [p(`Conditioning assumptions: ${q.assumptions}`)] : []),
       ...(q.evidenceNotes ? [p(`Evidence given to the experts: ${q.evidenceNotes}`)] : []),
       ...(q.evidenceFiles.length ? [p(`Evidence files: ${q.evidenceFiles.map((f: Json) => `${f.filename} (SHA-256 ${f.sha256.slice(0, 12)}…)`).join('; ')}`)] : []),
@@ -121,7 +120,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       ...(q.rounds.length
         ? [table(['Round', 'Method', 'Window'], q.rounds.map((r: Json) => [
           `${r.number}: ${r.title}`, label(METHOD_LABELS, r.method as ElicitationMethod),
-          `${dateTimeIn(r.opensAt, r.timeZone ?? tz)} to ${dateTimeIn(r.closesAt, r.timeZone ?? tz)}`,
+          `${when(r.opensAt, false, r.timeZone ?? tz)} to ${when(r.closesAt, false, r.timeZone ?? tz)}`,
         ]), 9)]
         : [p('Not yet asked in any round.')]),
       outline.heading(`${n}.2 Judgements`, 2),
@@ -129,7 +128,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
         ? [
           p('Each expert’s answer as given (plausible range, then the values with their cumulative probabilities, or each interval with its probability or chips), and the distribution fitted to it.', { size: 20 }),
           table(['Round', 'Expert', 'Answer as given', 'Fitted distribution', '5 %', '50 %', '95 %'], q.judgements.map((j: Json) => [
-            String(j.round), expertName(j.expert), answerText(j.method, j.answer), describe(j.fit?.distribution), fmt(j.fit?.q05), fmt(j.fit?.q50), fmt(j.fit?.q95),
+            String(j.round), expertName(j.expert), answerText(j.method, j.answer), describe(j.fit?.distribution), formatNumber(j.fit?.q05), formatNumber(j.fit?.q50), formatNumber(j.fit?.q95),
           ]), 4),
           ...q.judgements.map((j: Json) => p(`${j.expert.code}, round ${j.round}: ${j.rationale || '—'}`, { size: 20 })),
           ...q.judgements.flatMap((j: Json) => (j.fit?.warnings ?? []).map((w: string) => p(`${j.expert.code}, round ${j.round}, fitted shape: ${w}`, { size: 20, color: '8A5A12' }))),
@@ -138,7 +137,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       outline.heading(`${n}.3 Combination`, 2),
       ...(q.combination
         ? [
-          p(`Method: ${label(POOL_METHOD_LABELS, q.combination.method)}; ${label(WEIGHTS_LABELS, q.combination.weightsMode).toLowerCase()}${q.combination.weightsReason ? ` (${q.combination.weightsReason})` : ''}${q.combination.weightsMode === 'performance' ? `; calibration cutoff ${fmt(q.combination.cutoff)}` : ''}.`),
+          p(`Method: ${label(POOL_METHOD_LABELS, q.combination.method)}; ${label(WEIGHTS_LABELS, q.combination.weightsMode).toLowerCase()}${q.combination.weightsReason ? ` (${q.combination.weightsReason})` : ''}${q.combination.weightsMode === 'performance' ? `; calibration cutoff ${formatProbability(q.combination.cutoff)}` : ''}.`),
           ...(q.combination.excludedExperts?.length ? [p(`Left out of the combination: ${q.combination.excludedExperts.join(', ')}.`)] : []),
           ...(q.combination.weightCautions ?? []).map((c: string) => p(`Caution: ${c}`, { color: '8A5A12' })),
           ...(q.combination.adjusted ? [p(`Parameters adjusted by hand: ${q.combination.adjustReason}`)] : []),
@@ -151,14 +150,14 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       const f = q.finalPrior
       sections.push(
         p(describe(f.distribution), { bold: true }),
-        table(['5 %', '50 %', '95 %', 'Mean', 'SD'], [[fmt(f.q05, 6), fmt(f.q50, 6), fmt(f.q95, 6), fmt(f.mean, 6), fmt(f.sd, 6)]], 0),
+        table(['5 %', '50 %', '95 %', 'Mean', 'SD'], [[formatNumber(f.q05, 6), formatNumber(f.q50, 6), formatNumber(f.q95, 6), formatNumber(f.mean, 6), formatNumber(f.sd, 6)]], 0),
       )
       const png = charts.get(q.symbol)
       if (png) sections.push(new Paragraph({ spacing: { before: 120, after: 120 }, children: [new ImageRun({ type: 'png', data: png, transformation: { width: 520, height: 260 } })] }))
       sections.push(
         p('Model code (each line, read by Priorsmith with its language’s documented parameterisation, reproduces the 5/50/95 % quantiles; the languages themselves were not run):', { size: 20 }),
         table(['Language', 'Code', 'Read-back check'], f.modelCode.map((m: Json) => [
-          LANGUAGE_LABELS[m.language] ?? m.language, m.code, m.check ? (m.check.ok ? `passed (largest relative difference ${fmt(m.check.maxRelativeDifference, 2)})` : 'FAILED') : 'not available',
+          LANGUAGE_LABELS[m.language] ?? m.language, m.code, m.check ? (m.check.ok ? `passed (largest relative difference ${formatNumber(m.check.maxRelativeDifference, 2)})` : 'FAILED') : 'not available',
         ]), 9),
       )
     } else {
@@ -169,12 +168,12 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       sections.push(
         p(`Dataset: ${q.impact.dataset.name}, version ${q.impact.dataset.version} (${label(PILOT_MODEL_LABELS, q.impact.dataset.model as PilotModel)}; ${q.impact.dataset.summary.description}).`),
         table(['Candidate prior', 'Posterior mean', '95 % interval', 'log evidence', 'Bayes factor against the comparison prior', 'Box p', 'Prior ESS', 'Cautions'], q.impact.candidates.map((c: Json) => [
-          c.label || (CANDIDATE_KIND_LABELS[c.kind] ?? '—'), fmt(c.posterior.mean), `${fmt(c.posterior.q025)} to ${fmt(c.posterior.q975)}`, fmt(c.logEvidence, 6),
-          c.bayesFactor ? `${fmt(Math.exp(c.bayesFactor.logBF), 3)} (${c.bayesFactor.label})` : '—', fmt(c.priorPredictiveP, 3), fmt(c.priorEss, 3),
+          c.label || (CANDIDATE_KIND_LABELS[c.kind] ?? '—'), formatNumber(c.posterior.mean), `${formatNumber(c.posterior.q025)} to ${formatNumber(c.posterior.q975)}`, formatNumber(c.logEvidence, 6),
+          c.bayesFactor ? `${formatNumber(Math.exp(c.bayesFactor.logBF), 3)} (${c.bayesFactor.label})` : '—', formatProbability(c.priorPredictiveP), formatNumber(c.priorEss, 3),
           c.flags.map(flagLabel).join('; ') || 'none',
         ]), 1),
         ...q.impact.findings.map((f: string) => p(f)),
-        ...(q.impact.sweep ? [p(`Width sweep: the evidence changes by a factor ${fmt(q.impact.sweep.evidenceRatio, 4)} as the prior is made from half to twice as wide; ${q.impact.sweep.priorDriven ? `so ${flagLabel('prior-driven-bayes-factor').toLowerCase()}.` : 'Bayes factors built on this prior are not driven by its width.'} ${q.impact.sweep.rule}`, { size: 20 })] : []),
+        ...(q.impact.sweep ? [p(`Width sweep: the evidence changes by a factor ${formatNumber(q.impact.sweep.evidenceRatio, 4)} as the prior is made from half to twice as wide; ${q.impact.sweep.priorDriven ? `so ${flagLabel('prior-driven-bayes-factor').toLowerCase()}.` : 'Bayes factors built on this prior are not driven by its width.'} ${q.impact.sweep.rule}`, { size: 20 })] : []),
       )
     } else if (q.finalPrior) {
       sections.push(p(q.impactNotRunReason

@@ -3,6 +3,7 @@
  * and rendered twice, as plain text and as simple HTML in which every value is escaped.
  */
 import { PLAUSIBLE_BOUND_WORDS } from '../../shared/elicitation/bounds'
+import { formatDateTime } from '../../shared/format'
 
 export interface MailContent {
   subject: string
@@ -89,26 +90,13 @@ function appUrl(publicUrl: string, path: string): string {
 /** Names and titles go into headers and single lines: no line breaks. */
 const oneLine = (s: string) => s.replace(/\s+/g, ' ').trim()
 
-/** "GMT+01:00" → "UTC+1", "GMT+05:30" → "UTC+5:30", "GMT" → "UTC+0". */
-function utcOffset(longOffset: string): string {
-  const m = /^GMT([+-])(\d{2}):(\d{2})$/.exec(longOffset)
-  if (!m) return 'UTC+0'
-  const hours = String(Number(m[2]))
-  return `UTC${m[1]}${m[3] === '00' ? hours : `${hours}:${m[3]}`}`.replace(/^UTC[+-]0$/, 'UTC+0')
-}
-
 /**
- * e.g. "Thursday 24 December 2026, 18:00 (Europe/Berlin, UTC+1)" or "…, 17:00 (UTC)": the time in the round's zone,
- * named, with its offset from UTC on that date; assembled from parts so ICU versions cannot change the punctuation.
+ * A moment in a message: "Thursday 24 December 2026, 18:00 (Europe/Berlin, UTC+1)", in the round's zone, named, with
+ * its offset from UTC on that date (the shared document form of shared/format). A message must never say "Invalid Date".
  */
-export function formatDate(d: Date, timeZone: string): string {
+export function mailDateTime(d: Date, timeZone: string): string {
   if (!(d instanceof Date) || Number.isNaN(d.getTime())) throw new Error('mail template: invalid date')
-  const parts = new Intl.DateTimeFormat('en-GB', {
-    timeZone, weekday: 'long', day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', hourCycle: 'h23', timeZoneName: 'longOffset',
-  }).formatToParts(d)
-  const get = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? ''
-  const zone = timeZone === 'UTC' ? timeZone : `${timeZone}, ${utcOffset(get('timeZoneName'))}`
-  return `${get('weekday')} ${get('day')} ${get('month')} ${get('year')}, ${get('hour')}:${get('minute')} (${zone})`
+  return formatDateTime(d, { timeZone, words: 'long', zone: true })
 }
 
 function render(subject: string, greeting: string, blocks: Block[], signOff: string[]): MailContent {
@@ -172,7 +160,7 @@ export function invitationMessage(i: InvitationInput): MailContent {
   const link = appUrl(i.publicUrl, `/invite/${encodeURIComponent(i.token)}`)
   const blocks: Block[] = [
     { p: `You are invited to take part as an expert in the study "${oneLine(i.studyTitle)}", in the elicitation round "${oneLine(i.roundTitle)}".` },
-    { p: `The round is open from ${formatDate(i.opensAt, tz)} until ${formatDate(i.closesAt, tz)}.` },
+    { p: `The round is open from ${mailDateTime(i.opensAt, tz)} until ${mailDateTime(i.closesAt, tz)}.` },
     ...questionsList(i.quantities),
     { p: WHAT_IS_ASKED },
     { p: SAVING_AND_SUBMITTING },
@@ -181,7 +169,7 @@ export function invitationMessage(i: InvitationInput): MailContent {
     {
       p:
         `This link is personal: it creates your own account, so please do not forward it. ` +
-        `It works once and expires on ${formatDate(i.linkExpiresAt, tz)}. ` +
+        `It works once and expires on ${mailDateTime(i.linkExpiresAt, tz)}. ` +
         'If it has expired, or if you did not expect this invitation, contact the analyst who invited you, or simply ignore this message.',
     },
   ]
@@ -194,7 +182,7 @@ export function roundNoticeMessage(i: RoundNoticeInput): MailContent {
   const link = appUrl(i.publicUrl, `/answer/${encodeURIComponent(String(i.roundId))}`)
   const blocks: Block[] = [
     { p: `A new elicitation round, "${oneLine(i.roundTitle)}", is ready for you in the study "${oneLine(i.studyTitle)}".` },
-    { p: `It is open from ${formatDate(i.opensAt, tz)} until ${formatDate(i.closesAt, tz)}.` },
+    { p: `It is open from ${mailDateTime(i.opensAt, tz)} until ${mailDateTime(i.closesAt, tz)}.` },
     ...questionsList(i.quantities),
     ...(i.briefing?.trim() ? [{ p: 'The analyst\'s briefing for this round:' }, { quote: i.briefing.trim() }] : []),
     { link, label: 'Open the round (sign in with your Priorsmith account)' },
@@ -212,12 +200,12 @@ export function reminderMessage(i: ReminderInput): MailContent {
       ? [{ p: `So far you have saved answers for ${i.answered} of ${i.total} ${i.total === 1 ? 'question' : 'questions'}.` }]
       : []
   const blocks: Block[] = [
-    { p: `This is a reminder that the round "${oneLine(i.roundTitle)}" of the study "${oneLine(i.studyTitle)}" closes on ${formatDate(i.closesAt, tz)}, and we have not yet received your submission.` },
+    { p: `This is a reminder that the round "${oneLine(i.roundTitle)}" of the study "${oneLine(i.studyTitle)}" closes on ${mailDateTime(i.closesAt, tz)}, and we have not yet received your submission.` },
     ...progress,
     { link, label: 'Continue where you left off' },
     { p: 'If you have already submitted in the meantime, or cannot take part this time, please disregard this message or let the analyst know.' },
   ]
-  return render(`Reminder: "${oneLine(i.roundTitle)}" closes ${formatDate(i.closesAt, tz)}`, `Dear ${oneLine(i.expertName)},`, blocks, signOff())
+  return render(`Reminder: "${oneLine(i.roundTitle)}" closes ${mailDateTime(i.closesAt, tz)}`, `Dear ${oneLine(i.expertName)},`, blocks, signOff())
 }
 
 export interface RecordMailInput extends DateStyle {
@@ -236,7 +224,7 @@ const recordLink = (i: RecordMailInput): Block => ({ link: appUrl(i.publicUrl, `
 /** A reviewer of the study: a record version waits for review. */
 export function recordSubmittedMessage(i: RecordMailInput): MailContent {
   const blocks: Block[] = [
-    { p: `${oneLine(i.actorName)} submitted version ${i.version} of the prior record of "${oneLine(i.studyTitle)}" for review on ${formatDate(i.at, i.timeZone)}.` },
+    { p: `${oneLine(i.actorName)} submitted version ${i.version} of the prior record of "${oneLine(i.studyTitle)}" for review on ${mailDateTime(i.at, i.timeZone)}.` },
     { p: 'Its content is frozen and identified by its SHA-256. As a reviewer of the study you can sign it off, or return it with comments for the analyst to answer.' },
     recordLink(i),
   ]
@@ -246,7 +234,7 @@ export function recordSubmittedMessage(i: RecordMailInput): MailContent {
 /** An analyst of the study: a reviewer sent the record back with comments. */
 export function recordReturnedMessage(i: RecordMailInput & { comment: string; section: string }): MailContent {
   const blocks: Block[] = [
-    { p: `${oneLine(i.actorName)} returned version ${i.version} of the prior record of "${oneLine(i.studyTitle)}" on ${formatDate(i.at, i.timeZone)}, with this comment on "${oneLine(i.section)}":` },
+    { p: `${oneLine(i.actorName)} returned version ${i.version} of the prior record of "${oneLine(i.studyTitle)}" on ${mailDateTime(i.at, i.timeZone)}, with this comment on "${oneLine(i.section)}":` },
     { quote: i.comment.trim() },
     { p: 'The record is a draft again. When you submit it again, you answer each comment: what you changed, or why nothing changed.' },
     recordLink(i),
@@ -257,7 +245,7 @@ export function recordReturnedMessage(i: RecordMailInput & { comment: string; se
 /** An analyst of the study: a reviewer signed the record off. */
 export function recordSignedOffMessage(i: RecordMailInput): MailContent {
   const blocks: Block[] = [
-    { p: `${oneLine(i.actorName)} signed off version ${i.version} of the prior record of "${oneLine(i.studyTitle)}" on ${formatDate(i.at, i.timeZone)}.` },
+    { p: `${oneLine(i.actorName)} signed off version ${i.version} of the prior record of "${oneLine(i.studyTitle)}" on ${mailDateTime(i.at, i.timeZone)}.` },
     { p: 'This version can no longer change; any further change starts a new version.' },
     recordLink(i),
   ]

@@ -10,7 +10,7 @@ export interface StudyAccess {
   user: User
 }
 
-type StudyOwned = 'studies' | 'quantities' | 'rounds' | 'calibration_questions'
+type StudyOwned = 'studies' | 'quantities' | 'rounds' | 'calibration_questions' | 'compositions'
 
 /**
  * The reader's access to the study that owns row `id` of `table`, in one query (this runs on every autosave):

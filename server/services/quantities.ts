@@ -7,6 +7,7 @@ import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
+import { compositionsOfQuantity } from './compositions'
 
 interface QuantityRow {
   id: number
@@ -112,6 +113,13 @@ export async function updateQuantity(db: Db, user: User, id: number, body: Quant
   const before: QuantityRow | undefined = await db('quantities').where({ id }).first()
   if (!before) throw new HttpError(404, 'Quantity not found')
   await assertSymbolFree(db, before.study_id, body.symbol, id)
+  if (before.support_kind === 'proportion' && body.support.kind !== 'proportion') {
+    const wholes = await compositionsOfQuantity(db, id)
+    if (wholes.length) {
+      const message = `This quantity is a share of ${wholes.map((n) => `“${n}”`).join(', ')}: take it out of ${wholes.length > 1 ? 'those compositions' : 'that composition'} before changing its scale`
+      throw new HttpError(400, message, { support: message })
+    }
+  }
   await db.transaction(async (trx) => {
     const n = await trx('quantities').where({ id, version: body.version }).update({ ...columns(body), version: trx.raw('version + 1'), updated_at: trx.fn.now() })
     if (n === 0) throw new HttpError(409, 'Someone else changed this quantity since you opened it; reload to see their version')

@@ -1,7 +1,7 @@
 import { cdf, fitAll, quantile, sf, supportOf, type Distribution, type Family, type FitResult, type Point, type Support } from '../stats/index'
 import { supportBounds } from '../stats/points'
 import { PLAUSIBLE_BOUND_PROB } from './bounds'
-import { formatValue } from './numbers'
+import { formatValue } from '../format/numbers'
 
 /**
  * Weight of each plausible bound in the fitting criterion, against 1 for each elicited quantile (the tool's own

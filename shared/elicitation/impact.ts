@@ -2,6 +2,7 @@ import {
   analyzePrior, bayesFactor, CONFLICT_LEVEL, decimalSum, EngineInputError, mean as distMean, mixture, mixtureQuantile, posteriorOf, PRIOR_DRIVEN_RULE, quantile,
   toUnivariate, widthSweep, type Analysis, type PilotData, type Pool, type Posterior, type PriorDistribution, type Support,
 } from '../stats/index'
+import { formatNumber } from '../format/numbers'
 
 /** Width factors k of the sweep (0.25 to 8; docs/methods/width-sweep.md), evenly spaced on a log scale. */
 export const SWEEP_FACTORS = [0.25, 0.35, 0.5, 0.71, 1, 1.41, 2, 2.83, 4, 5.66, 8]
@@ -180,8 +181,6 @@ export function sweepOf(prior: PriorDistribution, data: PilotData, support: Supp
   }
 }
 
-const fmt = (x: number) => (Math.abs(x) >= 100 ? x.toFixed(0) : Math.abs(x) >= 1 ? x.toFixed(2) : x.toPrecision(3))
-
 /** A p-value from its logarithm in words: "= 0.012", or a power of ten when it is below 1e-6 (it may underflow to 0). */
 export function formatSmallP(logP: number): string {
   const log10 = logP / Math.LN10
@@ -201,14 +200,14 @@ export function findings(results: CandidateResult[], sweep: SweepSummary | null,
       const moved = Math.abs(wide.posteriorMean - base.posteriorMean)
       const relative = moved / Math.max(1e-12, (base.q975 - base.q025) / 3.92)
       out.push(
-        `Widening the reconciled prior 4× moves the posterior mean from ${fmt(base.posteriorMean)} to ${fmt(wide.posteriorMean)}` +
-        ` (${relative < 0.1 ? 'barely' : relative < 0.5 ? 'a little' : 'noticeably'}) and ${ratio >= 1 ? 'divides' : 'multiplies'} the evidence by about ${fmt(ratio >= 1 ? ratio : 1 / ratio)}.`,
+        `Widening the reconciled prior 4× moves the posterior mean from ${formatNumber(base.posteriorMean, 3)} to ${formatNumber(wide.posteriorMean, 3)}` +
+        ` (${relative < 0.1 ? 'barely' : relative < 0.5 ? 'a little' : 'noticeably'}) and ${ratio >= 1 ? 'divides' : 'multiplies'} the evidence by about ${formatNumber(ratio >= 1 ? ratio : 1 / ratio, 3)}.`,
       )
     }
     if (sweep.priorDriven) out.push('A Bayes factor built on this prior reflects its width more than the data: the evidence changes more than 3× across widths 0.5–2× while the posterior hardly moves.')
   }
   for (const r of results) {
-    if (r.flags.includes('prior-dominates')) out.push(`${r.label}: the prior carries more information than the pilot data (prior effective sample size ${fmt(r.priorEss!)} against n = ${fmt(n)}).`)
+    if (r.flags.includes('prior-dominates')) out.push(`${r.label}: the prior carries more information than the pilot data (prior effective sample size ${formatNumber(r.priorEss!, 3)} against n = ${formatNumber(n, 3)}).`)
     if (r.flags.includes('prior-data-conflict')) out.push(`${r.label}: the pilot data sit in the tail of what this prior predicts (Box's prior predictive p ${formatSmallP(r.logPriorPredictiveP)}); prior and data conflict.`)
   }
   return out

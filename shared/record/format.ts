@@ -1,48 +1,9 @@
-import type { PriorDistribution } from '../stats/index'
+import { formatNumber, formatProbability } from '../format/numbers'
 
 /**
- * The prior record in words: numbers, distributions, answers, flags and audit events as the screen and the .docx
- * both write them, so neither shows an internal key.
+ * The prior record in words: answers, flags, audit events and their subjects as the screen and the .docx both write
+ * them, so neither shows an internal key (numbers, dates and distributions come from shared/format).
  */
-
-/** Numbers in the record: `digits` significant digits, exponent only for very large or very small values. */
-export function fmt(x: number | null | undefined, digits = 4): string {
-  if (x === null || x === undefined) return '—'
-  if (!Number.isFinite(x)) return String(x)
-  const abs = Math.abs(x)
-  if (abs !== 0 && (abs >= 1e6 || abs < 1e-3)) return x.toExponential(Math.max(0, digits - 2))
-  return Number(x.toPrecision(digits)).toString()
-}
-
-/** A probability in a table: a decimal (0.048, 0.95), never a percentage. */
-export function fmtProb(p: number | null | undefined): string {
-  if (p === null || p === undefined || !Number.isFinite(p)) return '—'
-  if (p !== 0 && p < 0.001) return p.toExponential(1)
-  return Number(p.toPrecision(3)).toString()
-}
-
-/** The distribution in words with its parameters: "Normal(mean 3.2, sd 1.1)". */
-export function describeDistribution(d: PriorDistribution | null | undefined): string {
-  if (!d) return '—'
-  switch (d.family) {
-    case 'normal':
-      return `Normal(mean ${fmt(d.mu, 6)}, sd ${fmt(d.sigma, 6)})`
-    case 'student-t':
-      return `Student-t(df ${fmt(d.df)}, location ${fmt(d.mu, 6)}, scale ${fmt(d.sigma, 6)})`
-    case 'lognormal':
-      return `Lognormal(meanlog ${fmt(d.meanlog, 6)}, sdlog ${fmt(d.sdlog, 6)})`
-    case 'gamma':
-      return `Gamma(shape ${fmt(d.shape, 6)}, rate ${fmt(d.rate, 6)})`
-    case 'beta':
-      return `Beta(${fmt(d.alpha, 6)}, ${fmt(d.beta, 6)})`
-    case 'scaled-beta':
-      return `Beta(${fmt(d.alpha, 6)}, ${fmt(d.beta, 6)}) on [${fmt(d.lower)}, ${fmt(d.upper)}]`
-    case 'uniform':
-      return `Uniform(${fmt(d.lower, 6)}, ${fmt(d.upper, 6)})`
-    case 'half-normal':
-      return `Half-normal(scale ${fmt(d.scale, 6)})`
-  }
-}
 
 export type ElicitedAnswer = {
   lower?: number | null
@@ -60,9 +21,9 @@ export type ElicitedAnswer = {
 export function answerText(method: string, answer: ElicitedAnswer | null | undefined): string {
   const a = answer ?? {}
   const hasBounds = a.lower !== undefined && a.lower !== null && a.upper !== undefined && a.upper !== null
-  const bounds = hasBounds ? `plausible range ${fmt(a.lower, 5)} to ${fmt(a.upper, 5)}` : ''
+  const bounds = hasBounds ? `plausible range ${formatNumber(a.lower, 5)} to ${formatNumber(a.upper, 5)}` : ''
   if (a.points && a.points.length) {
-    const pts = a.points.map((p) => `${fmt(p.value, 5)} at ${fmtProb(p.prob)}`).join('; ')
+    const pts = a.points.map((p) => `${formatNumber(p.value, 5)} at ${formatProbability(p.prob)}`).join('; ')
     return [bounds, pts].filter(Boolean).join('; ')
   }
   if (a.edges && a.edges.length > 1) {
@@ -70,8 +31,8 @@ export function answerText(method: string, answer: ElicitedAnswer | null | undef
     const values = chips ? a.chips : a.probs
     const intervals = a.edges.slice(0, -1).map((e, i) => {
       const v = values?.[i]
-      const shown = v === null || v === undefined ? '—' : chips ? `${v} ${v === 1 ? 'chip' : 'chips'}` : fmtProb(v)
-      return `[${fmt(e, 5)}, ${fmt(a.edges![i + 1], 5)}): ${shown}`
+      const shown = v === null || v === undefined ? '—' : chips ? `${v} ${v === 1 ? 'chip' : 'chips'}` : formatProbability(v)
+      return `[${formatNumber(e, 5)}, ${formatNumber(a.edges![i + 1], 5)}): ${shown}`
     }).join('; ')
     return [bounds, intervals].filter(Boolean).join('; ')
   }
@@ -126,6 +87,9 @@ export const AUDIT_ACTIONS: Record<string, string> = {
   'evidence.delete': 'Evidence file deleted',
   'calibration.create': 'Calibration question added',
   'calibration.update': 'Calibration question edited',
+  'composition.create': 'Composition (shares of a whole) created',
+  'composition.update': 'Composition edited',
+  'composition.delete': 'Composition deleted',
   'round.create': 'Round scheduled',
   'round.update': 'Round edited',
   'round.extend': 'Round extended',
@@ -195,18 +159,3 @@ export function subjectLabel(subject: string | null | undefined, names: SubjectN
 }
 
 export const LANGUAGE_LABELS: Record<string, string> = { stan: 'Stan', pymc: 'PyMC', jags: 'JAGS', brms: 'brms' }
-
-/**
- * A moment as local date and time in an IANA time zone, with the zone named: "3 December 2026, 09:15 (Europe/Oslo)";
- * `seconds` adds them (audit events often share a minute). Assembled from parts so ICU versions cannot change it.
- */
-export function dateTimeIn(value: string | Date | null | undefined, timeZone: string, seconds = false): string {
-  if (value === null || value === undefined) return '—'
-  const d = new Date(value)
-  if (Number.isNaN(d.getTime())) return String(value)
-  const parts = new Intl.DateTimeFormat('en-GB', {
-    timeZone, day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', second: seconds ? '2-digit' : undefined, hourCycle: 'h23',
-  }).formatToParts(d)
-  const get = (type: Intl.DateTimeFormatPartTypes) => parts.find((p) => p.type === type)?.value ?? ''
-  return `${get('day')} ${get('month')} ${get('year')}, ${get('hour')}:${get('minute')}${seconds ? `:${get('second')}` : ''} (${timeZone})`
-}

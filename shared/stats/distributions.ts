@@ -6,12 +6,17 @@ import {
   erfc,
   gammaPQ,
   lbeta,
-  lgamma,
+  lgammaDiff,
+  logBetaPQ,
+  logErfcNonNegative,
+  logGammaPQ,
   logGammaPrefactor,
+  log1mExp,
   logNormCdf,
   logNormPdf,
   normCdf,
   normPdf,
+  studentTLogTailLargeDf,
 } from './special'
 import type { PriorDistribution, Univariate } from './types'
 
@@ -94,11 +99,19 @@ export function supportOf(d: PriorDistribution): { lower: number; upper: number 
   }
 }
 
-/** Student-t CDF of the standardised value t with ν df: ½ I_{ν/(ν+t²)}(ν/2, ½) in the lower tail (Abramowitz & Stegun 26.7.1). */
+/**
+ * Student-t CDF of the standardised value t with ν df: ½ I_{ν/(ν+t²)}(ν/2, ½) in the lower tail (Abramowitz & Stegun
+ * 26.7.1); from ν = 1e5 on by the normal-integral expansion of studentTLogTailLargeDf, where the continued fraction
+ * would need about √ν terms.
+ */
 export function studentTCdf(t: number, df: number): number {
   if (Number.isNaN(t)) return NaN
   if (t === -Infinity) return 0
   if (t === Infinity) return 1
+  if (df >= LARGE_DF && Math.abs(t) <= FAR_T) {
+    const tail = Math.exp(studentTLogTailLargeDf(Math.abs(t), df))
+    return t < 0 ? tail : 1 - tail
+  }
   if (Math.abs(t) > FAR_T) {
     const tail = Math.exp(studentTLogFarTail(Math.abs(t), df))
     return t < 0 ? tail : 1 - tail
@@ -107,6 +120,9 @@ export function studentTCdf(t: number, df: number): number {
   const tail = 0.5 * betaPQ(df / (df + t2), df / 2, 0.5, t2 / (df + t2)).p
   return t < 0 ? tail : 1 - tail
 }
+
+/** From this df on the Student-t tails use the large-df expansion (studentTLogTailLargeDf). */
+const LARGE_DF = 1e5
 
 /** Beyond |t| = 1e150, t² overflows for small df: the tails and density use ln|t| instead. */
 const FAR_T = 1e150
@@ -120,11 +136,14 @@ function studentTLogFarTail(q: number, df: number): number {
   return -Math.LN2 + a * (Math.log(df) - 2 * Math.log(q)) - Math.log(a) - lbeta(a, 0.5)
 }
 
-/** ln of the Student-t density of the standardised value t (Johnson, Kotz & Balakrishnan 1995, ch. 28); ln(1 + t²/ν) through ln|t| when t² would overflow. */
+/**
+ * ln of the Student-t density of the standardised value t (Johnson, Kotz & Balakrishnan 1995, ch. 28); ln(1 + t²/ν) through
+ * ln|t| when t² would overflow, and ln Γ((ν+1)/2) − ln Γ(ν/2) through lgammaDiff so that it does not cancel at large ν.
+ */
 export function studentTLogPdf(t: number, df: number): number {
   const at = Math.abs(t)
   const log1pT2 = at > FAR_T ? 2 * Math.log(at) - Math.log(df) : Math.log1p((t * t) / df)
-  return lgamma((df + 1) / 2) - lgamma(df / 2) - 0.5 * (Math.log(df) + LN_PI) - ((df + 1) / 2) * log1pT2
+  return lgammaDiff(df / 2, 0.5) - 0.5 * (Math.log(df) + LN_PI) - ((df + 1) / 2) * log1pT2
 }
 
 type Tails = { lower: (x: number) => number; upper: (x: number) => number; density: (x: number) => number }
@@ -206,7 +225,9 @@ export function studentTQuantile(p: number, df: number): number {
     }
     return -1 / refineQuantile(p, Math.exp(-logQ0), far, 'log')
   }
-  const x0 = jStat.studentt.inv(p, df)
+  // at large df the start inverts z² = ν ln(1 + t²/ν) for the normal quantile z (the leading term of studentTLogTailLargeDf)
+  const z = normalQuantile(p)
+  const x0 = df >= LARGE_DF ? -Math.sqrt(df * Math.expm1((z * z) / df)) : jStat.studentt.inv(p, df)
   const tails: Tails = {
     lower: (t) => studentTCdf(t, df),
     upper: (t) => studentTCdf(-t, df),
@@ -305,6 +326,59 @@ export function sf(d: PriorDistribution, x: number): number {
   }
 }
 
+/**
+ * ln P(X ≤ x) and ln P(X > x), each finite where the probability underflows (the smaller tail is computed in logs and the
+ * other as ln(1 − e^tail)): the same special functions as cdf and sf.
+ */
+export function logCdfSf(d: PriorDistribution, x: number): { logCdf: number; logSf: number } {
+  validateParameters(d, 'distribution')
+  const fromLower = (logLower: number) => ({ logCdf: logLower, logSf: log1mExp(logLower) })
+  const fromUpper = (logUpper: number) => ({ logCdf: log1mExp(logUpper), logSf: logUpper })
+  const normal = (z: number) => (z <= 0 ? fromLower(logNormCdf(z)) : fromUpper(logNormCdf(-z)))
+  const unit = (u: number, uc: number, a: number, b: number) => {
+    if (!(u > 0)) return { logCdf: -Infinity, logSf: 0 }
+    if (!(uc > 0)) return { logCdf: 0, logSf: -Infinity }
+    const r = logBetaPQ(u, a, b, uc)
+    return { logCdf: r.logP, logSf: r.logQ }
+  }
+  switch (d.family) {
+    case 'normal':
+      return normal((x - d.mu) / d.sigma)
+    case 'student-t': {
+      const t = (x - d.mu) / d.sigma
+      const logTail = studentTLogTail(Math.abs(t), d.df)
+      return t <= 0 ? fromLower(logTail) : fromUpper(logTail)
+    }
+    case 'lognormal':
+      return x > 0 ? normal((Math.log(x) - d.meanlog) / d.sdlog) : { logCdf: -Infinity, logSf: 0 }
+    case 'gamma': {
+      if (!(x > 0)) return { logCdf: -Infinity, logSf: 0 }
+      const r = logGammaPQ(d.shape, d.rate * x)
+      return { logCdf: r.logP, logSf: r.logQ }
+    }
+    case 'beta':
+      return unit(x, 1 - x, d.alpha, d.beta)
+    case 'scaled-beta': {
+      const w = d.upper - d.lower
+      return unit((x - d.lower) / w, (d.upper - x) / w, d.alpha, d.beta)
+    }
+    case 'uniform': {
+      const w = d.upper - d.lower
+      return unit((x - d.lower) / w, (d.upper - x) / w, 1, 1)
+    }
+    case 'half-normal':
+      return x > 0 ? fromUpper(logErfcNonNegative(x / (d.scale * Math.SQRT2))) : { logCdf: -Infinity, logSf: 0 }
+  }
+}
+
+/** ln P(T > t) for t ≥ 0 with ν df: the large-df expansion, the far-tail term past 1e150, else ln(½ I_{ν/(ν+t²)}(ν/2, ½)). */
+function studentTLogTail(t: number, df: number): number {
+  if (t > FAR_T) return studentTLogFarTail(t, df)
+  if (df >= LARGE_DF) return studentTLogTailLargeDf(t, df)
+  const t2 = t * t
+  return -Math.LN2 + logBetaPQ(df / (df + t2), df / 2, 0.5, t2 / (df + t2)).logP
+}
+
 function clamp01(v: number): number {
   return v < 0 ? 0 : v > 1 ? 1 : v
 }
@@ -331,7 +405,7 @@ export function quantile(d: PriorDistribution, p: number): number {
         upper: (y) => gammaPQ(a, y).q,
         density: (y) => Math.exp(logGammaPrefactor(a, y) - Math.log(y)),
       }
-      return refineQuantile(p, jStat.gamma.inv(p, a, 1), tails, 'log') / d.rate
+      return refineQuantile(p, gammaQuantileStart(p, a), tails, 'log') / d.rate
     }
     case 'beta':
       return betaQuantile(p, d.alpha, d.beta)
@@ -349,6 +423,18 @@ export function quantile(d: PriorDistribution, p: number): number {
       return refineQuantile(p, -s * normalQuantile((1 - p) / 2), tails, 'log')
     }
   }
+}
+
+/**
+ * Starting value for the gamma quantile: at shape ≥ 100 the Wilson–Hilferty cube a(1 − 1/(9a) + z/(3√a))³ (Johnson, Kotz &
+ * Balakrishnan 1994, ch. 17/18), which jstat's own search takes seconds to reach at shape 1e12; otherwise jstat's inverse.
+ */
+function gammaQuantileStart(p: number, a: number): number {
+  if (a >= 100) {
+    const base = 1 - 1 / (9 * a) + normalQuantile(p) / (3 * Math.sqrt(a))
+    if (base > 0) return a * base * base * base
+  }
+  return jStat.gamma.inv(p, a, 1)
 }
 
 function betaQuantile(p: number, a: number, b: number): number {

@@ -1,8 +1,26 @@
-import { quantile, studentTLogPdf, supportOf, toUnivariate, validateDistribution } from './distributions'
+import { logCdfSf, quantile, studentTLogPdf, supportOf, toUnivariate, validateDistribution } from './distributions'
 import { EngineInputError } from './errors'
 import { findRoot, LogIntegral, maximize, type Hint } from './quadrature'
 import { SigmaMarginal } from './sigma-marginal'
-import { gammaPQ, lbeta, lgamma, logBetaPQ, logGammaPQ, logNormCdf, logNormDiff, logNormPdf, normCdf, normPdf, softplus } from './special'
+import {
+  gammaPQ,
+  lbeta,
+  lgamma,
+  lgammaDiff,
+  log1pmx,
+  logBetaKernel,
+  logBetaPQ,
+  logBinomialPmf,
+  logGammaPQ,
+  logGammaPrefactor,
+  logNormCdf,
+  logNormDiff,
+  logNormPdf,
+  logPoissonPmf,
+  normCdf,
+  normPdf,
+  softplus,
+} from './special'
 import { dirichletMultinomialAnalysis } from './dirichlet'
 import type { Analysis, DirichletAnalysis, DirichletPrior, MultinomialData, PilotData, PosteriorSummary, PriorDistribution, Univariate } from './types'
 
@@ -600,11 +618,6 @@ export function asStandardBeta(prior: PriorDistribution): { a: number; b: number
   return null
 }
 
-/** ln C(n, k) = −ln(n + 1) − ln B(k + 1, n − k + 1), through lbeta so that large n does not cancel. */
-function lchoose(n: number, k: number): number {
-  return -Math.log(n + 1) - lbeta(k + 1, n - k + 1)
-}
-
 function validateBinomialRows(rows: { successes: number[]; trials: number[] }, successes: number, trials: number): void {
   const { successes: ys, trials: ns } = rows ?? ({} as typeof rows)
   if (!Array.isArray(ys) || !Array.isArray(ns) || ys.length === 0 || ys.length !== ns.length) throw new EngineInputError('rows', 'Give one number of successes and one of trials per row.')
@@ -616,13 +629,34 @@ function validateBinomialRows(rows: { successes: number[]; trials: number[] }, s
 }
 
 /**
- * Log of the constant of the binomial likelihood of the data as recorded: with rows, the product of the per-row
- * coefficients C(n_i, y_i) (none for a 0/1 column, where every n_i is 1); given as totals only, C(n, y). The factor in
- * θ is the same either way, so Bayes factors do not change (common practice: independent rows multiply their pmfs).
+ * ln of the binomial likelihood of the data as recorded at the pooled proportion p̂ = y/n: with rows, the sum of the
+ * per-row log pmfs (a 0/1 column has no coefficient: its pmf is p̂ or 1 − p̂); given as totals only, the one pmf. The
+ * factor in θ is the same either way, so Bayes factors do not change (common practice: independent rows multiply their
+ * pmfs). Each pmf is Loader's saddle-point form, so that nothing cancels at n in the billions; the evidence is this plus
+ * the log of the prior mean of the likelihood ratio L(θ)/L(p̂).
  */
-function binomialLogConstant(data: Extract<PilotData, { model: 'binomial' }>): number {
-  if (!data.rows) return lchoose(data.trials, data.successes)
-  return data.rows.successes.reduce((s, y, i) => s + (data.rows!.trials[i] > 1 ? lchoose(data.rows!.trials[i], y) : 0), 0)
+function binomialLogLikelihoodAtPooled(data: Extract<PilotData, { model: 'binomial' }>): number {
+  const { successes: y, trials: n } = data
+  if (y === 0 || y === n) return 0
+  const p = y / n
+  const q = (n - y) / n
+  if (!data.rows) return logBinomialPmf(y, n, p, q)
+  return data.rows.successes.reduce((s, yi, i) => s + logBinomialPmf(yi, data.rows!.trials[i], p, q), 0)
+}
+
+/**
+ * ln of the beta-binomial probability C(n, y) B(a + y, b + n − y)/B(a, b), as three ln Γ differences grouped so that
+ * none cancels: by the counts when n ≥ a + b (ln Γ(y + a) − ln Γ(y + 1), …), by the prior otherwise (ln Γ(a + y) − ln Γ(a), …).
+ */
+function logBetaBinomialPmf(y: number, n: number, a: number, b: number): number {
+  if (n >= a + b) return lgammaDiff(y + 1, a - 1) + lgammaDiff(n - y + 1, b - 1) - lgammaDiff(n + 1, a + b - 1) - lbeta(a, b)
+  return lgammaDiff(a, y) + lgammaDiff(b, n - y) - lgammaDiff(a + b, n) - Math.log(n + 1) - lbeta(y + 1, n - y + 1)
+}
+
+/** ln of the negative binomial probability Γ(a + Y)/(Γ(a) Y!) p^a q^Y, as a/(a + Y) times Loader's binomial pmf of a in a + Y (Loader 2000; common practice). */
+function logNegativeBinomialPmf(Y: number, a: number, p: number, q: number): number {
+  if (Y === 0) return a * (p <= 0.5 ? Math.log(p) : Math.log1p(-q))
+  return Math.log(a / (a + Y)) + logBinomialPmf(a, a + Y, p, q)
 }
 
 /** ln of Box's two-sided p for a discrete statistic, 2·min(P(T ≤ t), P(T ≥ t)) capped at 1, from the log tails. */
@@ -630,8 +664,12 @@ function logCountP(logLower: number, logUpper: number): number {
   return Math.min(0, Math.LN2 + Math.min(logLower, logUpper))
 }
 
-/** Largest n for which the beta-binomial tails are summed term by term; beyond it they are integrals over the prior. */
-const BETA_BINOMIAL_SUM_LIMIT = 20_000
+/**
+ * Largest count for which the tails of the prior predictive are taken over the prior (a beta-binomial summed term by term,
+ * otherwise quadrature of the count's tail under the prior); beyond it the tail of the count is a step of width about
+ * 1/√n in θ, and the tails are taken as the prior's CDF averaged over a beta or gamma instead (largeCountLogTails).
+ */
+const LARGE_COUNT = 20_000
 
 /**
  * ln P(T ≤ y) and ln P(T ≥ y) for a beta-binomial, summing the pmf relative to its value at y; the running sums are
@@ -673,40 +711,88 @@ function binomialLogTailsByQuadrature(scale: PriorScale, y: number, n: number, l
   return { logLower, logUpper }
 }
 
+/** ln E[e^g(s)] for s ~ Beta(α, β), by quadrature on v = logit s with the density kept free of cancellation (logBetaKernel). */
+function logBetaExpectation(alpha: number, beta: number, logG: (s: number) => number): number {
+  const h = (v: number): number => {
+    const s = 1 / (1 + Math.exp(-v))
+    const sc = 1 / (1 + Math.exp(v))
+    return logBetaKernel(s, alpha, beta, sc) + logG(s)
+  }
+  return new LogIntegral(h, [{ center: Math.log(alpha / beta), scale: Math.sqrt(1 / alpha + 1 / beta) }]).logValue
+}
+
+/** ln E[e^g(x)] for x ~ Gamma(shape, 1), by quadrature on v = ln x with the density in Temme's stable form (logGammaPrefactor). */
+function logGammaExpectation(shape: number, logG: (x: number) => number): number {
+  const h = (v: number): number => logGammaPrefactor(shape, Math.exp(v)) + logG(Math.exp(v))
+  return new LogIntegral(h, [{ center: Math.log(shape), scale: 1 / Math.sqrt(shape) }]).logValue
+}
+
+/**
+ * ln P(T ≤ y) and ln P(T ≥ y) for a count at large n from the prior's log CDF and survival function: for the binomial
+ * P(Bin(n, θ) ≤ y) = P(Beta(y + 1, n − y) > θ) (Abramowitz & Stegun 1964, 26.5.24), so P(T ≤ y) = E[F(B)] with
+ * B ~ Beta(y + 1, n − y) and P(T ≥ y) = E[S(B′)] with B′ ~ Beta(y, n − y + 1); for the Poisson with exposure E,
+ * P(Pois(λE) ≤ Y) = P(Gamma(Y + 1) > λE) (Abramowitz & Stegun 1964, 26.4.21), so P(T ≤ Y) = E[F(G/E)], G ~ Gamma(Y + 1),
+ * and P(T ≥ Y) = E[S(G′/E)], G′ ~ Gamma(Y). The averaged function is the prior's smooth CDF and the weight a peak of
+ * known place and width, so the cost does not grow with n (common practice: conditioning on θ the other way round).
+ */
+function largeCountLogTails(prior: PriorDistribution, data: { model: 'binomial'; y: number; n: number } | { model: 'poisson'; y: number; exposure: number }): { logLower: number; logUpper: number } {
+  const y = data.y
+  if (data.model === 'binomial') {
+    const n = data.n
+    return {
+      logLower: y === n ? 0 : logBetaExpectation(y + 1, n - y, (s) => logCdfSf(prior, s).logCdf),
+      logUpper: y === 0 ? 0 : logBetaExpectation(y, n - y + 1, (s) => logCdfSf(prior, s).logSf),
+    }
+  }
+  const e = data.exposure
+  return {
+    logLower: logGammaExpectation(y + 1, (g) => logCdfSf(prior, g / e).logCdf),
+    logUpper: y === 0 ? 0 : logGammaExpectation(y, (g) => logCdfSf(prior, g / e).logSf),
+  }
+}
+
 /** Where the binomial likelihood sits on the prior's u scale: ŷ/n and its standard error. */
 function binomialLikelihoodHint(scale: PriorScale, y: number, n: number): Hint | null {
   const pHat = (y + 0.5) / (n + 1)
   return hintOnU(scale, pHat, Math.sqrt((pHat * (1 - pHat)) / n))
 }
 
-/** The binomial likelihood integrated against the prior on its u scale. */
+/**
+ * The binomial likelihood integrated against the prior on its u scale, as the likelihood ratio L(θ)/L(p̂) with p̂ = y/n:
+ * y ln(θ/p̂) + (n − y) ln((1 − θ)/(1 − p̂)) = y φ(θ/p̂ − 1) + (n − y) φ((1 − θ)/(1 − p̂) − 1), φ(t) = ln(1 + t) − t (the linear
+ * terms cancel exactly), so that no terms of size n cancel; binomialLogLikelihoodAtPooled adds ln L(p̂) back.
+ */
 function binomialIntegral(prior: PriorDistribution, y: number, n: number) {
   const scale = priorScale(prior)
-  const logLik = (u: number): number => {
+  const p = y / n
+  const q = (n - y) / n
+  const logRatio = (u: number): number => {
     const th = scale.theta(u)
     const om = scale.oneMinusTheta(u)
-    return (y > 0 ? y * Math.log(th) : 0) + (n - y > 0 ? (n - y) * Math.log(om) : 0)
+    if (y === 0) return n * Math.log(om)
+    if (y === n) return n * Math.log(th)
+    return y * log1pmx((th - p) / p) + (n - y) * log1pmx((om - q) / q)
   }
   const likHint = binomialLikelihoodHint(scale, y, n)
-  const li = new LogIntegral((u) => scale.logPrior(u) + logLik(u), priorHints(scale, [likHint]))
+  const li = new LogIntegral((u) => scale.logPrior(u) + logRatio(u), priorHints(scale, [likHint]))
   return { scale, li, likHint }
 }
 
 function binomialAnalysis(prior: PriorDistribution, data: Extract<PilotData, { model: 'binomial' }>, opts: AnalyzeOptions): Analysis {
   const { successes: y, trials: n } = data
-  const constant = binomialLogConstant(data)
   const asBeta = asStandardBeta(prior)
   if (asBeta && !opts.forceQuadrature) {
     const { a, b } = asBeta
     const post = { family: 'beta' as const, alpha: a + y, beta: b + n - y }
     let logP = NaN
     if (!opts.skipPredictiveCheck) {
-      const tails =
-        n <= BETA_BINOMIAL_SUM_LIMIT ? betaBinomialLogTails(y, n, a, b) : binomialLogTailsByQuadrature(priorScale(prior), y, n, binomialLikelihoodHint(priorScale(prior), y, n))
+      const tails = n <= LARGE_COUNT ? betaBinomialLogTails(y, n, a, b) : largeCountLogTails(prior, { model: 'binomial', y, n })
       logP = logCountP(tails.logLower, tails.logUpper)
     }
+    // with rows: their pmfs at p̂ over the totals' pmf at p̂, the same ratio of coefficients without cancelling ln C(n, y)
+    const rows = data.rows ? binomialLogLikelihoodAtPooled(data) - binomialLogLikelihoodAtPooled({ ...data, rows: undefined }) : 0
     return {
-      logEvidence: constant + lbeta(a + y, b + n - y) - lbeta(a, b),
+      logEvidence: logBetaBinomialPmf(y, n, a, b) + rows,
       method: 'closed-form',
       posterior: summariseDistribution(post),
       ...predictiveCheck(logP),
@@ -716,11 +802,11 @@ function binomialAnalysis(prior: PriorDistribution, data: Extract<PilotData, { m
   const { scale, li, likHint } = binomialIntegral(prior, y, n)
   let logP = NaN
   if (!opts.skipPredictiveCheck) {
-    const tails = binomialLogTailsByQuadrature(scale, y, n, likHint)
+    const tails = n <= LARGE_COUNT ? binomialLogTailsByQuadrature(scale, y, n, likHint) : largeCountLogTails(prior, { model: 'binomial', y, n })
     logP = logCountP(tails.logLower, tails.logUpper)
   }
   return {
-    logEvidence: constant + li.logValue,
+    logEvidence: binomialLogLikelihoodAtPooled(data) + li.logValue,
     method: 'quadrature',
     posterior: summarise(posteriorFromIntegral(li, scale)),
     ...predictiveCheck(logP),
@@ -728,23 +814,32 @@ function binomialAnalysis(prior: PriorDistribution, data: Extract<PilotData, { m
   }
 }
 
-/** The Poisson likelihood of Y events in exposure T integrated against the prior on its u scale. */
+/**
+ * The Poisson likelihood of Y events in exposure T integrated against the prior on its u scale, as the ratio L(λ)/L(λ̂)
+ * with λ̂ = Y/T: Y ln(λ/λ̂) − (λ − λ̂)T = Y φ(λ/λ̂ − 1), φ(t) = ln(1 + t) − t, so that no terms of size Y cancel.
+ */
 function poissonIntegral(prior: PriorDistribution, Y: number, T: number) {
   const scale = priorScale(prior)
-  const logLik = (u: number): number => {
+  const lamHat = Y / T
+  const logRatio = (u: number): number => {
     const lam = scale.theta(u)
-    return (Y > 0 ? Y * Math.log(lam) : 0) - lam * T
+    return Y > 0 ? Y * log1pmx((lam - lamHat) / lamHat) : -lam * T
   }
-  const lamHat = (Y + 0.5) / T
-  const likHint = hintOnU(scale, lamHat, Math.sqrt(Y + 0.5) / T)
-  const li = new LogIntegral((u) => scale.logPrior(u) + logLik(u), priorHints(scale, [likHint]))
+  const hintCenter = (Y + 0.5) / T
+  const likHint = hintOnU(scale, hintCenter, Math.sqrt(Y + 0.5) / T)
+  const li = new LogIntegral((u) => scale.logPrior(u) + logRatio(u), priorHints(scale, [likHint]))
   return { scale, li, likHint }
+}
+
+/** ln of the Poisson likelihood of the counts at the pooled rate λ̂ = Y/T, each pmf in Loader's form (no cancellation at counts in the billions). */
+function poissonLogLikelihoodAtPooled(counts: number[], exposures: number[], Y: number, T: number): number {
+  return counts.reduce((s, c, i) => s + logPoissonPmf(c, (Y * exposures[i]) / T), 0)
 }
 
 function poissonAnalysis(prior: PriorDistribution, counts: number[], exposures: number[], opts: AnalyzeOptions): Analysis {
   const Y = counts.reduce((s, c) => s + c, 0)
   const T = exposures.reduce((s, t) => s + t, 0)
-  const constant = counts.reduce((s, c, i) => s + (c > 0 ? c * Math.log(exposures[i]) : 0) - lgamma(c + 1), 0)
+  const atPooled = poissonLogLikelihoodAtPooled(counts, exposures, Y, T)
   if (prior.family === 'gamma' && !opts.forceQuadrature) {
     const { shape: a, rate: b } = prior
     const post = { family: 'gamma' as const, shape: a + Y, rate: b + T }
@@ -757,7 +852,8 @@ function poissonAnalysis(prior: PriorDistribution, counts: number[], exposures: 
       logP = logCountP(logLower, logUpper)
     }
     return {
-      logEvidence: constant + a * Math.log(b) + lgamma(a + Y) - lgamma(a) - (a + Y) * Math.log(b + T),
+      // the negative binomial of the total, times the counts' pmfs at λ̂ over the total's (the split of Y over the exposures)
+      logEvidence: logNegativeBinomialPmf(Y, a, b / (b + T), T / (b + T)) + atPooled - logPoissonPmf(Y, Y),
       method: 'closed-form',
       posterior: summariseDistribution(post),
       ...predictiveCheck(logP),
@@ -767,12 +863,17 @@ function poissonAnalysis(prior: PriorDistribution, counts: number[], exposures: 
   const { scale, li, likHint } = poissonIntegral(prior, Y, T)
   let logP = NaN
   if (!opts.skipPredictiveCheck) {
-    const logLower = logPriorExpectation(scale, (u) => logGammaPQ(Y + 1, scale.theta(u) * T).logQ, [likHint])
-    const logUpper = Y === 0 ? 0 : logPriorExpectation(scale, (u) => logGammaPQ(Y, scale.theta(u) * T).logP, [likHint])
-    logP = logCountP(logLower, logUpper)
+    const tails =
+      Y <= LARGE_COUNT
+        ? {
+            logLower: logPriorExpectation(scale, (u) => logGammaPQ(Y + 1, scale.theta(u) * T).logQ, [likHint]),
+            logUpper: Y === 0 ? 0 : logPriorExpectation(scale, (u) => logGammaPQ(Y, scale.theta(u) * T).logP, [likHint]),
+          }
+        : largeCountLogTails(prior, { model: 'poisson', y: Y, exposure: T })
+    logP = logCountP(tails.logLower, tails.logUpper)
   }
   return {
-    logEvidence: constant + li.logValue,
+    logEvidence: atPooled + li.logValue,
     method: 'quadrature',
     posterior: summarise(posteriorFromIntegral(li, scale)),
     ...predictiveCheck(logP),

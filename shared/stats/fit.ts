@@ -2,7 +2,8 @@ import { levenbergMarquardt } from 'ml-levenberg-marquardt'
 import { cdf, normalQuantile, studentTCdf, studentTLogPdf, studentTQuantile, validateDistribution } from './distributions'
 import { EngineInputError } from './errors'
 import { requireInside, supportBounds, validatePoints, validateSupport } from './points'
-import { betaPQ, digamma, gammaPQ, lbeta, logGammaPrefactor, normCdf, normPdf } from './special'
+import { gammaPShapeDerivatives } from './gamma-shape'
+import { betaPQ, digamma, gammaPQ, lbeta, lgamma, normCdf, normPdf } from './special'
 import type { Distribution, Family, FitResult, Point, Support } from './types'
 
 /**
@@ -15,7 +16,11 @@ export type FitOptions = { lower?: number; upper?: number; df?: number; weights?
 export const DEFAULT_T_DF = 3
 
 const FAMILIES: readonly Family[] = ['normal', 'student-t', 'lognormal', 'gamma', 'beta', 'scaled-beta', 'uniform']
-const LOG_BOUND = 30
+/**
+ * The search box for logarithmic parameters: e^±700 is still a finite double. It only keeps the arithmetic finite; the
+ * search runs in standardised units (standardUnit), where no sensible fit comes near it.
+ */
+const LOG_RANGE = 700
 /** Levenberg–Marquardt iterations from each starting point before the Newton polish takes over. */
 const LM_ITERATIONS = 4
 /** A start through two of the points is added when its SSE is below this fraction of the best regular start's SSE. */
@@ -27,7 +32,7 @@ const PAIR_START_GAIN = 1
  */
 interface CdfModel {
   readonly nParams: number
-  /** Which parameters are logarithms (bounded to ±LOG_BOUND during the search). */
+  /** Which parameters are logarithms (kept within ±LOG_RANGE during the search). */
   readonly logParams: readonly boolean[]
   /** F(x_i; θ) for every point i, with the θ-dependent constants computed once. */
   at(theta: readonly number[]): (i: number) => number
@@ -132,6 +137,9 @@ function locationScaleModel(
   }
 }
 
+/** P(a, y) and its shape derivatives for the gamma model (one buffer: the engine is single-threaded). */
+const shapeScratch = new Float64Array(4)
+
 function buildModel(points: Point[], family: Family, options: FitOptions): CdfModel {
   const x = points.map((p) => p.value)
   switch (family) {
@@ -168,15 +176,12 @@ function buildModel(points: Point[], family: Family, options: FitOptions): CdfMo
         analytic: (th, i, out) => {
           const a = Math.exp(th[0])
           const y = Math.exp(th[1]) * x[i]
-          const h = 1e-4
-          const f0 = gammaPQ(a, y).p
-          const fPlus = gammaPQ(a * Math.exp(h), y).p
-          const fMinus = gammaPQ(a * Math.exp(-h), y).p
-          const e = Math.exp(logGammaPrefactor(a, y))
-          out[0] = f0
-          out[1] = (fPlus - fMinus) / (2 * h)
+          gammaPShapeDerivatives(a, y, shapeScratch)
+          const e = shapeScratch[3]
+          out[0] = shapeScratch[0]
+          out[1] = a * shapeScratch[1]
           out[2] = e
-          out[3] = (fPlus - 2 * f0 + fMinus) / (h * h)
+          out[3] = a * shapeScratch[1] + a * a * shapeScratch[2]
           out[4] = e * a * (Math.log(y) - digamma(a))
           out[5] = e * (a - y)
         },
@@ -279,7 +284,7 @@ function regress(t: number[], z: number[], w?: readonly number[]): { a: number; 
 }
 
 function clampLog(v: number): number {
-  return Math.min(LOG_BOUND, Math.max(-LOG_BOUND, v))
+  return Math.min(LOG_RANGE, Math.max(-LOG_RANGE, v))
 }
 
 function betaFromMoments(m: number, s: number): number[] | null {
@@ -429,12 +434,22 @@ function sanitise(starts: number[][], family: Family): number[][] {
 }
 
 /**
- * Starting points for the least-squares fit on the unconstrained scale (see CdfModel): quantile-scale regressions
- * (x on the family's standard quantiles), the two outermost points, moment matches from normal, lognormal and
- * Wilson–Hilferty (cube-root) regressions for the gamma; and, when it beats all of these at the outset, the best of the
- * exact fits through each pair of points (which rescues strongly inconsistent judgements from a poor basin).
+ * Starting points for the least-squares fit on the unconstrained scale of the family (see CdfModel), in the judgement's
+ * own units: the starts the search uses in standardised units (standardUnit), carried back.
  */
 export function fittingStarts(points: Point[], family: Family, options: FitOptions = {}): number[][] {
+  checkFamilyInput(points, family, options)
+  const unit = standardUnit(points, family, options)
+  return standardStarts(unit.points, unit.family, unit.options).map(unit.thetaBack)
+}
+
+/**
+ * Starting points in standardised units: quantile-scale regressions (x on the family's standard quantiles), the two
+ * outermost points, moment matches from normal, lognormal and Wilson–Hilferty (cube-root) regressions for the gamma;
+ * and, when it beats all of these at the outset, the best of the exact fits through each pair of points (which rescues
+ * strongly inconsistent judgements from a poor basin).
+ */
+function standardStarts(points: Point[], family: Family, options: FitOptions): number[][] {
   const z = points.map((pt) => normalQuantile(pt.prob))
   const tq = family === 'student-t' ? points.map((pt) => studentTQuantile(pt.prob, options.df ?? DEFAULT_T_DF)) : z
   const primary = sanitise(primaryStarts(points, family, options, z, tq), family)
@@ -448,6 +463,10 @@ export function fittingStarts(points: Point[], family: Family, options: FitOptio
       if (sse < PAIR_START_GAIN * bestPrimary && (!best || sse < best.sse)) best = { start: st, sse }
     }
     if (best) primary.push(best.start)
+    if (family === 'gamma') {
+      const grid = gammaShapeGridStart(points, z, model, p)
+      if (grid && grid.sse < Math.min(bestPrimary, best?.sse ?? Infinity)) primary.push(grid.start)
+    }
   }
   const unique: number[][] = []
   for (const st of primary) {
@@ -455,6 +474,43 @@ export function fittingStarts(points: Point[], family: Family, options: FitOptio
   }
   if (unique.length === 0) unique.push(isLogFamily(family) ? [0, 0] : [points[0].value, 0])
   return unique
+}
+
+/** Shapes screened by the gamma's multistart: ln a = −5, −4, …, 10. */
+const GAMMA_SHAPE_GRID = Array.from({ length: 16 }, (_, k) => Math.exp(k - 5))
+
+/**
+ * Approximate median of Gamma(a, 1) for a start: Wilson–Hilferty a(1 − 1/(9a))³ from a = 1 up (Wilson & Hilferty 1931),
+ * below it (Γ(a + 1)/2)^(1/a), from the leading term P(a, x) ≈ x^a/Γ(a + 1) of the series (Abramowitz & Stegun 1964, 6.5.29).
+ */
+function gammaMedianApprox(a: number): number {
+  return a >= 1 ? a * (1 - 1 / (9 * a)) ** 3 : Math.exp((lgamma(a + 1) - Math.LN2) / a)
+}
+
+/** ln of the judgement's median: ln x interpolated linearly in z = Φ⁻¹(p) at z = 0 (the two outer points beyond). */
+function logMedian(points: Point[], z: number[]): number {
+  const n = points.length
+  let i = 0
+  while (i < n - 2 && z[i + 1] < 0) i++
+  const la = Math.log(points[i].value)
+  const lb = Math.log(points[i + 1].value)
+  return la + ((lb - la) * (0 - z[i])) / (z[i + 1] - z[i])
+}
+
+/**
+ * Multistart screen for the gamma, whose criterion has several local minima when the values span orders of magnitude
+ * (a small shape fits the lower values, a large one the upper): for each shape on the grid, the rate that puts the
+ * median of the gamma on the judgement's median; the best of these by the criterion.
+ */
+function gammaShapeGridStart(points: Point[], z: number[], model: CdfModel, p: number[]): { start: number[]; sse: number } | null {
+  const lm = logMedian(points, z)
+  let best: { start: number[]; sse: number } | null = null
+  for (const a of GAMMA_SHAPE_GRID) {
+    const start = [Math.log(a), Math.log(gammaMedianApprox(a)) - lm]
+    const sse = sseOf(model, start, p)
+    if (Number.isFinite(sse) && (!best || sse < best.sse)) best = { start, sse }
+  }
+  return best
 }
 
 function isLogFamily(family: Family): boolean {
@@ -499,8 +555,8 @@ function levenbergMarquardtFit(model: CdfModel, p: number[], start: number[], it
         }
         return (i: number) => cols.map((c) => c[i])
       }
-  const minValues = model.logParams.map((isLog) => (isLog ? -LOG_BOUND : -Number.MAX_VALUE))
-  const maxValues = model.logParams.map((isLog) => (isLog ? LOG_BOUND : Number.MAX_VALUE))
+  const minValues = model.logParams.map((isLog) => (isLog ? -LOG_RANGE : -Number.MAX_VALUE))
+  const maxValues = model.logParams.map((isLog) => (isLog ? LOG_RANGE : Number.MAX_VALUE))
   let theta = start.slice()
   let sse = sseOf(model, theta, p)
   for (let round = 0; round < rounds; round++) {
@@ -523,7 +579,7 @@ function levenbergMarquardtFit(model: CdfModel, p: number[], start: number[], it
   return { theta, sse }
 }
 
-/** F, ∂F/∂θ and ∂²F/∂θ² at every point: analytic where the model has them, otherwise a six-point difference stencil. */
+/** F, ∂F/∂θ and ∂²F/∂θ² at every point: analytic where the model has them, otherwise difference stencils. */
 function derivatives(model: CdfModel, theta: readonly number[], n: number): { F: number[]; J: number[][]; H: number[][] } {
   const k = model.nParams
   const F: number[] = []
@@ -549,10 +605,13 @@ function derivatives(model: CdfModel, theta: readonly number[], n: number): { F:
   const f0 = at(new Array(k).fill(0))
   const plus = h.map((_, j) => at(unit(j, 1)))
   const minus = h.map((_, j) => at(unit(j, -1)))
+  const plus2 = h.map((_, j) => at(unit(j, 2)))
+  const minus2 = h.map((_, j) => at(unit(j, -2)))
   const both = k === 2 ? at([h[0], h[1]]) : []
   for (let i = 0; i < n; i++) {
     F.push(f0[i])
-    J.push(h.map((hj, j) => (plus[j][i] - minus[j][i]) / (2 * hj)))
+    // Richardson's five-point derivative (error O(h⁴)): the gradient it gives decides where the polish stops
+    J.push(h.map((hj, j) => (8 * (plus[j][i] - minus[j][i]) - (plus2[j][i] - minus2[j][i])) / (12 * hj)))
     const d2 = h.map((hj, j) => (plus[j][i] - 2 * f0[i] + minus[j][i]) / (hj * hj))
     H.push(k === 2 ? [d2[0], (both[i] - plus[0][i] - plus[1][i] + f0[i]) / (h[0] * h[1]), d2[1]] : [d2[0]])
   }
@@ -688,14 +747,118 @@ function checkFamilyInput(points: Point[], family: Family, options: FitOptions):
 }
 
 /**
+ * A change of unit u = (g(x) − centre)/scale under which the family keeps its form (g = ln for the lognormal, which is
+ * then fitted as a normal to the standardised logarithms): location-scale families are centred on the midrange and
+ * scaled by the half-range, the gamma is scaled by the geometric midrange, a uniform with a fixed end is measured from
+ * that end; the beta families are already on (0, 1). Fitting in these units makes a fit the same whatever the unit the
+ * values are given in (Priorsmith's own convention, docs/methods/fitting.md).
+ */
+interface StandardUnit {
+  points: Point[]
+  family: Family
+  options: FitOptions
+  /** The fitted distribution in the judgement's own units. */
+  back(d: Distribution): Distribution
+  /** A parameter vector θ (see CdfModel) in the judgement's own units. */
+  thetaBack(theta: number[]): number[]
+}
+
+/** Midpoint and half-width of the values, computed so that neither overflows for values near ±1.8e308. */
+function midrange(v: number[]): { centre: number; scale: number } {
+  const lo = v[0]
+  const hi = v[v.length - 1]
+  const scale = hi / 2 - lo / 2
+  return { centre: lo / 2 + hi / 2, scale: scale > 0 && Number.isFinite(scale) ? scale : 1 }
+}
+
+function standardUnit(points: Point[], family: Family, options: FitOptions): StandardUnit {
+  const x = points.map((pt) => pt.value)
+  const to = (g: (v: number) => number, centre: number, scale: number): Point[] =>
+    points.map((pt) => ({ value: (g(pt.value) - centre) / scale, prob: pt.prob }))
+  const same = (v: number): number => v
+  switch (family) {
+    case 'normal':
+    case 'student-t': {
+      const { centre, scale } = midrange(x)
+      return {
+        points: to(same, centre, scale),
+        family,
+        options,
+        back: (d) => ({ ...d, mu: centre + scale * (d as { mu: number }).mu, sigma: scale * (d as { sigma: number }).sigma }) as Distribution,
+        thetaBack: (th) => [centre + scale * th[0], th[1] + Math.log(scale)],
+      }
+    }
+    case 'lognormal': {
+      const { centre, scale } = midrange(x.map(Math.log))
+      return {
+        points: to(Math.log, centre, scale),
+        family: 'normal',
+        options,
+        back: (d) => {
+          const n = d as { mu: number; sigma: number }
+          return { family: 'lognormal', meanlog: centre + scale * n.mu, sdlog: scale * n.sigma }
+        },
+        thetaBack: (th) => [centre + scale * th[0], th[1] + Math.log(scale)],
+      }
+    }
+    case 'gamma': {
+      const g = Math.sqrt(x[0]) * Math.sqrt(x[x.length - 1])
+      const scale = g > 0 && Number.isFinite(g) ? g : 1
+      return {
+        points: to(same, 0, scale),
+        family,
+        options,
+        back: (d) => {
+          const gd = d as { shape: number; rate: number }
+          return { family: 'gamma', shape: gd.shape, rate: gd.rate / scale }
+        },
+        thetaBack: (th) => [th[0], th[1] - Math.log(scale)],
+      }
+    }
+    case 'uniform': {
+      const { lower, upper } = options
+      if (lower !== undefined && upper !== undefined) break
+      if (lower !== undefined || upper !== undefined) {
+        const anchor = (lower ?? upper) as number
+        const far = Math.max(...x.map((v) => Math.abs(v / 2 - anchor / 2)))
+        const scale = far > 0 && Number.isFinite(far) ? 2 * far : 1
+        const fixedLower = lower !== undefined
+        return {
+          points: to(same, anchor, scale),
+          family,
+          options: { ...options, lower: fixedLower ? 0 : undefined, upper: fixedLower ? undefined : 0 },
+          back: (d) => {
+            const ud = d as { lower: number; upper: number }
+            return fixedLower ? { family: 'uniform', lower: anchor, upper: anchor + scale * ud.upper } : { family: 'uniform', lower: anchor + scale * ud.lower, upper: anchor }
+          },
+          thetaBack: (th) => [th[0] + Math.log(scale)],
+        }
+      }
+      const { centre, scale } = midrange(x)
+      return {
+        points: to(same, centre, scale),
+        family,
+        options,
+        back: (d) => {
+          const ud = d as { lower: number; upper: number }
+          return { family: 'uniform', lower: centre + scale * ud.lower, upper: centre + scale * ud.upper }
+        },
+        thetaBack: (th) => [centre + scale * th[0], th[1] + Math.log(scale)],
+      }
+    }
+  }
+  return { points, family, options, back: (d) => d, thetaBack: (th) => th }
+}
+
+/**
  * Least-squares fit of a family to elicited CDF points: argmin Σ wᵢ (F(xᵢ; θ) − pᵢ)² (Garthwaite, Kadane & O'Hagan 2005,
- * weights 1 unless given), by Levenberg–Marquardt from several starting points and a final Newton polish.
+ * weights 1 unless given), in standardised units (standardUnit), by Levenberg–Marquardt from several starting points
+ * and a final Newton polish.
  */
 export function fitDistribution(points: Point[], family: Family, options: FitOptions = {}): FitResult {
   checkFamilyInput(points, family, options)
-  const n = points.length
   const w = options.weights
-  if (n === 2 && (family === 'normal' || family === 'lognormal' || family === 'student-t')) {
+  if (points.length === 2 && (family === 'normal' || family === 'lognormal' || family === 'student-t')) {
     const d =
       family === 'normal'
         ? normalFromQuantiles(points[0], points[1])
@@ -704,13 +867,18 @@ export function fitDistribution(points: Point[], family: Family, options: FitOpt
           : studentTFromQuantiles(points[0], points[1], options.df ?? DEFAULT_T_DF)
     return { distribution: d, sse: sumSquaredError(d, points, w) }
   }
+  const unit = standardUnit(points, family, options)
+  const distribution = unit.back(fitStandardised(unit.points, unit.family, unit.options))
+  return { distribution, sse: sumSquaredError(distribution, points, w) }
+}
+
+/** The least-squares search itself, on standardised points. */
+function fitStandardised(points: Point[], family: Family, options: FitOptions): Distribution {
+  const n = points.length
   const { model, target } = criterionModel(points, family, options)
-  if (model.nParams === 0) {
-    const d = model.toDistribution([])
-    return { distribution: d, sse: sumSquaredError(d, points, w) }
-  }
+  if (model.nParams === 0) return model.toDistribution([])
   let best: { theta: number[]; sse: number } | null = null
-  for (const start of fittingStarts(points, family, options)) {
+  for (const start of standardStarts(points, family, options)) {
     const r = n >= 2 ? levenbergMarquardtFit(model, target, start, LM_ITERATIONS, 1) : { theta: start, sse: sseOf(model, start, target) }
     if (!best || r.sse < best.sse) best = r
   }
@@ -723,8 +891,7 @@ export function fitDistribution(points: Point[], family: Family, options: FitOpt
     if (!polished.converged) polished = newtonPolish(model, target, levenbergMarquardtFit(model, target, polished.theta, LM_ITERATIONS, 8).theta)
     theta = polished.theta
   }
-  const distribution = model.toDistribution(theta)
-  return { distribution, sse: sumSquaredError(distribution, points, w) }
+  return model.toDistribution(theta)
 }
 
 /** Families fitted for a quantity's support (Student-t with df = DEFAULT_T_DF). */

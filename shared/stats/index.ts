@@ -25,7 +25,7 @@ export type {
   Univariate,
 } from './types'
 export { EngineInputError } from './errors'
-export { cdf, logPdf, mean, median, pdf, quantile, sd, sf, supportOf, toUnivariate, validateDistribution } from './distributions'
+export { cdf, logCdfSf, logPdf, mean, median, pdf, quantile, sd, sf, supportOf, toUnivariate, validateDistribution } from './distributions'
 export {
   DEFAULT_T_DF,
   familiesFor,

@@ -1,6 +1,6 @@
 import { quantile, type Distribution, type Support } from '@shared/stats'
 import type { ElicitationMethod } from '@shared/schemas/rounds'
-import { formatValue } from '@/rounds/numbers'
+import { formatValue } from '@shared/format'
 
 /**
  * The shape of a fitted curve in plain words, for experts (who never see family names): "symmetric", "stretched
@@ -80,9 +80,4 @@ export function chanceWords(prob: number): string {
   const inverse = 1 / prob
   if (prob > 0 && prob <= 0.5 && Math.abs(inverse - Math.round(inverse)) < 1e-9) return `1 in ${Math.round(inverse)}`
   return `${Math.round(prob * 100)} %`
-}
-
-/** "Saved 14:05" time of day. */
-export function clockTime(date: Date): string {
-  return new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit' }).format(date)
 }

@@ -3,9 +3,3 @@ export function remainingPercent(probs: readonly (number | null)[]): number {
   const total = probs.reduce<number>((s, p) => s + (typeof p === 'number' ? p : 0), 0)
   return Number((100 - total * 100).toFixed(6))
 }
-
-/** "20 %", "0.5 %", "−10 %". */
-export function formatPercentPoints(pct: number): string {
-  const rounded = Number(pct.toFixed(Math.abs(pct) < 1 && pct !== 0 ? 2 : 1))
-  return `${rounded < 0 ? '−' : ''}${Math.abs(rounded)} %`
-}

@@ -1,6 +1,6 @@
 import { supportBounds, type Point, type Support } from '@shared/stats'
 import { PLAUSIBLE_BOUND_WORDS } from '@shared/elicitation/bounds'
-import { formatValue } from '@/rounds/numbers'
+import { formatValue } from '@shared/format'
 import { valueText } from './format'
 
 /** The quantile method's fields, in the order they are asked (DESIGN "Elicitation methods"). */

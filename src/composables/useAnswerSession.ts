@@ -1,6 +1,8 @@
 import { computed, effectScope, reactive, ref, shallowRef, type ComputedRef, type EffectScope, type Ref } from 'vue'
 import type { AnswerItem } from '@shared/elicitation/answers'
+import { chosenFit } from '@shared/elicitation/fits'
 import type { FitResult } from '@shared/stats'
+import type { Composition } from '@/api/compositions'
 import type { CalibrationQuestion } from '@/api/calibration'
 import { ApiError } from '@/api/client'
 import type { Judgement } from '@/api/judgements'
@@ -116,6 +118,36 @@ export interface ShownFits {
 export function shownFits(local: FitResult[], server: FitResult[] | null, sameInput: boolean): ShownFits {
   if (!sameInput || !server || server.length === 0 || sameFit(local[0], server[0])) return { fits: local, source: 'browser', differs: false }
   return { fits: server, source: 'server', differs: !sameFit(local[0], server[0], 1e-4) }
+}
+
+/** The fit the expert sees for a quantity (the one the feedback shows and the line draws), or null before there is one. */
+export function shownFitOf(state: QuantityState): FitResult | null {
+  const reading = state.reading.value
+  const shown = shownFits(reading.result.fits, state.data.serverFits, state.data.serverKey === inputKey(reading))
+  return chosenFit(shown.fits, state.data.draft.chosenFamily)
+}
+
+/** A composition with two or more of its shares asked in this round, each with its answer state here. */
+export interface RoundComposition {
+  composition: Composition
+  shares: { quantityId: number; name: string; state: QuantityState }[]
+  /** What takes the rest of the whole: the "other" share, shares asked in other rounds, or both; null when all are here. */
+  restLabel: string | null
+}
+
+/** The compositions whose shares this round asks (at least two of them), with the rest named. */
+export function roundCompositions(compositions: Composition[], states: QuantityState[]): RoundComposition[] {
+  const byQuantity = new Map(states.map((s) => [s.item.quantityId, s]))
+  return compositions.flatMap((composition) => {
+    const shares = composition.shares.flatMap((s) => {
+      const state = byQuantity.get(s.quantityId)
+      return state ? [{ quantityId: s.quantityId, name: s.name, state }] : []
+    })
+    if (shares.length < 2) return []
+    const elsewhere = shares.length < composition.shares.length ? 'the shares not asked in this round' : null
+    const rest = [composition.residual ? composition.residualLabel : null, elsewhere].filter((x): x is string => x !== null)
+    return [{ composition, shares, restLabel: rest.length ? rest.join(' and ') : null }]
+  })
 }
 
 function answerItemOf(item: RoundItem): AnswerItem {
@@ -334,6 +366,10 @@ export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: 
 
   const allComplete = computed(() => railItems.value.every((i) => i.status === 'complete'))
 
+  const compositions = computed(() => roundCompositions(store.compositions, quantities.value))
+  /** The compositions a quantity is a share of in this round. */
+  const compositionsOf = (state: QuantityState) => compositions.value.filter((c) => c.shares.some((s) => s.state === state))
+
   /** Saves whatever is waiting; resolves false if something could not be saved. */
   async function flushAll(): Promise<boolean> {
     const results = await Promise.all([...quantities.value.map((s) => s.autosave.flush()), ...calibrations.value.map((c) => c.autosave.flush())])
@@ -396,6 +432,7 @@ export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: 
     calibrations,
     railItems,
     allComplete,
+    compositionsOf,
     problems,
     submitError,
     submitting,

@@ -1,7 +1,6 @@
+import { formatNumber, formatPercent, withUnit } from '@shared/format'
 import type { ImpactResult } from '@/api/impact'
-import { bfText, fmt, pct } from './format'
-
-const withUnit = (x: string, unit: string) => (unit ? `${x} ${unit}` : x)
+import { bfText } from './format'
 
 /**
  * Sentences the browser adds before the server's findings: where the posterior lands under the
@@ -12,9 +11,9 @@ export function extraFindings(result: ImpactResult, unit: string, symbol: string
   const rec = result.candidates.find((c) => c.kind === 'reconciled')
   if (rec) {
     out.push(
-      `Under the reconciled prior the posterior mean of ${symbol} is ${withUnit(fmt(rec.posterior.mean), unit)} ` +
-      `(95 % interval ${fmt(rec.posterior.q025)} to ${fmt(rec.posterior.q975)}); the prior alone said ${fmt(rec.priorSummary.mean)} ` +
-      `(${fmt(rec.priorSummary.q025)} to ${fmt(rec.priorSummary.q975)}).`,
+      `Under the reconciled prior the posterior mean of ${symbol} is ${withUnit(formatNumber(rec.posterior.mean), unit)} ` +
+      `(95 % interval ${formatNumber(rec.posterior.q025)} to ${formatNumber(rec.posterior.q975)}); the prior alone said ${formatNumber(rec.priorSummary.mean)} ` +
+      `(${formatNumber(rec.priorSummary.q025)} to ${formatNumber(rec.priorSummary.q975)}).`,
     )
     if (rec.bayesFactor) {
       const favours = rec.bayesFactor.logBF >= 0 ? 'favour the reconciled prior over the comparison prior' : 'favour the comparison prior over the reconciled prior'
@@ -26,7 +25,7 @@ export function extraFindings(result: ImpactResult, unit: string, symbol: string
   const others = result.candidates.filter((c) => c.kind !== 'comparison')
   if (others.length > 1) {
     const means = others.map((c) => c.posterior.mean)
-    out.push(`Across the ${others.length} candidate priors other than the comparison prior the posterior mean ranges from ${fmt(Math.min(...means))} to ${withUnit(fmt(Math.max(...means)), unit)}.`)
+    out.push(`Across the ${others.length} candidate priors other than the comparison prior the posterior mean ranges from ${formatNumber(Math.min(...means))} to ${withUnit(formatNumber(Math.max(...means)), unit)}.`)
   }
   if (result.decision) {
     const decided = result.candidates.filter((c) => c.decision)
@@ -36,7 +35,7 @@ export function extraFindings(result: ImpactResult, unit: string, symbol: string
         : acting === 0 ? `None of the ${decided.length} candidate priors leads to acting under the decision rule.`
           : `${acting} of ${decided.length} candidate priors lead to acting under the decision rule; the choice of prior decides it.`,
     )
-    if (result.tipping) out.push(`Under the reconciled prior the probability in the rule is ${pct(result.tipping.probabilityNow)}, so the decision is to ${result.tipping.actNow ? 'act' : 'not act'}.`)
+    if (result.tipping) out.push(`Under the reconciled prior the probability in the rule is ${formatPercent(result.tipping.probabilityNow)}, so the decision is to ${result.tipping.actNow ? 'act' : 'not act'}.`)
   }
   return out
 }

@@ -2,8 +2,8 @@ import { boolean, mixed, object, type AnyObject, type AnyObjectSchema, type Numb
 import { impactSchema } from '@shared/schemas/impact'
 import type { DecisionRule } from '@shared/elicitation/impact'
 import { decimalSum, EngineInputError, familiesFor, supportBounds, supportOf, validateDistribution, type Distribution, type Family, type PilotData, type Support } from '@shared/stats'
+import { FAMILY_PARAMS } from '@shared/format'
 import type { ImpactRequest } from '@/api/impact'
-import { FAMILY_PARAMS } from './format'
 
 /** A distribution as typed in the form: the family and its parameters (text while typing). */
 export type DistributionValues = { family: Family } & Record<string, number | string | undefined>

@@ -1,5 +1,5 @@
+import { describeDistribution } from '@shared/format'
 import type { ImpactCandidate, ImpactResult } from '@/api/impact'
-import { distributionText } from './format'
 
 /** One candidate's numbers, as the table shows them and the CSV exports them (full precision). */
 export interface CandidateRow {
@@ -32,7 +32,7 @@ export function candidateRows(result: Pick<ImpactResult, 'candidates' | 'n'>): C
     key: c.key,
     kind: c.kind,
     label: c.label,
-    prior: distributionText(c.prior),
+    prior: describeDistribution(c.prior),
     priorMean: c.priorSummary.mean,
     priorQ025: c.priorSummary.q025,
     priorQ975: c.priorSummary.q975,

@@ -1,5 +1,6 @@
 import { readCsvTable } from '@shared/elicitation/csv'
 import { PILOT_MAX_BYTES, PILOT_MAX_ROWS } from '@shared/elicitation/pilot'
+import { formatBytes, formatCount } from '@shared/format'
 import type { Delimiter } from '@/api/pilot'
 
 export const DELIMITERS: readonly { value: Delimiter; label: string; name: string }[] = [
@@ -12,7 +13,7 @@ export const DELIMITERS: readonly { value: Delimiter; label: string; name: strin
 export const PREVIEW_ROWS = 10
 
 const MAX_MB = Math.round(PILOT_MAX_BYTES / (1024 * 1024))
-const rowsText = new Intl.NumberFormat('en-GB').format(PILOT_MAX_ROWS)
+const rowsText = formatCount(PILOT_MAX_ROWS)
 /** "CSV text (UTF-8), at most 2 MB and 100,000 data rows". */
 export const LIMITS_TEXT = `CSV text (UTF-8), at most ${MAX_MB} MB and ${rowsText} data rows, first line the column names`
 
@@ -32,7 +33,7 @@ export interface LocalPreview {
 /** A problem with the file's size, before reading it. */
 export function sizeProblem(bytes: number): string | null {
   if (bytes === 0) return 'The file is empty.'
-  if (bytes > PILOT_MAX_BYTES) return `The file is ${(bytes / (1024 * 1024)).toFixed(1)} MB; pilot data files may be at most ${MAX_MB} MB.`
+  if (bytes > PILOT_MAX_BYTES) return `The file is ${formatBytes(bytes)}; pilot data files may be at most ${MAX_MB} MB.`
   return null
 }
 
@@ -49,7 +50,7 @@ export function previewText(text: string, delimiter: Delimiter, previewRows = PR
   if (problem) problems.push(`Line ${problem.line}: ${problem.message}.`)
   else if (table.length === 0) problems.push('The file is empty.')
   else if (body.length === 0) problems.push('Line 2: The file has a header but no data rows.')
-  if (body.length > PILOT_MAX_ROWS) problems.push(`The file has ${new Intl.NumberFormat('en-GB').format(body.length)} data rows; at most ${rowsText} are accepted.`)
+  if (body.length > PILOT_MAX_ROWS) problems.push(`The file has ${formatCount(body.length)} data rows; at most ${rowsText} are accepted.`)
   let suggestedDelimiter: Delimiter | null = null
   if (header.length === 1) {
     const other = DELIMITERS.find((d) => d.value !== delimiter && header[0].includes(d.value))

@@ -1,5 +1,5 @@
+import { formatNumber } from '@shared/format'
 import type { CookeScore, ReconcileExpert } from '@/api/reconciliation'
-import { fmt } from '@/reconcile/format'
 
 /** One included expert's Cooke scores, the weight at the chosen cutoff and the weight with every expert kept. */
 export interface CookeRow {
@@ -30,7 +30,7 @@ export function cookeRows(experts: ReconcileExpert[], scores: CookeScore[], allK
 export function cutoffEffect(rows: CookeRow[], cutoff: number): string {
   const dropped = rows.filter((r) => !r.passes)
   if (cutoff <= 0) return 'No cutoff: every expert is weighted by calibration × information.'
-  if (dropped.length === 0) return `Every expert's calibration score is at least ${fmt(cutoff)}: nobody is dropped.`
-  if (dropped.length === rows.length) return `No expert reaches a calibration score of ${fmt(cutoff)}: performance weights cannot be used at this cutoff.`
-  return `${dropped.map((r) => r.label).join(', ')} ${dropped.length === 1 ? 'falls' : 'fall'} below the cutoff ${fmt(cutoff)} and ${dropped.length === 1 ? 'gets' : 'get'} no weight.`
+  if (dropped.length === 0) return `Every expert's calibration score is at least ${formatNumber(cutoff)}: nobody is dropped.`
+  if (dropped.length === rows.length) return `No expert reaches a calibration score of ${formatNumber(cutoff)}: performance weights cannot be used at this cutoff.`
+  return `${dropped.map((r) => r.label).join(', ')} ${dropped.length === 1 ? 'falls' : 'fall'} below the cutoff ${formatNumber(cutoff)} and ${dropped.length === 1 ? 'gets' : 'get'} no weight.`
 }

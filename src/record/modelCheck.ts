@@ -1,6 +1,7 @@
 import { readModelCode, type ModelLanguage } from '@shared/elicitation/model-code'
 import { quantile, validateDistribution, type Distribution } from '@shared/stats'
-import { describeDistribution, fmtTiny, LANGUAGE_LABELS } from './format'
+import { describeDistribution, formatTiny } from '@shared/format'
+import { LANGUAGE_LABELS } from './format'
 
 /** Largest relative difference allowed between the read-back quantiles and the final prior's. */
 export const MODEL_CHECK_TOLERANCE = 1e-6
@@ -41,12 +42,12 @@ export function checkModelLine(
   const lang = LANGUAGE_LABELS[line.language] ?? line.language
   const how = `read by Priorsmith (not by ${lang} itself) with ${lang}’s documented parameterisation`
   if (worst <= MODEL_CHECK_TOLERANCE) {
-    return { ok: true, skipped: false, text: `${how[0].toUpperCase()}${how.slice(1)}: reads back as ${described}, quantiles agree to ${fmtTiny(worst)}`, readBack: back, maxRelativeDifference: worst }
+    return { ok: true, skipped: false, text: `${how[0].toUpperCase()}${how.slice(1)}: reads back as ${described}, quantiles agree to ${formatTiny(worst)}`, readBack: back, maxRelativeDifference: worst }
   }
   return {
     ok: false,
     skipped: false,
-    text: `Check failed: ${how}: reads back as ${described}, quantiles differ by ${Number.isFinite(worst) ? fmtTiny(worst) : 'an unbounded amount'} (more than 1e-6)`,
+    text: `Check failed: ${how}: reads back as ${described}, quantiles differ by ${Number.isFinite(worst) ? formatTiny(worst) : 'an unbounded amount'} (more than 1e-6)`,
     readBack: back,
     maxRelativeDifference: worst,
   }

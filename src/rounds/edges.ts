@@ -1,3 +1,4 @@
+import { formatExact } from '@shared/format'
 import { supportBounds, type Support } from '@shared/stats'
 
 /** The values a quantity can take, in plain words: "any value above 0", "a share from 0 to 1 (0 % to 100 %)", "from 2 to 9", "any value". */
@@ -8,21 +9,15 @@ export function supportLabel(support: Support): string {
     case 'proportion':
       return 'a share from 0 to 1 (0 % to 100 %)'
     case 'bounded':
-      return `from ${formatEdge(support.lower)} to ${formatEdge(support.upper)}`
+      return `from ${formatExact(support.lower)} to ${formatExact(support.upper)}`
     default:
       return 'any value, negative or positive'
   }
 }
 
-export function formatEdge(value: number): string {
-  if (value === Infinity) return '∞'
-  if (value === -Infinity) return '−∞'
-  return String(value)
-}
-
 /** Edges as the editor shows them: "0, 0.1, 0.25". */
 export function formatEdges(edges: readonly number[] | undefined): string {
-  return (edges ?? []).map(formatEdge).join(', ')
+  return (edges ?? []).map(formatExact).join(', ')
 }
 
 export type EdgesParse = { ok: true; edges: number[] } | { ok: false; message: string }
@@ -58,7 +53,7 @@ export function parseEdges(text: string, support?: Support): EdgesParse {
   if (support) {
     const { lower, upper } = supportBounds(support)
     if (edges[0] < lower || edges[edges.length - 1] > upper) {
-      return { ok: false, message: `Interval edges must lie within the quantity's support [${formatEdge(lower)}, ${formatEdge(upper)}]` }
+      return { ok: false, message: `Interval edges must lie within the quantity's support [${formatExact(lower)}, ${formatExact(upper)}]` }
     }
   }
   return { ok: true, edges }
@@ -79,7 +74,7 @@ export function suggestEdges(support: Support): number[] | undefined {
  * upper end, "20 to 30". A share is written in per cent ("10 % to under 20 %").
  */
 export function intervalLabels(edges: readonly number[], support?: Support): string[] {
-  const edge = (x: number) => (support?.kind === 'proportion' ? `${formatEdge(Number((x * 100).toPrecision(10)))} %` : formatEdge(x))
+  const edge = (x: number) => (support?.kind === 'proportion' ? `${formatExact(Number((x * 100).toPrecision(10)))} %` : formatExact(x))
   return edges.slice(1).map((upper, i) => `${edge(edges[i])} to ${i === edges.length - 2 ? '' : 'under '}${edge(upper)}`)
 }
 

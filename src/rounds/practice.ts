@@ -1,6 +1,6 @@
 import type { Point } from '@shared/stats'
 import { PLAUSIBLE_BOUND_PROB, PLAUSIBLE_BOUND_WORDS } from '@shared/elicitation/bounds'
-import { withUnit } from './numbers'
+import { formatValue, withUnit } from '@shared/format'
 
 /** The quantile method asks in this order to limit anchoring: the plausible bounds first, then the median, then the quartiles (common practice in elicitation protocols; see docs/methods/fitting.md). */
 export const PRACTICE_STEPS = [
@@ -19,7 +19,7 @@ export type PracticeValues = Partial<Record<PracticeKey, number>>
  * is below 1,500 km. Which value would it then be equally likely to fall above or below?").
  */
 export function practicePrompt(key: PracticeKey, values: PracticeValues, unit = ''): string {
-  const v = (x: number | undefined, missing: string) => (x === undefined ? missing : withUnit(x, unit))
+  const v = (x: number | undefined, missing: string) => (x === undefined ? missing : withUnit(formatValue(x), unit))
   switch (key) {
     case 'lower':
       return `What is the lowest value you find plausible? You would be very surprised to learn that the true answer is below it (${PLAUSIBLE_BOUND_WORDS}).`

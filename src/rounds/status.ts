@@ -1,5 +1,5 @@
+import { formatShortDateTime } from '@shared/format'
 import type { PanelInvitation, PanelMember, RoundStatus } from '@/api/rounds'
-import { formatShortDateTime } from './datetime'
 
 type Tone = 'info' | 'warning' | 'primary' | 'success' | 'danger'
 

@@ -1,6 +1,7 @@
 import { ref, watch } from 'vue'
 import { defineStore } from 'pinia'
 import { calibrationApi, type CalibrationQuestion } from '@/api/calibration'
+import { compositionsApi, type Composition } from '@/api/compositions'
 import { ApiError } from '@/api/client'
 import {
   judgementsApi,
@@ -29,6 +30,8 @@ export const useJudgementsStore = defineStore('judgements', () => {
   /** Calibration answers by question id. */
   const calibration = ref<Record<number, CalibrationAnswer>>({})
   const feedback = ref<RoundFeedback[] | null>(null)
+  /** The study's compositions (shares of a whole): the answer screen adds up the shares asked in this round. */
+  const compositions = ref<Composition[]>([])
 
   function putJudgements(list: Judgement[]): void {
     judgements.value = Object.fromEntries(list.map((j) => [j.quantityId, j]))
@@ -36,7 +39,7 @@ export const useJudgementsStore = defineStore('judgements', () => {
 
   async function load(opts: AnsweringLoad): Promise<void> {
     if (roundId.value !== opts.roundId) clear()
-    const [list, qs, answers, fb] = await Promise.all([
+    const [list, qs, answers, fb, wholes] = await Promise.all([
       judgementsApi.list(opts.roundId),
       opts.askCalibration ? calibrationApi.list(opts.studyId) : Promise.resolve([] as CalibrationQuestion[]),
       opts.askCalibration ? judgementsApi.calibrationAnswers(opts.roundId) : Promise.resolve([] as CalibrationAnswer[]),
@@ -47,8 +50,10 @@ export const useJudgementsStore = defineStore('judgements', () => {
             throw error
           })
         : Promise.resolve(null),
+      compositionsApi.list(opts.studyId),
     ])
     roundId.value = opts.roundId
+    compositions.value = wholes
     putJudgements(list)
     questions.value = [...qs].sort((a, b) => a.position - b.position || a.id - b.id)
     calibration.value = Object.fromEntries(answers.map((a) => [a.questionId, a]))
@@ -92,6 +97,7 @@ export const useJudgementsStore = defineStore('judgements', () => {
     questions.value = []
     calibration.value = {}
     feedback.value = null
+    compositions.value = []
   }
 
   // One account's answers must not show for the next one signed in on this browser.
@@ -103,5 +109,5 @@ export const useJudgementsStore = defineStore('judgements', () => {
     },
   )
 
-  return { roundId, judgements, questions, calibration, feedback, load, reloadJudgements, reloadCalibration, save, saveCalibration, submit, clear }
+  return { roundId, judgements, questions, calibration, feedback, compositions, load, reloadJudgements, reloadCalibration, save, saveCalibration, submit, clear }
 })

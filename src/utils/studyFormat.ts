@@ -1,36 +1,7 @@
+import { formatNumber } from '@shared/format'
 import type { Support } from '@/api/quantities'
 import type { OutboxStatus } from '@/api/studyAdmin'
 import type { QuantityStage, StudyDetail } from '@/api/studies'
-
-const dateTimeFormat = new Intl.DateTimeFormat('en-GB', {
-  day: 'numeric',
-  month: 'short',
-  year: 'numeric',
-  hour: '2-digit',
-  minute: '2-digit',
-})
-
-/** "2 Mar 2026, 14:05" in the browser's time zone; '' for null; the raw value when it is not a date. */
-export function formatDateTime(value: string | null | undefined): string {
-  if (!value) return ''
-  const date = new Date(value)
-  return Number.isNaN(date.getTime()) ? value : dateTimeFormat.format(date)
-}
-
-/** "812 B", "14.2 kB", "3.1 MB". */
-export function formatBytes(bytes: number): string {
-  if (bytes < 1024) return `${bytes} B`
-  if (bytes < 1024 * 1024) return `${(bytes / 1024).toFixed(1)} kB`
-  return `${(bytes / (1024 * 1024)).toFixed(1)} MB`
-}
-
-/** Numbers in tables: up to 6 significant digits, no exponent for everyday magnitudes. */
-export function formatNumber(value: number): string {
-  if (!Number.isFinite(value)) return String(value)
-  const abs = Math.abs(value)
-  if (abs !== 0 && (abs >= 1e9 || abs < 1e-4)) return value.toExponential(3)
-  return new Intl.NumberFormat('en-GB', { maximumSignificantDigits: 6 }).format(value)
-}
 
 export const SUPPORT_LABELS: Record<Support['kind'], { label: string; hint: string }> = {
   real: { label: 'Real line', hint: 'any value, negative or positive' },
@@ -49,7 +20,7 @@ export function supportText(support: Support): string {
     case 'proportion':
       return 'Proportion [0, 1]'
     case 'bounded':
-      return `Bounded [${formatNumber(support.lower)}, ${formatNumber(support.upper)}]`
+      return `Bounded [${formatNumber(support.lower, 6)}, ${formatNumber(support.upper, 6)}]`
   }
 }
 

@@ -182,7 +182,7 @@ describe('impact analysis', () => {
     const z20 = analyzePrior({ family: 'uniform', lower: 0, upper: 20 }, data).logEvidence
     expect(res.body.sweep.evidenceRatio).toBeCloseTo(Math.exp(z5 - z20), 9)
     expect(res.body.sweep.evidenceRatio).toBeGreaterThan(3)
-    expect(res.body.findings[0]).toBe('Widening the reconciled prior 4× moves the posterior mean from 3.00 to 3.00 (barely) and divides the evidence by about 4.00.')
+    expect(res.body.findings[0]).toBe('Widening the reconciled prior 4× moves the posterior mean from 3 to 3 (barely) and divides the evidence by about 4.')
     // P(μ > 2.5 | x) by scipy quad (fixtures/generate_impact_checks.py): 0.712 < 0.8, so the decision rule does not act.
     expect(rec.decision.probability).toBeCloseTo(outside.uniform_0_10_prob_mean_above_2_5, 8)
     expect(rec.decision.act).toBe(false)

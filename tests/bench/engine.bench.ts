@@ -6,6 +6,8 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import {
+  analyzePrior,
+  cdf,
   cookeClassical,
   copulaCorrelationFromConditional,
   dirichletFromMarginals,
@@ -296,6 +298,45 @@ console.log('Joint priors')
 console.log(`  dirichletFromMarginals, 10 shares: median ${fmt(median(dirichletTimes))}`)
 console.log(`  nearestCorrelation, 20 × 20 (smallest eigenvalue ${repaired.minEigenvalue.toFixed(3)}, ${repaired.iterations} iterations, largest change ${repaired.maxChange.toFixed(3)}): ${fmt(ncTime)}`)
 console.log(`  sampleJoint, 10,000 draws of 10 quantities (beta, gamma, lognormal, normal, t, scaled beta, uniform marginals): ${fmt(drawTime)}`)
+
+// Huge counts and parameters: Box's p and the evidence at n up to 1e12 (the prior's CDF averaged over a beta or gamma,
+// cost independent of n), and CDF + quantile at huge beta, gamma and t parameters (large-parameter expansions).
+console.log('')
+console.log('Huge counts: evidence + Box p (median of 5 runs per case)')
+const hugeCases: [string, PriorDistribution, (n: number) => PilotData][] = [
+  ['binomial, beta(2, 3) prior (closed form)', { family: 'beta', alpha: 2, beta: 3 }, (n) => ({ model: 'binomial', successes: Math.round(0.37 * n), trials: n })],
+  ['binomial, uniform(0.1, 0.8) prior (quadrature)', { family: 'uniform', lower: 0.1, upper: 0.8 }, (n) => ({ model: 'binomial', successes: Math.round(0.37 * n), trials: n })],
+  ['Poisson, gamma(2, 0.5) prior (closed form)', { family: 'gamma', shape: 2, rate: 0.5 }, (n) => ({ model: 'poisson', counts: [n], exposures: [Math.floor(n / 3)] })],
+  ['Poisson, lognormal(1, 0.5) prior (quadrature)', { family: 'lognormal', meanlog: 1, sdlog: 0.5 }, (n) => ({ model: 'poisson', counts: [n], exposures: [Math.floor(n / 3)] })],
+]
+for (const [label, prior, dataFor] of hugeCases) {
+  const cells = [1e6, 1e9, 2e10, 1e12].map((n) => {
+    const times: number[] = []
+    for (let i = 0; i < 5; i++) {
+      const s = performance.now()
+      analyzePrior(prior, dataFor(n))
+      times.push(performance.now() - s)
+    }
+    return `n ${n.toExponential(0)}: ${fmt(median(times))}`
+  })
+  console.log(`  ${label.padEnd(48)} ${cells.join('   ')}`)
+}
+const hugeParameters: [string, PriorDistribution][] = [
+  ['beta(1e12, 1e12)', { family: 'beta', alpha: 1e12, beta: 1e12 }],
+  ['beta(2e9, 5e10)', { family: 'beta', alpha: 2e9, beta: 5e10 }],
+  ['gamma shape 1e15', { family: 'gamma', shape: 1e15, rate: 1 }],
+  ['Student t df 1e16', { family: 'student-t', mu: 0, sigma: 1, df: 1e16 }],
+]
+console.log('Huge parameters: quantile then CDF at 11 probabilities from 1e-300 to 1 − 1e-10 (median per pair)')
+for (const [label, d] of hugeParameters) {
+  const times: number[] = []
+  for (const p of [1e-300, 1e-100, 1e-20, 1e-10, 1e-3, 0.3, 0.5, 0.7, 0.999, 1 - 1e-6, 1 - 1e-10]) {
+    const s = performance.now()
+    cdf(d, quantile(d, p))
+    times.push(performance.now() - s)
+  }
+  console.log(`  ${label.padEnd(48)} ${fmt(median(times))}`)
+}
 
 // Comparison with scipy.optimize.least_squares (MINPACK Levenberg–Marquardt, xtol = ftol = gtol = 1e-15) on the same
 // judgements, families and starting points. The uniform (a piecewise-linear CDF) is left out of the comparison.

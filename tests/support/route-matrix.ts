@@ -42,6 +42,13 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/studies/:id/calibration-questions': MEMBERS,
   'POST /api/studies/:id/calibration-questions': ['admin', 'analyst'],
   'PATCH /api/calibration-questions/:id': ['admin', 'analyst'],
+  'GET /api/studies/:id/compositions': MEMBERS,
+  'POST /api/studies/:id/compositions': ['admin', 'analyst'],
+  'GET /api/compositions/:id': MEMBERS,
+  'PATCH /api/compositions/:id': ['admin', 'analyst'],
+  'GET /api/compositions/:id/dirichlet': ['admin', 'analyst', 'reviewer'],
+  // Last of the composition routes: the analyst deletes the fixture's composition.
+  'DELETE /api/compositions/:id': ['admin', 'analyst'],
   'GET /api/studies/:id/rounds': MEMBERS,
   'POST /api/studies/:id/rounds': ['admin', 'analyst'],
   'GET /api/my/rounds': 'signed-in',
@@ -107,6 +114,10 @@ export async function matrixFixture(): Promise<MatrixFixture> {
   const idOf = (email: string) => directory.find((u) => u.email === email)!.id
   await analyst.post(`/api/studies/${study.id}/members`, { userId: idOf('reviewer@kestrel.example'), studyRole: 'reviewer' }).expect(201)
   const quantity = (await analyst.post(`/api/studies/${study.id}/quantities`, { name: 'Flow', symbol: 'flow', unit: 'L/s', question: 'Mean reduction in night flow after pressure management?', support: { kind: 'real' } }).expect(201)).body
+  const shareQuestion = 'Of the households in the pilot area, what share would choose this option?'
+  const shares = await Promise.all(['share_a', 'share_b'].map(async (symbol) =>
+    (await analyst.post(`/api/studies/${study.id}/quantities`, { name: symbol, symbol, question: shareQuestion, support: { kind: 'proportion' } }).expect(201)).body.id as number))
+  const composition = (await analyst.post(`/api/studies/${study.id}/compositions`, { name: 'Uptake', wording: 'How households split between the options.', quantityIds: shares }).expect(201)).body
   const calib = (await analyst.post(`/api/studies/${study.id}/calibration-questions`, { question: 'Night flow in KV-07 in March 2025?', unit: 'L/s', trueValue: 7.4 }).expect(201)).body
   const file = (await analyst.agent.post(`/api/quantities/${quantity.id}/files`).set('x-csrf-token', analyst.token).attach('file', Buffer.from('%PDF-1.4\n%%EOF\n'), 'e.pdf').expect(201)).body
   const round = (await analyst.post(`/api/studies/${study.id}/rounds`, {
@@ -123,7 +134,7 @@ export async function matrixFixture(): Promise<MatrixFixture> {
   const { job } = await impactDone(analyst, quantity.id, { datasetId: dataset.id, comparison: { family: 'normal', mu: 0, sigma: 10 } })
   Object.assign(params, {
     'studies/:id': String(study.id), 'quantities/:id': String(quantity.id), 'files/:id': String(file.id), 'rounds/:id': String(round.id),
-    'calibration-questions/:id': String(calib.id), 'datasets/:id': String(dataset.id), 'judgements/:id': String(saved.judgement.id),
+    'calibration-questions/:id': String(calib.id), 'datasets/:id': String(dataset.id), 'compositions/:id': String(composition.id), 'judgements/:id': String(saved.judgement.id),
     ':quantityId': String(quantity.id), ':questionId': String(calib.id), ':panelId': String(withPanel.panel[0].id),
     ':userId': String(idOf('expert3@kestrel.example')), 'users/:id': String(idOf('expert2@kestrel.example')), 'mailbox/:id': '1', ':token': 'x'.repeat(43), 'impact-jobs/:id': String(job!.id),
   })

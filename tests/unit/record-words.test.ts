@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { expertLabel, labelExperts, labelLetters } from '../../shared/record/expert-labels'
-import { actionLabel, answerText, dateTimeIn, subjectLabel } from '../../shared/record/format'
+import { actionLabel, answerText, subjectLabel } from '../../shared/record/format'
 
 describe('expert labels', () => {
   it('counts in spreadsheet-column letters: A … Z, AA, AB … (common practice)', () => {
@@ -31,13 +31,6 @@ describe('the record in words', () => {
     expect(subjectLabel('record:v2')).toBe('record version 2')
     expect(subjectLabel('study:9')).toBe('this study')
     expect(subjectLabel(null)).toBe('')
-  })
-
-  it('writes a moment as local time with its zone: 1 July 12:00 UTC is 14:00 in Oslo (summer time), 08:00 in New York', () => {
-    expect(dateTimeIn('2026-07-01T12:00:00Z', 'Europe/Oslo')).toBe('1 July 2026, 14:00 (Europe/Oslo)')
-    expect(dateTimeIn('2026-07-01T12:00:05Z', 'America/New_York', true)).toBe('1 July 2026, 08:00:05 (America/New_York)')
-    expect(dateTimeIn('2026-12-24T17:00:00Z', 'UTC')).toBe('24 December 2026, 17:00 (UTC)')
-    expect(dateTimeIn(null, 'UTC')).toBe('—')
   })
 })
 

@@ -1,8 +1,8 @@
 import { computed, type ComputedRef, type Ref, type ShallowRef } from 'vue'
 import { quantile, supportBounds, type Distribution } from '@shared/stats'
+import { FAMILY_LABELS, formatNumber, paramsText } from '@shared/format'
 import type { PoolMethod, ReconcileExpert, ReconciliationView } from '@/api/reconciliation'
 import { expertTone } from '@/reconcile/colors'
-import { FAMILY_LABELS, fmt, paramsText } from '@/reconcile/format'
 import type { PanelRow, PanelViewProps, RangeValues } from '@/reconcile/panel'
 import type { Preview, WeightsMode } from '@/reconcile/preview'
 
@@ -64,7 +64,7 @@ export function usePanelView(src: PanelSources) {
     const summary = src.preview.value?.summary
     const parts = [`One row per expert: the 5–95 % range as a thin bar, the middle half as a thick bar, the median as a notch; ${n} ${n === 1 ? 'expert is' : 'experts are'} included${left > 0 ? `, ${left} left out (faded)` : ''}.`]
     if (compareLabel.value) parts.push(`Dashed outlines: the same experts in ${compareLabel.value}.`)
-    if (summary) parts.push(`Filled green: ${combinationLabel.value.toLowerCase()}, median ${fmt(summary.q50)}, 90 % interval ${fmt(summary.q05)} to ${fmt(summary.q95)}.`)
+    if (summary) parts.push(`Filled green: ${combinationLabel.value.toLowerCase()}, median ${formatNumber(summary.q50)}, 90 % interval ${formatNumber(summary.q05)} to ${formatNumber(summary.q95)}.`)
     if (src.prior.value) parts.push(`Amber line: the ${FAMILY_LABELS[src.prior.value.family].toLowerCase()} prior (${paramsText(src.prior.value)}).`)
     return parts.join(' ')
   })

@@ -1,8 +1,8 @@
 import { computed, ref, watch, type Ref } from 'vue'
 import { sumSquaredError, validateDistribution, type Distribution, type Family } from '@shared/stats'
+import { FAMILY_PARAMS, paramOf } from '@shared/format'
 import { errorMessage } from '@/api/client'
 import type { ReconciliationView } from '@/api/reconciliation'
-import { FAMILY_PARAMS, paramOf } from '@/reconcile/format'
 import { implied, type Preview } from '@/reconcile/preview'
 import type { ReconcileForm } from './useReconcileForm'
 

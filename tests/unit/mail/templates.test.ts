@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { escapeHtml, formatDate, invitationMessage, reminderMessage, roundNoticeMessage } from '../../../server/mail/templates'
+import { escapeHtml, mailDateTime, invitationMessage, reminderMessage, roundNoticeMessage } from '../../../server/mail/templates'
 
 const opensAt = new Date('2026-12-10T09:30:00Z')
 const closesAt = new Date('2026-12-24T17:00:00Z')
@@ -24,19 +24,19 @@ describe('escapeHtml', () => {
   })
 })
 
-describe('formatDate', () => {
+describe('mailDateTime', () => {
   it('writes a UTC date unambiguously', () => {
-    expect(formatDate(closesAt, 'UTC')).toBe('Thursday 24 December 2026, 17:00 (UTC)')
+    expect(mailDateTime(closesAt, 'UTC')).toBe('Thursday 24 December 2026, 17:00 (UTC)')
   })
 
   it('states the time in the round’s zone, naming the zone and its offset on that date', () => {
-    expect(formatDate(closesAt, 'Europe/Berlin')).toBe('Thursday 24 December 2026, 18:00 (Europe/Berlin, UTC+1)')
-    expect(formatDate(new Date('2026-07-01T17:00:00Z'), 'Europe/Berlin')).toBe('Wednesday 1 July 2026, 19:00 (Europe/Berlin, UTC+2)')
-    expect(formatDate(closesAt, 'America/New_York')).toBe('Thursday 24 December 2026, 12:00 (America/New_York, UTC-5)')
-    expect(formatDate(closesAt, 'Asia/Kolkata')).toBe('Thursday 24 December 2026, 22:30 (Asia/Kolkata, UTC+5:30)')
-    expect(formatDate(closesAt, 'Europe/London')).toBe('Thursday 24 December 2026, 17:00 (Europe/London, UTC+0)')
+    expect(mailDateTime(closesAt, 'Europe/Berlin')).toBe('Thursday 24 December 2026, 18:00 (Europe/Berlin, UTC+1)')
+    expect(mailDateTime(new Date('2026-07-01T17:00:00Z'), 'Europe/Berlin')).toBe('Wednesday 1 July 2026, 19:00 (Europe/Berlin, UTC+2)')
+    expect(mailDateTime(closesAt, 'America/New_York')).toBe('Thursday 24 December 2026, 12:00 (America/New_York, UTC-5)')
+    expect(mailDateTime(closesAt, 'Asia/Kolkata')).toBe('Thursday 24 December 2026, 22:30 (Asia/Kolkata, UTC+5:30)')
+    expect(mailDateTime(closesAt, 'Europe/London')).toBe('Thursday 24 December 2026, 17:00 (Europe/London, UTC+0)')
     // Past midnight in the zone: the date moves too.
-    expect(formatDate(new Date('2026-12-24T23:30:00Z'), 'Pacific/Auckland')).toBe('Friday 25 December 2026, 12:30 (Pacific/Auckland, UTC+13)')
+    expect(mailDateTime(new Date('2026-12-24T23:30:00Z'), 'Pacific/Auckland')).toBe('Friday 25 December 2026, 12:30 (Pacific/Auckland, UTC+13)')
   })
 })
 

@@ -37,6 +37,25 @@ describe('Bayes factor labels (Kass & Raftery 1995; Jeffreys 1961)', () => {
     expect(bayesFactor(-12, -9).label).toBe('strong (favours B)')
   })
 
+  // Constructed: every boundary of both scales, on both sides, for either model favoured. Intervals are [lower, upper): the
+  // lower end is closed, so a value on a boundary takes the upper category; just below it (by more than the 1e-12 that
+  // absorbs rounding) the lower one.
+  it('Kass–Raftery and Jeffreys boundaries are closed below and open above, for A and for B', () => {
+    const krBoundaries: [number, string, string][] = [[2, 'not worth more than a bare mention', 'positive'], [6, 'positive', 'strong'], [10, 'strong', 'very strong']]
+    for (const [twoLn, below, at] of krBoundaries) {
+      expect(bayesFactor(twoLn / 2, 0).category, `2 ln BF = ${twoLn}`).toBe(at)
+      expect(bayesFactor(-twoLn / 2, 0).label, `2 ln BF = −${twoLn}`).toBe(`${at} (favours B)`)
+      expect(bayesFactor(twoLn / 2 - 1e-9, 0).category, `2 ln BF just below ${twoLn}`).toBe(below)
+      expect(bayesFactor(-(twoLn / 2 - 1e-9), 0).label).toBe(`${below} (favours B)`)
+    }
+    const jBoundaries: [number, string, string][] = [[0.5, 'barely worth mentioning', 'substantial'], [1, 'substantial', 'strong'], [1.5, 'strong', 'very strong'], [2, 'very strong', 'decisive']]
+    for (const [log10, below, at] of jBoundaries) {
+      expect(bayesFactor(log10 * Math.LN10, 0).jeffreys, `log10 BF = ${log10}`).toBe(at)
+      expect(bayesFactor(-log10 * Math.LN10, 0).jeffreys, `log10 BF = −${log10}`).toBe(at)
+      expect(bayesFactor((log10 - 1e-9) * Math.LN10, 0).jeffreys, `log10 BF just below ${log10}`).toBe(below)
+    }
+  })
+
   it('rejects non-finite evidence', () => {
     expect(() => bayesFactor(Number.NaN, 0)).toThrow(EngineInputError)
     expect(() => bayesFactor(0, -Infinity)).toThrow(EngineInputError)

@@ -80,3 +80,20 @@ describe('ln B(a, b) at large arguments (DiDonato & Morris 1992, BETALN form)', 
     })
   }
 })
+
+// Convention (docs/methods/distributions.md): a t with df ≤ 1 has no mean and df ≤ 2 no finite sd; NaN means "does not
+// exist", Infinity "exists and is infinite". Constructed values on both sides of each boundary.
+describe('Student t moments at the df boundaries', () => {
+  const t = (df: number): PriorDistribution => ({ family: 'student-t', mu: 3, sigma: 2, df })
+  it('mean: NaN for df ≤ 1, the location above', () => {
+    expect(mean(t(0.5))).toBeNaN()
+    expect(mean(t(1))).toBeNaN()
+    expect(mean(t(1 + 1e-9))).toBe(3)
+  })
+  it('sd: NaN for df ≤ 1, Infinity for 1 < df ≤ 2, σ√(ν/(ν − 2)) above', () => {
+    expect(sd(t(1))).toBeNaN()
+    expect(sd(t(1.5))).toBe(Infinity)
+    expect(sd(t(2))).toBe(Infinity)
+    expect(sd(t(4))).toBeCloseTo(2 * Math.SQRT2, 14)
+  })
+})

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { draftFromAnswer, emptyDraft, percentText, probOf, readDraft, saveBody } from '@/answer/draft'
-import { formatPercentPoints, remainingPercent } from '@/answer/intervals'
+import { remainingPercent } from '@/answer/intervals'
 import { calibrationProblems, calibrationStatus, quantityStatus, submitProblems } from '@/answer/status'
 
 const intervals = { method: 'fixed-interval' as const, edges: [0, 0.1, 0.2, 0.3, 0.5, 1] }
@@ -33,7 +33,6 @@ describe('fixed-interval drafts', () => {
     expect(percentText(0.333)).toBe('33.3')
     expect(percentText(probOf(33.3))).toBe('33.3')
     expect(draftFromAnswer(intervals, { edges: intervals.edges, probs: [0.1, 0.3, null, 0.2, null] }).percents).toEqual(['10', '30', '', '20', ''])
-    expect(formatPercentPoints(12.5)).toBe('12.5 %')
     expect(remainingPercent([0.1, 0.2, 0.7])).toBe(0)
   })
 })

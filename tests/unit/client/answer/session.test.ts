@@ -4,7 +4,8 @@ import { ref } from 'vue'
 import { createPinia, setActivePinia } from 'pinia'
 import { fitAnswer } from '@shared/elicitation/answers'
 import type { Judgement } from '@/api/judgements'
-import { useAnswerSession, shownFits, sameFit } from '@/composables/useAnswerSession'
+import { roundCompositions, useAnswerSession, shownFits, sameFit, type QuantityState } from '@/composables/useAnswerSession'
+import type { Composition } from '@/api/compositions'
 import type { Round } from '@/api/rounds'
 import { mockFetch, type RecordedCall, type Reply } from '../fetch-mock'
 
@@ -31,6 +32,7 @@ function setup() {
     if (c.url === '/api/rounds/9/judgements' && c.method === 'GET') return { status: 200, body: server.judgements }
     if (c.url === '/api/studies/2/calibration-questions') return { status: 200, body: [{ id: 7, studyId: 2, question: 'How many bursts in 2024?', unit: 'bursts', position: 1, version: 1 }] }
     if (c.url === '/api/rounds/9/calibration-answers') return { status: 200, body: [] }
+    if (c.url === '/api/studies/2/compositions') return { status: 200, body: [] }
     if (c.url.startsWith('/api/rounds/9/judgements/') && c.method === 'PUT') return server.put(c)
     if (c.url === '/api/rounds/9/submit') return server.submit()
   })
@@ -130,5 +132,23 @@ describe('the answering session', () => {
     expect(shownFits([a], [reordered], true).source).toBe('browser')
     expect(shownFits([a], [{ distribution: { family: 'uniform', lower: 0, upper: 1 }, sse: 0.01 }], false).source).toBe('browser')
     expect(shownFits([a], [{ distribution: { family: 'uniform', lower: 0, upper: 1 }, sse: 0.01 }], true)).toMatchObject({ source: 'server', differs: true })
+  })
+})
+
+describe('compositions on the answering screen', () => {
+  const composition = (id: number, quantityIds: number[], residual = false): Composition => ({
+    id, studyId: 2, name: `Whole ${id}`, wording: 'Households by answer.', residual, residualLabel: residual ? 'Other' : '', version: 1, createdAt: '', updatedAt: '',
+    shares: quantityIds.map((quantityId, i) => ({ quantityId, name: `Share ${quantityId}`, symbol: `s${quantityId}`, position: i + 1 })),
+  })
+  const states = [11, 12, 13].map((quantityId) => ({ item: { quantityId } }) as unknown as QuantityState)
+
+  it('keeps the compositions with two or more shares in the round, and names what takes the rest', () => {
+    const found = roundCompositions([composition(1, [11, 12, 13]), composition(2, [11, 99]), composition(3, [12, 13, 98], true), composition(4, [13, 11], true)], states)
+    expect(found.map((c) => [c.composition.id, c.shares.map((s) => s.quantityId), c.restLabel])).toEqual([
+      [1, [11, 12, 13], null],
+      [3, [12, 13], 'Other and the shares not asked in this round'],
+      [4, [13, 11], 'Other'],
+    ])
+    expect(found[0].shares[1].state).toBe(states[1])
   })
 })

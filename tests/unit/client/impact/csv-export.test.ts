@@ -45,7 +45,7 @@ describe('CSV export of the candidates table', () => {
     expect(lines).toHaveLength(3)
     expect(lines[0]).toContain('"prior mean (bursts per 100 km, per year)"')
     expect(lines[0].split(',').slice(-4)).toEqual(['pilot n', 'P(decision rule)', 'act', 'flags'])
-    expect(lines[1].startsWith('Reconciled prior,reconciled,"Gamma (shape = 6, rate = 0.5)",12,4.4,23.3,10.4,1.09,8.3,12.6,-18.5,')).toBe(true)
+    expect(lines[1].startsWith('Reconciled prior,reconciled,"Gamma(shape 6, rate 0.5)",12,4.4,23.3,10.4,1.09,8.3,12.6,-18.5,')).toBe(true)
     expect(lines[1]).toContain(`,${Math.log(4)},${Math.exp(Math.log(4))},positive,0.45,0.5,8,,,`)
     expect(lines[2]).toContain(',,,,0.45,20,8,,,prior-dominates; prior-data-conflict')
   })

@@ -111,7 +111,7 @@ describe('ReconcileView', { timeout: 15000 }, () => {
     await radio(wrapper, 'weights-performance').setValue(true)
     await settle()
     const weights = () => wrapper.findAll('[data-testid="cooke-weight"]').map((c) => c.text())
-    expect(weights()).toEqual(['0.958', '0.042'])
+    expect(weights()).toEqual(['0.958', '0.0422'])
     const cutoff = wrapper.get('[data-testid="cooke-cutoff"] input')
     await cutoff.setValue('0.05')
     await cutoff.trigger('change')

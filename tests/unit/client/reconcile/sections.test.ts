@@ -74,7 +74,7 @@ describe('CombineSection', () => {
 
   it('shows the weights set by hand with their shares, and the consensus inputs instead of weights for a consensus', async () => {
     const custom = mount(CombineSection, { props: { ...base, weightsMode: 'custom', customWeights: { 3: 3, 4: 1 }, customTotal: 4 }, global })
-    expect(custom.findAll('[data-testid="custom-weight-row"]').map((r) => r.findAll('td')[1].text())).toEqual(['0.750', '0.250'])
+    expect(custom.findAll('[data-testid="custom-weight-row"]').map((r) => r.findAll('td')[1].text())).toEqual(['0.75', '0.25'])
     const consensus = mount(CombineSection, { props: { ...base, method: 'consensus', problems: { consensus: 'Enter at least two agreed values' }, summary: null }, global })
     expect(consensus.find('[data-testid="weights-equal"]').exists()).toBe(false)
     expect(consensus.find('[data-testid="consensus-participants"]').exists()).toBe(true)

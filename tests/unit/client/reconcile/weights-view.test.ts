@@ -92,7 +92,7 @@ describe('PerformanceWeights', () => {
     const wrapper = mountAt(0)
     const bars = wrapper.findAll('[data-testid="weight-bar"]')
     // COOKE-worked-example: normalised weights 0.957753869124 and 0.0422461308765 at α = 0.
-    expect(bars.map((b) => b.text())).toEqual(['Expert A0.958', 'Expert B0.042'])
+    expect(bars.map((b) => b.text())).toEqual(['Expert A0.958', 'Expert B0.0422'])
     expect(wrapper.get('[data-testid="cooke-details"]').element.tagName).toBe('DETAILS')
     expect(wrapper.get('[data-testid="cooke-details"]').attributes('open')).toBeUndefined()
     const heads = wrapper.findAll('[data-testid="cooke-table"] thead th').map((h) => h.text())

@@ -1,7 +1,8 @@
-import type { Family, PriorDistribution } from '@shared/stats'
+import type { Family, PriorDistribution } from '../stats/types'
+import { formatNumber } from './numbers'
 
-/** Names and parameters of the engine's distribution families, as the screens show them. */
-export const FAMILY_LABELS: Record<Family, string> = {
+/** Names of the engine's distribution families as screens and documents write them (experts never see them). */
+export const FAMILY_LABELS: Record<PriorDistribution['family'], string> = {
   normal: 'Normal',
   'student-t': 'Student-t',
   lognormal: 'Lognormal',
@@ -9,6 +10,7 @@ export const FAMILY_LABELS: Record<Family, string> = {
   beta: 'Beta',
   'scaled-beta': 'Scaled beta',
   uniform: 'Uniform',
+  'half-normal': 'Half-normal',
 }
 
 export interface ParamSpec {
@@ -59,4 +61,34 @@ export const FAMILY_PARAMS: Record<Family, ParamSpec[]> = {
 /** A parameter value of a distribution by key. */
 export function paramOf(d: PriorDistribution, key: string): number {
   return (d as unknown as Record<string, number>)[key]
+}
+
+/** "μ = 10.28, σ = 3.753" (non-breaking around "=", so a narrow cell wraps only between parameters). */
+export function paramsText(d: PriorDistribution): string {
+  if (d.family === 'half-normal') return `scale\u00a0=\u00a0${formatNumber(d.scale)}`
+  return FAMILY_PARAMS[d.family].map((p) => `${p.symbol}\u00a0=\u00a0${formatNumber(paramOf(d, p.key))}`).join(', ')
+}
+
+/** The distribution in words with its parameters: "Normal(mean 3.2, sd 1.1)"; "—" for none. */
+export function describeDistribution(d: PriorDistribution | null | undefined): string {
+  if (!d) return '—'
+  const n = (x: number) => formatNumber(x, 6)
+  switch (d.family) {
+    case 'normal':
+      return `Normal(mean ${n(d.mu)}, sd ${n(d.sigma)})`
+    case 'student-t':
+      return `Student-t(df ${formatNumber(d.df)}, location ${n(d.mu)}, scale ${n(d.sigma)})`
+    case 'lognormal':
+      return `Lognormal(meanlog ${n(d.meanlog)}, sdlog ${n(d.sdlog)})`
+    case 'gamma':
+      return `Gamma(shape ${n(d.shape)}, rate ${n(d.rate)})`
+    case 'beta':
+      return `Beta(${n(d.alpha)}, ${n(d.beta)})`
+    case 'scaled-beta':
+      return `Beta(${n(d.alpha)}, ${n(d.beta)}) on [${formatNumber(d.lower)}, ${formatNumber(d.upper)}]`
+    case 'uniform':
+      return `Uniform(${n(d.lower)}, ${n(d.upper)})`
+    case 'half-normal':
+      return `Half-normal(scale ${n(d.scale)})`
+  }
 }

@@ -1,0 +1,249 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { openBrowser, signInAs, type BrowserSession, completeEntry, field, inPage, keepFailureEvidence } from '../support/browser'
+import { expectAccessible } from '../support/axe'
+import { expectPhoneLayout } from '../support/phone'
+
+/**
+ * Shares of a whole in chromium, in the Kestrel Valley household-uptake scenario: the analyst groups three proportion
+ * quantities of a new study into a composition on the quantities screen (inline errors first), reorders and saves it;
+ * a round asks the three shares; one expert answers on a 360 px phone and sees the total of their shares live, the
+ * other answers through the API; the analyst reconciles two shares through the API and the last on its reconcile
+ * screen, where the Dirichlet fitted to the three reconciled shares appears with its mismatch and model code.
+ */
+
+const TAG = `joint-${Date.now() % 100000}`
+const SHARES = [
+  { name: 'Join the leak-alert scheme', symbol: 'p_alert' },
+  { name: 'Ask for a smart meter only', symbol: 'p_meter' },
+  { name: 'Decline both offers', symbol: 'p_decline' },
+]
+
+interface Setup {
+  studyId: number
+  quantityIds: number[]
+}
+
+let s: BrowserSession
+let expert: BrowserSession
+let setup: Setup
+let roundId: number
+
+/** Quantile answers (plausible range, median, quartiles) of the two experts, share by share. */
+const ANSWERS = {
+  expert1: [[0.1, 0.6, 0.3, 0.22, 0.38], [0.05, 0.4, 0.18, 0.13, 0.24], [0.25, 0.8, 0.55, 0.47, 0.62]],
+  expert2: [[0.15, 0.55, 0.35, 0.3, 0.4], [0.05, 0.3, 0.15, 0.11, 0.19], [0.2, 0.75, 0.5, 0.44, 0.56]],
+}
+
+/** Fills the quantile steps of the item on show: range, middle value, quartiles. */
+async function answerQuantile(page: Page, [lower, upper, median, q1, q3]: number[]): Promise<void> {
+  await field(page, 'q-lower').fill(String(lower))
+  await field(page, 'q-upper').fill(String(upper))
+  await page.getByTestId('q-next').click()
+  await field(page, 'q-median').fill(String(median))
+  await page.getByTestId('q-next').click()
+  await field(page, 'q-q1').fill(String(q1))
+  await field(page, 'q-q3').fill(String(q3))
+  await expect.poll(() => page.getByTestId('feedback-card').getAttribute('data-ready')).toBe('true')
+  await field(page, 'rationale').fill('Take-up of the meter offer in the 2024 survey of the Board’s customers.')
+}
+
+beforeAll(async () => {
+  s = await openBrowser()
+})
+keepFailureEvidence('compositions', () => ({ analyst: s, expert }))
+afterAll(async () => {
+  await s?.close()
+  await expert?.close()
+})
+
+describe('compositions', () => {
+  it('the analyst builds a three-share composition on the quantities screen, with inline errors first', async () => {
+    const { page } = s
+    await signInAs(s, 'analyst@kestrel.example')
+    await page.waitForURL(/\/studies$/)
+    setup = await inPage(page, async (call, { tag, shares }) => {
+      const study = await call<{ id: number }>('POST', '/api/studies', { title: `${tag} household uptake`, context: 'How Kestrel Valley households would answer the leak-alert and smart-meter offer.' })
+      const quantityIds: number[] = []
+      for (const q of shares) {
+        const made = await call<{ id: number }>('POST', `/api/studies/${study.id}/quantities`, {
+          ...q, question: `Of the households in the Kestrel Valley pilot area offered the scheme, what share would answer: ${q.name.toLowerCase()}?`, support: { kind: 'proportion' },
+        })
+        quantityIds.push(made.id)
+      }
+      await call('POST', `/api/studies/${study.id}/quantities`, {
+        name: 'Night-flow reduction', symbol: 'flow', unit: 'L/s', question: 'What will the mean reduction in night-time flow be after pressure management?', support: { kind: 'real' },
+      })
+      return { studyId: study.id, quantityIds }
+    }, { tag: TAG, shares: SHARES })
+
+    await page.goto(`${s.baseUrl}/studies/${setup.studyId}/quantities`)
+    await page.getByTestId('compositions-empty').waitFor()
+    await page.getByTestId('composition-new').click()
+    const dialog = page.getByRole('dialog', { name: 'New composition' })
+    await dialog.waitFor()
+
+    // Only the proportion quantities are offered as shares.
+    await dialog.getByTestId('composition-form-add').click()
+    const options = page.locator('.el-select-dropdown__item:visible')
+    await expect(options.allTextContents()).resolves.toEqual(SHARES.map((q) => q.name))
+    await options.filter({ hasText: SHARES[2].name }).click()
+
+    // Nothing named, one share: the form says what is missing beside each field and sends nothing.
+    await dialog.getByTestId('composition-form-submit').click()
+    await expect.poll(() => dialog.getByTestId('composition-form-name').textContent()).toContain('Enter a name')
+    await expect.poll(() => dialog.getByTestId('composition-form-shares').textContent()).toContain('Choose 2 to 10 quantities as shares')
+
+    await field(dialog, 'composition-form-name').fill('Household uptake')
+    await field(dialog, 'composition-form-wording').fill('How the pilot area’s households would answer the offer of the leak-alert scheme and smart meters.')
+    for (const q of SHARES.slice(0, 2)) {
+      await dialog.getByTestId('composition-form-add').click()
+      await page.locator('.el-select-dropdown__item:visible').filter({ hasText: q.name }).click()
+    }
+    // "Decline both offers" was added first: move it to the end.
+    await dialog.getByRole('button', { name: `Move ${SHARES[2].name} down` }).click()
+    await dialog.getByRole('button', { name: `Move ${SHARES[2].name} down` }).click()
+    await expect(dialog.getByTestId('composition-form-share-list').locator('li').allTextContents()).resolves.toEqual(SHARES.map((q) => q.name))
+    await expect.poll(() => dialog.getByTestId('composition-form-shares').textContent()).not.toContain('Choose 2 to 10')
+    await s.shot('compositions-01-dialog')
+    await expectAccessible(page, 'composition dialog')
+    await dialog.getByTestId('composition-form-submit').click()
+    await dialog.waitFor({ state: 'hidden' })
+
+    const card = page.getByTestId('composition-card')
+    await expect(card.count()).resolves.toBe(1)
+    await expect(card.getByTestId('composition-shares').locator('li').allTextContents()).resolves.toEqual(SHARES.map((q) => `${q.name} ${q.symbol}`))
+    const saved = await inPage(page, async (call, { studyId }) => call<{ shares: { quantityId: number }[] }[]>('GET', `/api/studies/${studyId}/compositions`), { studyId: setup.studyId })
+    expect(saved[0].shares.map((x) => x.quantityId)).toEqual(setup.quantityIds)
+    await s.shot('compositions-02-saved')
+  })
+
+  it('a round asks the three shares; an expert on a 360 px phone sees the total of their shares live, in plain words', async () => {
+    roundId = await inPage(s.page, async (call, { studyId, quantityIds }) => {
+      const round = await call<{ id: number }>('POST', `/api/studies/${studyId}/rounds`, {
+        title: 'Household uptake: shares of the offer', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * 864e5).toISOString(),
+        askCalibration: false, items: quantityIds.map((quantityId) => ({ quantityId, method: 'quantile' })),
+      })
+      for (const n of [1, 2]) await call('POST', `/api/rounds/${round.id}/invitations`, { email: `expert${n}@kestrel.example`, name: `Expert ${n}` })
+      await call('POST', `/api/rounds/${round.id}/open`)
+      return round.id
+    }, setup)
+
+    expert = await openBrowser({ viewport: { width: 360, height: 740 } })
+    const { page } = expert
+    await signInAs(expert, 'expert1@kestrel.example')
+    await page.waitForURL(/\/studies$/)
+    await completeEntry(page, roundId)
+    // With the declaration and the practice done, the round opens on the answering screen.
+    await page.goto(`${expert.baseUrl}/answer/${roundId}`)
+    await page.getByTestId('q-lower').waitFor()
+
+    const message = page.getByTestId('composition-sum-message')
+    await expect(page.getByTestId('composition-sum-share').allInnerTexts()).resolves.toEqual([
+      `${SHARES[0].name} (this question)\nnot answered yet`, `${SHARES[1].name}\nnot answered yet`, `${SHARES[2].name}\nnot answered yet`,
+    ])
+    await expect(message.innerText()).resolves.toBe('Once you have answered these shares, their total shows here.')
+    await answerQuantile(page, ANSWERS.expert1[0])
+    await expect.poll(() => message.innerText()).toMatch(/^Your shares so far add up to about 3\d %, which leaves about 6\d % for Ask for a smart meter only and Decline both offers\.$/)
+
+    await page.getByTestId('item-next').first().click()
+    await answerQuantile(page, ANSWERS.expert1[1])
+    await page.getByTestId('item-next').first().click()
+    // Too much for the last share first: the total goes past the whole and the box says so.
+    await answerQuantile(page, [0.25, 0.8, 0.7, 0.6, 0.75])
+    await expect.poll(() => page.getByTestId('composition-sum').getAttribute('data-tone')).toBe('check')
+    await expect(message.innerText()).resolves.toMatch(/^Your shares add up to about 1[1-2]\d %: together they claim about \d+ % more than the whole\./)
+    await check(expert, 'compositions-03-expert-too-much')
+
+    await field(page, 'q-q1').fill('0.47')
+    await field(page, 'q-q3').fill('0.62')
+    await field(page, 'q-median').fill('0.55')
+    await expect.poll(() => page.getByTestId('composition-sum').getAttribute('data-tone')).toBe('fits')
+    const shown = await message.innerText()
+    expect(shown).toMatch(/^Your shares add up to about (9[5-9]|10[0-5]) %: /)
+    await check(expert, 'compositions-04-expert-fits')
+
+    // The total is the sum of the means of the fits the server keeps (Beta means a / (a + b), rounded to a percent).
+    await expect.poll(() => page.getByTestId('save-status').first().getAttribute('data-state')).toBe('saved')
+    const fits = await inPage(page, async (call, { roundId }) => {
+      const list = await call<{ quantityId: number; fits: { distribution: { family: string; alpha?: number; beta?: number } }[]; chosenFamily: string | null }[]>('GET', `/api/rounds/${roundId}/judgements`)
+      return list.map((j) => j.fits.find((f) => f.distribution.family === j.chosenFamily) ?? j.fits[0])
+    }, { roundId })
+    expect(fits.map((f) => f.distribution.family)).toEqual(['beta', 'beta', 'beta'])
+    const sum = fits.reduce((t, f) => t + f.distribution.alpha! / (f.distribution.alpha! + f.distribution.beta!), 0)
+    expect(shown).toContain(`about ${Math.round(sum * 100)} %`)
+  })
+})
+
+describe('the joint prior on the reconcile screen', () => {
+  it('both experts submit; once the last share is reconciled the screen shows the Dirichlet, its mismatch and its model code', async () => {
+    const { page } = expert
+    await inPage(page, async (call, { roundId }) => {
+      await call('POST', `/api/rounds/${roundId}/submit`)
+    }, { roundId })
+    // The second expert answers through the API.
+    await inPage(page, async (call, { roundId, quantityIds, answers, password }) => {
+      await call('POST', '/api/auth/sign-out')
+      await call('POST', '/api/auth/sign-in', { email: 'expert2@kestrel.example', password })
+      await call('PUT', `/api/rounds/${roundId}/declaration`, { expertise: 'Customer surveys for three water companies since 2012.', interests: 'none', interestsText: '', seenPilotData: false })
+      for (const [i, quantityId] of quantityIds.entries()) {
+        const [lower, upper, median, q1, q3] = answers[i]
+        await call('PUT', `/api/rounds/${roundId}/judgements/${quantityId}`, {
+          method: 'quantile', lower, upper, points: [{ value: q1, prob: 0.25 }, { value: median, prob: 0.5 }, { value: q3, prob: 0.75 }],
+          rationale: 'Take-up of the meter offer in the 2024 survey of the Board’s customers.', version: 0,
+        })
+      }
+      await call('POST', `/api/rounds/${roundId}/submit`)
+    }, { roundId, quantityIds: setup.quantityIds, answers: ANSWERS.expert2, password: 'priorsmith-demo' })
+
+    await inPage(s.page, async (call, { quantityIds }) => {
+      for (const quantityId of quantityIds.slice(0, 2)) {
+        const view = await call<{ roundId: number }>('GET', `/api/quantities/${quantityId}/reconciliation`)
+        await call('PUT', `/api/quantities/${quantityId}/reconciliation`, {
+          roundId: view.roundId, method: 'linear', weights: 'equal', family: 'beta', reconciled: true, version: 0,
+          rationale: 'Equal weights: both experts know the Board’s customers; the beta fits the pool closely.',
+        })
+      }
+    }, { quantityIds: setup.quantityIds })
+
+    const analyst = s.page
+    await analyst.goto(`${s.baseUrl}/studies/${setup.studyId}/reconcile/${setup.quantityIds[2]}`)
+    const panel = analyst.getByTestId('composition-prior')
+    await panel.waitFor()
+    await expect(panel.getAttribute('data-ready')).resolves.toBe('false')
+    await expect(analyst.getByTestId('composition-prior-waiting').innerText()).resolves.toContain(`${SHARES[2].name} (this quantity)`)
+
+    await analyst.locator('[data-testid="fit-row"][data-family="beta"]').getByTestId('fit-choose').click()
+    await field(analyst, 'rationale').fill('Equal weights: both experts know the Board’s customers; the beta fits the pool closely.')
+    await analyst.getByTestId('mark-reconciled').click()
+    await analyst.locator('[data-testid="reconcile-status"][data-status="reconciled"]').waitFor()
+    await analyst.locator('[data-testid="composition-prior"][data-ready="true"]').waitFor()
+
+    const prior = await inPage(analyst, async (call, { studyId }) => {
+      const [whole] = await call<{ id: number }[]>('GET', `/api/studies/${studyId}/compositions`)
+      return call<{ fit: { alpha: number[]; mismatch: number[] }; modelCode: { language: string; code: string }[] }>('GET', `/api/compositions/${whole.id}/dirichlet`)
+    }, { studyId: setup.studyId })
+    expect(prior.fit.alpha).toHaveLength(3)
+    await expect(analyst.getByTestId('composition-prior-row').count()).resolves.toBe(3)
+    const alphas = (await analyst.getByTestId('composition-prior-alpha').allInnerTexts()).map(Number)
+    alphas.forEach((a, i) => expect(a).toBeCloseTo(prior.fit.alpha[i], 2))
+    await expect(analyst.getByTestId('composition-model-code').evaluateAll((els) => els.map((e) => e.getAttribute('data-language')))).resolves.toEqual(['stan', 'pymc', 'jags', 'brms'])
+    await expect(analyst.getByTestId('composition-model-code').first().innerText()).resolves.toBe(prior.modelCode[0].code)
+    await expect(analyst.getByTestId('composition-model-check').evaluateAll((els) => els.map((e) => e.getAttribute('data-ok')))).resolves.toEqual(['true', 'true', 'true', 'true'])
+
+    const [download] = await Promise.all([analyst.waitForEvent('download'), analyst.locator('[data-testid="composition-model-download"][data-language="stan"]').click()])
+    expect(download.suggestedFilename()).toBe('household_uptake.stan')
+    await analyst.getByTestId('composition-prior').scrollIntoViewIfNeeded()
+    await s.shot('compositions-05-reconcile-dirichlet')
+    await expectAccessible(analyst, 'composition joint prior on the reconcile screen')
+  })
+})
+
+/** The expert's page fits the phone and passes axe; a screenshot of what the expert sees. */
+async function check(session: BrowserSession, name: string): Promise<void> {
+  await session.page.mouse.move(0, 0)
+  await session.page.getByTestId('composition-sum').scrollIntoViewIfNeeded()
+  await session.shot(name)
+  await expectPhoneLayout(session.page, name)
+  await expectAccessible(session.page, name)
+}
