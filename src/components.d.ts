@@ -11,6 +11,7 @@ export {}
 /* prettier-ignore */
 declare module 'vue' {
   export interface GlobalComponents {
+    AlphaChart: typeof import('./components/impact/AlphaChart.vue')['default']
     AnswerConflict: typeof import('./components/answer/AnswerConflict.vue')['default']
     AnsweringPanel: typeof import('./components/answer/AnsweringPanel.vue')['default']
     AnswerLine: typeof import('./components/answer/AnswerLine.vue')['default']

@@ -9,6 +9,8 @@ export interface ImpactTask {
   reconciled: Distribution | null
   support: Support
   factors: number[]
+  /** Training fraction b of the fractional Bayes factors; null: m₀/n. */
+  trainingFraction?: number | null
   n: number
 }
 
@@ -27,8 +29,8 @@ export function computeImpact(t: ImpactTask, onProgress: (done: number) => void 
   const started = Date.now()
   let done = 0
   const step = () => onProgress(++done)
-  const candidates = evaluateCandidates(t.candidates, t.data, t.decision, step)
-  const sweep = t.reconciled ? sweepOf(t.reconciled, t.data, t.support, t.factors, step) : null
+  const candidates = evaluateCandidates(t.candidates, t.data, t.decision, t.trainingFraction ?? null, step)
+  const sweep = t.reconciled ? sweepOf(t.reconciled, t.data, t.support, t.factors, t.trainingFraction ?? null, step) : null
   if (sweep?.priorDriven) candidates.find((c) => c.kind === 'reconciled')?.flags.push('prior-driven-bayes-factor')
   const tipping = t.reconciled && t.decision ? tippingPoint(t.reconciled, t.data, t.decision, t.support) : null
   if (tipping) step()

@@ -96,7 +96,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
     p(`Study owner: ${content.study.owner}`),
     p(`Dates and times are given in the ${tz} time zone, except a round’s window, which is given in the round’s own time zone when it has one.`, { size: 20 }),
     outline.heading('2. Expert panel', 1),
-    p(content.namesShown ? 'Experts are named at the analyst’s choice.' : 'Experts are identified by a label (Expert A, Expert B, …) that is the same throughout the study; names are kept by the study team.'),
+    p(content.namesShown ? 'Experts are named at the analyst’s choice.' : 'Experts are identified by a label (Expert 1, Expert 2, …) that is the same throughout the study; names are kept by the study team.'),
     table(['Expert', 'Round', 'Expertise', 'Interests declared', 'Had seen pilot data'], (content.panel as Json[]).flatMap((e) =>
       (e.declarations.length ? e.declarations : [{ round: null, expertise: 'No declaration recorded', interests: null, interestsText: '', seenPilotData: null }]).map((d: Json) => [
         expertName(e), d.round === null ? '—' : String(d.round), d.expertise, d.interests === 'described' ? d.interestsText : d.interests === 'none' ? 'None' : '—',
@@ -138,6 +138,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       ...(q.combination
         ? [
           p(`Method: ${label(POOL_METHOD_LABELS, q.combination.method)}; ${label(WEIGHTS_LABELS, q.combination.weightsMode).toLowerCase()}${q.combination.weightsReason ? ` (${q.combination.weightsReason})` : ''}${q.combination.weightsMode === 'performance' ? `; calibration cutoff ${formatProbability(q.combination.cutoff)}` : ''}.`),
+          ...(q.combination.expertWeights?.length ? [p(`Weights: ${q.combination.expertWeights.map((w: Json) => `${expertName(w.expert)} ${formatProbability(w.weight)}`).join('; ')}.`)] : []),
           ...(q.combination.excludedExperts?.length ? [p(`Left out of the combination: ${q.combination.excludedExperts.join(', ')}.`)] : []),
           ...(q.combination.weightCautions ?? []).map((c: string) => p(`Caution: ${c}`, { color: '8A5A12' })),
           ...(q.combination.adjusted ? [p(`Parameters adjusted by hand: ${q.combination.adjustReason}`)] : []),

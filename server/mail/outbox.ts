@@ -77,6 +77,7 @@ export async function listOutbox(
     kind: r.kind,
     to: r.to_address,
     toName: r.to_name,
+    expertLabel: null,
     subject: r.subject,
     status: r.status,
     attempts: r.attempts,

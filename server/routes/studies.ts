@@ -5,7 +5,7 @@ import { currentUser, requireAuth, requireRole } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { idParam } from '../http/id-param'
 import { validateBody } from '../http/validate-body'
-import { allow, studyAccess } from '../services/access'
+import { allow, canAnalyse, studyAccess } from '../services/access'
 import { addMember, createStudy, getStudyDetail, listStudiesFor, removeMember, studyAudit, updateStudy } from '../services/studies'
 
 export function studiesRouter(db: Db): Router {
@@ -51,7 +51,7 @@ export function studiesRouter(db: Db): Router {
   r.get('/:id/audit', async (req, res) => {
     const access = await studyAccess(db, currentUser(req), idParam(req.params.id, 'Study'))
     allow(access, 'analyst', 'reviewer')
-    res.json(await studyAudit(db, access.studyId))
+    res.json(await studyAudit(db, access.studyId, { withNames: canAnalyse(access) }))
   })
 
   return r

@@ -6,6 +6,10 @@ export interface StudyExpertLabels {
   ofUser(userId: number): string
   /** The label of a panel member, account or not (progress of a round). */
   ofPanelMember(member: { userId: number | null; email: string }): string
+  /** Whether an account is one of the study's experts (on a panel, or with an answer). */
+  isExpert(userId: number): boolean
+  /** The label of the expert an e-mail address belongs to (the outbox), or null for anyone not on a panel. */
+  ofAddress(email: string): string | null
 }
 
 const keyOf = (userId: number | null, email: string) => (userId ? `user:${userId}` : `email:${email.toLowerCase()}`)
@@ -27,8 +31,14 @@ export async function studyExpertLabels(db: Db, studyId: number): Promise<StudyE
     ...answered.map((a) => keyOf(a.expert_id, '')),
   ])
   const lookup = (key: string) => labels.get(key) ?? 'Expert ?'
+  const addresses = new Map(panel.map((p) => [String(p.email).toLowerCase(), rowKey(p.user_id, p.email)]))
   return {
     ofUser: (userId) => lookup(keyOf(userId, '')),
     ofPanelMember: (m) => lookup(rowKey(m.userId, m.email)),
+    isExpert: (userId) => labels.has(keyOf(userId, '')),
+    ofAddress: (email) => {
+      const key = addresses.get(email.toLowerCase())
+      return key ? lookup(key) : null
+    },
   }
 }

@@ -23,6 +23,8 @@ export interface ImpactInput {
   decision?: DecisionRule | null
   factors?: number[]
   excludedExperts?: number[]
+  /** Training fraction b of the fractional Bayes factors; null or absent: m₀/n. */
+  trainingFraction?: number | null
 }
 
 function checkedDistribution(d: unknown, field: string): Distribution {
@@ -101,7 +103,7 @@ export async function submitImpact(db: Db, queue: AnalysisQueue, user: User, qua
   const data = dataset.data as PilotData
   const factors = input.factors ?? SWEEP_FACTORS
   // Everything the numbers depend on: the data, every candidate prior (the final one included), the options and the engine.
-  const hashInput = { datasetSha: dataset.sha256, datasetId: dataset.id, datasetVersion: dataset.version, candidates: list, decision: input.decision ?? null, factors, support, engine: ENGINE_VERSION }
+  const hashInput = { datasetSha: dataset.sha256, datasetId: dataset.id, datasetVersion: dataset.version, candidates: list, decision: input.decision ?? null, factors, trainingFraction: input.trainingFraction ?? null, support, engine: ENGINE_VERSION }
   const inputHash = createHash('sha256').update(canonicalJson(hashInput)).digest('hex')
   const row = { quantity_id: quantityId, dataset_id: dataset.id, input_hash: inputHash, input: JSON.stringify(input), created_by: user.id }
 
@@ -113,7 +115,7 @@ export async function submitImpact(db: Db, queue: AnalysisQueue, user: User, qua
 
   const n = dataSize(data)
   const task: ImpactJobTask = {
-    compute: { candidates: list, data, decision: input.decision ?? null, reconciled, support, factors, n },
+    compute: { candidates: list, data, decision: input.decision ?? null, reconciled, support, factors, trainingFraction: input.trainingFraction ?? null, n },
     studyId: quantity.studyId,
     priorHash: reconciled ? priorHash(reconciled) : null,
     resultBase: {

@@ -44,8 +44,12 @@ async function expertFits(db: Db, roundId: number, quantityId: number) {
   })
 }
 
-/** Calibration data for Cooke's model: questions with a known answer that every listed expert answered (latest answer). */
-async function calibrationData(db: Db, studyId: number, expertIds: number[]) {
+/**
+ * Calibration data for Cooke's model: questions with a known answer that every listed expert answered (latest answer),
+ * each expert under the study's label so that the engine's messages name them as every screen does.
+ */
+async function calibrationData(db: Db, studyId: number, listed: { expertId: number; label: string }[]) {
+  const expertIds = listed.map((e) => e.expertId)
   const questions = await db('calibration_questions').where({ study_id: studyId }).whereNotNull('true_value').select('id', 'true_value').orderBy(['position', 'id'])
   const answers = await db('calibration_answers').whereIn('expert_id', expertIds).whereIn('question_id', questions.map((q) => q.id))
     .select('question_id', 'expert_id', 'q05', 'q50', 'q95').orderBy('updated_at')
@@ -55,8 +59,13 @@ async function calibrationData(db: Db, studyId: number, expertIds: number[]) {
   return {
     questionCount: usable.length,
     realizations: usable.map((q) => q.true_value as number),
-    experts: expertIds.map((e) => ({ id: String(e), assessments: usable.map((q) => latest.get(`${q.id}:${e}`)!) })),
+    experts: listed.map(({ expertId, label }) => ({ id: String(expertId), label, assessments: usable.map((q) => latest.get(`${q.id}:${expertId}`)!) })),
   }
+}
+
+/** The experts a saved reconciliation's weights belong to, in the order of its weights: the round's fitted experts, minus those left out. */
+export async function weightedExpertIds(db: Db, rec: { quantity_id: number; round_id: number; excluded_experts: number[] }): Promise<number[]> {
+  return (await expertFits(db, rec.round_id, rec.quantity_id)).filter((e) => !rec.excluded_experts.includes(e.expertId)).map((e) => e.expertId)
 }
 
 /**
@@ -66,7 +75,7 @@ async function calibrationData(db: Db, studyId: number, expertIds: number[]) {
 export async function savedWeightCautions(db: Db, rec: { quantity_id: number; round_id: number; weights_mode: string; excluded_experts: number[] }, studyId: number): Promise<string[]> {
   if (rec.weights_mode !== 'performance') return []
   const experts = (await expertFits(db, rec.round_id, rec.quantity_id)).filter((e) => !rec.excluded_experts.includes(e.expertId))
-  const cal = await calibrationData(db, studyId, experts.map((e) => e.expertId))
+  const cal = await calibrationData(db, studyId, experts)
   return performanceWeightCautions(cal.questionCount, experts.length)
 }
 
@@ -91,7 +100,7 @@ async function evaluate(db: Db, quantityId: number, settings: Settings) {
   const support = quantity.support
   const experts = await expertFits(db, settings.roundId, quantityId)
   const included = experts.filter((e) => !settings.excludedExperts.includes(e.expertId))
-  const cal = await calibrationData(db, quantity.studyId, included.map((e) => e.expertId))
+  const cal = await calibrationData(db, quantity.studyId, included)
   const performance = performanceScores(cal, settings.cutoff)
   const components: Component[] = included.map((e) => ({ expertId: e.expertId, label: e.label, distribution: e.distribution }))
   const problems: Record<string, string> = {}
@@ -126,7 +135,7 @@ async function evaluate(db: Db, quantityId: number, settings: Settings) {
     quantity, support, experts, included: components.map((c) => c.expertId), weights, pool, fits, leaveOneOut: loo,
     disagreements: disagreements(components), consensusCheck, problems,
     weightCautions: settings.method !== 'consensus' && settings.weights === 'performance' ? performanceWeightCautions(cal.questionCount, components.length) : [],
-    calibration: { questionCount: cal.questionCount, cutoff: settings.cutoff, scores: performance, realizations: cal.realizations, assessments: cal.experts },
+    calibration: { questionCount: cal.questionCount, cutoff: settings.cutoff, scores: performance, realizations: cal.realizations, assessments: cal.experts.map(({ id, assessments }) => ({ id, assessments })) },
   }
 }
 

@@ -7,7 +7,7 @@ import { BUILD_INFO } from '../build-info'
 import { studyExpertLabels } from './expert-labels'
 import { priorHash } from './impact'
 import { supportFromRow } from './quantities'
-import { savedWeightCautions } from './reconciliation'
+import { savedWeightCautions, weightedExpertIds } from './reconciliation'
 
 export const RECORD_SCHEMA_ID = 'https://priorsmith.example/schemas/prior-record-1.json'
 export const RECORD_SCHEMA_VERSION = '1.1'
@@ -60,7 +60,14 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
   const calibrationQuestions = await db('calibration_questions').where({ study_id: studyId }).orderBy(['position', 'id'])
 
   const weightCautions = new Map<number, string[]>()
-  for (const rec of recs) weightCautions.set(rec.quantity_id, await savedWeightCautions(db, rec, studyId))
+  // Each weight under its expert's label: the label comes from the expert, never from a position in a list.
+  const expertWeights = new Map<number, { expert: ReturnType<typeof who>; weight: number }[]>()
+  for (const rec of recs) {
+    weightCautions.set(rec.quantity_id, await savedWeightCautions(db, rec, studyId))
+    const weights = (rec.weights ?? []) as number[]
+    const ids = rec.method === 'consensus' ? [] : await weightedExpertIds(db, rec)
+    expertWeights.set(rec.quantity_id, ids.length === weights.length ? ids.map((id, i) => ({ expert: who(id), weight: weights[i] })) : [])
+  }
 
   const quantityRecords = quantities.map((q) => {
     const rec = recs.find((r) => r.quantity_id === q.id)
@@ -100,6 +107,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
         weightsReason: rec.weights_reason, cutoff: rec.cutoff, excludedExperts: (rec.excluded_experts as number[]).map((id) => who(id).code),
         consensus: rec.consensus, fitsOfCombination: rec.fits, adjusted: rec.adjusted, adjustReason: rec.adjust_reason, rationale: rec.rationale, status: rec.status,
         weightCautions: weightCautions.get(q.id) ?? [],
+        expertWeights: expertWeights.get(q.id) ?? [],
       } : null,
       finalPrior: final ? {
         distribution: final, ...summary(final),

@@ -3,6 +3,7 @@ import type { Role, StudyRole, StudySummary, User } from '../../shared/types/ind
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
+import { studyExpertLabels } from './expert-labels'
 
 export type QuantityStage = 'framed' | 'judged' | 'reconciled' | 'in-record'
 
@@ -157,9 +158,18 @@ export async function removeMember(db: Db, actor: User, studyId: number, userId:
   })
 }
 
-/** The study's audit trail, newest first. */
-export async function studyAudit(db: Db, studyId: number, limit = 200) {
+/**
+ * The study's audit trail, newest first. An expert of the study acts under their study-wide label, with the name
+ * beside it only for those who run the panel (`withNames`: analysts and admins).
+ */
+export async function studyAudit(db: Db, studyId: number, options: { withNames: boolean }, limit = 200) {
   const rows = await db('audit_events as a').leftJoin('users as u', 'u.id', 'a.actor_id').where('a.study_id', studyId)
-    .select('a.id', 'a.at', 'a.action', 'a.subject', 'a.details', 'a.hash', 'u.display_name as actorName').orderBy('a.id', 'desc').limit(limit)
-  return rows.map((r) => ({ id: Number(r.id), at: new Date(r.at).toISOString(), action: r.action, subject: r.subject, details: r.details, actorName: r.actorName ?? 'system', hash: r.hash }))
+    .select('a.id', 'a.at', 'a.action', 'a.subject', 'a.details', 'a.hash', 'a.actor_id', 'u.display_name as actorName').orderBy('a.id', 'desc').limit(limit)
+  const labels = await studyExpertLabels(db, studyId)
+  const actor = (id: number | null, name: string | null) => {
+    if (!id || !name) return name ?? 'system'
+    if (!labels.isExpert(id)) return name
+    return options.withNames ? `${labels.ofUser(id)} (${name})` : labels.ofUser(id)
+  }
+  return rows.map((r) => ({ id: Number(r.id), at: new Date(r.at).toISOString(), action: r.action, subject: r.subject, details: r.details, actorName: actor(r.actor_id, r.actorName), hash: r.hash }))
 }

@@ -7,6 +7,8 @@ export interface OutboxMessage {
   kind: string
   to: string
   toName: string | null
+  /** The study-wide label of the expert the message went to; null for anyone not on the study's panels. */
+  expertLabel: string | null
   subject: string
   status: OutboxStatus
   attempts: number

@@ -1,6 +1,8 @@
 import {
-  analyzePrior, bayesFactor, CONFLICT_LEVEL, decimalSum, EngineInputError, mean as distMean, mixture, mixtureQuantile, posteriorOf, PRIOR_DRIVEN_RULE, quantile,
-  toUnivariate, widthSweep, type Analysis, type PilotData, type Pool, type Posterior, type PriorDistribution, type Support,
+  analyzePrior, bayesFactor, CONFLICT_LEVEL, decimalSum, EngineInputError, fractionalBayesFactors, mean as distMean, mixture,
+  mixtureQuantile, POWER_SCALING_THRESHOLD, posteriorOf, powerScalingSensitivity, PRIOR_DRIVEN_CONVENTION, PRIOR_DRIVEN_RULE, priorPowerCurve, quantile,
+  toUnivariate, widthSweep, type Analysis, type CandidatePrior, type FractionalBayesFactor, type PilotData, type Pool, type Posterior, type PowerScaledPoint,
+  type PowerScalingSensitivity, type PriorDistribution, type Support,
 } from '../stats/index'
 import { formatNumber } from '../format/numbers'
 
@@ -36,8 +38,39 @@ export interface CandidateResult {
   logPriorPredictiveP: number
   priorEss: number | null
   bayesFactor: { logBF: number; twoLnBF: number; label: string } | null
+  /** Fractional Bayes factor against the comparison prior with its training fraction b; null for the comparison prior itself. */
+  fractionalBayesFactor: FractionalBayesFactor | null
+  /** Power-scaling sensitivity of the posterior to the prior and to the likelihood, with its reading. */
+  sensitivity: PowerScalingSensitivity | null
+  /** Why the fractional Bayes factor or the sensitivity is missing, in words; empty when both are there. */
+  diagnosticNotes: string[]
   decision: { probability: number; act: boolean } | null
   flags: string[]
+}
+
+/** Powers α of the α-curve: 0.5 to 2, evenly spaced on a log scale (docs/methods/sensitivity.md). */
+export const ALPHA_CURVE_POWERS = [-4, -3, -2, -1, 0, 1, 2, 3, 4].map((k) => 2 ** (k / 4))
+
+/** The caution that goes with both diagnostics wherever they are shown. */
+export const DIAGNOSTICS_CAUTION =
+  'The fractional Bayes factor and the power-scaling sensitivities are aids to judgement, not tests: they say how much a conclusion leans on the prior, not which prior is right. Regulatory guidance on the choice of priors still applies.'
+
+/** A candidate as the sensitivity tools take it: its distribution, or the robust mixture it stands for. */
+function candidatePrior(c: CandidateInput): CandidatePrior {
+  return c.mixture ? { family: 'mixture', components: [...c.mixture.components], weights: [...c.mixture.weights] } : c.prior
+}
+
+/** Runs one diagnostic; an input error the engine raises becomes a note instead of stopping the whole analysis. */
+function attempt<T>(notes: string[], what: string, run: () => T): T | null {
+  try {
+    return run()
+  } catch (err) {
+    if (err instanceof EngineInputError) {
+      notes.push(`${what} could not be computed: ${err.message}`)
+      return null
+    }
+    throw err
+  }
 }
 
 /** The robust mixture's name with the weight on its wide component: "Robust mixture (20 % on the wide component)". */
@@ -122,10 +155,12 @@ export function dataSize(data: PilotData): number {
 }
 
 /**
- * Every candidate prior against the pilot data: posterior, evidence, Bayes factor against the comparison prior, checks.
- * `onStep` is called after each candidate (a progress report).
+/**
+ * Every candidate prior against the pilot data: posterior, evidence, ordinary and fractional Bayes factors against the
+ * comparison prior (training fraction b, default m₀/n), power-scaling sensitivity, checks. `onStep` is called after
+ * each candidate (a progress report).
  */
-export function evaluateCandidates(candidates: CandidateInput[], data: PilotData, rule: DecisionRule | null, onStep?: () => void): CandidateResult[] {
+export function evaluateCandidates(candidates: CandidateInput[], data: PilotData, rule: DecisionRule | null, trainingFraction: number | null = null, onStep?: () => void): CandidateResult[] {
   const n = dataSize(data)
   const results: CandidateResult[] = candidates.map((c): CandidateResult => {
     const { analysis, post } = namedFor(c, () => (c.mixture ? mixtureAnalysis(c.mixture, data) : { analysis: analyzePrior(c.prior, data), post: posteriorOf(c.prior, data) }))
@@ -138,6 +173,7 @@ export function evaluateCandidates(candidates: CandidateInput[], data: PilotData
       key: c.key, label: c.label, kind: c.kind, prior: c.prior, priorSummary: priorSummaryOf(c),
       logEvidence: analysis.logEvidence, method: analysis.method, posterior: analysis.posterior,
       priorPredictiveP: analysis.priorPredictiveP, logPriorPredictiveP: analysis.logPriorPredictiveP, priorEss: analysis.priorEss, bayesFactor: null,
+      fractionalBayesFactor: null, sensitivity: null, diagnosticNotes: [],
       decision: rule && probability !== null ? { probability, act: probability > rule.probability } : null, flags,
     }
   })
@@ -148,8 +184,26 @@ export function evaluateCandidates(candidates: CandidateInput[], data: PilotData
       const bf = bayesFactor(r.logEvidence, comparison.logEvidence)
       r.bayesFactor = { logBF: bf.logBF, twoLnBF: bf.twoLnBF, label: bf.label }
     }
+    addFractionalBayesFactors(candidates, results, data, trainingFraction)
   }
+  results.forEach((r, i) => {
+    r.sensitivity = attempt(r.diagnosticNotes, 'The power-scaling sensitivity', () => powerScalingSensitivity(candidatePrior(candidates[i]), data))
+  })
   return results
+}
+
+/** Each candidate's fractional Bayes factor against the comparison prior (O'Hagan 1995), b = m₀/n unless the analyst set it. */
+function addFractionalBayesFactors(candidates: CandidateInput[], results: CandidateResult[], data: PilotData, trainingFraction: number | null): void {
+  const reference = candidatePrior(candidates.find((c) => c.kind === 'comparison')!)
+  const others = candidates.map((c, i) => ({ prior: candidatePrior(c), result: results[i] })).filter((o) => o.result.kind !== 'comparison')
+  const b = trainingFraction ?? undefined
+  // All at once computes the comparison prior's part once; one by one only when some candidate cannot be computed.
+  const together = attempt([], '', () => fractionalBayesFactors(others.map((o) => o.prior), reference, data, b))
+  others.forEach((o, i) => {
+    o.result.fractionalBayesFactor = together
+      ? together[i]
+      : attempt(o.result.diagnosticNotes, 'The fractional Bayes factor', () => fractionalBayesFactors([o.prior], reference, data, b)[0])
+  })
 }
 
 /** Runs one candidate's computation; an input error names the candidate (its key as the field, its label in the message). */
@@ -164,20 +218,49 @@ function namedFor<T>(c: CandidateInput, run: () => T): T {
 
 export interface SweepSummary {
   factors: number[]
-  points: { factor: number; logEvidence: number; posteriorMean: number; q025: number; q975: number }[]
+  /**
+   * logBF and logFractionalBF: ln of the ordinary and of the fractional Bayes factor (training fraction `trainingFraction`)
+   * of the widened prior against the prior as it stands (k = 1); logFractionalBF is null when it cannot be computed
+   * (`notes` says why).
+   */
+  points: { factor: number; logEvidence: number; logBF: number; logFractionalBF: number | null; posteriorMean: number; q025: number; q975: number }[]
   evidenceRatio: number
+  /** The fractional Bayes factor's largest over smallest value across k = 0.5–2, the counterpart of evidenceRatio. */
+  fractionalRatio: number | null
+  /** Training fraction b of the fractional Bayes factor curve. */
+  trainingFraction: number | null
   priorDriven: boolean
   rule: string
+  /** Posterior mean and 90 % interval with the prior raised to each power α of ALPHA_CURVE_POWERS. */
+  alphaCurve: PowerScaledPoint[] | null
+  /** Why the fractional curve or the α-curve is missing, in words. */
+  notes: string[]
 }
 
-export function sweepOf(prior: PriorDistribution, data: PilotData, support: Support, factors = SWEEP_FACTORS, onStep?: () => void): SweepSummary {
+/**
+ * The width sweep of a prior (evidence and posterior against the spread factor k), the fractional Bayes factor of each
+ * widened prior against the prior itself, and the posterior against the power α on the prior. `onStep` is called after
+ * each width (a progress report).
+ */
+export function sweepOf(prior: PriorDistribution, data: PilotData, support: Support, factors = SWEEP_FACTORS, trainingFraction: number | null = null, onStep?: () => void): SweepSummary {
   const s = widthSweep(prior, data, factors, support, onStep)
+  const reference = s.points.find((p) => p.factor === 1)?.logEvidence ?? analyzePrior(prior, data, { skipPredictiveCheck: true }).logEvidence
+  const notes: string[] = []
+  const fractional = attempt(notes, 'The fractional Bayes factor curve', () => fractionalBayesFactors(s.points.map((p) => p.prior), prior, data, trainingFraction ?? undefined))
+  const inRange = fractional?.filter((_, i) => factors[i] >= PRIOR_DRIVEN_CONVENTION.fromFactor && factors[i] <= PRIOR_DRIVEN_CONVENTION.toFactor).map((f) => f.logBF) ?? []
   return {
     factors,
-    points: s.points.map((p) => ({ factor: p.factor, logEvidence: p.logEvidence, posteriorMean: p.posteriorMean, q025: p.q025, q975: p.q975 })),
+    points: s.points.map((p, i) => ({
+      factor: p.factor, logEvidence: p.logEvidence, logBF: p.logEvidence - reference, logFractionalBF: fractional ? fractional[i].logBF : null, posteriorMean: p.posteriorMean, q025: p.q025, q975: p.q975,
+    })),
     evidenceRatio: s.evidenceRatio,
+    // The prior itself (k = 1, ln FBF = 0) belongs to the range whether or not the factors include it.
+    fractionalRatio: fractional ? Math.exp(Math.max(0, ...inRange) - Math.min(0, ...inRange)) : null,
+    trainingFraction: fractional ? fractional[0].b : null,
     priorDriven: s.priorDriven,
     rule: PRIOR_DRIVEN_RULE,
+    alphaCurve: attempt(notes, 'The posterior against the power on the prior', () => priorPowerCurve(prior, data, ALPHA_CURVE_POWERS)),
+    notes,
   }
 }
 
@@ -204,11 +287,42 @@ export function findings(results: CandidateResult[], sweep: SweepSummary | null,
         ` (${relative < 0.1 ? 'barely' : relative < 0.5 ? 'a little' : 'noticeably'}) and ${ratio >= 1 ? 'divides' : 'multiplies'} the evidence by about ${formatNumber(ratio >= 1 ? ratio : 1 / ratio, 3)}.`,
       )
     }
-    if (sweep.priorDriven) out.push('A Bayes factor built on this prior reflects its width more than the data: the evidence changes more than 3× across widths 0.5–2× while the posterior hardly moves.')
+    const fractional = base?.logFractionalBF != null && wide?.logFractionalBF != null ? Math.exp(wide.logFractionalBF - base.logFractionalBF) : null
+    if (base && wide && fractional !== null) {
+      const ratio = Math.exp(base.logEvidence - wide.logEvidence)
+      const change = Math.abs(fractional - 1)
+      out.push(
+        `Over the same widening the fractional Bayes factor (training fraction b = ${formatNumber(sweep.trainingFraction!, 3)}) ` +
+        (change < 0.1
+          ? `stays level (it changes by ${change < 0.001 ? 'less than 0.1' : (change * 100).toFixed(1)} %), where the ordinary Bayes factor changes by a factor of about ${formatNumber(ratio >= 1 ? ratio : 1 / ratio, 3)}.`
+          : `changes by a factor of ${formatNumber(fractional >= 1 ? fractional : 1 / fractional, 3)}, against about ${formatNumber(ratio >= 1 ? ratio : 1 / ratio, 3)} for the ordinary Bayes factor.`),
+      )
+    }
+    if (sweep.priorDriven) {
+      out.push(
+        'A Bayes factor built on this prior reflects its width more than the data: the evidence changes more than 3× across widths 0.5–2× while the posterior hardly moves.' +
+        (sweep.trainingFraction !== null ? ' The fractional Bayes factor, which does not hang on the width, is the alternative to report.' : ''),
+      )
+    }
+    for (const note of sweep.notes) out.push(`Reconciled prior: ${note}`)
   }
   for (const r of results) {
     if (r.flags.includes('prior-dominates')) out.push(`${r.label}: the prior carries more information than the pilot data (prior effective sample size ${formatNumber(r.priorEss!, 3)} against n = ${formatNumber(n, 3)}).`)
     if (r.flags.includes('prior-data-conflict')) out.push(`${r.label}: the pilot data sit in the tail of what this prior predicts (Box's prior predictive p ${formatSmallP(r.logPriorPredictiveP)}); prior and data conflict.`)
+    const sens = r.sensitivity
+    if (sens?.diagnosis === 'prior-data-conflict') {
+      out.push(
+        `${r.label}: the posterior moves when either the prior or the data is given more weight (power-scaling sensitivity ${formatNumber(sens.prior, 3)} to the prior ` +
+        `and ${formatNumber(sens.likelihood, 3)} to the data, both at or above ${POWER_SCALING_THRESHOLD}): prior and data may be in conflict.`,
+      )
+    }
+    if (sens?.diagnosis === 'weak-likelihood') {
+      out.push(
+        `${r.label}: the posterior moves when the prior is given more or less weight (sensitivity ${formatNumber(sens.prior, 3)}) but hardly when the data are ` +
+        `(${formatNumber(sens.likelihood, 3)}, below ${POWER_SCALING_THRESHOLD}): the data say little here, so the prior carries the result.`,
+      )
+    }
+    for (const note of r.diagnosticNotes) out.push(`${r.label}: ${note}`)
   }
   return out
 }

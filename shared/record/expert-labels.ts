@@ -1,23 +1,17 @@
 /**
- * One anonymous label per expert of a study, used on every screen and in every export: "Expert A", "Expert B", …,
- * "Expert Z", "Expert AA", … in the order the experts first joined one of the study's panels. Joining a later round
- * never changes an earlier expert's label.
+ * One anonymous label per expert of a study, used on every screen and in every export: "Expert 1", "Expert 2", … in
+ * the order the experts first joined one of the study's panels. Joining a later round never changes an earlier
+ * expert's label, and a label never says where an expert sits in a particular table.
  */
 
-/** The letters of a 0-based index in spreadsheet-column order: 0 → A, 25 → Z, 26 → AA (common practice). */
-export function labelLetters(index: number): string {
-  if (!Number.isSafeInteger(index) || index < 0) throw new RangeError(`labelLetters: not a non-negative whole number: ${index}`)
-  let n = index
-  let out = ''
-  do {
-    out = String.fromCharCode(65 + (n % 26)) + out
-    n = Math.floor(n / 26) - 1
-  } while (n >= 0)
-  return out
+/** "Expert 1" for the first expert to join (index 0). */
+export function expertLabel(index: number): string {
+  if (!Number.isSafeInteger(index) || index < 0) throw new RangeError(`expertLabel: not a non-negative whole number: ${index}`)
+  return `Expert ${index + 1}`
 }
 
-/** "Expert A" for the first expert to join (index 0). */
-export const expertLabel = (index: number): string => `Expert ${labelLetters(index)}`
+/** What every expert label looks like: "Expert " and a whole number from 1. */
+export const EXPERT_LABEL_PATTERN = /^Expert [1-9]\d*$/
 
 /** Labels for experts given in the order they first joined the study's panels; a key seen again keeps its label. */
 export function labelExperts<K>(keysInJoinOrder: readonly K[]): Map<K, string> {

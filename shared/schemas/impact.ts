@@ -3,6 +3,9 @@ import { array, mixed, number, object, string } from 'yup'
 /** A candidate prior the analyst adds by hand: a distribution object the engine validates. */
 const distribution = mixed<Record<string, unknown>>().test('object', 'Give a distribution', (v) => v === undefined || v === null || (typeof v === 'object' && !Array.isArray(v)))
 
+/** The training fraction b of the fractional Bayes factor: strictly between 0 and 1 (O'Hagan 1995, §3). */
+export const TRAINING_FRACTION_MESSAGE = 'The training fraction b must be greater than 0 and less than 1'
+
 export const impactSchema = object({
   datasetId: number().typeError('Choose a pilot dataset').required('Choose a pilot dataset').integer().positive(),
   comparison: distribution.required('Set a comparison prior (for example a wide one) that every Bayes factor is taken against'),
@@ -15,6 +18,8 @@ export const impactSchema = object({
     probability: number().typeError('The probability must be a number').required('Enter the probability').moreThan(0, 'Between 0 and 1').lessThan(1, 'Between 0 and 1'),
   }).nullable().default(null),
   factors: array(number().required().moreThan(0, 'Width factors must be positive').max(100)).min(3).max(60).optional(),
+  /** Training fraction b of the fractional Bayes factors; null: m₀/n, the minimal training sample over the pilot n. */
+  trainingFraction: number().typeError('The training fraction b must be a number').moreThan(0, TRAINING_FRACTION_MESSAGE).lessThan(1, TRAINING_FRACTION_MESSAGE).nullable().default(null),
   /** Experts (user ids) whose priors the analysis leaves out, e.g. one whose answer cannot be computed with. */
   excludedExperts: array(number().typeError('Choose experts by their id').required().integer().positive()).max(100).default([]),
 }).noUnknown('Unknown field: ${unknown}')

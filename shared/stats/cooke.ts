@@ -67,13 +67,13 @@ function validate(input: CookeInput): void {
   if (!Array.isArray(experts) || experts.length === 0) throw new EngineInputError('experts', 'At least one expert is required.')
   for (const e of experts) {
     if (!Array.isArray(e.assessments) || e.assessments.length !== realizations.length)
-      throw new EngineInputError('experts', `Expert ${e.id}: one assessment per calibration question is required (${realizations.length}).`)
+      throw new EngineInputError('experts', `${e.label}: one assessment per calibration question is required (${realizations.length}).`)
     e.assessments.forEach((a, qi) => {
       if (!Array.isArray(a) || a.length !== quantiles.length)
-        throw new EngineInputError('experts', `Expert ${e.id}, question ${qi + 1}: give ${quantiles.length} quantile values.`)
+        throw new EngineInputError('experts', `${e.label}, question ${qi + 1}: give ${quantiles.length} quantile values.`)
       a.forEach((v, j) => {
-        if (!Number.isFinite(v)) throw new EngineInputError('experts', `Expert ${e.id}, question ${qi + 1}: values must be finite.`)
-        if (j > 0 && !(v > a[j - 1])) throw new EngineInputError('experts', `Expert ${e.id}, question ${qi + 1}: quantile values must increase.`)
+        if (!Number.isFinite(v)) throw new EngineInputError('experts', `${e.label}, question ${qi + 1}: values must be finite.`)
+        if (j > 0 && !(v > a[j - 1])) throw new EngineInputError('experts', `${e.label}, question ${qi + 1}: quantile values must increase.`)
       })
     })
   }

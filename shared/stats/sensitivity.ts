@@ -300,12 +300,20 @@ function logTemperedEvidence(prior: CandidatePrior, data: PilotData, a: number, 
 export function fractionalBayesFactor(
   prior1: CandidatePrior, prior2: CandidatePrior, data: PilotData, b?: number, options: { forceQuadrature?: boolean } = {},
 ): FractionalBayesFactor {
-  validateCandidate(prior1, data)
-  validateCandidate(prior2, data)
+  return fractionalBayesFactors([prior1], prior2, data, b, options)[0]
+}
+
+/** O'Hagan's (1995, §3) fractional Bayes factors of several priors against one reference prior, whose qᵢ is computed once. */
+export function fractionalBayesFactors(
+  priors: CandidatePrior[], reference: CandidatePrior, data: PilotData, b?: number, options: { forceQuadrature?: boolean } = {},
+): FractionalBayesFactor[] {
+  priors.forEach((p) => validateCandidate(p, data))
+  validateCandidate(reference, data)
   const fraction = b === undefined ? defaultTrainingFraction(data) : b
   requireTrainingFraction(fraction)
   const logQ = (p: CandidatePrior): number => logTemperedEvidence(p, data, 1, options) - logTemperedEvidence(p, data, fraction, options)
-  return { logBF: logQ(prior1) - logQ(prior2), b: fraction }
+  const logQReference = logQ(reference)
+  return priors.map((p) => ({ logBF: logQ(p) - logQReference, b: fraction }))
 }
 
 // ─── Power scaling ───────────────────────────────────────────────────────────────────────────────
@@ -329,6 +337,20 @@ export function powerScaledPosterior(
   requireAlpha(alpha)
   requireTarget(target)
   return summarise(scaledPosterior(prior, data, alpha, target, options))
+}
+
+/** One point of the α-curve: the posterior mean and its 90 % interval (5 % and 95 % points) with the prior raised to α. */
+export type PowerScaledPoint = { alpha: number; mean: number; q05: number; q95: number }
+
+/** Posterior mean and 90 % interval as the prior is raised to each power α, π(θ)^α f(x | θ) (Kallioinen et al. 2023, §3.1). */
+export function priorPowerCurve(prior: CandidatePrior, data: PilotData, alphas: number[], options: { forceQuadrature?: boolean } = {}): PowerScaledPoint[] {
+  validateCandidate(prior, data)
+  if (!Array.isArray(alphas) || alphas.length === 0) throw new EngineInputError('alpha', 'Give at least one power α.')
+  alphas.forEach(requireAlpha)
+  return alphas.map((alpha) => {
+    const post = scaledPosterior(prior, data, alpha, 'prior', options)
+    return { alpha, mean: post.mean(), q05: post.quantile(0.05), q95: post.quantile(0.95) }
+  })
 }
 
 /** (1+r)ln(1+r) + (1−r)ln(1−r) without cancellation for small r (its series Σ r^2k / k(2k−1)). */

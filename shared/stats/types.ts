@@ -70,7 +70,8 @@ export type Analysis = {
 
 export type CookeInput = {
   quantiles: number[]
-  experts: { id: string; assessments: number[][] }[]
+  /** `id` ties each score to the caller's expert; `label` names the expert in messages, as the user knows them. */
+  experts: { id: string; label: string; assessments: number[][] }[]
   realizations: number[]
   overshoot?: number
   cutoff?: number

@@ -16,6 +16,8 @@ export interface ImpactRequest {
   mixtureWide?: Distribution | null
   decision?: DecisionRule | null
   factors?: number[]
+  /** Training fraction b of the fractional Bayes factors; null or absent: m₀/n. */
+  trainingFraction?: number | null
 }
 
 export type ImpactCandidate = CandidateResult

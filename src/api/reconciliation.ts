@@ -18,7 +18,7 @@ export interface ReconcileExpert {
   judgementId: number
   expertId: number
   name: string
-  /** "Expert A", "Expert B", … (order of the panel) */
+  /** The study-wide label: "Expert 1", "Expert 2", … in the order the experts first joined the study's panels */
   label: string
   distribution: Distribution
   sse: number

@@ -97,6 +97,8 @@ export interface RecordCombination {
   status: 'draft' | 'reconciled'
   /** Performance weights from fewer calibration questions or experts than the stated minimums. */
   weightCautions?: string[]
+  /** Each weight with the expert it belongs to (records made before it was kept hold only `weights`). */
+  expertWeights?: { expert: ExpertRef; weight: number }[]
 }
 
 export interface ModelCodeLine {

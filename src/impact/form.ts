@@ -16,6 +16,8 @@ export interface ImpactFormValues {
   wide: DistributionValues
   decisionOn: boolean
   decision: { direction: 'above' | 'below'; threshold: number | string | undefined; probability: number | string | undefined }
+  /** Training fraction b of the fractional Bayes factors as typed; empty: the default m₀/n. */
+  trainingFraction: number | string | undefined
 }
 
 /** Families the comparison prior (and the mixture's wide component) may take for the quantity's support. */
@@ -86,6 +88,7 @@ export function defaultComparison(support: Support, data?: PilotData): Distribut
   return widePrior(first, support, data)
 }
 
+const isBlank = (v: unknown): boolean => v === undefined || v === null || (typeof v === 'string' && v.trim() === '')
 const toNumber = (v: unknown): number => (typeof v === 'number' ? v : typeof v === 'string' && v.trim() !== '' ? Number(v.trim()) : NaN)
 
 /** The typed values as a distribution (numbers parsed); null when the family is missing. */
@@ -147,6 +150,7 @@ export function impactFormSchema(support: Support) {
   const shared = impactSchema.fields
   const weight = shared.mixtureWeight as NumberSchema<number | null | undefined>
   const rule = shared.decision as AnyObjectSchema
+  const fraction = shared.trainingFraction as NumberSchema<number | null | undefined>
   return object({
     datasetId: shared.datasetId,
     comparison: distributionSchema(support),
@@ -159,6 +163,8 @@ export function impactFormSchema(support: Support) {
     wide: mixed().when('mixtureOn', { is: true, then: () => distributionSchema(support), otherwise: (s) => s }),
     decisionOn: boolean().default(false),
     decision: mixed().when('decisionOn', { is: true, then: () => rule.nonNullable().required(), otherwise: (s) => s }),
+    // An empty field means the default b = m₀/n.
+    trainingFraction: fraction.transform((v: unknown, typed: unknown) => (isBlank(typed) ? null : v)),
   })
 }
 
@@ -173,6 +179,7 @@ export function requestOf(values: ImpactFormValues): ImpactRequest {
     mixtureWeight: values.mixtureOn ? toNumber(values.mixtureWeight) : null,
     mixtureWide: values.mixtureOn ? toDistribution(values.wide) : null,
     decision,
+    trainingFraction: isBlank(values.trainingFraction) ? null : toNumber(values.trainingFraction),
   }
 }
 
@@ -189,6 +196,7 @@ export function initialValues(support: Support, datasetId: number | undefined, d
     decision: last?.decision
       ? { ...last.decision }
       : { direction: 'above', threshold: undefined, probability: 0.8 },
+    trainingFraction: last?.trainingFraction ?? '',
   }
 }
 

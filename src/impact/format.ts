@@ -46,7 +46,7 @@ export const FLAG_INFO: Record<CandidateFlag, { tag: string; title: string; mean
   'prior-driven-bayes-factor': {
     tag: 'prior-driven BF',
     title: 'Prior-driven Bayes factor',
-    meaning: 'The evidence for this prior changes with its width while the posterior does not; a Bayes factor built on it reflects how wide the prior was drawn.',
+    meaning: 'The evidence for this prior changes with its width while the posterior does not; a Bayes factor built on it reflects how wide the prior was drawn. The fractional Bayes factor in the table does not hang on the width: report it instead.',
   },
 }
 

@@ -1,4 +1,5 @@
 import { describeDistribution } from '@shared/format'
+import { DIAGNOSIS_WORDS, type SensitivityDiagnosis } from '@shared/stats'
 import type { ImpactCandidate, ImpactResult } from '@/api/impact'
 
 /** One candidate's numbers, as the table shows them and the CSV exports them (full precision). */
@@ -17,6 +18,14 @@ export interface CandidateRow {
   logEvidence: number
   logBF: number | null
   bfLabel: string | null
+  /** ln of the fractional Bayes factor against the comparison prior, and its training fraction b. */
+  logFBF: number | null
+  fbfB: number | null
+  priorSensitivity: number | null
+  likelihoodSensitivity: number | null
+  diagnosis: SensitivityDiagnosis | null
+  /** The diagnosis in plain words, or why the diagnostics are missing. */
+  diagnosisText: string
   boxP: number
   /** ln of Box's p, finite where p underflows to 0. */
   logBoxP: number
@@ -43,6 +52,13 @@ export function candidateRows(result: Pick<ImpactResult, 'candidates' | 'n'>): C
     logEvidence: c.logEvidence,
     logBF: c.bayesFactor?.logBF ?? null,
     bfLabel: c.bayesFactor?.label ?? null,
+    // Analyses stored before the diagnostics existed have neither field.
+    logFBF: c.fractionalBayesFactor?.logBF ?? null,
+    fbfB: c.fractionalBayesFactor?.b ?? null,
+    priorSensitivity: c.sensitivity?.prior ?? null,
+    likelihoodSensitivity: c.sensitivity?.likelihood ?? null,
+    diagnosis: c.sensitivity?.diagnosis ?? null,
+    diagnosisText: c.sensitivity ? DIAGNOSIS_WORDS[c.sensitivity.diagnosis] : (c.diagnosticNotes ?? []).join(' '),
     boxP: c.priorPredictiveP,
     logBoxP: c.logPriorPredictiveP,
     ess: c.priorEss,
@@ -80,13 +96,16 @@ export function candidatesCsv(rows: CandidateRow[], unit = ''): string {
     'candidate', 'kind', 'prior', `prior mean${u}`, `prior 2.5%${u}`, `prior 97.5%${u}`,
     `posterior mean${u}`, `posterior sd${u}`, `posterior 2.5%${u}`, `posterior 97.5%${u}`,
     'log evidence', 'log Bayes factor vs comparison prior', 'Bayes factor vs comparison prior', 'Kass-Raftery label',
+    'log fractional Bayes factor vs comparison prior', 'fractional Bayes factor vs comparison prior', 'training fraction b',
+    'prior sensitivity (power scaling)', 'likelihood sensitivity (power scaling)', 'sensitivity diagnosis',
     'prior predictive p (Box)', 'prior ESS', 'pilot n', 'P(decision rule)', 'act', 'flags',
   ]
   return toCsv([
     header,
     ...rows.map((r) => [
       r.label, r.kind, r.prior, r.priorMean, r.priorQ025, r.priorQ975, r.postMean, r.postSd, r.postQ025, r.postQ975,
-      r.logEvidence, r.logBF, r.logBF === null ? null : Math.exp(r.logBF), r.bfLabel, r.boxP, r.ess, r.n, r.decisionP, r.act, r.flags.join('; '),
+      r.logEvidence, r.logBF, r.logBF === null ? null : Math.exp(r.logBF), r.bfLabel,
+      r.logFBF, r.logFBF === null ? null : Math.exp(r.logFBF), r.fbfB, r.priorSensitivity, r.likelihoodSensitivity, r.diagnosisText, r.boxP, r.ess, r.n, r.decisionP, r.act, r.flags.join('; '),
     ]),
   ])
 }

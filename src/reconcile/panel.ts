@@ -1,4 +1,4 @@
-import type { Distribution } from '@shared/stats'
+import { quantile, type Distribution } from '@shared/stats'
 import { niceStep } from '@/answer/chips'
 
 /** An expert's (or a round's) 5, 25, 50, 75 and 95 % values. */
@@ -10,14 +10,21 @@ export interface RangeValues {
   q95: number
 }
 
+/** 5, 25, 50, 75 and 95 % values of a distribution. */
+export function rangeOf(d: Distribution): RangeValues {
+  return { q05: quantile(d, 0.05), q25: quantile(d, 0.25), q50: quantile(d, 0.5), q75: quantile(d, 0.75), q95: quantile(d, 0.95) }
+}
+
 /** One expert's row of the panel view: the study-wide label, the range in the round shown and, if asked for, in another round. */
 export interface PanelRow {
-  id: number
+  id: number | string
   label: string
   range: RangeValues
   excluded: boolean
   tone: string
   compare: RangeValues | null
+  /** The row of the expert looking at the view (a feedback round): drawn apart from the others. */
+  mine?: boolean
 }
 
 /** Everything the panel view draws. */
@@ -31,6 +38,12 @@ export interface PanelViewProps {
   bounds: { lower: number; upper: number }
   xLabel: string
   caption: string
+  /** The name of the combination's row (default "Combined"). */
+  combinedRowLabel?: string
+  /** How values are written on the axis and in the rows' descriptions (default: plain numbers). */
+  format?: (value: number) => string
+  /** The word for the notch (default "median"; experts read "middle value"). */
+  medianWord?: string
 }
 
 export interface PanelAxis {

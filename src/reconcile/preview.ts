@@ -64,7 +64,8 @@ export function componentsOf(experts: ReconcileExpert[]): Component[] {
  * Cooke's classical model for the included experts at the given cutoff, from the calibration answers the
  * server sent (the same function the server runs; it recomputes on save).
  */
-export function liveCooke(calibration: ReconciliationView['calibration'], includedIds: number[], cutoff: number): LiveCooke {
+export function liveCooke(calibration: ReconciliationView['calibration'], included: Pick<ReconcileExpert, 'expertId' | 'label'>[], cutoff: number): LiveCooke {
+  const includedIds = included.map((e) => e.expertId)
   if (calibration.questionCount === 0) {
     return { scores: null, problem: 'No calibration question has a known true value that every included expert answered.' }
   }
@@ -77,7 +78,7 @@ export function liveCooke(calibration: ReconciliationView['calibration'], includ
   try {
     const result = cookeClassical({
       quantiles: COOKE_QUANTILES,
-      experts: includedIds.map((id) => ({ id: String(id), assessments: byId.get(id)!.assessments })),
+      experts: included.map((e) => ({ id: String(e.expertId), label: e.label, assessments: byId.get(e.expertId)!.assessments })),
       realizations: calibration.realizations,
       cutoff,
     })
@@ -138,7 +139,7 @@ export function computePreview(input: PreviewInput): Preview {
   const included = input.experts.filter((e) => !input.excluded.includes(e.expertId))
   const components = componentsOf(included)
   const problems: Record<string, string> = {}
-  const cooke = liveCooke(input.calibration, included.map((e) => e.expertId), input.cutoff)
+  const cooke = liveCooke(input.calibration, included, input.cutoff)
   const preview: Preview = {
     included, weights: [], cooke, combination: null, summary: null, fits: [], fitPoints: [], leaveOneOut: [],
     disagreements: disagreements(components), consensusCheck: null, problems,

@@ -37,7 +37,7 @@ export function parameterRows(d: PriorDistribution): { name: string; value: numb
   }
 }
 
-/** "Expert B (Helen Okafor)" when names are shown, else "Expert B". */
+/** "Expert 2 (Helen Okafor)" when names are shown, else "Expert 2". */
 export function expertLabel(e: { code: string; name?: string | null }): string {
   return e.name ? `${e.code} (${e.name})` : e.code
 }

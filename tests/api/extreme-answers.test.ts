@@ -83,8 +83,8 @@ describe('impact analysis with an expert that cannot be computed with', () => {
     expect(Object.keys(refused.body.error.fields)).toEqual(['components[1]'])
     const left = await runImpact(analyst, quantityId, { datasetId, comparison, excludedExperts: [expertIds[1]] })
     expect(left.status, JSON.stringify(left.body)).toBe(200)
-    expect(left.body.excludedExperts).toEqual([{ expertId: expertIds[1], label: 'Expert B' }])
-    expect(left.body.candidates.map((c: { label: string }) => c.label)).toEqual(['Expert A', 'Expert C', 'Pooled (linear, equal weights)', 'Comparison prior'])
+    expect(left.body.excludedExperts).toEqual([{ expertId: expertIds[1], label: 'Expert 2' }])
+    expect(left.body.candidates.map((c: { label: string }) => c.label)).toEqual(['Expert 1', 'Expert 3', 'Pooled (linear, equal weights)', 'Comparison prior'])
   })
 
   it('a comparison prior too narrow to compute with, lognormal(700, 1e-300), answers 400 on the comparison field', async () => {

@@ -200,7 +200,7 @@ describe('feedback round', () => {
     expect(fb.body[0].previousRound.number).toBe(1)
     expect(fb.body[0].mine.answer.points.map((p: { value: number }) => p.value)).toEqual([6, 9, 15])
     expect(fb.body[0].others).toHaveLength(1)
-    expect(fb.body[0].others[0].label).toBe('Expert A')
+    expect(fb.body[0].others[0].label).toBe('Expert 1')
     expect(fb.body[0].others[0].distribution.family).toBe('gamma')
     expect(JSON.stringify(fb.body)).not.toContain('Tomasz')
   })

@@ -56,7 +56,7 @@ describe('reconciliation workspace', () => {
 
   it('pools the panel with equal weights by default: the linear pool of N(10,2²) and N(14,3²)', async () => {
     const res = await analyst.get(`/api/quantities/${quantityId}/reconciliation`).expect(200)
-    expect(res.body.experts.map((e: { name: string; label: string }) => [e.name, e.label])).toEqual([['Tomasz Wierzbicki', 'Expert A'], ['Helen Okafor', 'Expert B']])
+    expect(res.body.experts.map((e: { name: string; label: string }) => [e.name, e.label])).toEqual([['Tomasz Wierzbicki', 'Expert 1'], ['Helen Okafor', 'Expert 2']])
     expect(res.body.experts[0].distribution.mu).toBeCloseTo(10, 6)
     expect(res.body.experts[0].distribution.sigma).toBeCloseTo(2, 6)
     expect(res.body.weights).toEqual([0.5, 0.5])

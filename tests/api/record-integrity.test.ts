@@ -148,7 +148,7 @@ describe('the record states its own cautions and what produced it', () => {
     expect(content.quantities[0].impact.sweep.priorDriven).toBe(true)
     expect(content.cautions[3]).toEqual({ rule: 'prior-driven-bayes-factor', quantity: 'Night-flow reduction', text: 'Night-flow reduction: the final prior is flagged: Bayes factor driven by the prior’s width (Priorsmith’s rule of thumb).' })
     const seen = content.cautions.find((c: { rule: string }) => c.rule === 'seen-pilot-data')
-    expect(seen.text).toBe('Expert B had seen the pilot data before answering: the same evidence may count twice, in the prior and in the data.')
+    expect(seen.text).toBe('Expert 2 had seen the pilot data before answering: the same evidence may count twice, in the prior and in the data.')
     // The performance-weight cautions come from the shared weight rule: 3 calibration questions and 2 experts are too few.
     const weights = content.cautions.filter((c: { rule: string }) => c.rule === 'performance-weights').map((c: { text: string }) => c.text)
     expect(weights[0]).toContain('Night-flow reduction: Performance weights here rest on 3 calibration questions')

@@ -94,7 +94,7 @@ beforeAll(async () => {
   // Fixtures: final priors (the reconciliation workflow is tested in reconciliation.test.ts).
   for (const [quantityId, distribution] of [[q.bursts, { family: 'gamma', shape: 4, rate: 10 }], [q.uptake, { family: 'beta', alpha: 4, beta: 5 }]] as const) {
     await h.db('reconciliations').insert({
-      quantity_id: quantityId, round_id: roundId, method: 'linear', weights_mode: 'equal', family: distribution.family, distribution: JSON.stringify(distribution),
+      quantity_id: quantityId, round_id: roundId, method: 'linear', weights_mode: 'equal', weights: JSON.stringify([0.5, 0.5]), family: distribution.family, distribution: JSON.stringify(distribution),
       status: 'reconciled', rationale: 'Fixture for the record review test.',
     })
   }
@@ -115,33 +115,53 @@ afterAll(async () => {
 })
 
 describe('one anonymous label per expert', () => {
-  it('is the same on the reconciliation, impact, progress and record screens: Expert A joined the panel first', async () => {
+  it('is the same on the reconciliation, impact, progress and record screens: Expert 1 joined the panel first', async () => {
     const rec = (await analyst.get(`/api/quantities/${q.bursts}/reconciliation`).expect(200)).body
-    expect(rec.experts.map((e: { name: string; label: string }) => [e.label, e.name]).sort()).toEqual([['Expert A', 'Helen Okafor'], ['Expert B', 'Tomasz Wierzbicki']])
+    expect(rec.experts.map((e: { name: string; label: string }) => [e.label, e.name]).sort()).toEqual([['Expert 1', 'Helen Okafor'], ['Expert 2', 'Tomasz Wierzbicki']])
 
     const impact = (await analyst.get(`/api/quantities/${q.bursts}/impact`).expect(200)).body
     const expertCandidates = impact.candidates.filter((c: { kind: string }) => c.kind === 'expert')
     // Helen's prior has median 0.3, Tomasz's 0.5: each is found under its own label.
     const median = (label: string) => expertCandidates.find((c: { label: string }) => c.label === label).prior.meanlog
-    expect(Math.exp(median('Expert A'))).toBeCloseTo(0.3, 6)
-    expect(Math.exp(median('Expert B'))).toBeCloseTo(0.5, 6)
+    expect(Math.exp(median('Expert 1'))).toBeCloseTo(0.3, 6)
+    expect(Math.exp(median('Expert 2'))).toBeCloseTo(0.5, 6)
 
     const progress = (await analyst.get(`/api/rounds/${roundId}/progress`).expect(200)).body
     expect(progress.experts.map((e: { label: string; email: string }) => [e.label, e.email])).toEqual([
-      ['Expert A', 'expert2@kestrel.example'], ['Expert B', 'expert1@kestrel.example'],
+      ['Expert 1', 'expert2@kestrel.example'], ['Expert 2', 'expert1@kestrel.example'],
     ])
 
     const record = (await analyst.get(`/api/studies/${studyId}/record`).expect(200)).body
-    expect(record.content.panel.map((e: { code: string }) => e.code)).toEqual(['Expert A', 'Expert B'])
+    expect(record.content.panel.map((e: { code: string }) => e.code)).toEqual(['Expert 1', 'Expert 2'])
     const bursts = record.content.quantities.find((x: { symbol: string }) => x.symbol === 'bursts')
     const byLabel = Object.fromEntries(bursts.judgements.map((j: { expert: { code: string }; answer: { points: { value: number }[] } }) => [j.expert.code, j.answer.points[1].value]))
-    expect(byLabel).toEqual({ 'Expert A': 0.3, 'Expert B': 0.5 })
+    expect(byLabel).toEqual({ 'Expert 1': 0.3, 'Expert 2': 0.5 })
+  })
+
+  it('keeps each weight with its expert’s label in the record, whatever order the weights are stored in', async () => {
+    // The weights are stored in the order of the experts' accounts (Tomasz's first), the labels follow the joining order.
+    const record = (await analyst.get(`/api/studies/${studyId}/record`).expect(200)).body
+    const bursts = record.content.quantities.find((x: { symbol: string }) => x.symbol === 'bursts')
+    expect(bursts.combination.expertWeights).toEqual([{ expert: { code: 'Expert 2' }, weight: 0.5 }, { expert: { code: 'Expert 1' }, weight: 0.5 }])
+  })
+
+  it('names experts by label on the audit trail (names beside it only for analysts) and in the outbox', async () => {
+    const submitters = (events: { action: string; actorName: string }[]) => events.filter((e) => e.action === 'round.submit').map((e) => e.actorName).sort()
+    const forReviewer = (await reviewer.get(`/api/studies/${studyId}/audit`).expect(200)).body
+    expect(submitters(forReviewer)).toEqual(['Expert 1', 'Expert 2'])
+    expect(JSON.stringify(forReviewer.map((e: { actorName: string }) => e.actorName))).not.toMatch(/Helen Okafor|Tomasz Wierzbicki/)
+    const forAnalyst = (await analyst.get(`/api/studies/${studyId}/audit`).expect(200)).body
+    expect(submitters(forAnalyst)).toEqual(['Expert 1 (Helen Okafor)', 'Expert 2 (Tomasz Wierzbicki)'])
+    expect(forAnalyst.find((e: { action: string }) => e.action === 'study.create').actorName).toBe('Priya Natarajan')
+    const outbox = (await analyst.get(`/api/studies/${studyId}/outbox`).expect(200)).body as { to: string; expertLabel: string | null }[]
+    const labelOf = Object.fromEntries(outbox.filter((m) => m.to.startsWith('expert')).map((m) => [m.to, m.expertLabel]))
+    expect(labelOf).toEqual({ 'expert2@kestrel.example': 'Expert 1', 'expert1@kestrel.example': 'Expert 2' })
   })
 
   it('keeps the experts’ names out of the record’s change history while names are hidden', async () => {
     const record = (await reviewer.get(`/api/studies/${studyId}/record`).expect(200)).body
     const submits = record.changeHistory.filter((e: { action: string }) => e.action === 'round.submit')
-    expect(submits.map((e: { actor: string }) => e.actor).sort()).toEqual(['Expert A', 'Expert B'])
+    expect(submits.map((e: { actor: string }) => e.actor).sort()).toEqual(['Expert 1', 'Expert 2'])
     expect(JSON.stringify(record.changeHistory)).not.toMatch(/Helen Okafor|Tomasz Wierzbicki/)
   })
 })
@@ -305,7 +325,8 @@ describe('the .docx a reviewer keeps', () => {
   })
 
   it('names experts by their study label, with the comment and its answer in the review table', () => {
-    expect(text).toContain('Expert A')
+    expect(text).toContain('Expert 1')
+    expect(text).toContain('Weights: Expert 2 0.5; Expert 1 0.5.')
     expect(text).not.toMatch(/Helen Okafor|Tomasz Wierzbicki|\bE1\b/)
     expect(text).toContain('Not changed: The comparison prior is a wide gamma')
   })

@@ -243,6 +243,7 @@ const cookeRand = mulberry32(99)
 const realizations = Array.from({ length: 15 }, () => 1 + 100 * cookeRand())
 const experts = Array.from({ length: 20 }, (_, e) => ({
   id: `E${e + 1}`,
+  label: `Expert ${e + 1}`,
   assessments: realizations.map((r) => {
     const centre = r * (0.6 + 0.8 * cookeRand())
     const spread = r * (0.05 + 0.6 * cookeRand())

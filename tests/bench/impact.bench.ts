@@ -1,7 +1,9 @@
 // Speed of a full impact analysis (not a test; part of `npm run bench`): for each data model, 10 candidate priors, a
-// 50-factor width sweep of the reconciled prior and the tipping point, exactly as the server computes it.
+// 50-factor width sweep of the reconciled prior and the tipping point, exactly as the server computes it; then the share
+// of the two diagnostics (fractional Bayes factor and power-scaling sensitivity) in it.
 import { computeImpact, type ImpactTask } from '../../server/compute/tasks'
-import { dataSize, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
+import { ALPHA_CURVE_POWERS, dataSize, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
+import { fractionalBayesFactors, powerScalingSensitivity, priorPowerCurve, scaleSpread } from '../../shared/stats/index'
 import type { Distribution, PilotData, PriorDistribution, Support } from '../../shared/stats/index'
 
 const FACTORS = Array.from({ length: 50 }, (_, i) => 0.25 * 32 ** (i / 49))
@@ -104,5 +106,33 @@ for (const s of scenarios) {
     const runs = Array.from({ length: REPEATS }, (_, r) => timed(() => computeImpact(task(s, reconciled, (r + 1) * 1e-7))))
     const name = `${s.label}, reconciled ${reconciled.family}${which === 'conjugate' ? '' : ''}`
     console.log(`  ${name.padEnd(62)} ${fmt(median(runs.map((r) => r.wall))).padStart(8)}   (CPU ${fmt(median(runs.map((r) => r.cpu)))})`)
+  }
+}
+
+// The diagnostics alone, as evaluateCandidates and sweepOf run them: each candidate's fractional Bayes factor against the
+// comparison prior (default b = m₀/n) and its power-scaling sensitivity; then the fractional curve over the 50 factors
+// and the α-curve of the reconciled prior.
+console.log('')
+console.log('Diagnostics in the analysis: fractional Bayes factor + power-scaling sensitivity of the 10 candidates;')
+console.log(`fractional curve over the ${FACTORS.length} factors + α-curve (${ALPHA_CURVE_POWERS.length} powers) of the reconciled prior (median of ${REPEATS}, CPU time)`)
+for (const s of scenarios) {
+  for (const reconciled of [s.reconciled.conjugate, s.reconciled.other]) {
+    const candidateRuns: number[] = []
+    const curveRuns: number[] = []
+    for (let r = 0; r < REPEATS; r++) {
+      const t = task(s, reconciled, (r + 11) * 1e-7)
+      const comparison = t.candidates.find((c) => c.kind === 'comparison')!.prior
+      const others = t.candidates.filter((c) => c.kind !== 'comparison').map((c) => c.prior)
+      candidateRuns.push(timed(() => {
+        fractionalBayesFactors(others, comparison, t.data)
+        for (const c of t.candidates) powerScalingSensitivity(c.prior, t.data)
+      }).cpu)
+      curveRuns.push(timed(() => {
+        fractionalBayesFactors(FACTORS.map((k) => scaleSpread(reconciled, k, s.support)), reconciled, t.data)
+        priorPowerCurve(reconciled, t.data, ALPHA_CURVE_POWERS)
+      }).cpu)
+    }
+    const name = `${s.label}, reconciled ${reconciled.family}`
+    console.log(`  ${name.padEnd(62)} candidates ${fmt(median(candidateRuns)).padStart(7)}   curves ${fmt(median(curveRuns)).padStart(7)}`)
   }
 }

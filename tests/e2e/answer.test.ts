@@ -7,6 +7,7 @@ import { formatValue } from '../../shared/format'
 import { openBrowser, signInAs, type BrowserSession, completeEntry, field, inPage, type Call, keepFailureEvidence } from '../support/browser'
 import { expectAccessible } from '../support/axe'
 import { expectPhoneLayout } from '../support/phone'
+import { expectPanelInView } from '../support/panel-ranges'
 import { handleCentre, mouseDrag, screenX } from '../support/answer-line'
 
 /**
@@ -514,11 +515,11 @@ describe('answering a round', () => {
     await page.goto(`${expert1.baseUrl}/answer/${round2.roundId}`)
     const panel = page.getByTestId('feedback-round-panel')
     await panel.waitFor()
-    await panel.locator('canvas').waitFor()
+    await panel.getByTestId('panel-combined-shape').waitFor()
     const rows = await page.getByTestId('feedback-round-row').allInnerTexts()
-    // The others carry the study's own expert labels (the letter depends on the study's order of experts).
+    // The others carry the study's own expert labels (the number depends on the study's order of experts).
     const labels = rows.map((r) => r.split('\t')[0].trim())
-    expect(labels).toEqual([expect.stringMatching(/^You \(round \d+\)$/), expect.stringMatching(/^Expert [A-Z]$/), expect.stringMatching(/^Expert [A-Z]$/)])
+    expect(labels).toEqual(['You', expect.stringMatching(/^Expert \d+$/), expect.stringMatching(/^Expert \d+$/)])
     expect(new Set(labels).size).toBe(3)
     expect(await panel.innerText()).not.toContain('Helen')
     // The panel comes before the answer form.
@@ -530,14 +531,19 @@ describe('answering a round', () => {
     expect(order).toBeTruthy()
     await shot(expert1, 'answer-10-feedback-round')
     await expectAccessible(page, 'feedback-round')
-    // Your own curve reads apart from the others without colour: solid, thick, with diamonds; the others dotted.
-    expect(await panel.locator('[data-testid="feedback-round-row"] .fpanel__swatch').evaluateAll((els) => els.map((e) => e.classList.contains('is-mine') ? 'mine' : e.classList.contains('is-dotted') ? 'dotted' : '?'))).toEqual(['mine', 'dotted', 'dotted'])
-    expect(await panel.locator('canvas').getAttribute('aria-describedby')).toBe('fpanel-table')
-    // On a phone, the panel, its chart and its table fit the screen.
+    // Strips, not curves: one row per expert under the same labels as the table, yours marked, the panel filled beneath.
+    expect(await panel.locator('canvas').count()).toBe(0)
+    const strips = panel.getByTestId('panel-row')
+    expect(await strips.evaluateAll((els) => els.map((e) => [e.getAttribute('data-label'), e.getAttribute('data-mine')]))).toEqual([
+      ['You', 'true'], [labels[1], null], [labels[2], null],
+    ])
+    expect(await panel.locator('.panel-ranges__label.is-mine').innerText()).toBe('You')
+    // On a phone, the panel, its strips and its table fit the screen, every bar and notch inside its row.
     await page.setViewportSize({ width: 360, height: 740 })
-    await panel.locator('canvas').waitFor()
     await expectPhoneLayout(page, 'feedback-round-360')
     await expectAccessible(page, 'feedback-round-360')
+    await expectPanelInView(panel, 360, 3)
+    await expert1.shot('answer-11-feedback-round-360')
     await page.setViewportSize({ width: 1280, height: 800 })
   })
 

@@ -11,8 +11,9 @@ import { expectAccessible } from '../support/axe'
 /**
  * Pilot data and impact analysis in chromium: the analyst uploads the demo burst logs for the burst
  * rate (after a bad file is refused with a located message), runs the impact analysis of every
- * candidate prior (a job on the server's queue, followed with a progress bar), sees the table, the findings, the cautions and both width-sweep charts, and
- * downloads the table as CSV and a chart as PNG.
+ * candidate prior (a job on the server's queue, followed with a progress bar), sees the table (with the fractional
+ * Bayes factor and sensitivity columns), the findings, the cautions, both width-sweep charts (the Bayes factor chart with
+ * its fractional curve) and the α chart, and downloads the table as CSV and the charts as PNG.
  *
  * The e2e database holds only the seeded demo study, which has no elicitation round: the reconciled
  * prior the analysis needs is set up first through the API from the page (a study of its own, so the
@@ -192,6 +193,13 @@ describe('pilot data and impact analysis', () => {
     await page.getByTestId('decision-direction').getByText('above', { exact: true }).click()
     await field(page, 'decision-threshold').fill('12')
     await field(page, 'decision-probability').fill('0.8')
+    // The training fraction b of the fractional Bayes factor: empty means m₀/n = 1/8 for the eight burst logs; a value
+    // outside (0, 1) is refused in the form, under the field.
+    expect(await page.getByTestId('training-fraction-hint').innerText()).toContain('b = 0.125')
+    await field(page, 'training-fraction').fill('1.5')
+    await page.getByTestId('impact-run').click()
+    await page.getByTestId('training-fraction').getByText('The training fraction b must be greater than 0 and less than 1').waitFor()
+    await field(page, 'training-fraction').fill('')
     await s.shot('impact-04-settings')
 
     // The analysis runs as a job on the queue; the page follows it. The worker is held as it stores the analysis (the
@@ -224,6 +232,22 @@ describe('pilot data and impact analysis', () => {
     await page.getByTestId('sweep-mean-chart').locator('canvas').waitFor()
     await page.getByTestId('sweep-evidence-chart').locator('canvas').waitFor()
     await page.getByTestId('density-chart').locator('canvas').waitFor()
+    // The diagnostics: a fractional Bayes factor column and the sensitivity columns, the fractional curve beside the
+    // ordinary one on the sweep's Bayes factor chart, and the α chart of the reconciled prior.
+    await expect(page.getByTestId('column-fbf').innerText()).resolves.toMatch(/Fractional BF/i)
+    await expect(page.getByTestId('column-sensitivity').innerText()).resolves.toMatch(/Sensitivity/i)
+    const reconciledRow = page.locator('[data-testid="candidate-row"][data-kind="reconciled"]')
+    expect(await reconciledRow.getByTestId('cell-fbf').innerText()).toMatch(/^[\d.,/e+]+\s+b = 0\.125$/)
+    expect(await reconciledRow.getByTestId('cell-prior-sensitivity').innerText()).toMatch(/^\d/)
+    expect(await reconciledRow.getByTestId('cell-likelihood-sensitivity').innerText()).toMatch(/^\d/)
+    expect(await reconciledRow.getByTestId('cell-diagnosis').getAttribute('data-diagnosis')).toMatch(/^(none|prior-data-conflict|weak-likelihood|likelihood-dominated)$/)
+    expect((await reconciledRow.getByTestId('cell-diagnosis').innerText()).length).toBeGreaterThan(20)
+    expect(await page.locator('[data-testid="candidate-row"][data-kind="comparison"]').getByTestId('cell-fbf').innerText()).toBe('compared against')
+    await expect(page.getByTestId('sweep-bf-caption').getAttribute('data-curves')).resolves.toBe('2')
+    expect(await page.getByTestId('sweep-bf-caption').innerText()).toMatch(/the fractional one by a factor of/)
+    await page.getByTestId('alpha-chart').locator('canvas').waitFor()
+    await expect(page.getByTestId('alpha-chart').getAttribute('data-points')).resolves.toBe('9')
+    expect(await page.getByTestId('diagnostics-caution').innerText()).toContain('aids to judgement, not tests')
     // The chart draws the candidates the analyst picked, by default the reconciled prior and the comparison prior, one legend
     // entry each, on round axis ends.
     const legend = async () => page.getByTestId('density-legend-item').allInnerTexts()
@@ -254,6 +278,10 @@ describe('pilot data and impact analysis', () => {
     expect(lines[0].startsWith('candidate,kind,prior,prior mean (bursts per 100 km per year)')).toBe(true)
     expect(lines).toHaveLength(8)
     expect(lines.find((l) => l.startsWith('"Pooled (linear, equal weights)",pooled,'))).toBeTruthy()
+    expect(lines[0]).toContain(',log fractional Bayes factor vs comparison prior,fractional Bayes factor vs comparison prior,training fraction b,prior sensitivity (power scaling),likelihood sensitivity (power scaling),sensitivity diagnosis,')
+    const bColumn = lines[0].split(',').indexOf('training fraction b')
+    const reconciledLine = lines.find((l) => l.startsWith('Reconciled prior,reconciled,'))!
+    expect(reconciledLine.match(/("[^"]*"|[^,]*)(,|$)/g)![bColumn].replace(/,$/, '')).toBe('0.125')
     // The pilot n (total exposure 1.10 + 0.85 + … + 0.80) prints as 8, not 7.999999999999999.
     const nColumn = lines[0].split(',').indexOf('pilot n')
     expect(nColumn).toBeGreaterThan(0)
@@ -263,6 +291,9 @@ describe('pilot data and impact analysis', () => {
     expect(png.suggestedFilename()).toBe('impact-burst_rate-v1-sweep-evidence.png')
     const bytes = readFileSync((await png.path())!)
     expect([...bytes.subarray(0, 4)]).toEqual([0x89, 0x50, 0x4e, 0x47])
+    const [alphaPng] = await Promise.all([page.waitForEvent('download'), page.getByTestId('alpha-chart').getByTestId('download-png').click()])
+    expect(alphaPng.suggestedFilename()).toBe('impact-burst_rate-v1-prior-weight.png')
+    expect([...readFileSync((await alphaPng.path())!).subarray(0, 4)]).toEqual([0x89, 0x50, 0x4e, 0x47])
   })
 
   it('answers the same inputs from the cache', async () => {

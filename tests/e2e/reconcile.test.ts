@@ -3,6 +3,8 @@ import type { Page } from 'playwright-core'
 import { DEMO_PASSWORD, DEMO_STUDY_TITLE } from '../../seeds/demo'
 import { openBrowser, signInAs, type BrowserSession, field, inPage, keepFailureEvidence } from '../support/browser'
 import { expectAccessible } from '../support/axe'
+import { expectPanelInView } from '../support/panel-ranges'
+import { cutoffFromHeight, heightOfCutoff } from '../../src/reconcile/cutoff'
 
 /**
  * The reconciliation workspace in chromium: a quantity of the demo study gets a round answered by the three demo
@@ -87,31 +89,6 @@ async function setUpRound(page: Page): Promise<Setup> {
 let s: BrowserSession
 let setup: Setup
 
-/** Every row of the panel view lies inside the screen, its 5–95 % bar and median notch inside its track, and the axis ends on round values. */
-async function expectPanelInView(page: Page, width: number): Promise<void> {
-  const panel = await page.getByTestId('panel-ranges').boundingBox()
-  expect(panel!.x).toBeGreaterThanOrEqual(0)
-  expect(panel!.x + panel!.width).toBeLessThanOrEqual(width)
-  const rows = await page.getByTestId('panel-row').evaluateAll((els) => els.map((el) => {
-    const track = el.getBoundingClientRect()
-    const bar = el.querySelector('[data-testid="panel-range"]')!.getBoundingClientRect()
-    const median = el.querySelector('[data-testid="panel-median"]')!.getBoundingClientRect()
-    return { track: [track.left, track.right], bar: [bar.left, bar.right], median: median.left + median.width / 2 }
-  }))
-  expect(rows).toHaveLength(3)
-  for (const r of rows) {
-    expect(r.bar[1] - r.bar[0]).toBeGreaterThan(4)
-    expect(r.bar[0]).toBeGreaterThanOrEqual(r.track[0] - 0.5)
-    expect(r.bar[1]).toBeLessThanOrEqual(r.track[1] + 0.5)
-    expect(r.median).toBeGreaterThan(r.bar[0])
-    expect(r.median).toBeLessThan(r.bar[1])
-  }
-  const ticks = (await page.getByTestId('panel-tick').allTextContents()).map(Number)
-  expect(ticks.length).toBeGreaterThanOrEqual(3)
-  const step = ticks[1] - ticks[0]
-  for (const t of ticks) expect(Math.abs(t / step - Math.round(t / step))).toBeLessThan(1e-9)
-}
-
 beforeAll(async () => {
   s = await openBrowser()
 })
@@ -138,7 +115,7 @@ describe('reconciling a quantity', () => {
     const tableLabels = await page.getByTestId('expert-row').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-label')))
     await expect(page.getByTestId('panel-row').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-label')))).resolves.toEqual(tableLabels)
     await page.getByTestId('panel-combined-shape').waitFor()
-    await expectPanelInView(page, 1280)
+    await expectPanelInView(page, 1280, 3)
     await expect(page.getByTestId('reconcile-status').getAttribute('data-status')).resolves.toBe('new')
     await s.shot('reconcile-01-experts')
     await expectAccessible(s.page, 'analyst reconcile')
@@ -158,6 +135,33 @@ describe('reconciling a quantity', () => {
     const bars = async () => page.getByTestId('weight-bar').evaluateAll((els) => els.map((el) => Number(el.getAttribute('data-weight'))))
     expect((await bars())[1]).toBeGreaterThan(0)
 
+    // Dragging the amber line with the mouse sets the cutoff: grabbed by the middle of its handle (at cutoff 0 the lower
+    // half hangs over the axis labels, which once took the pointer) and let go at the height of 0.01. The mouse acts
+    // where the plot is on the screen, so it is scrolled into view first.
+    const area = page.getByTestId('cutoff-area')
+    await page.getByTestId('cutoff-plot').scrollIntoViewIfNeeded()
+    const bottom = Number(await area.getAttribute('data-lowest-decade'))
+    expect(bottom).toBeLessThanOrEqual(-2)
+    const box = (await area.boundingBox())!
+    const handle = (await page.getByTestId('cutoff-handle').boundingBox())!
+    const targetY = Math.round(box.y + box.height * (1 - heightOfCutoff(0.01, bottom)))
+    const dragged = cutoffFromHeight(1 - (targetY - box.y) / box.height, bottom)
+    expect(dragged).toBeGreaterThan(0.005)
+    expect(dragged).toBeLessThan(0.02)
+    await page.mouse.move(handle.x + handle.width / 2, handle.y + handle.height / 2)
+    await page.mouse.down()
+    await page.mouse.move(handle.x + handle.width / 2, (handle.y + targetY) / 2, { steps: 4 })
+    await page.mouse.move(handle.x + handle.width / 2, targetY, { steps: 4 })
+    await page.mouse.up()
+    await expect(page.getByTestId('cutoff-handle').getAttribute('aria-valuenow')).resolves.toBe(String(dragged))
+    await expect(page.getByTestId('cutoff-status').textContent()).resolves.toBe(`Cutoff ${dragged}: 2 of 3 experts keep a weight.`)
+    // The expert below the line is greyed out, the other two stay, and the weights follow.
+    await expect(page.getByTestId('cutoff-point').evaluateAll((els) => els.map((e) => e.getAttribute('data-below')))).resolves.toEqual(['false', 'true', 'false'])
+    await expect.poll(async () => (await weights())[1]).toBe(0)
+    const line = (await page.locator('.cutoff-plot__line').boundingBox())!
+    expect(Math.abs(line.y - targetY)).toBeLessThan(3)
+    await s.shot('reconcile-02a-cutoff-dragged')
+
     // A typed cutoff moves the line as well.
     await field(page, 'cooke-cutoff').fill('0.01')
     await field(page, 'cooke-cutoff').press('Tab')
@@ -168,8 +172,8 @@ describe('reconciling a quantity', () => {
     await expect.poll(async () => (await bars())[1]).toBe(0)
 
     // Labels are the study's (joining order across all its rounds), so read the second expert's from the table.
-    const secondLabel = (await page.getByTestId('cooke-row').nth(1).textContent())?.match(/Expert [A-Z]+/)?.[0]
-    expect(secondLabel).toMatch(/^Expert [A-Z]+$/)
+    const secondLabel = (await page.getByTestId('cooke-row').nth(1).textContent())?.match(/Expert \d+/)?.[0]
+    expect(secondLabel).toMatch(/^Expert \d+$/)
     await expect(page.getByTestId('cooke-effect').textContent()).resolves.toContain(`${secondLabel} falls below the cutoff`)
     await expect.poll(async () => (await page.getByTestId('expert-weight').allTextContents())[1].trim()).toBe('0')
     await expect(page.getByTestId('combination-summary').textContent()).resolves.toContain('performance weights')
@@ -188,7 +192,7 @@ describe('reconciling a quantity', () => {
     await page.getByTestId('mark-reconciled').click()
     await expect(page.getByTestId('rationale').textContent()).resolves.toContain('at least 20 characters')
 
-    await field(page, 'rationale').fill('Performance weights: Expert A answered the calibration questions best; Expert B was confidently too high and is cut at α = 0.01.')
+    await field(page, 'rationale').fill('Performance weights: Expert 1 answered the calibration questions best; Expert 2 was confidently too high and is cut at α = 0.01.')
     await page.getByTestId('mark-reconciled').click()
     await page.locator('[data-testid="reconcile-status"][data-status="reconciled"]').waitFor()
     await expect(page.getByTestId('reconcile-status').textContent()).resolves.toContain('Reconciled')
@@ -208,7 +212,7 @@ describe('reconciling a quantity', () => {
     await page.setViewportSize({ width: 360, height: 740 })
     try {
       await page.getByTestId('panel-ranges').scrollIntoViewIfNeeded()
-      await expectPanelInView(page, 360)
+      await expectPanelInView(page, 360, 3)
       await s.shot('reconcile-04-panel-phone')
     } finally {
       await page.setViewportSize({ width: 1280, height: 800 })

@@ -1,17 +1,20 @@
 import { describe, expect, it } from 'vitest'
-import { expertLabel, labelExperts, labelLetters } from '../../shared/record/expert-labels'
+import { EXPERT_LABEL_PATTERN, expertLabel, labelExperts } from '../../shared/record/expert-labels'
 import { actionLabel, answerText, subjectLabel } from '../../shared/record/format'
 
 describe('expert labels', () => {
-  it('counts in spreadsheet-column letters: A … Z, AA, AB … (common practice)', () => {
-    expect([0, 1, 25, 26, 27, 51, 52, 701, 702].map(labelLetters)).toEqual(['A', 'B', 'Z', 'AA', 'AB', 'AZ', 'BA', 'ZZ', 'AAA'])
-    expect(expertLabel(2)).toBe('Expert C')
-    expect(() => labelLetters(-1)).toThrow(RangeError)
+  it('numbers the experts from 1 in joining order, never with letters', () => {
+    expect([0, 1, 8, 9, 25, 26, 99].map(expertLabel)).toEqual(['Expert 1', 'Expert 2', 'Expert 9', 'Expert 10', 'Expert 26', 'Expert 27', 'Expert 100'])
+    expect([0, 9, 26, 99].map(expertLabel).every((l) => EXPERT_LABEL_PATTERN.test(l))).toBe(true)
+    expect(EXPERT_LABEL_PATTERN.test('Expert A')).toBe(false)
+    expect(EXPERT_LABEL_PATTERN.test('Expert 0')).toBe(false)
+    expect(() => expertLabel(-1)).toThrow(RangeError)
+    expect(() => expertLabel(1.5)).toThrow(RangeError)
   })
 
   it('gives each expert the label of their first joining, whatever comes later', () => {
     const labels = labelExperts(['user:7', 'user:3', 'user:7', 'email:new@example.org', 'user:3'])
-    expect([...labels]).toEqual([['user:7', 'Expert A'], ['user:3', 'Expert B'], ['email:new@example.org', 'Expert C']])
+    expect([...labels]).toEqual([['user:7', 'Expert 1'], ['user:3', 'Expert 2'], ['email:new@example.org', 'Expert 3']])
   })
 })
 

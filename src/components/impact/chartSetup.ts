@@ -1,8 +1,10 @@
 import {
   Chart, Filler, Legend, LinearScale, LineController, LineElement, LogarithmicScale, PointElement, Tooltip,
-  type ChartType, type Plugin,
+  type ChartOptions, type ChartType, type Plugin,
 } from 'chart.js'
+import { formatNumber } from '@shared/format'
 import { downloadUrl } from '@/impact/table'
+import './impact-chart.css'
 
 /** Only the chart.js pieces the impact charts use (this module loads with the lazy chart components). */
 Chart.register(LineController, LineElement, PointElement, LinearScale, LogarithmicScale, Filler, Tooltip, Legend)
@@ -50,4 +52,31 @@ export function xBand(from: number, to: number, label: string, color = 'rgba(201
 export function downloadPng(chart: Chart | undefined | null, filename: string): void {
   if (!chart) return
   downloadUrl(chart.toBase64Image('image/png', 1), filename)
+}
+
+/**
+ * Options of a line chart of raw {x, y} points against an x axis of the caller's: no animation, a tooltip naming the x
+ * value by `xName`, the legend below without the entry labelled `unlisted` (the lower edge of a band).
+ */
+export function lineOptions(x: object, yTitle: string, xName: string, unlisted: string): ChartOptions<'line'> {
+  return {
+    responsive: true,
+    maintainAspectRatio: false,
+    animation: false,
+    parsing: false,
+    interaction: { mode: 'index', intersect: false },
+    scales: {
+      x: x as never,
+      y: { type: 'linear', title: { display: true, text: yTitle, color: AXIS.title }, grid: { color: AXIS.grid }, ticks: { color: AXIS.ticks, maxTicksLimit: 6 } },
+    },
+    plugins: {
+      legend: { position: 'bottom', labels: { usePointStyle: true, pointStyle: 'line', color: '#1d2733', boxWidth: 24, padding: 10, filter: (item) => item.text !== unlisted } },
+      tooltip: {
+        callbacks: {
+          title: (items) => (items.length ? `${xName} = ${formatNumber(Number(items[0].parsed.x), 3)}` : ''),
+          label: (item) => `${item.dataset.label}: ${formatNumber(Number(item.parsed.y))}`,
+        },
+      },
+    },
+  }
 }

@@ -1,9 +1,9 @@
 import { computed, type ComputedRef, type Ref, type ShallowRef } from 'vue'
-import { quantile, supportBounds, type Distribution } from '@shared/stats'
+import { supportBounds, type Distribution } from '@shared/stats'
 import { FAMILY_LABELS, formatNumber, paramsText } from '@shared/format'
 import type { PoolMethod, ReconcileExpert, ReconciliationView } from '@/api/reconciliation'
 import { expertTone } from '@/reconcile/colors'
-import type { PanelRow, PanelViewProps, RangeValues } from '@/reconcile/panel'
+import { rangeOf, type PanelRow, type PanelViewProps } from '@/reconcile/panel'
 import type { Preview, WeightsMode } from '@/reconcile/preview'
 
 interface PanelSources {
@@ -17,13 +17,6 @@ interface PanelSources {
   handAdjusted: ComputedRef<boolean>
   compareView: ShallowRef<ReconciliationView | null>
   roundName: (id: number | null | undefined) => string
-}
-
-const PROBS = { q05: 0.05, q25: 0.25, q50: 0.5, q75: 0.75, q95: 0.95 } as const
-
-/** 5, 25, 50, 75 and 95 % values of a distribution. */
-export function rangeOf(d: Distribution): RangeValues {
-  return { q05: quantile(d, PROBS.q05), q25: quantile(d, PROBS.q25), q50: quantile(d, PROBS.q50), q75: quantile(d, PROBS.q75), q95: quantile(d, PROBS.q95) }
 }
 
 /** What the panel view draws: every expert's range (and the compared round's), the combination and the prior, with a caption in words. */

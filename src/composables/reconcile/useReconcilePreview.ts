@@ -40,11 +40,10 @@ export function useReconcilePreview(view: Ref<ReconciliationView | null>, form: 
   }, { immediate: true })
   onBeforeUnmount(() => clearTimeout(previewTimer))
 
-  const includedIds = computed(() => form.included.value.map((e) => e.expertId))
   /** Cooke's scores at the chosen cutoff (cheap, so without delay). */
-  const cookeNow = computed(() => (view.value ? liveCooke(view.value.calibration, includedIds.value, form.cutoffValue.value) : null))
+  const cookeNow = computed(() => (view.value ? liveCooke(view.value.calibration, form.included.value, form.cutoffValue.value) : null))
   /** The same scores with every included expert kept (cutoff 0). */
-  const cookeAll = computed(() => (view.value ? liveCooke(view.value.calibration, includedIds.value, 0) : null))
+  const cookeAll = computed(() => (view.value ? liveCooke(view.value.calibration, form.included.value, 0) : null))
 
   /** Plain cautions when performance weights rest on too few calibration questions or experts (same rule as the record). */
   const weightCautions = computed(() => (view.value ? performanceWeightCautions(view.value.calibration.questionCount, form.included.value.length) : []))

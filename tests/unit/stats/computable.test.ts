@@ -53,9 +53,9 @@ describe('integrals over nothing', () => {
   })
 
   it('an impact candidate whose prior cannot be computed is named in the error', () => {
-    const run = () => evaluateCandidates([{ key: 'expert-2', label: 'Expert B', kind: 'expert', prior: { family: 'uniform', lower: -1e308, upper: -1e308 } }],
+    const run = () => evaluateCandidates([{ key: 'expert-2', label: 'Expert 2', kind: 'expert', prior: { family: 'uniform', lower: -1e308, upper: -1e308 } }],
       { model: 'normal-known-sigma', values: [2.2, 3.5], sigma: 2 }, null)
-    expect(run).toThrow(/^Expert B: /)
+    expect(run).toThrow(/^Expert 2: /)
     try {
       run()
     } catch (err) {

@@ -14,7 +14,7 @@ describe("Cooke's classical model on a constructed two-expert panel (COOKE-worke
   const q = c.inputs.quantiles_q5_q50_q95 as Record<string, number[][]>
   const input = (cutoff: number): CookeInput => ({
     quantiles,
-    experts: Object.entries(q).map(([id, assessments]) => ({ id, assessments: assessments.map((a) => [...a]) })),
+    experts: Object.entries(q).map(([id, assessments], i) => ({ id, label: `Expert ${i + 1}`, assessments: assessments.map((a) => [...a]) })),
     realizations: c.inputs.realisations,
     overshoot: c.inputs.overshoot,
     cutoff,
@@ -67,10 +67,11 @@ describe("Cooke's classical model on a constructed two-expert panel (COOKE-worke
     expectRel(r.experts[0].statistic / 20, 0.2 * Math.log(2) + 0.8 * Math.log(8 / 9), 1e-13)
   })
 
-  it('rejects malformed assessments', () => {
+  it('rejects malformed assessments, naming the expert by the label the caller gives, never by its id', () => {
     const bad = input(0)
-    bad.experts[0].assessments[2] = [12, 6, 2]
+    bad.experts[1].assessments[2] = [12, 6, 2]
     expect(() => cookeClassical(bad)).toThrow(EngineInputError)
+    expect(() => cookeClassical(bad)).toThrow(/^Expert 2, question 3: quantile values must increase\.$/)
     expect(() => cookeClassical({ ...input(0), realizations: [1, 2] })).toThrow(/one assessment per calibration question/)
   })
 })

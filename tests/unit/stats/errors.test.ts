@@ -97,7 +97,7 @@ describe('EngineInputError: field and plain message', () => {
       inputError(() => cookeClassical({ quantiles: [0.05, 0.5, 0.95], experts: [], realizations: [1] })).field,
     ).toBe('experts')
     expect(
-      inputError(() => cookeClassical({ quantiles: [0.5, 0.05], experts: [{ id: 'a', assessments: [[1, 2]] }], realizations: [1] })).field,
+      inputError(() => cookeClassical({ quantiles: [0.5, 0.05], experts: [{ id: 'a', label: 'Expert 1', assessments: [[1, 2]] }], realizations: [1] })).field,
     ).toBe('quantiles')
   })
 })

@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs'
 import { fileURLToPath } from 'node:url'
 import { describe, expect, it } from 'vitest'
 import {
-  analyzePrior, diagnose, EngineInputError, fractionalBayesFactor, powerScaledPosterior, powerScalingSensitivity,
+  analyzePrior, diagnose, EngineInputError, fractionalBayesFactor, fractionalBayesFactors, powerScaledPosterior, powerScalingSensitivity, priorPowerCurve,
   type CandidatePrior, type PilotData, type PosteriorSummary,
 } from '@shared/stats'
 import { expectRel } from './checks'
@@ -13,7 +13,7 @@ import { expectRel } from './checks'
 const FIXTURE = JSON.parse(readFileSync(fileURLToPath(new URL('./fixtures/sensitivity.json', import.meta.url)), 'utf8')) as {
   meta: { description: string; generated_with: string[] }
   fbf: { id: string; data: PilotData; prior1: CandidatePrior; prior2: CandidatePrior; b: number | null; expected: { b: number; logBF: number; closedLogQ1?: number } }[]
-  posteriors: { id: string; data: PilotData; prior: CandidatePrior; alpha: number; target: 'prior' | 'likelihood'; expected: PosteriorSummary; closedForm?: PosteriorSummary }[]
+  posteriors: { id: string; data: PilotData; prior: CandidatePrior; alpha: number; target: 'prior' | 'likelihood'; expected: PosteriorSummary & { q05: number; q95: number }; closedForm?: PosteriorSummary }[]
   sensitivity: { id: string; data: PilotData; prior: CandidatePrior; expected: { prior: number; likelihood: number } }[]
 }
 
@@ -41,6 +41,15 @@ describe("fractional Bayes factor (O'Hagan 1995, JRSS B 57:99–138, §3) agains
       }
     })
   }
+
+  it('several priors against one reference give each pair’s value, the reference against itself 1', () => {
+    for (const c of FIXTURE.fbf) {
+      const [one, self] = fractionalBayesFactors([c.prior1, c.prior2], c.prior2, c.data, c.b ?? undefined)
+      expectRel(Math.exp(one.logBF), Math.exp(c.expected.logBF), 1e-6, c.id)
+      expect(one.b).toBeCloseTo(c.expected.b, 14)
+      expect(self.logBF).toBe(0)
+    }
+  })
 
   it('default b is m₀/n: 1/n for the one-parameter models, 2/n for the normal with σ unknown', () => {
     const nks = FIXTURE.fbf.find((c) => c.id === 'fbf-normal-known-sigma')!
@@ -82,6 +91,18 @@ describe('power-scaled posterior (Kallioinen et al. 2023, §3.1) against scipy',
       }
     })
   }
+
+  it('the α-curve gives the mean and the 5 % and 95 % points of the posterior with the prior raised to α', () => {
+    const cases = FIXTURE.posteriors.filter((c) => c.target === 'prior')
+    expect(new Set(cases.map((c) => c.data.model))).toEqual(new Set(MODELS))
+    for (const c of cases) {
+      const [point] = priorPowerCurve(c.prior, c.data, [c.alpha])
+      expect(point.alpha).toBe(c.alpha)
+      for (const k of ['mean', 'q05', 'q95'] as const) {
+        expect(Math.abs(point[k] - c.expected[k]) / Math.max(Math.abs(c.expected[k]), c.expected.sd), `${c.id} ${k}`).toBeLessThan(1e-6)
+      }
+    }
+  })
 
   it('α = 1 on either side is the ordinary posterior', () => {
     const c = FIXTURE.posteriors.find((x) => x.id === 'ps-nks-t-prior')!
@@ -137,6 +158,11 @@ describe('bad powers and training fractions', () => {
   it('the default b needs more observations than m₀', () => {
     expect(field(() => fractionalBayesFactor(p, p, { model: 'poisson', counts: [4], exposures: [2] }))).toBe('b')
     expect(fractionalBayesFactor(p, p, data, 0.3).logBF).toBe(0)
+  })
+  it('the α-curve refuses a bad power and an empty list with field alpha', () => {
+    expect(field(() => priorPowerCurve(p, data, [1, 0]))).toBe('alpha')
+    expect(field(() => priorPowerCurve(p, data, [NaN]))).toBe('alpha')
+    expect(field(() => priorPowerCurve(p, data, []))).toBe('alpha')
   })
   it('an unknown target is refused', () => {
     expect(field(() => powerScaledPosterior(p, data, 2, 'both' as never))).toBe('target')

@@ -6,7 +6,8 @@ import type { ImpactCandidate } from '@/api/impact'
 
 const candidate = (kind: ImpactCandidate['kind'], prior: ImpactCandidate['prior']): ImpactCandidate => ({
   key: kind, label: kind, kind, prior, priorSummary: { mean: 0, q025: 0, q975: 0 }, logEvidence: 0, method: 'closed-form',
-  posterior: { mean: 0, sd: 0, q025: 0, q50: 0, q975: 0 }, priorPredictiveP: 0.5, logPriorPredictiveP: Math.log(0.5), priorEss: null, bayesFactor: null, decision: null, flags: [],
+  posterior: { mean: 0, sd: 0, q025: 0, q50: 0, q975: 0 }, priorPredictiveP: 0.5, logPriorPredictiveP: Math.log(0.5), priorEss: null, bayesFactor: null,
+  fractionalBayesFactor: null, sensitivity: null, diagnosticNotes: [], decision: null, flags: [],
 })
 const flow = { model: 'normal-known-sigma' as const, sigma: 2, values: [2.2, 3.5, 2.8, 3.9, 2.6] }
 

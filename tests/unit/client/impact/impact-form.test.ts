@@ -37,7 +37,7 @@ describe('impact form: the request', () => {
 
   it('sends the mixture and the decision rule only when switched on, as numbers', () => {
     const values = initialValues(support, 4, bursts)
-    expect(requestOf(values)).toEqual({ datasetId: 4, comparison: { family: 'gamma', shape: 1, rate: 0.0099 }, mixtureWeight: null, mixtureWide: null, decision: null })
+    expect(requestOf(values)).toEqual({ datasetId: 4, comparison: { family: 'gamma', shape: 1, rate: 0.0099 }, mixtureWeight: null, mixtureWide: null, decision: null, trainingFraction: null })
     const on = { ...values, mixtureOn: true, mixtureWeight: '0.25', decisionOn: true, decision: { direction: 'above' as const, threshold: '12', probability: '0.8' } }
     const body = requestOf(on)
     expect(body).toMatchObject({ mixtureWeight: 0.25, mixtureWide: { family: 'gamma', shape: 1, rate: 0.0099 }, decision: { direction: 'above', threshold: 12, probability: 0.8 } })
@@ -45,7 +45,7 @@ describe('impact form: the request', () => {
   })
 
   it('restores the last run, and checks the options with the shared messages only when switched on', async () => {
-    const last = { datasetId: 7, comparison: { family: 'lognormal' as const, meanlog: 2, sdlog: 3 }, mixtureWeight: 0.1, mixtureWide: { family: 'gamma' as const, shape: 1, rate: 0.01 }, decision: { direction: 'below' as const, threshold: 9, probability: 0.9 } }
+    const last = { datasetId: 7, comparison: { family: 'lognormal' as const, meanlog: 2, sdlog: 3 }, mixtureWeight: 0.1, mixtureWide: { family: 'gamma' as const, shape: 1, rate: 0.01 }, decision: { direction: 'below' as const, threshold: 9, probability: 0.9 }, trainingFraction: 0.25 }
     const values = initialValues(support, 4, bursts, last)
     expect(requestOf(values)).toEqual(last)
 
@@ -58,6 +58,20 @@ describe('impact form: the request', () => {
     expect(messages).toEqual({ mixtureWeight: 'Between 0.01 and 0.99', 'decision.threshold': 'Enter the threshold' })
     const badPrior = await schema.validate({ ...values, comparison: { family: 'gamma', shape: 0, rate: 1 } }).catch((e: { path: string; message: string }) => e)
     expect(badPrior).toMatchObject({ path: 'comparison.shape', message: 'The shape must be above 0' })
+  })
+
+  it('sends the training fraction b as a number, none when the field is empty, and refuses b outside (0, 1) with the shared message', async () => {
+    const schema = impactFormSchema(support)
+    const values = initialValues(support, 4, bursts)
+    expect(values.trainingFraction).toBe('')
+    await expect(schema.validate(values)).resolves.toBeTruthy()
+    await expect(schema.validate({ ...values, trainingFraction: '  ' })).resolves.toBeTruthy()
+    expect(requestOf({ ...values, trainingFraction: '0.3' }).trainingFraction).toBe(0.3)
+    expect(requestOf({ ...values, trainingFraction: ' ' }).trainingFraction).toBeNull()
+    for (const b of ['0', '1', '-0.5', '2']) {
+      await expect(schema.validateAt('trainingFraction', { ...values, trainingFraction: b })).rejects.toMatchObject({ message: 'The training fraction b must be greater than 0 and less than 1' })
+    }
+    await expect(schema.validateAt('trainingFraction', { ...values, trainingFraction: 'half' })).rejects.toMatchObject({ message: 'The training fraction b must be a number' })
   })
 
   it('states the rule in words', () => {

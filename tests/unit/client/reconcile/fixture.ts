@@ -19,8 +19,8 @@ export function expert(expertId: number, label: string, name: string, distributi
 /** Two experts, N(10, 2²) and N(14, 3²) (POOL-linear-2), with the constructed Cooke panel as their calibration answers. */
 export function viewFixture(overrides: Partial<ReconciliationView> = {}): ReconciliationView {
   const experts = [
-    expert(3, 'Expert A', 'Tomasz Wierzbicki', { family: 'normal', mu: 10, sigma: 2 }),
-    expert(4, 'Expert B', 'Helen Okafor', { family: 'normal', mu: 14, sigma: 3 }),
+    expert(3, 'Expert 1', 'Tomasz Wierzbicki', { family: 'normal', mu: 10, sigma: 2 }),
+    expert(4, 'Expert 2', 'Helen Okafor', { family: 'normal', mu: 14, sigma: 3 }),
   ]
   return {
     rounds: [{ id: 7, number: 1, title: 'Round 1', status: 'closed', submitted: 2 }],

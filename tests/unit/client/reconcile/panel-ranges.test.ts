@@ -3,8 +3,7 @@ import { describe, expect, it } from 'vitest'
 import { mount } from '@vue/test-utils'
 import { toUnivariate, type Distribution } from '@shared/stats'
 import PanelRanges from '@/components/reconcile/PanelRanges.vue'
-import { rangeOf } from '@/composables/reconcile/usePanelView'
-import { axisPercent, densityPath, roundedAxis } from '@/reconcile/panel'
+import { axisPercent, densityPath, rangeOf, roundedAxis } from '@/reconcile/panel'
 
 const REAL = { lower: -Infinity, upper: Infinity }
 
@@ -44,8 +43,8 @@ describe('PanelRanges', () => {
   const b: Distribution = { family: 'normal', mu: 14, sigma: 3 }
   const props = {
     rows: [
-      { id: 3, label: 'Expert A', range: rangeOf(a), excluded: false, tone: '#5f87ad', compare: null },
-      { id: 4, label: 'Expert B', range: rangeOf(b), excluded: true, tone: '#b0707f', compare: rangeOf({ family: 'normal', mu: 16, sigma: 4 }) },
+      { id: 3, label: 'Expert 1', range: rangeOf(a), excluded: false, tone: '#5f87ad', compare: null },
+      { id: 4, label: 'Expert 2', range: rangeOf(b), excluded: true, tone: '#b0707f', compare: rangeOf({ family: 'normal', mu: 16, sigma: 4 }) },
     ],
     compareLabel: 'Round 1',
     combined: toUnivariate(a),
@@ -60,16 +59,16 @@ describe('PanelRanges', () => {
   it('draws one row per expert at its place on a round axis, with the combination filled beneath', () => {
     const wrapper = mount(PanelRanges, { props })
     const ticks = wrapper.findAll('[data-testid="panel-tick"]').map((t) => Number(t.text()))
-    // Values from 5.06 (Expert A's 2 % of the combination) to 22.6 (Expert B's 95 % in round 1), on the positive line: 5 to 25 in steps of 5.
+    // Values from 5.06 (Expert 1's 2 % of the combination) to 22.6 (Expert 2's 95 % in round 1), on the positive line: 5 to 25 in steps of 5.
     expect(ticks).toEqual([5, 10, 15, 20, 25])
     const rows = wrapper.findAll('[data-testid="panel-row"]')
-    expect(rows.map((r) => [r.attributes('data-label'), r.attributes('data-excluded')])).toEqual([['Expert A', 'false'], ['Expert B', 'true']])
-    // Expert A's median 10 sits a quarter along 5–25; the 5 % value 6.710 at 8.55 %.
+    expect(rows.map((r) => [r.attributes('data-label'), r.attributes('data-excluded')])).toEqual([['Expert 1', 'false'], ['Expert 2', 'true']])
+    // Expert 1's median 10 sits a quarter along 5–25; the 5 % value 6.710 at 8.55 %.
     expect(rows[0].get('[data-testid="panel-median"]').attributes('style')).toContain('left: 25.00%')
     expect(rows[0].get('[data-testid="panel-range"]').attributes('style')).toContain('left: 8.55%')
     expect(rows[0].find('[data-testid="panel-compare"]').exists()).toBe(false)
     expect(rows[1].find('[data-testid="panel-compare"]').exists()).toBe(true)
-    expect(rows[1].text()).toContain('Expert B (left out): 5 % 9.065, middle half 11.98 to 16.02, median 14, 95 % 18.93.')
+    expect(rows[1].text()).toContain('Expert 2 (left out): 5 % 9.065, middle half 11.98 to 16.02, median 14, 95 % 18.93.')
     expect(wrapper.get('[data-testid="panel-combined-shape"]').attributes('d')).toMatch(/Z$/)
     expect(wrapper.find('[data-testid="panel-prior-line"]').exists()).toBe(false)
     expect(wrapper.text()).toContain('Round 1')

@@ -33,7 +33,7 @@ describe('live preview of the combination', () => {
   })
 
   it('shows the effect of the cutoff at once: at α = 0.05 expert B gets no weight', () => {
-    const cooke = liveCooke(viewFixture().calibration, [3, 4], 0.05)
+    const cooke = liveCooke(viewFixture().calibration, viewFixture().experts, 0.05)
     expect(cooke.scores!.map((s) => s.normalizedWeight)).toEqual([1, 0])
     const p = computePreview(input({ weightsMode: 'performance', cutoff: 0.05 }))
     expect(p.weights).toEqual([1, 0])
@@ -41,6 +41,14 @@ describe('live preview of the combination', () => {
     const none = computePreview(input({ weightsMode: 'performance', cutoff: 0.9 }))
     expect(none.problems.weights).toBe('No expert passes the calibration cutoff; lower it or use equal weights')
     expect(none.summary).toBeNull()
+  })
+
+  it('names an expert with a malformed calibration answer by their study label, never by a database id', () => {
+    const v = viewFixture()
+    const crossed = v.calibration.assessments.map((a) => (a.id === '4' ? { ...a, assessments: a.assessments.map((q, i) => (i === 2 ? [q[2], q[1], q[0]] : q)) } : a))
+    const cooke = liveCooke({ ...v.calibration, assessments: crossed }, v.experts, 0)
+    expect(cooke.scores).toBeNull()
+    expect(cooke.problem).toBe('Expert 2, question 3: quantile values must increase.')
   })
 
   it('normalises weights set by hand, and refuses all-zero weights', () => {
@@ -51,14 +59,14 @@ describe('live preview of the combination', () => {
   })
 
   it('leaves switched-off experts out, and moves the pool without each expert in turn (three or more)', () => {
-    const three = [...viewFixture().experts, expert(5, 'Expert C', 'Rafael Duarte', { family: 'normal', mu: 30, sigma: 2 })]
+    const three = [...viewFixture().experts, expert(5, 'Expert 3', 'Rafael Duarte', { family: 'normal', mu: 30, sigma: 2 })]
     const p = computePreview(input({ experts: three, calibration: { ...viewFixture().calibration, questionCount: 0 } }))
-    expect(p.leaveOneOut.map((r) => r.label)).toEqual(['Expert A', 'Expert B', 'Expert C'])
+    expect(p.leaveOneOut.map((r) => r.label)).toEqual(['Expert 1', 'Expert 2', 'Expert 3'])
     const withoutC = p.leaveOneOut[2]
     expect(withoutC.q50).toBeCloseTo(11.6, 6)
     expect(withoutC.medianShift).toBeLessThan(0)
     // N(10, 2²) and N(30, 2²): 90 % intervals 6.7–13.3 and 26.7–33.3 do not overlap.
-    expect(p.disagreements).toEqual([{ a: 'Expert A', b: 'Expert C' }, { a: 'Expert B', b: 'Expert C' }])
+    expect(p.disagreements).toEqual([{ a: 'Expert 1', b: 'Expert 3' }, { a: 'Expert 2', b: 'Expert 3' }])
     const off = computePreview(input({ experts: three, excluded: [5] }))
     expect(off.included.map((e) => e.expertId)).toEqual([3, 4])
     expect(off.disagreements).toEqual([])

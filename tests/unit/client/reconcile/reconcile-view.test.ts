@@ -91,12 +91,12 @@ describe('ReconcileView', { timeout: 15000 }, () => {
   it('shows every expert with the pool and no chosen family yet, then the chosen fit on the chart', async () => {
     const { wrapper } = await mountView([{ status: 200, body: viewFixture() }])
     const rows = wrapper.findAll('[data-testid="expert-row"]')
-    expect(rows.map((r) => r.attributes('data-label'))).toEqual(['Expert A', 'Expert B'])
+    expect(rows.map((r) => r.attributes('data-label'))).toEqual(['Expert 1', 'Expert 2'])
     expect(rows[0].text()).toContain('Tomasz Wierzbicki')
     expect(rows[0].text()).toContain('Night-flow records')
     expect(wrapper.get('[data-testid="combination-summary"]').text()).toContain('median 11.6')
     const panel = wrapper.get('[data-testid="panel-ranges"]')
-    expect(panel.findAll('[data-testid="panel-row"]').map((r) => r.attributes('data-label'))).toEqual(['Expert A', 'Expert B'])
+    expect(panel.findAll('[data-testid="panel-row"]').map((r) => r.attributes('data-label'))).toEqual(['Expert 1', 'Expert 2'])
     expect(panel.find('[data-testid="panel-combined-shape"]').exists()).toBe(true)
     expect(panel.find('[data-testid="panel-prior-line"]').exists()).toBe(false)
     await radio(wrapper, 'fit-row"][data-family="normal"] [data-testid="fit-choose').setValue(true)
@@ -117,12 +117,12 @@ describe('ReconcileView', { timeout: 15000 }, () => {
     await cutoff.trigger('change')
     await settle()
     expect(weights()).toEqual(['1', '0'])
-    expect(wrapper.get('[data-testid="cooke-effect"]').text()).toContain('Expert B falls below the cutoff')
+    expect(wrapper.get('[data-testid="cooke-effect"]').text()).toContain('Expert 2 falls below the cutoff')
     expect(wrapper.findAll('[data-testid="expert-weight"]').map((c) => c.text())).toEqual(['1', '0'])
   })
 
   it('shows the analyst where an expert’s fitted shape contradicts that expert’s range', async () => {
-    const box = expert(5, 'Expert C', 'Ana Ruiz', { family: 'uniform', lower: 6, upper: 14 }, 'Pressure logs.', ['This shape says values above 14 are impossible, but you said 25 is plausible.'])
+    const box = expert(5, 'Expert 3', 'Ana Ruiz', { family: 'uniform', lower: 6, upper: 14 }, 'Pressure logs.', ['This shape says values above 14 are impossible, but you said 25 is plausible.'])
     const { wrapper } = await mountView([{ status: 200, body: viewFixture({ experts: [...viewFixture().experts, box], included: [3, 4, 5] }) }])
     expect(wrapper.findAll('[data-testid="expert-fit-warning"]').map((p) => p.text())).toEqual([
       'Fitted shape: This shape says values above 14 are impossible, but you said 25 is plausible.',
@@ -149,12 +149,12 @@ describe('ReconcileView', { timeout: 15000 }, () => {
     expect(puts(calls)).toHaveLength(0)
     expect(wrapper.get('[data-testid="weights-reason"]').text()).toContain('Say why you set the weights by hand')
 
-    await wrapper.get('[data-testid="weights-reason"] textarea').setValue('Expert A ran the pilot districts herself.')
+    await wrapper.get('[data-testid="weights-reason"] textarea').setValue('Expert 1 ran the pilot districts herself.')
     await wrapper.get('[data-testid="save-draft"]').trigger('click')
     await settle()
     expect(puts(calls)).toHaveLength(1)
     expect(puts(calls)[0].body).toMatchObject({
-      roundId: 7, method: 'linear', weights: [1, 1], weightsReason: 'Expert A ran the pilot districts herself.', excludedExperts: [], reconciled: false, version: 0,
+      roundId: 7, method: 'linear', weights: [1, 1], weightsReason: 'Expert 1 ran the pilot districts herself.', excludedExperts: [], reconciled: false, version: 0,
     })
     expect(puts(calls)[0].body).not.toHaveProperty('consensus')
     expect(wrapper.get('[data-testid="reconcile-status"]').attributes('data-status')).toBe('draft')

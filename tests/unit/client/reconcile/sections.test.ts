@@ -12,7 +12,7 @@ import FitSection from '@/components/reconcile/FitSection.vue'
 import RobustnessSection from '@/components/reconcile/RobustnessSection.vue'
 import DecisionSection from '@/components/reconcile/DecisionSection.vue'
 import { computePreview, liveCooke } from '@/reconcile/preview'
-import { rangeOf } from '@/composables/reconcile/usePanelView'
+import { rangeOf } from '@/reconcile/panel'
 import { expert, viewFixture } from './fixture'
 
 const components = {
@@ -38,7 +38,7 @@ describe('ExpertsSection', () => {
     await wrapper.findAll('[data-testid="round-option"] input')[1].setValue(true)
     expect(wrapper.emitted('selectRound')).toEqual([[9]])
     const rows = wrapper.findAll('[data-testid="expert-row"]')
-    expect(rows.map((r) => r.attributes('data-label'))).toEqual(['Expert A', 'Expert B'])
+    expect(rows.map((r) => r.attributes('data-label'))).toEqual(['Expert 1', 'Expert 2'])
     expect(rows[1].classes()).toContain('is-excluded')
     expect(wrapper.findAll('[data-testid="panel-row"]').map((r) => r.attributes('data-excluded'))).toEqual(['false', 'true'])
     await rows[1].get('[data-testid="expert-toggle"] input').setValue(true)
@@ -55,7 +55,7 @@ describe('ExpertsSection', () => {
 
 describe('CombineSection', () => {
   const v = viewFixture()
-  const cooke = liveCooke(v.calibration, [3, 4], 0)
+  const cooke = liveCooke(v.calibration, v.experts, 0)
   const base = {
     included: v.experts, questionCount: 10, cautions: [], cooke, cookeAll: cooke, cutoffValue: 0, customTotal: 2, summary: v.pool as Summary, combinationLabel: 'Linear pool, equal weights',
     problems: {}, unit: 'L/s', disabled: false, errors: {}, weightsReasonAttrs: {}, participantsAttrs: {}, notesAttrs: {},
@@ -118,14 +118,14 @@ describe('FitSection', () => {
 describe('RobustnessSection', () => {
   it('flags experts whose 90 % intervals do not overlap and lists leave-one-out rows for three experts', () => {
     const experts = [
-      expert(3, 'Expert A', 'Tomasz Wierzbicki', { family: 'normal', mu: 10, sigma: 1 }),
-      expert(4, 'Expert B', 'Helen Okafor', { family: 'normal', mu: 20, sigma: 1 }),
-      expert(5, 'Expert C', 'Ana Ruiz', { family: 'normal', mu: 15, sigma: 3 }),
+      expert(3, 'Expert 1', 'Tomasz Wierzbicki', { family: 'normal', mu: 10, sigma: 1 }),
+      expert(4, 'Expert 2', 'Helen Okafor', { family: 'normal', mu: 20, sigma: 1 }),
+      expert(5, 'Expert 3', 'Ana Ruiz', { family: 'normal', mu: 15, sigma: 3 }),
     ]
     const v = viewFixture({ experts, included: [3, 4, 5] })
     const preview = computePreview({ method: 'linear', experts, excluded: [], weightsMode: 'equal', customWeights: {}, cutoff: 0, calibration: v.calibration, consensus: [], support: { kind: 'real' } })
     const wrapper = mount(RobustnessSection, { props: { preview, summary: preview.summary, experts, consensus: false, unit: 'L/s' }, global })
-    expect(wrapper.get('[data-testid="disagreement-flag"]').text()).toContain('Expert A and Expert B do not overlap')
+    expect(wrapper.get('[data-testid="disagreement-flag"]').text()).toContain('Expert 1 and Expert 2 do not overlap')
     expect(wrapper.findAll('[data-testid="loo-row"]').map((r) => r.attributes('data-expert-id'))).toEqual(['3', '4', '5'])
   })
 

@@ -43,7 +43,7 @@ describe('the cutoff on a log scale (constructed cases)', () => {
 
 describe('CutoffPlot', () => {
   // The COOKE-worked-example panel of the fixture: calibration 0.0521 (A) and 0.00344 (B) at cutoff 0 (an independent Python implementation).
-  const points = [{ expertId: 3, label: 'Expert A', calibration: 0.0521, information: 1.2 }, { expertId: 4, label: 'Expert B', calibration: 0.00344, information: 2.1 }]
+  const points = [{ expertId: 3, label: 'Expert 1', calibration: 0.0521, information: 1.2 }, { expertId: 4, label: 'Expert 2', calibration: 0.00344, information: 2.1 }]
 
   it('places the experts on a log scale and greys out those below the cutoff', async () => {
     const wrapper = mount(CutoffPlot, { props: { points, cutoff: 0 } })
@@ -82,7 +82,7 @@ describe('PerformanceWeights', () => {
   const v = viewFixture()
   const mountAt = (cutoff: number) => mount(PerformanceWeights, {
     props: {
-      included: v.experts, questionCount: 10, cautions: [], cooke: liveCooke(v.calibration, [3, 4], cutoff), cookeAll: liveCooke(v.calibration, [3, 4], 0),
+      included: v.experts, questionCount: 10, cautions: [], cooke: liveCooke(v.calibration, v.experts, cutoff), cookeAll: liveCooke(v.calibration, v.experts, 0),
       cutoffValue: cutoff, cutoff,
     },
     global,
@@ -92,7 +92,7 @@ describe('PerformanceWeights', () => {
     const wrapper = mountAt(0)
     const bars = wrapper.findAll('[data-testid="weight-bar"]')
     // COOKE-worked-example: normalised weights 0.957753869124 and 0.0422461308765 at α = 0.
-    expect(bars.map((b) => b.text())).toEqual(['Expert A0.958', 'Expert B0.0422'])
+    expect(bars.map((b) => b.text())).toEqual(['Expert 10.958', 'Expert 20.0422'])
     expect(wrapper.get('[data-testid="cooke-details"]').element.tagName).toBe('DETAILS')
     expect(wrapper.get('[data-testid="cooke-details"]').attributes('open')).toBeUndefined()
     const heads = wrapper.findAll('[data-testid="cooke-table"] thead th').map((h) => h.text())
@@ -103,7 +103,7 @@ describe('PerformanceWeights', () => {
   it('greys out the expert below the cutoff and keeps the plot when the cutoff drops everyone', () => {
     const at05 = mountAt(0.05)
     expect(at05.findAll('[data-testid="weight-bar"]').map((b) => [b.attributes('data-weight'), b.classes().includes('is-below')])).toEqual([['1', false], ['0', true]])
-    expect(at05.get('[data-testid="cooke-effect"]').text()).toBe('Expert B falls below the cutoff 0.05 and gets no weight.')
+    expect(at05.get('[data-testid="cooke-effect"]').text()).toBe('Expert 2 falls below the cutoff 0.05 and gets no weight.')
     const atTop = mountAt(0.9)
     expect(atTop.find('[data-testid="cutoff-plot"]').exists()).toBe(true)
     expect(atTop.findAll('[data-testid="cutoff-point"]').map((p) => p.attributes('data-below'))).toEqual(['true', 'true'])

@@ -30,7 +30,7 @@ export function quantity(overrides: Partial<RecordQuantity> = {}): RecordQuantit
     rounds: [{ number: 1, title: 'Round 1', method: 'quantile', edges: null, chips: null, opensAt: '2026-03-01T09:00:00.000Z', closesAt: '2026-03-08T17:00:00.000Z', feedback: false }],
     judgements: [
       {
-        round: 1, expert: { code: 'Expert A' }, method: 'quantile', rationale: 'Pilot districts.',
+        round: 1, expert: { code: 'Expert 1' }, method: 'quantile', rationale: 'Pilot districts.',
         answer: { lower: -2, upper: 8, points: [{ value: 2.3, prob: 0.25 }, { value: 3, prob: 0.5 }, { value: 3.7, prob: 0.75 }] },
         fit: { distribution: { family: 'normal', mu: 3, sigma: 1 }, sse: 0.0012, q05: 1.355, q50: 3, q95: 4.645, mean: 3, sd: 1 },
       },
@@ -63,7 +63,7 @@ export function recordView(status: RecordStatus = 'draft', overrides: Partial<Re
       $schema: 'https://priorsmith.example/schemas/prior-record-1.json', schemaVersion: '1.0',
       study: { title: 'Kestrel record', context: 'Decide on pressure management.', owner: 'Priya Natarajan' },
       version: 1, namesShown: false,
-      panel: [{ code: 'Expert A', declarations: [{ round: 1, expertise: 'Leakage control, 12 years.', interests: 'none', interestsText: '', seenPilotData: false, practice: null }] }],
+      panel: [{ code: 'Expert 1', declarations: [{ round: 1, expertise: 'Leakage control, 12 years.', interests: 'none', interestsText: '', seenPilotData: false, practice: null }] }],
       calibration: { questions: [{ question: 'Bursts in 2024?', unit: 'bursts', trueValue: 61 }], method: 'Cooke’s classical model' },
       quantities: [quantity(), quantity({ name: 'Leak-alert uptake', symbol: 'uptake', unit: 'share', support: { kind: 'proportion' }, finalPrior: null, combination: null, judgements: [] })],
       cautions: ['The priors in this record can decide the result; they must be reviewed by a qualified statistician.'],
