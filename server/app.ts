@@ -4,6 +4,7 @@ import express, { type Express } from 'express'
 import helmet from 'helmet'
 import { createPassport } from './auth/passport'
 import { createSignInGuard } from './auth/sign-in-guard'
+import type { AppConfig } from '../shared/api/users'
 import type { Db } from './db/knex'
 import { createCsrf } from './http/csrf'
 import { errorHandler, notFoundApi } from './http/error-handler'
@@ -95,7 +96,7 @@ export function createApp(opts: AppOptions): PriorsmithApp {
 
   app.use('/api/health', healthRouter(db))
   app.get('/api/config', (_req, res) => {
-    res.json({ devMailbox: !!opts.mailFake?.running })
+    res.json({ devMailbox: !!opts.mailFake?.running } satisfies AppConfig)
   })
   app.use('/api', csrf.protection)
   app.use('/api/auth', authRouter(db, passport, { guard: signInGuard, generateCsrfToken: csrf.generateToken }))

@@ -1,3 +1,4 @@
+import type { ImpactComputation } from '../../shared/api/impact'
 import { evaluateCandidates, findings, sweepOf, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
 import { tippingPoint } from '../../shared/elicitation/tipping'
 import type { Distribution, PilotData, Support } from '../../shared/stats/index'
@@ -14,8 +15,6 @@ export interface ImpactTask {
   n: number
 }
 
-export type ImpactComputation = ReturnType<typeof computeImpact>
-
 /** Steps of an analysis, for its progress: each candidate prior, each width of the sweep, the tipping point. */
 export function impactSteps(t: ImpactTask): number {
   return t.candidates.length + (t.reconciled ? t.factors.length : 0) + (t.reconciled && t.decision ? 1 : 0)
@@ -25,7 +24,7 @@ export function impactSteps(t: ImpactTask): number {
  * The heavy part of an impact analysis: every candidate's evidence and posterior, the width sweep, the tipping point.
  * `onProgress` hears the steps finished after each one (impactSteps in all).
  */
-export function computeImpact(t: ImpactTask, onProgress: (done: number) => void = () => {}) {
+export function computeImpact(t: ImpactTask, onProgress: (done: number) => void = () => {}): ImpactComputation {
   const started = Date.now()
   let done = 0
   const step = () => onProgress(++done)

@@ -2,7 +2,8 @@ import path from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { Worker } from 'node:worker_threads'
 import { EngineInputError } from '../../shared/stats/index'
-import type { ImpactComputation, ImpactTask } from './tasks'
+import type { ImpactComputation } from '../../shared/api/impact'
+import type { ImpactTask } from './tasks'
 
 const ENTRY = path.join(path.dirname(fileURLToPath(import.meta.url)), 'thread-entry.mjs')
 

@@ -1,7 +1,7 @@
 import { Router } from 'express'
 import type { PassportStatic } from 'passport'
 import { signInSchema } from '../../shared/schemas/auth'
-import type { User } from '../../shared/types/index'
+import type { CsrfToken, User } from '../../shared/api/users'
 import { currentUser, requireAuth } from '../auth/guards'
 import type { SignInGuard } from '../auth/sign-in-guard'
 import type { Db } from '../db/knex'
@@ -14,7 +14,7 @@ export function authRouter(db: Db, passport: PassportStatic, opts: { guard: Sign
   const r = Router()
 
   r.get('/csrf', (req, res) => {
-    res.json({ token: opts.generateCsrfToken(req, res) })
+    res.json({ token: opts.generateCsrfToken(req, res) } satisfies CsrfToken)
   })
 
   r.post('/sign-in', ...opts.guard.limiters, async (req, res, next) => {

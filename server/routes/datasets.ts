@@ -8,7 +8,8 @@ import { idParam } from '../http/id-param'
 import { validateBody } from '../http/validate-body'
 import { fileReceiver } from '../http/upload'
 import { allow, studyAccess } from '../services/access'
-import { createDataset, getDataset, listDatasets, previewCsv, type UploadFields } from '../services/datasets'
+import type { PilotUploadFields } from '../../shared/api/datasets'
+import { createDataset, getDataset, listDatasets, previewCsv } from '../services/datasets'
 
 const receiveFile = fileReceiver({ maxBytes: PILOT_MAX_BYTES, fields: 20, tooLarge: 'Pilot data files may be at most 2 MB.' })
 
@@ -35,7 +36,7 @@ export function datasetsRouter(db: Db): Router {
     const access = await studyAccess(db, currentUser(req), idParam(req.params.id, 'Study'))
     allow(access, 'analyst')
     await receiveFile(req, res)
-    const fields = (await validateBody(pilotUploadSchema, { ...req.body })) as UploadFields
+    const fields = (await validateBody(pilotUploadSchema, { ...req.body })) as PilotUploadFields
     if (!req.file) throw new HttpError(400, 'Choose a CSV file', { file: 'Choose a CSV file' })
     res.status(201).json(await createDataset(db, access.user, access.studyId, fields, req.file))
   })

@@ -2,6 +2,7 @@ import { Router, type RequestHandler } from 'express'
 import { requireRole } from '../auth/guards'
 import { HttpError } from '../http/http-error'
 import { idParam } from '../http/id-param'
+import type { MailboxMessage, MailboxMessageDetail } from '../../shared/api/mailbox'
 import type { FakeMessage, SmtpFake } from '../mail/smtp-fake'
 
 /**
@@ -18,7 +19,7 @@ export function devMailboxRouter(fake: SmtpFake | null): Router {
     next()
   }
 
-  const summary = (m: FakeMessage) => ({
+  const summary = (m: FakeMessage): MailboxMessage => ({
     id: m.id,
     to: m.to,
     from: m.from,
@@ -37,7 +38,7 @@ export function devMailboxRouter(fake: SmtpFake | null): Router {
     const id = idParam(String(req.params.id), 'Message')
     const m = fake!.messages.find((x) => x.id === id)
     if (!m) throw new HttpError(404, 'Message not found')
-    res.json({ ...summary(m), toHeader: m.toHeader, messageId: m.messageId ?? null, attachments: m.attachments })
+    res.json({ ...summary(m), toHeader: m.toHeader, messageId: m.messageId ?? null, attachments: m.attachments } satisfies MailboxMessageDetail)
   })
 
   return router

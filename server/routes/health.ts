@@ -1,4 +1,5 @@
 import { Router } from 'express'
+import type { HealthStatus } from '../../shared/api/users'
 import type { Db } from '../db/knex'
 
 export function healthRouter(db: Db): Router {
@@ -11,7 +12,7 @@ export function healthRouter(db: Db): Router {
     } catch {
       dbUp = false
     }
-    res.status(dbUp ? 200 : 503).json({ ok: dbUp, db: dbUp })
+    res.status(dbUp ? 200 : 503).json({ ok: dbUp, db: dbUp } satisfies HealthStatus)
   })
   return r
 }

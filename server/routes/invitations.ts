@@ -1,4 +1,5 @@
 import { Router } from 'express'
+import type { InvitationAccepted } from '../../shared/api/invitations'
 import { acceptInvitationSchema } from '../../shared/schemas/rounds'
 import type { Db } from '../db/knex'
 import { validateBody } from '../http/validate-body'
@@ -17,7 +18,7 @@ export function invitationsRouter(db: Db): Router {
     const { user, roundId } = await acceptInvitation(db, req.params.token, body)
     req.logIn(user, (err) => {
       if (err) return next(err)
-      res.status(201).json({ user, roundId })
+      res.status(201).json({ user, roundId } satisfies InvitationAccepted)
     })
   })
 

@@ -1,5 +1,6 @@
 import { Router, type Request } from 'express'
 import { calibrationAnswerSchema, judgementSchema, reopenSchema } from '../../shared/schemas/judgements'
+import type { JudgementSaved } from '../../shared/api/judgements'
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/http-error'
@@ -33,7 +34,7 @@ export function judgementsRouter(db: Db): Router {
     if (access.role !== 'expert') throw new HttpError(403, 'Only the experts on the panel answer')
     const body = await validateBody(judgementSchema, req.body)
     const { judgement, fits, complete, fitMessage } = await saveJudgement(db, access.user, id, idParam(req.params.quantityId, 'Quantity'), body)
-    res.json({ judgement, fits, complete, fitMessage })
+    res.json({ judgement, fits, complete, fitMessage } satisfies JudgementSaved)
   })
 
   r.post('/rounds/:id/submit', async (req, res) => {

@@ -1,4 +1,5 @@
 import { Router, type Request } from 'express'
+import type { RecordExport } from '../../shared/api/records'
 import {
   recordChartSchema, recordCommentSchema, recordExclusionSchema, recordReturnSchema, recordSettingsSchema, recordSubmitSchema,
 } from '../../shared/schemas/records'
@@ -43,7 +44,7 @@ export function recordsRouter(ctx: RecordContext): Router {
     const a = await readerAccess(req)
     const { content, meta } = await recordForExport(db, a.studyId, versionQuery(req))
     res.setHeader('Content-Disposition', `attachment; filename="prior-record-v${meta.version}.json"`)
-    res.json({ ...content, record: meta })
+    res.json({ ...content, record: meta } satisfies RecordExport)
   })
 
   r.get('/studies/:id/record.docx', async (req, res) => {

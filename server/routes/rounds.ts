@@ -1,4 +1,5 @@
 import { Router } from 'express'
+import type { PracticeResult } from '../../shared/api/rounds'
 import { declarationSchema, emptySchema, invitationSchema, practiceSchema, roundSchema, roundUpdateSchema } from '../../shared/schemas/rounds'
 import { currentUser } from '../auth/guards'
 import type { AppContext } from '../context'
@@ -139,7 +140,7 @@ export function roundsRouter(ctx: AppContext): Router {
     const round = await roundRow(db, id)
     const feedback = practiceFeedback(body.points, round.practice_answer)
     const entry = await savePractice(db, access.user, id, access.studyId, body.points, feedback)
-    res.json({ ...entry, feedback })
+    res.json({ ...entry, feedback } satisfies PracticeResult)
   })
 
   return r

@@ -1,5 +1,6 @@
 import { Router } from 'express'
 import { userCreateSchema, userUpdateSchema } from '../../shared/schemas/users'
+import type { DirectoryUser } from '../../shared/api/users'
 import type { Role } from '../../shared/types/index'
 import { currentUser, requireRole } from '../auth/guards'
 import type { Db } from '../db/knex'
@@ -15,7 +16,7 @@ export function usersRouter(db: Db): Router {
   // Analysts pick study members and panel experts from this list: no more than a name, e-mail and role.
   r.get('/directory', requireRole('admin', 'analyst'), async (_req, res) => {
     const users = await listUsers(db)
-    res.json(users.filter((u) => !u.disabled).map((u) => ({ id: u.id, displayName: u.displayName, email: u.email, role: u.role })))
+    res.json(users.filter((u) => !u.disabled).map((u): DirectoryUser => ({ id: u.id, displayName: u.displayName, email: u.email, role: u.role })))
   })
 
   r.use(requireRole('admin'))

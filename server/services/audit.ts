@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto'
 import type { Knex } from 'knex'
+import type { AuditChainCheck } from '../../shared/api/audit'
 import type { Db } from '../db/knex'
 
 export interface AuditInput {
@@ -71,7 +72,7 @@ export function recordAuditAlone(db: Db, input: AuditInput): Promise<void> {
  * Events written before the chains were split per study link to the event just before them in the whole table; such a
  * link is accepted too, and checked against that event.
  */
-export async function verifyAuditChain(db: Db, studyId: number | null): Promise<{ intact: boolean; events: number; brokenAt: number | null }> {
+export async function verifyAuditChain(db: Db, studyId: number | null): Promise<AuditChainCheck> {
   const rows: Record<string, any>[] = await ofChain(db('audit_events').select('*'), studyId).orderBy('id')
   const hashOk = (r: Record<string, any>) => r.hash === auditHash(r.prev_hash, {
     at: new Date(r.at).toISOString(), actorId: r.actor_id, studyId: r.study_id, action: r.action, subject: r.subject, details: r.details,

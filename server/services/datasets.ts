@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto'
 import Papa from 'papaparse'
+import type { CsvPreview, Dataset, PilotUploadFields } from '../../shared/api/datasets'
 import { readCsvTable } from '../../shared/elicitation/csv'
 import { extractPilotData, PILOT_MAX_BYTES, PilotDataError, type PilotMapping } from '../../shared/elicitation/pilot'
 import type { User } from '../../shared/types/index'
@@ -7,24 +8,7 @@ import type { Db } from '../db/knex'
 import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
 
-export interface UploadFields {
-  quantityId: number
-  name: string
-  model: string
-  delimiter: string
-  valueColumn?: string
-  sigma?: number
-  sigmaPriorScale?: number
-  binomialLayout?: string
-  successesColumn?: string
-  trialsColumn?: string
-  binaryColumn?: string
-  countColumn?: string
-  exposureColumn?: string
-  allowDuplicate?: boolean
-}
-
-export function mappingFrom(f: UploadFields): PilotMapping {
+export function mappingFrom(f: PilotUploadFields): PilotMapping {
   switch (f.model) {
     case 'normal-known-sigma':
       return { model: 'normal-known-sigma', valueColumn: f.valueColumn!, sigma: f.sigma! }
@@ -56,12 +40,12 @@ export function parseCsv(buffer: Buffer, delimiter: string): { text: string; tab
 }
 
 /** The first rows and the columns of a file, for the mapping form. */
-export function previewCsv(buffer: Buffer, delimiter: string) {
+export function previewCsv(buffer: Buffer, delimiter: string): CsvPreview {
   const { table } = parseCsv(buffer, delimiter)
   return { columns: table[0] ?? [], rows: table.slice(1, 11), rowCount: Math.max(0, table.length - 1) }
 }
 
-function toDataset(r: Record<string, any>, withCsv = false) {
+function toDataset(r: Record<string, any>, withCsv = false): Dataset {
   return {
     id: r.id, studyId: r.study_id, quantityId: r.quantity_id, version: r.version, name: r.name, filename: r.filename, model: r.model,
     mapping: r.mapping, rowCount: r.row_count, data: r.data, summary: r.summary, sha256: r.sha256, createdAt: r.created_at.toISOString(),
@@ -70,7 +54,7 @@ function toDataset(r: Record<string, any>, withCsv = false) {
 }
 
 /** Validates the whole file against the mapping before anything is stored: a bad file saves nothing. */
-export async function createDataset(db: Db, user: User, studyId: number, fields: UploadFields, file: { originalname: string; buffer: Buffer }) {
+export async function createDataset(db: Db, user: User, studyId: number, fields: PilotUploadFields, file: { originalname: string; buffer: Buffer }): Promise<Dataset> {
   const quantity = await db('quantities').where({ id: fields.quantityId, study_id: studyId }).first('id')
   if (!quantity) throw new HttpError(400, 'Choose a quantity of this study', { quantityId: 'Choose a quantity of this study' })
   const { text, table, lines } = parseCsv(file.buffer, fields.delimiter)
@@ -103,12 +87,12 @@ export async function createDataset(db: Db, user: User, studyId: number, fields:
   return toDataset(row, true)
 }
 
-export async function listDatasets(db: Db, studyId: number) {
+export async function listDatasets(db: Db, studyId: number): Promise<Dataset[]> {
   const rows = await db('pilot_datasets').where({ study_id: studyId }).orderBy([{ column: 'quantity_id' }, { column: 'version', order: 'desc' }])
   return rows.map((r) => toDataset(r))
 }
 
-export async function getDataset(db: Db, id: number) {
+export async function getDataset(db: Db, id: number): Promise<Dataset> {
   const row = await db('pilot_datasets').where({ id }).first()
   if (!row) throw new HttpError(404, 'Dataset not found')
   return toDataset(row, true)

@@ -1,6 +1,6 @@
+import type { ImpactComputation, ImpactFindings, ImpactRequest, ImpactResult } from '../../shared/api/impact'
 import type { ImpactJob, ImpactJobError, ImpactJobState } from '../../shared/api/impact-jobs'
-import type { DecisionRule } from '../../shared/elicitation/impact'
-import type { ImpactComputation, ImpactTask } from '../compute/tasks'
+import type { ImpactTask } from '../compute/tasks'
 import type { Db } from '../db/knex'
 import { PGBOSS_SCHEMA } from '../queue/boss'
 import { recordAudit } from './audit'
@@ -10,14 +10,7 @@ export interface ImpactJobTask {
   compute: ImpactTask
   studyId: number
   priorHash: string | null
-  resultBase: {
-    quantityId: number
-    datasetId: number
-    dataset: { name: string; version: number; model: string; summary: unknown }
-    n: number
-    decision: DecisionRule | null
-    excludedExperts: { expertId: number; label: string }[]
-  }
+  resultBase: Omit<ImpactFindings, keyof ImpactComputation>
 }
 
 /** A row of impact_jobs. */
@@ -42,7 +35,7 @@ export interface StoredImpactJob {
 }
 
 /** The analysis as the client reads it: the stored result with its id, creation time and the request behind it. */
-export function analysisOf(row: { id: number; created_at: Date; input: unknown; result: Record<string, unknown> }, cached: boolean) {
+export function analysisOf(row: { id: number; created_at: Date; input: ImpactRequest; result: ImpactFindings }, cached: boolean): ImpactResult {
   return { id: row.id, cached, createdAt: row.created_at.toISOString(), input: row.input, ...row.result }
 }
 
@@ -61,7 +54,7 @@ const ABANDONED: ImpactJobError = { status: 500, message: 'The analysis stopped 
  * The job as the client reads it. A job still queued or running whose queue entry has failed, expired or vanished is
  * reported failed: nothing will finish it.
  */
-export async function toImpactJob(db: Db, stored: StoredImpactJob): Promise<ImpactJob> {
+export async function toImpactJob(db: Db, stored: StoredImpactJob): Promise<ImpactJob<ImpactResult>> {
   let job = stored
   let { state, error } = job
   if (state === 'queued' || state === 'running') {
@@ -77,7 +70,7 @@ export async function toImpactJob(db: Db, stored: StoredImpactJob): Promise<Impa
       }
     }
   }
-  let result = null
+  let result: ImpactResult | null = null
   if (state === 'done' && job.analysis_id !== null) {
     const analysis = await db('impact_analyses').where({ id: job.analysis_id }).first('id', 'created_at', 'input', 'result', 'job_id')
     if (analysis) result = analysisOf(analysis, analysis.job_id !== job.id)
@@ -119,7 +112,7 @@ export async function completeImpactJob(db: Db, job: StoredImpactJob, computed: 
   return db.transaction(async (trx) => {
     const current = await trx('impact_jobs').where({ id: job.id }).forUpdate().first('state')
     if (current?.state !== 'running') return false
-    const result = { ...task.resultBase, ...computed }
+    const result: ImpactFindings = { ...task.resultBase, ...computed }
     const [analysis] = await trx('impact_analyses').insert({
       quantity_id: job.quantity_id, dataset_id: job.dataset_id, input_hash: job.input_hash, prior_hash: task.priorHash,
       input: JSON.stringify(job.input), result: JSON.stringify(result), created_by: job.created_by, job_id: job.id,

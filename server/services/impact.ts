@@ -1,4 +1,5 @@
 import { createHash } from 'node:crypto'
+import type { ImpactNotRun, ImpactResult } from '../../shared/api/impact'
 import { chosenFit } from '../../shared/elicitation/fits'
 import { dataSize, mixtureLabel, SWEEP_FACTORS, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
 import { combine, fitCombination, fitConsensus, resolveWeights } from '../../shared/elicitation/reconcile'
@@ -134,13 +135,13 @@ export async function submitImpact(db: Db, queue: AnalysisQueue, user: User, qua
 }
 
 /** The newest analysis of a quantity, for the record and for reopening the page. */
-export async function latestImpact(db: Db, quantityId: number) {
+export async function latestImpact(db: Db, quantityId: number): Promise<ImpactResult | null> {
   const row = await db('impact_analyses').where({ quantity_id: quantityId }).orderBy('id', 'desc').first()
   return row ? analysisOf(row, true) : null
 }
 
 /** The analyst's reason for stating the final prior without an impact analysis; it holds for this prior only. */
-export async function recordImpactNotRun(db: Db, user: User, quantityId: number, reason: string) {
+export async function recordImpactNotRun(db: Db, user: User, quantityId: number, reason: string): Promise<ImpactNotRun> {
   const quantity = await getQuantity(db, quantityId)
   const rec = await db('reconciliations').where({ quantity_id: quantityId }).first('status', 'distribution')
   if (rec?.status !== 'reconciled' || !rec.distribution) throw new HttpError(409, 'Reconcile the quantity first: the reason is recorded for its final prior')

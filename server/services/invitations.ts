@@ -1,4 +1,7 @@
 import bcrypt from 'bcryptjs'
+import type { InvitationAccepted, InvitationInfo, InvitationState } from '../../shared/api/invitations'
+import type { Declaration, PracticeDone, PracticeFeedback, RoundEntry } from '../../shared/api/rounds'
+import type { Point } from '../../shared/stats/types'
 import type { DeclarationBody } from '../../shared/schemas/rounds'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
@@ -6,8 +9,6 @@ import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
 import { hashToken } from './tokens'
 import { findUserById } from './users'
-
-type InvitationState = 'valid' | 'expired' | 'used' | 'revoked' | 'closed'
 
 const ROUND_OVER = ['closed', 'reconciled']
 
@@ -36,7 +37,7 @@ const STATE_MESSAGES: Record<Exclude<InvitationState, 'valid'>, string> = {
 }
 
 /** What the invitation page shows before the expert sets a password. */
-export async function describeInvitation(db: Db, token: string) {
+export async function describeInvitation(db: Db, token: string): Promise<InvitationInfo> {
   const { row, state } = await invitationByToken(db, token)
   return {
     state,
@@ -53,7 +54,7 @@ export async function describeInvitation(db: Db, token: string) {
 }
 
 /** Creates the expert's account from a valid invitation (single use, under a row lock) and returns it. */
-export async function acceptInvitation(db: Db, token: string, body: { name: string; password: string }): Promise<{ user: User; roundId: number }> {
+export async function acceptInvitation(db: Db, token: string, body: { name: string; password: string }): Promise<InvitationAccepted> {
   const passwordHash = await bcrypt.hash(body.password, 10)
   const result = await db.transaction(async (trx) => {
     const inv = await trx('invitations').where({ token_hash: hashToken(token) }).forUpdate().first()
@@ -82,16 +83,16 @@ type DeclarationRow = {
   interests: 'none' | 'described'
   interests_text: string
   seen_pilot_data: boolean
-  practice_points: unknown
-  practice_fit: unknown
+  practice_points: PracticeDone['points']
+  practice_fit: PracticeDone['fit']
   practice_completed_at: Date | null
   updated_at: Date
 }
 
-const declarationOf = (d: DeclarationRow) => ({
+const declarationOf = (d: DeclarationRow): Declaration => ({
   expertise: d.expertise, interests: d.interests, interestsText: d.interests_text, seenPilotData: d.seen_pilot_data, savedAt: d.updated_at.toISOString(),
 })
-const practiceOf = (d: DeclarationRow) =>
+const practiceOf = (d: DeclarationRow): PracticeDone | null =>
   d.practice_completed_at ? { points: d.practice_points, fit: d.practice_fit, completedAt: d.practice_completed_at.toISOString() } : null
 
 /** The expert's latest declaration in an earlier round of the same study, with that round's number and title. */
@@ -115,7 +116,7 @@ export async function calibrationAnsweredEarlier(db: Db, userId: number, round: 
  * of the same study, what the expert declared and practised last time comes back as `earlier`, to confirm or edit
  * ("still true?") rather than to answer again.
  */
-export async function roundEntry(db: Db, user: User, roundId: number) {
+export async function roundEntry(db: Db, user: User, roundId: number): Promise<RoundEntry> {
   const member = await db('round_panel').where({ round_id: roundId, user_id: user.id }).first()
   if (!member) throw new HttpError(403, 'You are not on the panel of this round')
   if (!member.first_opened_at) await db('round_panel').where({ id: member.id }).update({ first_opened_at: db.fn.now() })
@@ -145,7 +146,7 @@ async function earlierPractice(db: Db, userId: number, roundId: number) {
     : {}
 }
 
-export async function saveDeclaration(db: Db, user: User, roundId: number, studyId: number, body: DeclarationBody) {
+export async function saveDeclaration(db: Db, user: User, roundId: number, studyId: number, body: DeclarationBody): Promise<RoundEntry> {
   const member = await db('round_panel').where({ round_id: roundId, user_id: user.id }).first('id')
   if (!member) throw new HttpError(403, 'You are not on the panel of this round')
   const practice = await earlierPractice(db, user.id, roundId)
@@ -161,7 +162,7 @@ export async function saveDeclaration(db: Db, user: User, roundId: number, study
 }
 
 /** "Still true": the expert's declaration (and practice) of an earlier round of the study, kept for this round as it was. */
-export async function confirmEarlierDeclaration(db: Db, user: User, roundId: number, studyId: number) {
+export async function confirmEarlierDeclaration(db: Db, user: User, roundId: number, studyId: number): Promise<RoundEntry> {
   const member = await db('round_panel').where({ round_id: roundId, user_id: user.id }).first('id')
   if (!member) throw new HttpError(403, 'You are not on the panel of this round')
   const round = await db('rounds').where({ id: roundId }).first('study_id', 'number')
@@ -178,7 +179,7 @@ export async function confirmEarlierDeclaration(db: Db, user: User, roundId: num
   return roundEntry(db, user, roundId)
 }
 
-export async function savePractice(db: Db, user: User, roundId: number, studyId: number, points: { value: number; prob: number }[], fit: unknown) {
+export async function savePractice(db: Db, user: User, roundId: number, studyId: number, points: Point[], fit: PracticeFeedback): Promise<RoundEntry> {
   await db.transaction(async (trx) => {
     const n = await trx('declarations').where({ round_id: roundId, user_id: user.id })
       .update({ practice_points: JSON.stringify(points), practice_fit: JSON.stringify(fit), practice_completed_at: trx.fn.now(), updated_at: trx.fn.now() })

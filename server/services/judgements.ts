@@ -1,6 +1,8 @@
 import { fitAnswer, type AnswerInput, type AnswerItem } from '../../shared/elicitation/answers'
 import { chosenFit } from '../../shared/elicitation/fits'
-import type { FitResult } from '../../shared/stats/index'
+import type { CalibrationAnswer, Judgement, JudgementSaved, JudgementVersion, RoundFeedback } from '../../shared/api/judgements'
+import type { ElicitationMethod } from '../../shared/schemas/rounds'
+import type { Family, FitResult } from '../../shared/stats/index'
 import { RATIONALE_MIN, type JudgementBody } from '../../shared/schemas/judgements'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
@@ -17,11 +19,11 @@ interface JudgementRow {
   round_id: number
   quantity_id: number
   expert_id: number
-  method: string
+  method: ElicitationMethod
   answer: AnswerInput
   rationale: string
-  fits: unknown[]
-  chosen_family: string | null
+  fits: FitResult[]
+  chosen_family: Family | null
   status: 'draft' | 'submitted'
   version: number
   submitted_at: Date | null
@@ -29,7 +31,7 @@ interface JudgementRow {
   expert_name?: string
 }
 
-function toJudgement(r: JudgementRow, withName: boolean) {
+function toJudgement(r: JudgementRow, withName: boolean): Judgement {
   return {
     id: r.id,
     roundId: r.round_id,
@@ -80,7 +82,7 @@ async function assertAnswering(db: Db, user: User, roundId: number) {
 }
 
 /** The expert's own judgements, or every judgement with names for the study's analysts. */
-export async function listJudgements(db: Db, roundId: number, viewer: { user: User; seesAll: boolean }) {
+export async function listJudgements(db: Db, roundId: number, viewer: { user: User; seesAll: boolean }): Promise<Judgement[]> {
   const q = db('judgements as j').join('users as u', 'u.id', 'j.expert_id').where('j.round_id', roundId).select('j.*', 'u.display_name as expert_name').orderBy(['j.quantity_id', 'j.expert_id'])
   if (!viewer.seesAll) q.where('j.expert_id', viewer.user.id)
   const rows: JudgementRow[] = await q
@@ -91,7 +93,7 @@ export async function listJudgements(db: Db, roundId: number, viewer: { user: Us
  * Saves one draft answer: incoherent input → 400 with field errors; stale version → 409; a submitted
  * answer is frozen. The fits are recomputed here with the same engine the browser ran.
  */
-export async function saveJudgement(db: Db, user: User, roundId: number, quantityId: number, body: JudgementBody) {
+export async function saveJudgement(db: Db, user: User, roundId: number, quantityId: number, body: JudgementBody): Promise<JudgementSaved & { studyId: number }> {
   const { studyId, item, support } = await answeringItem(db, user, roundId, quantityId)
   if (body.method !== item.method) throw new HttpError(400, 'This quantity uses another method in this round', { method: `This round uses the ${item.method} method here` })
   const input: AnswerInput = item.method === 'quantile'
@@ -157,7 +159,7 @@ export async function submitRound(db: Db, user: User, roundId: number) {
   const fields: Record<string, string> = {}
   for (const item of items) {
     const j = judgements.find((x) => x.quantity_id === item.quantity_id)
-    if (!j || (j.fits as unknown[]).length === 0) fields[`quantity.${item.quantity_id}`] = `${item.name}: complete your answer`
+    if (!j || j.fits.length === 0) fields[`quantity.${item.quantity_id}`] = `${item.name}: complete your answer`
     else if (j.rationale.trim().length < RATIONALE_MIN) fields[`quantity.${item.quantity_id}`] = `${item.name}: say in a sentence or two what evidence drove your judgement`
   }
   if (round.ask_calibration) {
@@ -202,7 +204,7 @@ export async function reopenSubmission(db: Db, analyst: User, roundId: number, e
 }
 
 /** Every saved version of one judgement, oldest first, for the study team or the expert who gave it. */
-export async function judgementHistory(db: Db, user: User, judgementId: number) {
+export async function judgementHistory(db: Db, user: User, judgementId: number): Promise<JudgementVersion[]> {
   const j = await db('judgements as j').join('rounds as r', 'r.id', 'j.round_id').where('j.id', judgementId).first('j.expert_id', 'r.study_id')
   if (!j) throw new HttpError(404, 'Judgement not found')
   const access = await studyAccess(db, user, j.study_id)
@@ -212,7 +214,7 @@ export async function judgementHistory(db: Db, user: User, judgementId: number) 
   return rows.map((r) => ({ version: r.version, answer: r.answer, rationale: r.rationale, fits: r.fits, chosenFamily: r.chosen_family, status: r.status, savedAt: r.saved_at.toISOString(), savedBy: r.saved_by }))
 }
 
-export async function listCalibrationAnswers(db: Db, roundId: number, viewer: { user: User; seesAll: boolean }) {
+export async function listCalibrationAnswers(db: Db, roundId: number, viewer: { user: User; seesAll: boolean }): Promise<CalibrationAnswer[]> {
   const q = db('calibration_answers as a').join('users as u', 'u.id', 'a.expert_id').where('a.round_id', roundId)
     .select('a.question_id', 'a.expert_id', 'u.display_name as expert_name', 'a.q05', 'a.q50', 'a.q95', 'a.version', 'a.updated_at').orderBy(['a.question_id', 'a.expert_id'])
   if (!viewer.seesAll) q.where('a.expert_id', viewer.user.id)
@@ -223,7 +225,7 @@ export async function listCalibrationAnswers(db: Db, roundId: number, viewer: { 
   }))
 }
 
-export async function saveCalibrationAnswer(db: Db, user: User, roundId: number, questionId: number, body: { q05: number; q50: number; q95: number; version: number }) {
+export async function saveCalibrationAnswer(db: Db, user: User, roundId: number, questionId: number, body: { q05: number; q50: number; q95: number; version: number }): Promise<CalibrationAnswer> {
   const { round, member } = await assertAnswering(db, user, roundId)
   if (member.submitted_at) throw new HttpError(409, 'You have submitted this round; ask the analyst to reopen it to change an answer')
   if (!round.ask_calibration) throw new HttpError(400, 'This round asks no calibration questions')
@@ -247,14 +249,14 @@ export async function saveCalibrationAnswer(db: Db, user: User, roundId: number,
  * For a feedback round: per quantity, the latest earlier closed round of the study that asked it, the expert's own
  * fitted answer there, and the other experts' submitted fits under the study's expert labels (the same on every screen).
  */
-export async function feedbackFor(db: Db, user: User, roundId: number) {
+export async function feedbackFor(db: Db, user: User, roundId: number): Promise<RoundFeedback[]> {
   const round = await roundRow(db, roundId)
   await assertExpertOpens(db, user, round)
   await recordAuditAlone(db, { actorId: user.id, studyId: round.study_id, action: 'feedback.view', subject: `round:${roundId}` })
   if (!round.feedback_enabled) throw new HttpError(404, 'This round shows no feedback from earlier rounds')
   const items = await db('round_items').where({ round_id: roundId }).pluck('quantity_id')
   const labels = await studyExpertLabels(db, round.study_id)
-  const out = []
+  const out: RoundFeedback[] = []
   for (const quantityId of items) {
     // Only a round that has closed: while a round is open its answers are still changing and private to each expert.
     const prev = await db('rounds as r').join('round_items as i', 'i.round_id', 'r.id')
@@ -265,9 +267,7 @@ export async function feedbackFor(db: Db, user: User, roundId: number) {
       continue
     }
     const rows: JudgementRow[] = await db('judgements').where({ round_id: prev.id, quantity_id: quantityId, status: 'submitted' }).orderBy('expert_id')
-    const pick = (j: JudgementRow) => {
-      return chosenFit(j.fits as FitResult[], j.chosen_family)?.distribution ?? null
-    }
+    const pick = (j: JudgementRow) => chosenFit(j.fits, j.chosen_family)?.distribution ?? null
     const mine = rows.find((j) => j.expert_id === user.id)
     out.push({
       quantityId,

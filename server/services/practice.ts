@@ -1,3 +1,4 @@
+import type { PracticeFeedback } from '../../shared/api/rounds'
 import { cdf, fitAll, quantile, type Point } from '../../shared/stats/index'
 
 /** The expert's own value at a probability when they gave one, else the fitted distribution's. */
@@ -9,7 +10,7 @@ function answeredOr(points: Point[], prob: number, fitted: () => number): number
  * Feedback on the practice question: the best fit to the expert's values and where the known answer fell, judged
  * against the expert's own plausible bounds (their lowest and highest values) and quartiles.
  */
-export function practiceFeedback(points: Point[], trueValue: number) {
+export function practiceFeedback(points: Point[], trueValue: number): PracticeFeedback {
   const support = points[0].value > 0 && trueValue > 0 ? ({ kind: 'positive' } as const) : ({ kind: 'real' } as const)
   const [best] = fitAll(points, support)
   const truthProb = cdf(best.distribution, trueValue)
@@ -24,7 +25,6 @@ export function practiceFeedback(points: Point[], trueValue: number) {
     q50: answeredOr(points, 0.5, () => quantile(best.distribution, 0.5)),
     upper,
     trueValue,
-    /** Share of the expert's probability at or below the true value (0.5 = the truth sat at their median). */
     truthProb,
     insideQuartiles: trueValue >= q1 && trueValue <= q3,
     insideBounds: trueValue >= lower && trueValue <= upper,

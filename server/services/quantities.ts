@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto'
 import type { QuantityBody } from '../../shared/schemas/quantities'
 import { EVIDENCE_EXTENSIONS, EVIDENCE_MAX_BYTES, EVIDENCE_TYPES, nameFitsType } from '../../shared/schemas/quantities'
+import type { CalibrationQuestion } from '../../shared/api/calibration'
 import type { EvidenceFile, Quantity } from '../../shared/api/quantities'
 import type { Support } from '../../shared/stats/index'
 import type { User } from '../../shared/types/index'
@@ -189,7 +190,7 @@ export async function deleteEvidenceFile(db: Db, user: User, fileId: number) {
   })
 }
 
-export async function listCalibrationQuestions(db: Db, studyId: number, withTrueValues: boolean) {
+export async function listCalibrationQuestions(db: Db, studyId: number, withTrueValues: boolean): Promise<CalibrationQuestion[]> {
   const rows = await db('calibration_questions').where({ study_id: studyId }).orderBy(['position', 'id'])
   return rows.map((r) => ({
     id: r.id, studyId: r.study_id, question: r.question, unit: r.unit, position: r.position, version: r.version,
@@ -197,7 +198,7 @@ export async function listCalibrationQuestions(db: Db, studyId: number, withTrue
   }))
 }
 
-export async function createCalibrationQuestion(db: Db, user: User, studyId: number, body: { question: string; unit: string; trueValue: number | null }) {
+export async function createCalibrationQuestion(db: Db, user: User, studyId: number, body: { question: string; unit: string; trueValue: number | null }): Promise<CalibrationQuestion> {
   const row = await db.transaction(async (trx) => {
     const [{ max }] = await trx('calibration_questions').where({ study_id: studyId }).max('position as max')
     const [r] = await trx('calibration_questions').insert({ study_id: studyId, question: body.question, unit: body.unit ?? '', true_value: body.trueValue, position: (max ?? 0) + 1 }).returning('*')
@@ -207,7 +208,7 @@ export async function createCalibrationQuestion(db: Db, user: User, studyId: num
   return { id: row.id, studyId, question: row.question, unit: row.unit, trueValue: row.true_value, position: row.position, version: row.version }
 }
 
-export async function updateCalibrationQuestion(db: Db, user: User, id: number, body: { question: string; unit: string; trueValue: number | null; version: number }) {
+export async function updateCalibrationQuestion(db: Db, user: User, id: number, body: { question: string; unit: string; trueValue: number | null; version: number }): Promise<CalibrationQuestion> {
   const before = await db('calibration_questions').where({ id }).first()
   if (!before) throw new HttpError(404, 'Calibration question not found')
   await db.transaction(async (trx) => {

@@ -1,6 +1,9 @@
 import {
   combine, consensusNarrowerThanSpread, disagreements, fitCombination, fitConsensus, leaveOneOut, resolveWeights, summarise, type Component,
 } from '../../shared/elicitation/reconcile'
+import type {
+  ReconcileExpert, ReconciliationEvaluation, ReconciliationHistoryEntry, ReconciliationSettings, ReconciliationView, SavedReconciliation,
+} from '../../shared/api/reconciliation'
 import { chosenFit } from '../../shared/elicitation/fits'
 import { performanceWeightCautions } from '../../shared/elicitation/weights'
 import type { ReconciliationBody } from '../../shared/schemas/reconciliation'
@@ -26,7 +29,7 @@ async function roundsFor(db: Db, quantityId: number) {
 }
 
 /** Each expert's submitted fit in the round: the family they chose, else the best one. */
-async function expertFits(db: Db, roundId: number, quantityId: number) {
+async function expertFits(db: Db, roundId: number, quantityId: number): Promise<ReconcileExpert[]> {
   const rows = await db('judgements as j').join('users as u', 'u.id', 'j.expert_id')
     .where({ 'j.round_id': roundId, 'j.quantity_id': quantityId, 'j.status': 'submitted' })
     .select('j.id', 'j.expert_id', 'u.display_name', 'j.fits', 'j.chosen_family', 'j.rationale', 'j.answer', 'j.method').orderBy('j.expert_id')
@@ -37,8 +40,8 @@ async function expertFits(db: Db, roundId: number, quantityId: number) {
     if (!fit) return []
     const d = fit.distribution
     return [{
-      judgementId: r.id as number, expertId: r.expert_id as number, name: r.display_name as string, label: labels.ofUser(r.expert_id),
-      distribution: d, sse: fit.sse, method: r.method as string, answer: r.answer, rationale: r.rationale as string,
+      judgementId: r.id, expertId: r.expert_id, name: r.display_name, label: labels.ofUser(r.expert_id),
+      distribution: d, sse: fit.sse, method: r.method, answer: r.answer, rationale: r.rationale,
       q05: quantile(d, 0.05), q50: quantile(d, 0.5), q95: quantile(d, 0.95), warnings: fit.warnings ?? [],
     }]
   })
@@ -85,17 +88,8 @@ function performanceScores(cal: Awaited<ReturnType<typeof calibrationData>>, cut
   return result.experts.map((e) => ({ expertId: Number(e.id), calibration: e.calibration, information: e.information, weight: e.weight, normalizedWeight: e.normalizedWeight }))
 }
 
-interface Settings {
-  roundId: number
-  method: 'linear' | 'logarithmic' | 'consensus'
-  weights: 'equal' | 'performance' | number[]
-  cutoff: number
-  excludedExperts: number[]
-  consensus?: { points: { value: number; prob: number }[]; participants: string; notes: string } | null
-}
-
 /** Everything the reconciliation screen shows for one set of settings; the server's numbers are the record's. */
-async function evaluate(db: Db, quantityId: number, settings: Settings) {
+async function evaluate(db: Db, quantityId: number, settings: ReconciliationSettings): Promise<ReconciliationEvaluation> {
   const quantity = await getQuantity(db, quantityId)
   const support = quantity.support
   const experts = await expertFits(db, settings.roundId, quantityId)
@@ -139,7 +133,7 @@ async function evaluate(db: Db, quantityId: number, settings: Settings) {
   }
 }
 
-function toSaved(r: Record<string, any> | undefined) {
+function toSaved(r: Record<string, any> | undefined): SavedReconciliation | null {
   if (!r) return null
   return {
     id: r.id, roundId: r.round_id, method: r.method, weightsMode: r.weights_mode, weights: r.weights, weightsReason: r.weights_reason, cutoff: r.cutoff,
@@ -150,17 +144,17 @@ function toSaved(r: Record<string, any> | undefined) {
 }
 
 /** The reconciliation workspace: rounds, experts' fits, calibration scores, the saved choice and its computed consequences. */
-export async function getReconciliation(db: Db, quantityId: number, query: { roundId?: number; cutoff?: number }) {
+export async function getReconciliation(db: Db, quantityId: number, query: { roundId?: number; cutoff?: number }): Promise<ReconciliationView> {
   const saved = await db('reconciliations').where({ quantity_id: quantityId }).first()
   const rounds = await roundsFor(db, quantityId)
   const roundId = query.roundId ?? saved?.round_id ?? rounds.find((r) => r.submitted > 0)?.id ?? rounds[0]?.id
   if (!roundId) throw new HttpError(409, 'No round has asked about this quantity yet')
   if (!rounds.some((r) => r.id === roundId)) throw new HttpError(404, 'That round did not ask about this quantity')
-  const settings: Settings = saved && saved.round_id === roundId
+  const settings: ReconciliationSettings = saved && saved.round_id === roundId
     ? { roundId, method: saved.method, weights: saved.weights_mode === 'custom' ? saved.weights : saved.weights_mode, cutoff: query.cutoff ?? saved.cutoff, excludedExperts: saved.excluded_experts, consensus: saved.consensus }
     : { roundId, method: 'linear', weights: 'equal', cutoff: query.cutoff ?? 0, excludedExperts: [] }
   const view = await evaluate(db, quantityId, settings)
-  const history = saved
+  const history: ReconciliationHistoryEntry[] = saved
     ? (await db('reconciliation_versions as v').join('users as u', 'u.id', 'v.saved_by').where('v.reconciliation_id', saved.id)
       .select('v.version', 'v.saved_at', 'u.display_name as saved_by', db.raw(`v.snapshot->>'status' as status`), db.raw(`v.snapshot->>'method' as method`), db.raw(`v.snapshot->>'family' as family`)).orderBy('v.version', 'desc'))
       .map((h) => ({ version: h.version, savedAt: h.saved_at.toISOString(), savedBy: h.saved_by, status: h.status, method: h.method, family: h.family }))
@@ -169,10 +163,10 @@ export async function getReconciliation(db: Db, quantityId: number, query: { rou
 }
 
 /** Saves the analyst's choice (optimistic lock); marking it reconciled needs a family and a rationale. */
-export async function saveReconciliation(db: Db, user: User, quantityId: number, body: ReconciliationBody) {
-  const settings: Settings = {
-    roundId: body.roundId, method: body.method as Settings['method'], weights: body.weights as Settings['weights'], cutoff: body.cutoff,
-    excludedExperts: body.excludedExperts, consensus: body.method === 'consensus' ? body.consensus as Settings['consensus'] : null,
+export async function saveReconciliation(db: Db, user: User, quantityId: number, body: ReconciliationBody): Promise<ReconciliationView> {
+  const settings: ReconciliationSettings = {
+    roundId: body.roundId, method: body.method as ReconciliationSettings['method'], weights: body.weights as ReconciliationSettings['weights'], cutoff: body.cutoff,
+    excludedExperts: body.excludedExperts, consensus: body.method === 'consensus' ? body.consensus as ReconciliationSettings['consensus'] : null,
   }
   const rounds = await roundsFor(db, quantityId)
   if (!rounds.some((r) => r.id === body.roundId)) throw new HttpError(400, 'That round did not ask about this quantity', { roundId: 'Choose a round that asked this quantity' })

@@ -1,3 +1,4 @@
+import type { RecordContent, RecordQuantity } from '../../shared/api/records'
 import { modelCodeWithCheck } from '../../shared/elicitation/model-code'
 import { chosenFit } from '../../shared/elicitation/fits'
 import { recordCautions } from '../../shared/elicitation/record-cautions'
@@ -22,7 +23,7 @@ function summary(d: Distribution) {
  * Everything the prior record states, assembled from the study's data as plain JSON. Only facts that identify the
  * content go in (no database ids, no generation time), so the same study yields the same canonical JSON and hash.
  */
-export async function assembleRecord(db: Db, studyId: number, options: { showNames: boolean; version: number }) {
+export async function assembleRecord(db: Db, studyId: number, options: { showNames: boolean; version: number }): Promise<RecordContent> {
   const study = await db('studies as s').join('users as u', 'u.id', 's.owner_id').where('s.id', studyId).first('s.title', 's.context', 'u.display_name as owner')
   const quantities = await db('quantities').where({ study_id: studyId }).orderBy(['position', 'id'])
   const rounds = await db('rounds').where({ study_id: studyId }).orderBy('number')
@@ -69,7 +70,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
     expertWeights.set(rec.quantity_id, ids.length === weights.length ? ids.map((id, i) => ({ expert: who(id), weight: weights[i] })) : [])
   }
 
-  const quantityRecords = quantities.map((q) => {
+  const quantityRecords = quantities.map((q): RecordQuantity => {
     const rec = recs.find((r) => r.quantity_id === q.id)
     const final: Distribution | null = rec?.status === 'reconciled' ? rec.distribution : null
     const finalHash = final ? priorHash(final) : null

@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto'
 import type { Knex } from 'knex'
+import type { RecordContent, RecordExportMeta, RecordStatus, RecordView } from '../../shared/api/records'
 import { actionLabel, subjectLabel, type SubjectNames } from '../../shared/record/format'
 import type { RecordSubmitBody } from '../../shared/schemas/records'
 import type { User } from '../../shared/types/index'
@@ -23,9 +24,9 @@ interface RecordRow {
   id: number
   study_id: number
   version: number
-  status: 'draft' | 'in_review' | 'signed_off'
+  status: RecordStatus
   show_names: boolean
-  content: Record<string, unknown> | null
+  content: RecordContent | null
   content_hash: string | null
   based_on: number | null
   submitted_at: Date | null
@@ -49,11 +50,11 @@ async function ensureRecord(db: Db, studyId: number): Promise<RecordRow> {
 }
 
 /** A draft's content is assembled live; once submitted, the stored snapshot is what reviewers read and sign. */
-async function contentOf(db: Db, row: RecordRow) {
+async function contentOf(db: Db, row: RecordRow): Promise<RecordContent> {
   return row.status === 'draft' || !row.content ? assembleRecord(db, row.study_id, { showNames: row.show_names, version: row.version }) : row.content
 }
 
-export async function getRecord(db: Db, access: StudyAccess, version?: number) {
+export async function getRecord(db: Db, access: StudyAccess, version?: number): Promise<RecordView> {
   const row = version ? await latestRow(db, access.studyId, version) : await ensureRecord(db, access.studyId)
   if (!row) throw new HttpError(404, 'No such record version')
   const content = await contentOf(db, row)
@@ -74,7 +75,7 @@ export async function getRecord(db: Db, access: StudyAccess, version?: number) {
       returned: row.status === 'draft' && open.length > 0,
       openComments: row.status === 'draft' ? open.map((c) => c.id as number) : [],
       contentHash: row.status === 'draft' ? null : row.content_hash,
-      liveHash: row.status === 'draft' ? contentHash(content) : row.content_hash,
+      liveHash: row.status === 'draft' || !row.content_hash ? contentHash(content) : row.content_hash,
       submittedAt: row.submitted_at?.toISOString() ?? null, signedOffAt: row.signed_off_at?.toISOString() ?? null,
       signedOffBy: signer?.display_name ?? null, auditHead: row.audit_head, basedOn: row.based_on,
       chartsFor: charts,
@@ -298,7 +299,7 @@ export async function saveChart(db: Db, user: User, studyId: number, symbol: str
 }
 
 /** The content and charts an export needs, for the latest or a given version. */
-export async function recordForExport(db: Db, studyId: number, version?: number) {
+export async function recordForExport(db: Db, studyId: number, version?: number): Promise<{ content: RecordContent; meta: RecordExportMeta; charts: Map<string, Buffer> }> {
   const row = version ? await latestRow(db, studyId, version) : await ensureRecord(db, studyId)
   if (!row) throw new HttpError(404, 'No such record version')
   const content = await contentOf(db, row)

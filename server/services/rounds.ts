@@ -1,5 +1,5 @@
 import type { RoundBody, RoundUpdateBody } from '../../shared/schemas/rounds'
-import type { PanelMember, Round, RoundSummary } from '../../shared/api/rounds'
+import type { MyRound, PanelMember, Round, RoundProgress, RoundSummary } from '../../shared/api/rounds'
 import { supportBounds, type Support } from '../../shared/stats/index'
 import type { User } from '../../shared/types/index'
 import type { AppContext } from '../context'
@@ -199,7 +199,7 @@ export async function listRounds(db: Db, access: StudyAccess): Promise<RoundSumm
 }
 
 /** Rounds the signed-in expert is on, across studies, for their start page: only of studies they are still an expert of. */
-export async function listMyRounds(db: Db, user: User) {
+export async function listMyRounds(db: Db, user: User): Promise<MyRound[]> {
   const rows = await db('round_panel as p').join('rounds as r', 'r.id', 'p.round_id').join('studies as s', 's.id', 'r.study_id')
     .join('study_members as m', (j) => j.on('m.study_id', '=', 'r.study_id').andOn('m.user_id', '=', 'p.user_id'))
     .where('p.user_id', user.id).where('m.study_role', 'expert').whereNot('r.status', 'draft')
@@ -343,7 +343,7 @@ export async function revokeInvitation(db: Db, user: User, roundId: number, pane
 }
 
 /** Who opened, who submitted, per quantity. */
-export async function roundProgress(db: Db, roundId: number) {
+export async function roundProgress(db: Db, roundId: number): Promise<RoundProgress> {
   const items = await db('round_items as i').join('quantities as q', 'q.id', 'i.quantity_id').where('i.round_id', roundId).select('i.quantity_id', 'q.name', 'q.symbol').orderBy('i.position')
   const panel = await panelOf(db, roundId)
   const judgements = await db('judgements').where({ round_id: roundId }).select('quantity_id', 'expert_id', 'status', 'updated_at')

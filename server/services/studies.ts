@@ -1,11 +1,11 @@
 import type { Knex } from 'knex'
+import type { AuditEvent } from '../../shared/api/audit'
+import type { QuantityStage, StudyDetail } from '../../shared/api/studies'
 import type { Role, StudyRole, StudySummary, User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
 import { studyExpertLabels } from './expert-labels'
-
-export type QuantityStage = 'framed' | 'judged' | 'reconciled' | 'in-record'
 
 interface StudyRow {
   id: number
@@ -68,7 +68,7 @@ export async function getStudySummary(db: Db, user: User, id: number): Promise<S
 }
 
 /** Overview: members, each quantity's stage, rounds. Experts see the panel's names only for themselves. */
-export async function getStudyDetail(db: Db, user: User, id: number, role: StudyRole | 'admin') {
+export async function getStudyDetail(db: Db, user: User, id: number, role: StudyRole | 'admin'): Promise<StudyDetail> {
   const summary = await getStudySummary(db, user, id)
   const seesPeople = role !== 'expert'
   const members = await db('study_members as m').join('users as u', 'u.id', 'm.user_id').where('m.study_id', id)
@@ -162,7 +162,7 @@ export async function removeMember(db: Db, actor: User, studyId: number, userId:
  * The study's audit trail, newest first. An expert of the study acts under their study-wide label, with the name
  * beside it only for those who run the panel (`withNames`: analysts and admins).
  */
-export async function studyAudit(db: Db, studyId: number, options: { withNames: boolean }, limit = 200) {
+export async function studyAudit(db: Db, studyId: number, options: { withNames: boolean }, limit = 200): Promise<AuditEvent[]> {
   const rows = await db('audit_events as a').leftJoin('users as u', 'u.id', 'a.actor_id').where('a.study_id', studyId)
     .select('a.id', 'a.at', 'a.action', 'a.subject', 'a.details', 'a.hash', 'a.actor_id', 'u.display_name as actorName').orderBy('a.id', 'desc').limit(limit)
   const labels = await studyExpertLabels(db, studyId)

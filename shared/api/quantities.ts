@@ -1,3 +1,4 @@
+import type { QuantityBody } from '../schemas/quantities'
 import type { Support } from '../stats/types'
 
 /** Response shapes of the quantity routes, returned by the server's mappers and read by the client. */
@@ -26,3 +27,6 @@ export interface Quantity {
   createdAt: string
   updatedAt: string
 }
+
+/** Body of POST /api/studies/:id/quantities and (with `version`) PATCH /api/quantities/:id: lower/upper only for bounded support. */
+export type QuantityInput = Omit<QuantityBody, 'support'> & { support: Support }

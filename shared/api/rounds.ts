@@ -1,4 +1,5 @@
 import type { ElicitationMethod } from '../schemas/rounds'
+import type { Distribution, Point } from '../stats/types'
 import type { EvidenceFile, Quantity } from './quantities'
 
 /** Response shapes of the round routes, returned by the server's mappers and read by the client. */
@@ -77,3 +78,109 @@ export interface Round {
   /** Empty for experts. */
   panel: PanelMember[]
 }
+
+/** A quantity as the round form needs it (GET /api/studies/:id/quantities). */
+export type StudyQuantity = Omit<Quantity, 'files' | 'createdAt' | 'updatedAt'>
+
+/** Body of POST /api/studies/:id/rounds (dates as Date or ISO text; JSON turns a Date into ISO). */
+export interface RoundWriteBody {
+  title: string
+  briefing?: string
+  opensAt: Date | string
+  closesAt: Date | string
+  items: { quantityId: number; method: ElicitationMethod; edges?: number[]; chips?: number; askTails?: boolean }[]
+  reminderHoursBefore?: number | null
+  timeZone?: string
+  calibrationPosition?: 'before' | 'after'
+  feedbackEnabled?: boolean
+  practiceQuestion?: string
+  practiceUnit?: string
+  practiceAnswer?: number
+}
+
+/** Body of PATCH /api/rounds/:id. */
+export type RoundPatchBody = Partial<RoundWriteBody> & { version: number }
+
+/** Body of POST /api/rounds/:id/invitations. */
+export interface PanelInviteBody {
+  email: string
+  name: string
+}
+
+/** Where one expert's answer for one quantity stands. */
+export type ProgressStatus = 'not started' | 'draft' | 'submitted'
+
+/** GET /api/rounds/:id/progress: who opened, who submitted, per quantity. */
+export interface RoundProgress {
+  quantities: { id: number; name: string; symbol: string }[]
+  experts: {
+    panelId: number
+    /** The expert's anonymous label in this study, the same on every screen and export. */
+    label: string
+    name: string
+    email: string
+    hasAccount: boolean
+    invitation: PanelInvitation | null
+    notifiedAt: string | null
+    firstOpenedAt: string | null
+    submittedAt: string | null
+    quantities: { quantityId: number; status: ProgressStatus; updatedAt: string | null }[]
+  }[]
+}
+
+/** A row of GET /api/my/rounds: a round the signed-in expert is on, across studies. */
+export interface MyRound {
+  id: number
+  title: string
+  status: RoundStatus
+  opensAt: string
+  closesAt: string
+  studyId: number
+  studyTitle: string
+  submittedAt: string | null
+}
+
+/** The practice feedback the server computes (also stored as `practice.fit`). */
+export interface PracticeFeedback {
+  distribution: Distribution
+  sse: number
+  /** The expert's lowest and highest plausible values and median. */
+  lower: number
+  q50: number
+  upper: number
+  trueValue: number
+  /** Share of the expert's probability at or below the true value (0.5 = the truth sat at their median). */
+  truthProb: number
+  insideQuartiles: boolean
+  insideBounds: boolean
+}
+
+export interface Declaration {
+  expertise: string
+  interests: 'none' | 'described'
+  interestsText: string
+  seenPilotData: boolean
+  savedAt: string
+}
+
+export interface PracticeDone {
+  points: Point[]
+  fit: PracticeFeedback | null
+  completedAt: string
+}
+
+/** GET /api/rounds/:id/entry: the expert's declaration and practice before answering. */
+export interface RoundEntry {
+  declaration: Declaration | null
+  practice: PracticeDone | null
+  /** In a later round of the study: what the expert declared and practised last time, to confirm ("still true?"). */
+  earlier: { roundNumber: number; roundTitle: string; declaration: Declaration; practice: PracticeDone | null } | null
+  /** Names of the study's pilot data sets, so that the declaration can name them. */
+  pilotData: string[]
+  /** Calibration questions answered in an earlier round of the study (asked once per study). */
+  calibrationAnsweredEarlier: number[]
+  submittedAt: string | null
+}
+
+/** Answer of POST /api/rounds/:id/practice: the entry with the feedback on this try. */
+export type PracticeResult = RoundEntry & { feedback: PracticeFeedback }

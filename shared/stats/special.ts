@@ -382,6 +382,57 @@ export function logBetaKernel(x: number, a: number, b: number, y: number = 1 - x
   return a * log1pmx((x - x0) / x0) + b * log1pmx((y - y0) / y0) + 0.5 * Math.log(x0 * y0 * s) - LN_SQRT_2PI - bcorr
 }
 
+/**
+ * The continued fraction of DiDonato & Morris 1992 (ACM TOMS 18:360–373, Algorithm 708, procedure BFRAC) for a, b > 1,
+ * I_x(a, b) = x^a y^b/B(a, b) × this value, written in λ = (a + b)y − b ≥ 0 (x at or below the mean) so that no coefficient
+ * forms 1 − (a + b)x/(a + 1) with x near 1, which cancels when one parameter is huge.
+ */
+function betaFractionDM(a: number, b: number, x: number, y: number, lambda: number): number {
+  const c = 1 + lambda
+  const c0 = b / a
+  const c1 = 1 + 1 / a
+  const yp1 = y + 1
+  let p = 1
+  let s = a + 1
+  let an = 0
+  let bn = 1
+  let anp1 = 1
+  let bnp1 = c / c1
+  let r = c1 / c
+  for (let n = 1; n < 1_000_000; n++) {
+    const t = n / a
+    const w = n * (b - n) * x
+    let e = a / s
+    const alpha = p * (p + c0) * e * e * (w * x)
+    e = (1 + t) / (c1 + t + t)
+    const beta = n + w / s + e * (c + n * yp1)
+    p = 1 + t
+    s += 2
+    let next = alpha * an + beta * anp1
+    an = anp1
+    anp1 = next
+    next = alpha * bn + beta * bnp1
+    bn = bnp1
+    bnp1 = next
+    const r0 = r
+    r = anp1 / bnp1
+    if (Math.abs(r - r0) <= EPS * r) break
+    an /= bnp1
+    bn /= bnp1
+    anp1 = r
+    bnp1 = 1
+  }
+  return r
+}
+
+/** ln of the smaller tail of I_x(a, b) for a, b > 1 by betaFractionDM (lower: I_x itself, else 1 − I_x, from the mirrored fraction). */
+function logBetaSmallTailByFraction(x: number, a: number, b: number, y: number, logBeta: number | undefined): { logTail: number; lower: boolean } {
+  const lambda = exactLambda(a, b, x, y)
+  const logPre = logBetaPrefactor(x, a, b, y, logBeta)
+  if (lambda >= 0) return { logTail: Math.min(0, logPre + Math.log(betaFractionDM(a, b, x, y, lambda))), lower: true }
+  return { logTail: Math.min(0, logPre + Math.log(betaFractionDM(b, a, y, x, -lambda))), lower: false }
+}
+
 /** ln(x^a y^b / B(a, b)), the prefactor of the continued fraction, with ln x and ln y taken from the smaller of x and y. */
 function logBetaPrefactor(x: number, a: number, b: number, y: number, logBeta: number | undefined): number {
   const lnx = x <= 0.5 ? Math.log(x) : Math.log1p(-y)
@@ -391,8 +442,8 @@ function logBetaPrefactor(x: number, a: number, b: number, y: number, logBeta: n
 
 /**
  * Regularised incomplete beta I_x(a, b) and its complement: near the mean at large a and b by the expansion of
- * DiDonato & Morris 1992 (largeBetaLogSmallTail), otherwise by Lentz's continued fraction (Press et al. 2007, Numerical
- * Recipes 3rd ed., §6.4); y = 1 − x may be passed to avoid cancellation, and ln B(a, b) when the caller evaluates many x
+ * DiDonato & Morris 1992 (largeBetaLogSmallTail), otherwise for a, b > 1 by their fraction in λ (betaFractionDM), and for
+ * a or b ≤ 1 by Lentz's continued fraction (Press et al. 2007, Numerical Recipes 3rd ed., §6.4); y = 1 − x may be passed to avoid cancellation, and ln B(a, b) when the caller evaluates many x
  * for one (a, b).
  */
 export function betaPQ(x: number, a: number, b: number, y: number = 1 - x, logBeta?: number): { p: number; q: number } {
@@ -403,6 +454,11 @@ export function betaPQ(x: number, a: number, b: number, y: number = 1 - x, logBe
   if (large) {
     const tail = Math.exp(large.logTail)
     return large.lower ? { p: tail, q: 1 - tail } : { p: 1 - tail, q: tail }
+  }
+  if (a > 1 && b > 1) {
+    const { logTail, lower } = logBetaSmallTailByFraction(x, a, b, y, logBeta)
+    const tail = Math.exp(logTail)
+    return lower ? { p: tail, q: 1 - tail } : { p: 1 - tail, q: tail }
   }
   const logBt = logBetaPrefactor(x, a, b, y, logBeta)
   if (x < (a + 1) / (a + b + 2)) {
@@ -420,6 +476,10 @@ export function logBetaPQ(x: number, a: number, b: number, y: number = 1 - x, lo
   if (y <= 0) return { logP: 0, logQ: -Infinity }
   const large = largeBetaLogSmallTail(x, a, b, y)
   if (large) return large.lower ? { logP: large.logTail, logQ: log1mExp(large.logTail) } : { logP: log1mExp(large.logTail), logQ: large.logTail }
+  if (a > 1 && b > 1) {
+    const { logTail, lower } = logBetaSmallTailByFraction(x, a, b, y, logBeta)
+    return lower ? { logP: logTail, logQ: log1mExp(logTail) } : { logP: log1mExp(logTail), logQ: logTail }
+  }
   const logBt = logBetaPrefactor(x, a, b, y, logBeta)
   if (x < (a + 1) / (a + b + 2)) {
     const logP = Math.min(0, logBt + Math.log(betaContinuedFraction(a, b, x) / a))

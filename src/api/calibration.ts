@@ -1,16 +1,8 @@
 import type { CalibrationQuestionBody } from '@shared/schemas/quantities'
+import type { CalibrationQuestion } from '@shared/api/calibration'
 import { api } from './client'
 
-/** `trueValue` is absent for experts (the API leaves it out), null when not known yet. */
-export interface CalibrationQuestion {
-  id: number
-  studyId: number
-  question: string
-  unit: string
-  position: number
-  version: number
-  trueValue?: number | null
-}
+export type { CalibrationQuestion } from '@shared/api/calibration'
 
 export const calibrationApi = {
   list: (studyId: number) => api.get<CalibrationQuestion[]>(`/api/studies/${studyId}/calibration-questions`),

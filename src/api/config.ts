@@ -1,9 +1,7 @@
+import type { AppConfig } from '@shared/api/users'
 import { api } from './client'
 
-export interface AppConfig {
-  /** Whether the local mail fake runs (admins then get a Mailbox page). */
-  devMailbox: boolean
-}
+export type { AppConfig } from '@shared/api/users'
 
 export const configApi = {
   get: () => api.get<AppConfig>('/api/config'),

@@ -1,14 +1,9 @@
-import type { QuantityBody } from '@shared/schemas/quantities'
-import type { Support } from '@shared/stats'
-import type { EvidenceFile, Quantity } from '@shared/api/quantities'
+import type { EvidenceFile, Quantity, QuantityInput } from '@shared/api/quantities'
 import { api, type CsrfProvider } from './client'
 import { uploadFile } from './upload'
 
-export type { EvidenceFile, Quantity } from '@shared/api/quantities'
+export type { EvidenceFile, Quantity, QuantityInput } from '@shared/api/quantities'
 export type { Support } from '@shared/stats'
-
-/** What POST/PATCH accept: lower/upper only for bounded support. */
-export type QuantityInput = Omit<QuantityBody, 'support'> & { support: Support }
 
 export const quantitiesApi = {
   list: (studyId: number) => api.get<Quantity[]>(`/api/studies/${studyId}/quantities`),

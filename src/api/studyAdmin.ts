@@ -1,25 +1,11 @@
-import type { Role } from '@shared/types'
+import type { AuditEvent } from '@shared/api/audit'
 import type { OutboxMessage } from '@shared/api/outbox'
+import type { DirectoryUser } from '@shared/api/users'
 import { api } from './client'
 
+export type { AuditEvent } from '@shared/api/audit'
 export type { OutboxMessage, OutboxStatus } from '@shared/api/outbox'
-
-export interface AuditEvent {
-  id: number
-  at: string
-  action: string
-  subject: string | null
-  details: Record<string, unknown> | null
-  actorName: string
-  hash: string
-}
-
-export interface DirectoryUser {
-  id: number
-  displayName: string
-  email: string
-  role: Role
-}
+export type { DirectoryUser } from '@shared/api/users'
 
 export const studyAdminApi = {
   /** Newest first (analysts and reviewers). */

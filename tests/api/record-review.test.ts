@@ -9,6 +9,7 @@ import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
 import { waitFor } from '../support/wait'
 import { unzip } from '../support/zip'
 import { impactDone } from '../support/impact'
+import { oldLabelsIn } from '../support/old-labels'
 
 /**
  * A record a reviewer can audit: one label per expert on every screen and export, a .docx in words and local time
@@ -221,6 +222,7 @@ describe('review by e-mail, with comments answered', () => {
     const schema = JSON.parse(readFileSync(new URL('../../docs/prior-record.schema.json', import.meta.url), 'utf8'))
     const validate = new Ajv2020({ allErrors: true, strict: false }).compile(schema)
     expect(validate(res.body), JSON.stringify(validate.errors)).toBe(true)
+    expect(oldLabelsIn(JSON.stringify(res.body))).toEqual([])
     const broken = structuredClone(res.body)
     broken.quantities.find((x: { symbol: string }) => x.symbol === 'leak').leftOut = { reason: '' }
     expect(validate(broken)).toBe(false)
@@ -325,6 +327,7 @@ describe('the .docx a reviewer keeps', () => {
   })
 
   it('names experts by their study label, with the comment and its answer in the review table', () => {
+    expect(oldLabelsIn(text)).toEqual([])
     expect(text).toContain('Expert 1')
     expect(text).toContain('Weights: Expert 2 0.5; Expert 1 0.5.')
     expect(text).not.toMatch(/Helen Okafor|Tomasz Wierzbicki|\bE1\b/)
