@@ -299,10 +299,13 @@ describe('the .docx a reviewer keeps', () => {
   it('writes dates as local times with the time zone, never as ISO UTC', async () => {
     expect(text).not.toMatch(/\d{4}-\d{2}-\d{2}T\d{2}:\d{2}/)
     const signedOffAt = (await analyst.get(`/api/studies/${studyId}/record`)).body.record.signedOffAt as string
-    const local = new Intl.DateTimeFormat('en-GB', { timeZone: TIME_ZONE, day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' })
-      .formatToParts(new Date(signedOffAt))
+    const local = new Intl.DateTimeFormat('en-GB', {
+      timeZone: TIME_ZONE, weekday: 'long', day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', hourCycle: 'h23', timeZoneName: 'shortOffset',
+    }).formatToParts(new Date(signedOffAt))
     const part = (t: string) => local.find((p) => p.type === t)!.value
-    expect(text).toContain(`Signed off by Ingrid Solberg on ${part('day')} ${part('month')} ${part('year')}, ${part('hour')}:${part('minute')} (${TIME_ZONE})`)
+    // The zone is named with its offset from UTC on that date ("GMT+1" → "UTC+1"), as in every document and e-mail.
+    const offset = part('timeZoneName').replace(/^GMT$/, 'GMT+0').replace('GMT', 'UTC')
+    expect(text).toContain(`Signed off by Ingrid Solberg on ${part('weekday')} ${part('day')} ${part('month')} ${part('year')}, ${part('hour')}:${part('minute')} (${TIME_ZONE}, ${offset})`)
   })
 
   it('gives each expert’s answer as given in the judgement tables, and the round in the panel table', () => {
