@@ -6,6 +6,7 @@ import { DIAGNOSTICS_CAUTION } from '../../shared/elicitation/impact'
 import { formatNumber } from '../../shared/format'
 import { DIAGNOSIS_WORDS } from '../../shared/stats/index'
 import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
+import { runImpact } from '../support/impact'
 
 // The fractional Bayes factor (with its b) and the power-scaling sensitivities of each candidate, and their caution, in the
 // prior record: its content, the JSON export against docs/prior-record.schema.json, and the .docx.
@@ -33,7 +34,7 @@ beforeAll(async () => {
     quantity_id: q.id, method: 'linear', weights_mode: 'equal', family: 'normal', distribution: JSON.stringify({ family: 'normal', mu: 3.7, sigma: 0.3 }),
     status: 'reconciled', rationale: 'Fixture for the record diagnostics test.',
   })
-  const run = await analyst.post(`/api/quantities/${q.id}/impact`, {
+  const run = await runImpact(analyst, q.id, {
     datasetId: ds.body.id, comparison: { family: 'normal', mu: 0, sigma: 10 }, mixtureWeight: 0.2, mixtureWide: { family: 'normal', mu: 0, sigma: 10 }, trainingFraction: 0.25,
   })
   expect(run.status).toBe(200)
