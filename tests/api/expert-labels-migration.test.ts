@@ -3,6 +3,7 @@ import { numberExpertLabels, up as numberStoredLabels } from '../../migrations/2
 import { verifyAuditChain } from '../../server/services/audit'
 import { contentHash } from '../../server/services/records'
 import { Client, normalQuantileAnswer as normalAnswer, openQuantileRound, signedIn, startApi, type ApiHarness } from '../support/api'
+import { impactDone } from '../support/impact'
 
 /**
  * Analyses and signed-off records stored while the study-wide expert label was a letter ("Expert A", "Expert B", …)
@@ -54,9 +55,9 @@ beforeAll(async () => {
     .field('quantityId', String(quantityId)).field('name', 'Pilot districts').field('model', 'normal-known-sigma').field('valueColumn', 'reduction').field('sigma', '2')
     .attach('file', Buffer.from('district,reduction\nKV-01,11.2\nKV-02,13.5\nKV-03,12.8\nKV-04,9.9\nKV-05,12.6\n'), { filename: 'pilot.csv', contentType: 'text/csv' })
   expect(upload.status).toBe(201)
-  await analyst.post(`/api/quantities/${quantityId}/impact`, {
+  await impactDone(analyst, quantityId, {
     datasetId: upload.body.id, comparison: { family: 'normal', mu: 10, sigma: 20 }, mixtureWeight: 0.2, mixtureWide: { family: 'normal', mu: 10, sigma: 20 },
-  }).expect(200)
+  })
   await analyst.post(`/api/studies/${studyId}/record/submit`).expect(200)
   await reviewer.post(`/api/studies/${studyId}/record/sign-off`).expect(200)
 
