@@ -12,6 +12,7 @@ import * as m016 from '../../migrations/20261203_016_record_integrity'
 import * as roundTimeZone from '../../migrations/20261203_i17b_round_time_zone'
 import * as m018 from '../../migrations/20261203_018_comparison_prior'
 import * as m022 from '../../migrations/20261203_022_compositions'
+import * as m022b from '../../migrations/20261203_022b_composition_pilot'
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> }
 
@@ -30,6 +31,7 @@ const migrations: Record<string, Migration> = {
   '20261203_i17b_round_time_zone': roundTimeZone,
   '20261203_018_comparison_prior': m018,
   '20261203_022_compositions': m022,
+  '20261203_022b_composition_pilot': m022b,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -1,10 +1,11 @@
 import { Router } from 'express'
-import { compositionSchema, compositionUpdateSchema } from '../../shared/schemas/compositions'
+import { compositionDatasetSchema, compositionImpactSchema, compositionSchema, compositionUpdateSchema } from '../../shared/schemas/compositions'
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { idParam } from '../http/id-param'
 import { validateBody } from '../http/validate-body'
 import { accessVia, allow, studyAccess } from '../services/access'
+import { createCompositionDataset, latestCompositionAnalysis, listCompositionDatasets, runCompositionImpact } from '../services/composition-pilot'
 import { compositionDirichlet, createComposition, deleteComposition, getComposition, listCompositions, updateComposition } from '../services/compositions'
 
 /** Compositions of a study: proportion quantities whose shares add up to one. */
@@ -44,6 +45,34 @@ export function compositionsRouter(db: Db): Router {
     const access = await accessVia(db, currentUser(req), 'compositions', id, 'Composition')
     allow(access, 'analyst', 'reviewer')
     res.json(await compositionDirichlet(db, id))
+  })
+
+  r.get('/compositions/:id/datasets', async (req, res) => {
+    const id = idParam(req.params.id, 'Composition')
+    allow(await accessVia(db, currentUser(req), 'compositions', id, 'Composition'), 'analyst', 'reviewer')
+    res.json(await listCompositionDatasets(db, id))
+  })
+
+  r.post('/compositions/:id/datasets', async (req, res) => {
+    const id = idParam(req.params.id, 'Composition')
+    const access = await accessVia(db, currentUser(req), 'compositions', id, 'Composition')
+    allow(access, 'analyst')
+    const body = await validateBody(compositionDatasetSchema, req.body)
+    res.status(201).json(await createCompositionDataset(db, access.user, id, body))
+  })
+
+  r.get('/compositions/:id/impact', async (req, res) => {
+    const id = idParam(req.params.id, 'Composition')
+    allow(await accessVia(db, currentUser(req), 'compositions', id, 'Composition'), 'analyst', 'reviewer')
+    res.json({ analysis: await latestCompositionAnalysis(db, id) })
+  })
+
+  r.post('/compositions/:id/impact', async (req, res) => {
+    const id = idParam(req.params.id, 'Composition')
+    const access = await accessVia(db, currentUser(req), 'compositions', id, 'Composition')
+    allow(access, 'analyst')
+    const body = await validateBody(compositionImpactSchema, req.body)
+    res.status(201).json(await runCompositionImpact(db, access.user, id, body.datasetId))
   })
 
   r.delete('/compositions/:id', async (req, res) => {

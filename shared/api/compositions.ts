@@ -1,4 +1,6 @@
 import type { CompositionPrior } from '../elicitation/composition-prior'
+import type { CompositionImpact } from '../elicitation/composition-impact'
+import type { PilotSummary } from '../elicitation/pilot'
 
 /** Response shapes of the composition routes, returned by the server's mappers and read by the client. */
 
@@ -29,4 +31,29 @@ export interface CompositionDirichlet extends CompositionPrior {
   compositionId: number
   name: string
   residual: boolean
+}
+
+/** A composition's multinomial pilot data (counts per share as recorded). */
+export interface CompositionDataset {
+  id: number
+  compositionId: number
+  version: number
+  name: string
+  filename: string
+  mapping: Record<string, unknown>
+  rowCount: number
+  summary: PilotSummary
+  sha256: string
+  createdAt: string
+}
+
+/** GET/POST /api/compositions/:id/impact: the latest analysis of the composition's Dirichlet on a dataset. */
+export interface CompositionAnalysis {
+  id: number
+  compositionId: number
+  datasetId: number
+  datasetName: string
+  datasetVersion: number
+  result: CompositionImpact
+  createdAt: string
 }

@@ -90,6 +90,8 @@ export const AUDIT_ACTIONS: Record<string, string> = {
   'composition.create': 'Composition (shares of a whole) created',
   'composition.update': 'Composition edited',
   'composition.delete': 'Composition deleted',
+  'composition.dataset-upload': 'Pilot counts of a composition uploaded',
+  'composition.impact': 'Impact of a composition prior run',
   'round.create': 'Round scheduled',
   'round.update': 'Round edited',
   'round.extend': 'Round extended',

@@ -1,4 +1,4 @@
-import { array, boolean, number, object, string, type InferType } from 'yup'
+import { array, boolean, mixed, number, object, string, type InferType } from 'yup'
 import { versionRule } from './quantities'
 
 /** How many elicited shares a composition holds (the "other" share, when wanted, comes on top). */
@@ -25,3 +25,24 @@ export const compositionSchema = object({
 export type CompositionBody = InferType<typeof compositionSchema>
 
 export const compositionUpdateSchema = compositionSchema.shape({ version: versionRule })
+
+export const COMPOSITION_DATA_LAYOUTS = ['columns', 'rows'] as const
+const csvColumn = string().trim().required('Choose a column').max(200, 'Use at most 200 characters')
+
+/** Multinomial pilot data of a composition, sent as the CSV's text with where each share's counts are. */
+export const compositionDatasetSchema = object({
+  name: string().trim().required('Name the dataset').max(200, 'Use at most 200 characters'),
+  filename: string().trim().required('Choose a CSV file').max(200, 'Use at most 200 characters'),
+  csv: string().required('Choose a CSV file').max(2 * 1024 * 1024, 'Pilot data files may be at most 2 MB.'),
+  delimiter: mixed<',' | ';' | '\t'>().oneOf([',', ';', '\t'], 'Choose comma, semicolon or tab').default(','),
+  layout: string().required('Choose how the file records the shares').oneOf([...COMPOSITION_DATA_LAYOUTS], 'Choose a count column per share, or one row per observation'),
+  categoryColumns: array(csvColumn).when('layout', { is: 'columns', then: (s) => s.required('Choose the column of each share'), otherwise: (s) => s.strip() }),
+  categoryColumn: string().when('layout', { is: 'rows', then: () => csvColumn, otherwise: (s) => s.strip() }),
+  categories: array(string().trim().required('Enter the value that stands for this share').max(200, 'Use at most 200 characters'))
+    .when('layout', { is: 'rows', then: (s) => s.required('Enter the value that stands for each share'), otherwise: (s) => s.strip() }),
+}).noUnknown('Unknown field: ${unknown}')
+export type CompositionDatasetBody = InferType<typeof compositionDatasetSchema>
+
+export const compositionImpactSchema = object({
+  datasetId: number().typeError('Choose a dataset').required('Choose a dataset').integer('Choose a dataset').positive('Choose a dataset'),
+}).noUnknown('Unknown field: ${unknown}')

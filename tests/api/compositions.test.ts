@@ -216,4 +216,66 @@ describe('the joint prior of a composition (Dirichlet from the reconciled shares
   it('refuses the joint prior to experts', async () => {
     expect((await expert1.get(`/api/compositions/${wholeId}/dirichlet`)).status).toBe(403)
   })
+
+  describe('pilot counts and the impact of the joint prior', () => {
+    const csvColumns = 'district,joined,meter_only,declined\nKV-01,31,17,52\nKV-02,28,22,50\n'
+    const upload = (body: object) => analyst.post(`/api/compositions/${wholeId}/datasets`, { name: 'joint: survey 2026', filename: 'survey.csv', ...body })
+
+    it('stores counts with one column per share, or one answer per row, in the shares\' order', async () => {
+      const byColumn = await upload({ csv: csvColumns, layout: 'columns', categoryColumns: ['joined', 'meter_only', 'declined'] }).expect(201)
+      expect(byColumn.body).toMatchObject({ compositionId: wholeId, version: 1, rowCount: 2, summary: { rows: 2, n: 200, description: 'joined 59, meter_only 39, declined 102 (200 in all)' } })
+      const byRow = await upload({ csv: 'household,answer\n1,yes\n2,no\n3,meter\n4,yes\n', layout: 'rows', categoryColumn: 'answer', categories: ['yes', 'meter', 'no'] }).expect(201)
+      expect(byRow.body).toMatchObject({ version: 2, summary: { n: 4, description: 'yes 2, meter 1, no 1 (4 in all)' } })
+      const list = (await reviewer.get(`/api/compositions/${wholeId}/datasets`).expect(200)).body
+      expect(list.map((d: { version: number }) => d.version)).toEqual([2, 1])
+      expect((await auditOf(`composition:${wholeId}`)).filter((e) => e.action === 'composition.dataset-upload')).toHaveLength(2)
+    })
+
+    it.each([
+      ['a column too few', { csv: csvColumns, layout: 'columns', categoryColumns: ['joined', 'declined'] }, 'categoryColumns', 'Give one column for each of the 3 shares: Join (joint prior), Meter only (joint prior), Decline (joint prior)'],
+      ['one column for two shares', { csv: csvColumns, layout: 'columns', categoryColumns: ['joined', 'joined', 'declined'] }, 'categoryColumns', 'Each share needs its own column'],
+      ['a count that is not a whole number', { csv: 'joined,meter_only,declined\n3,2.5,1\n', layout: 'columns', categoryColumns: ['joined', 'meter_only', 'declined'] }, 'csv', expect.stringMatching(/^Line 2, column "meter_only"/)],
+      ['an answer that is no share', { csv: 'answer\nyes\nperhaps\n', layout: 'rows', categoryColumn: 'answer', categories: ['yes', 'meter', 'no'] }, 'csv', expect.stringContaining('found "perhaps"')],
+      ['no layout', { csv: csvColumns }, 'layout', 'Choose how the file records the shares'],
+    ])('refuses %s with a field error and stores nothing', async (_, body, field, message) => {
+      const before = await h.db('composition_datasets').where({ composition_id: wholeId }).count('* as n').first()
+      const res = await upload(body)
+      expect(res.status).toBe(400)
+      expect(res.body.error.fields[field]).toEqual(message)
+      expect(await h.db('composition_datasets').where({ composition_id: wholeId }).count('* as n').first()).toEqual(before)
+    })
+
+    it('runs the Dirichlet on the counts against the flat Dirichlet, keeps the result and audits it', async () => {
+      const [dataset] = (await analyst.get(`/api/compositions/${wholeId}/datasets`).expect(200)).body.filter((d: { version: number }) => d.version === 1)
+      expect((await reviewer.get(`/api/compositions/${wholeId}/impact`).expect(200)).body).toEqual({ analysis: null })
+      const res = await analyst.post(`/api/compositions/${wholeId}/impact`, { datasetId: dataset.id }).expect(201)
+      const prior = (await analyst.get(`/api/compositions/${wholeId}/dirichlet`).expect(200)).body
+      const r = res.body.result
+      expect(r.prior.alpha).toEqual(prior.fit.alpha)
+      expect(r.prior.analysis.posteriorAlpha).toEqual(prior.fit.alpha.map((a: number, j: number) => a + [59, 39, 102][j]))
+      expect(r.comparison.alpha).toEqual([1, 1, 1])
+      expect(r.bayesFactor.logBF).toBeCloseTo(r.prior.analysis.logEvidence - r.comparison.analysis.logEvidence, 12)
+      expect(r.sweep.points.map((p: { factor: number }) => p.factor)).toEqual([0.25, 0.35, 0.5, 0.71, 1, 1.41, 2, 2.83, 4, 5.66, 8])
+      expect(res.body).toMatchObject({ datasetId: dataset.id, datasetVersion: 1, datasetName: 'joint: survey 2026' })
+      expect((await reviewer.get(`/api/compositions/${wholeId}/impact`).expect(200)).body.analysis.id).toBe(res.body.id)
+      expect((await auditOf(`composition:${wholeId}`)).at(-1)?.action).toBe('composition.impact')
+    })
+
+    it('refuses a dataset of another composition, and experts', async () => {
+      const other = (await analyst.post(`/api/studies/${studyId}/compositions`, { name: 'joint: other whole', wording: 'Another split of the same households.', quantityIds: [ids.alerts, ids.meter] }).expect(201)).body
+      const [dataset] = (await analyst.get(`/api/compositions/${wholeId}/datasets`).expect(200)).body
+      const res = await analyst.post(`/api/compositions/${other.id}/impact`, { datasetId: dataset.id })
+      expect(res.status).toBe(400)
+      expect(res.body.error.fields).toEqual({ datasetId: 'Choose a dataset of this composition' })
+      expect((await expert1.post(`/api/compositions/${wholeId}/impact`, { datasetId: dataset.id })).status).toBe(403)
+    })
+
+    it('answers 409 while a share still waits for reconciliation', async () => {
+      const waiting = (await analyst.post(`/api/studies/${studyId}/compositions`, { name: 'joint: waiting whole', wording: 'Shares not reconciled yet.', quantityIds: [ids.alerts, ids.meter] }).expect(201)).body
+      const d = (await analyst.post(`/api/compositions/${waiting.id}/datasets`, { name: 'joint: two shares', filename: 'two.csv', csv: 'a,b\n3,4\n', layout: 'columns', categoryColumns: ['a', 'b'] }).expect(201)).body
+      const res = await analyst.post(`/api/compositions/${waiting.id}/impact`, { datasetId: d.id })
+      expect(res.status).toBe(409)
+      expect(res.body.error.message).toBe('Reconcile every share first; still to reconcile: Join the leak-alert scheme, Ask for a smart meter only')
+    })
+  })
 })

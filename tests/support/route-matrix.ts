@@ -46,6 +46,10 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/compositions/:id': MEMBERS,
   'PATCH /api/compositions/:id': ['admin', 'analyst'],
   'GET /api/compositions/:id/dirichlet': ['admin', 'analyst', 'reviewer'],
+  'GET /api/compositions/:id/datasets': ['admin', 'analyst', 'reviewer'],
+  'POST /api/compositions/:id/datasets': ['admin', 'analyst'],
+  'GET /api/compositions/:id/impact': ['admin', 'analyst', 'reviewer'],
+  'POST /api/compositions/:id/impact': ['admin', 'analyst'],
   // Last of the composition routes: the analyst deletes the fixture's composition.
   'DELETE /api/compositions/:id': ['admin', 'analyst'],
   'GET /api/studies/:id/rounds': MEMBERS,
