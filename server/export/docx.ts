@@ -5,6 +5,7 @@ import {
 import { PILOT_MODEL_LABELS, type PilotModel } from '../../shared/elicitation/pilot'
 import { cautionText, type RecordCaution } from '../../shared/elicitation/record-cautions'
 import { describeDistribution as describe, formatDateTime, formatNumber, formatProbability } from '../../shared/format'
+import { labelWithName } from '../../shared/record/expert-labels'
 import { answerText, CANDIDATE_KIND_LABELS, flagLabel, LANGUAGE_LABELS, SUPPORT_LABELS, WEIGHTS_LABELS } from '../../shared/record/format'
 import { COMMENT_OUTCOME_LABELS, type CommentOutcome } from '../../shared/schemas/records'
 import { POOL_METHOD_LABELS } from '../../shared/schemas/reconciliation'
@@ -56,7 +57,6 @@ function table(header: string[], rows: string[][], numericFrom = 1): Table {
 const STATUS: Record<string, string> = { draft: 'Draft', in_review: 'In review', signed_off: 'Signed off' }
 
 const label = <K extends string>(labels: Record<K, string>, key: unknown): string => labels[key as K] ?? '—'
-const expertName = (e: Json) => (e.name ? `${e.code} (${e.name})` : e.code)
 
 /** Headings numbered as they are written, so the contents list is written out as paragraphs (no field to update). */
 class Outline {
@@ -99,7 +99,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
     p(content.namesShown ? 'Experts are named at the analyst’s choice.' : 'Experts are identified by a label (Expert 1, Expert 2, …) that is the same throughout the study; names are kept by the study team.'),
     table(['Expert', 'Round', 'Expertise', 'Interests declared', 'Had seen pilot data'], (content.panel as Json[]).flatMap((e) =>
       (e.declarations.length ? e.declarations : [{ round: null, expertise: 'No declaration recorded', interests: null, interestsText: '', seenPilotData: null }]).map((d: Json) => [
-        expertName(e), d.round === null ? '—' : String(d.round), d.expertise, d.interests === 'described' ? d.interestsText : d.interests === 'none' ? 'None' : '—',
+        labelWithName(e as { code: string; name?: string | null }), d.round === null ? '—' : String(d.round), d.expertise, d.interests === 'described' ? d.interestsText : d.interests === 'none' ? 'None' : '—',
         d.seenPilotData === null ? '—' : d.seenPilotData ? 'Yes' : 'No',
       ])), 1),
     outline.heading('3. Calibration questions', 1),
@@ -128,7 +128,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
         ? [
           p('Each expert’s answer as given (plausible range, then the values with their cumulative probabilities, or each interval with its probability or chips), and the distribution fitted to it.', { size: 20 }),
           table(['Round', 'Expert', 'Answer as given', 'Fitted distribution', '5 %', '50 %', '95 %'], q.judgements.map((j: Json) => [
-            String(j.round), expertName(j.expert), answerText(j.method, j.answer), describe(j.fit?.distribution), formatNumber(j.fit?.q05), formatNumber(j.fit?.q50), formatNumber(j.fit?.q95),
+            String(j.round), labelWithName(j.expert), answerText(j.method, j.answer), describe(j.fit?.distribution), formatNumber(j.fit?.q05), formatNumber(j.fit?.q50), formatNumber(j.fit?.q95),
           ]), 4),
           ...q.judgements.map((j: Json) => p(`${j.expert.code}, round ${j.round}: ${j.rationale || '—'}`, { size: 20 })),
           ...q.judgements.flatMap((j: Json) => (j.fit?.warnings ?? []).map((w: string) => p(`${j.expert.code}, round ${j.round}, fitted shape: ${w}`, { size: 20, color: '8A5A12' }))),
@@ -138,7 +138,7 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       ...(q.combination
         ? [
           p(`Method: ${label(POOL_METHOD_LABELS, q.combination.method)}; ${label(WEIGHTS_LABELS, q.combination.weightsMode).toLowerCase()}${q.combination.weightsReason ? ` (${q.combination.weightsReason})` : ''}${q.combination.weightsMode === 'performance' ? `; calibration cutoff ${formatProbability(q.combination.cutoff)}` : ''}.`),
-          ...(q.combination.expertWeights?.length ? [p(`Weights: ${q.combination.expertWeights.map((w: Json) => `${expertName(w.expert)} ${formatProbability(w.weight)}`).join('; ')}.`)] : []),
+          ...(q.combination.expertWeights?.length ? [p(`Weights: ${q.combination.expertWeights.map((w: Json) => `${labelWithName(w.expert)} ${formatProbability(w.weight)}`).join('; ')}.`)] : []),
           ...(q.combination.excludedExperts?.length ? [p(`Left out of the combination: ${q.combination.excludedExperts.join(', ')}.`)] : []),
           ...(q.combination.weightCautions ?? []).map((c: string) => p(`Caution: ${c}`, { color: '8A5A12' })),
           ...(q.combination.adjusted ? [p(`Parameters adjusted by hand: ${q.combination.adjustReason}`)] : []),

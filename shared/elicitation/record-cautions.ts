@@ -1,3 +1,4 @@
+import { labelWithName } from '../record/expert-labels'
 import { flagLabel } from '../record/format'
 
 /**
@@ -42,14 +43,13 @@ export interface CautionFacts {
   }[]
 }
 
-const expertName = (e: { code: string; name?: string | null }) => (e.name ? `${e.code} (${e.name})` : e.code)
 
 /** The general cautions, then each one this record's facts raise, in the order of the record. */
 export function recordCautions(facts: CautionFacts): RecordCaution[] {
   const out: RecordCaution[] = [...GENERAL_CAUTIONS]
   for (const e of facts.panel) {
     if (e.declarations.some((d) => d.seenPilotData)) {
-      out.push({ rule: 'seen-pilot-data', quantity: null, text: `${expertName(e)} had seen the pilot data before answering: the same evidence may count twice, in the prior and in the data.` })
+      out.push({ rule: 'seen-pilot-data', quantity: null, text: `${labelWithName(e)} had seen the pilot data before answering: the same evidence may count twice, in the prior and in the data.` })
     }
   }
   for (const q of facts.quantities) {

@@ -19,3 +19,8 @@ export function labelExperts<K>(keysInJoinOrder: readonly K[]): Map<K, string> {
   for (const key of keysInJoinOrder) if (!labels.has(key)) labels.set(key, expertLabel(labels.size))
   return labels
 }
+
+/** An expert as the record names them: "Expert 2 (Helen Okafor)" when names are shown, else "Expert 2". */
+export function labelWithName(e: { code: string; name?: string | null }): string {
+  return e.name ? `${e.code} (${e.name})` : e.code
+}

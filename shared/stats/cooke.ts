@@ -157,3 +157,42 @@ export function decisionMaker(quantiles: number[], assessments: number[][], weig
     weights,
   )
 }
+
+/** One cutoff tried by optimisedCutoff: the experts it keeps and the decision maker's scores as a virtual expert. */
+export type CutoffCandidate = { cutoff: number; expertIds: string[]; binCounts: number[]; calibration: number; information: number; score: number }
+
+/**
+ * Cooke's optimised decision maker (Cooke 1991, ch. 12; Cooke & Goossens 2008): for each cutoff α at one of the experts'
+ * calibration scores (the weights change only there), the decision maker of every seed question is the weighted linear pool
+ * of the kept experts' minimum-information distributions; its quantiles are scored like an expert's on the same questions
+ * and intrinsic ranges, and the α with the largest calibration × information is chosen (on a tie the smaller α, which keeps
+ * more experts). A score of exactly 1 is tried as the largest cutoff below 1, which keeps the same experts.
+ */
+export function optimisedCutoff(input: CookeInput): { best: CutoffCandidate; candidates: CutoffCandidate[] } {
+  validate(input)
+  const { quantiles, realizations } = input
+  const p = binProbabilities(quantiles)
+  const base = cookeClassical({ ...input, cutoff: 0 })
+  const cutoffs = [...new Set(base.experts.map((e) => Math.min(e.calibration, 1 - Number.EPSILON / 2)))].sort((a, b) => a - b)
+  const candidates = cutoffs.map((cutoff): CutoffCandidate => {
+    const scored = cookeClassical({ ...input, cutoff })
+    const weights = scored.experts.map((e) => e.normalizedWeight)
+    const counts = new Array<number>(p.length).fill(0)
+    let information = 0
+    realizations.forEach((r, qi) => {
+      const dm = decisionMaker(
+        quantiles,
+        input.experts.map((e) => e.assessments[qi]),
+        weights,
+        scored.ranges[qi],
+      )
+      const values = quantiles.map((q) => dm.quantile(q))
+      counts[binOf(values, r)]++
+      information += informationScore(values, p, scored.ranges[qi].lower, scored.ranges[qi].upper) / realizations.length
+    })
+    const { calibration } = calibrationScore(counts, p)
+    return { cutoff, expertIds: scored.experts.filter((e) => e.weight > 0).map((e) => e.id), binCounts: counts, calibration, information, score: calibration * information }
+  })
+  const best = candidates.reduce((b, c) => (c.score > b.score ? c : b))
+  return { best, candidates }
+}

@@ -40,7 +40,7 @@ export {
 } from './fit'
 export { pointsFromChips, pointsFromIntervals, supportBounds, validatePoints } from './points'
 export { linearPool, logPool, mixture, mixtureQuantile, poolSummary } from './pool'
-export { cookeClassical, decisionMaker, minimumInformationDistribution } from './cooke'
+export { cookeClassical, decisionMaker, minimumInformationDistribution, optimisedCutoff, type CutoffCandidate } from './cooke'
 export {
   analyzePrior,
   boxCheckNormalNormal,

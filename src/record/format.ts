@@ -37,10 +37,5 @@ export function parameterRows(d: PriorDistribution): { name: string; value: numb
   }
 }
 
-/** "Expert 2 (Helen Okafor)" when names are shown, else "Expert 2". */
-export function expertLabel(e: { code: string; name?: string | null }): string {
-  return e.name ? `${e.code} (${e.name})` : e.code
-}
-
 /** An expert's answer as given, in one line (see the shared record format). */
 export const answerText = (j: { method: RecordRound['method']; answer: ElicitedAnswer }): string => sharedAnswerText(j.method, j.answer)

@@ -8,6 +8,7 @@ import { localMailConfig } from '../../server/mail/transport'
 import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
 import { waitFor } from '../support/wait'
 import { unzip } from '../support/zip'
+import { oldLabelsIn } from '../support/old-labels'
 
 /**
  * A record a reviewer can audit: one label per expert on every screen and export, a .docx in words and local time
@@ -220,6 +221,7 @@ describe('review by e-mail, with comments answered', () => {
     const schema = JSON.parse(readFileSync(new URL('../../docs/prior-record.schema.json', import.meta.url), 'utf8'))
     const validate = new Ajv2020({ allErrors: true, strict: false }).compile(schema)
     expect(validate(res.body), JSON.stringify(validate.errors)).toBe(true)
+    expect(oldLabelsIn(JSON.stringify(res.body))).toEqual([])
     const broken = structuredClone(res.body)
     broken.quantities.find((x: { symbol: string }) => x.symbol === 'leak').leftOut = { reason: '' }
     expect(validate(broken)).toBe(false)
@@ -296,10 +298,13 @@ describe('the .docx a reviewer keeps', () => {
   it('writes dates as local times with the time zone, never as ISO UTC', async () => {
     expect(text).not.toMatch(/\d{4}-\d{2}-\d{2}T\d{2}:\d{2}/)
     const signedOffAt = (await analyst.get(`/api/studies/${studyId}/record`)).body.record.signedOffAt as string
-    const local = new Intl.DateTimeFormat('en-GB', { timeZone: TIME_ZONE, day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' })
-      .formatToParts(new Date(signedOffAt))
+    const local = new Intl.DateTimeFormat('en-GB', {
+      timeZone: TIME_ZONE, weekday: 'long', day: 'numeric', month: 'long', year: 'numeric', hour: '2-digit', minute: '2-digit', hourCycle: 'h23', timeZoneName: 'shortOffset',
+    }).formatToParts(new Date(signedOffAt))
     const part = (t: string) => local.find((p) => p.type === t)!.value
-    expect(text).toContain(`Signed off by Ingrid Solberg on ${part('day')} ${part('month')} ${part('year')}, ${part('hour')}:${part('minute')} (${TIME_ZONE})`)
+    // The zone is named with its offset from UTC on that date ("GMT+1" → "UTC+1"), as in every document and e-mail.
+    const offset = part('timeZoneName').replace(/^GMT$/, 'GMT+0').replace('GMT', 'UTC')
+    expect(text).toContain(`Signed off by Ingrid Solberg on ${part('weekday')} ${part('day')} ${part('month')} ${part('year')}, ${part('hour')}:${part('minute')} (${TIME_ZONE}, ${offset})`)
   })
 
   it('gives each expert’s answer as given in the judgement tables, and the round in the panel table', () => {
@@ -324,6 +329,7 @@ describe('the .docx a reviewer keeps', () => {
   })
 
   it('names experts by their study label, with the comment and its answer in the review table', () => {
+    expect(oldLabelsIn(text)).toEqual([])
     expect(text).toContain('Expert 1')
     expect(text).toContain('Weights: Expert 2 0.5; Expert 1 0.5.')
     expect(text).not.toMatch(/Helen Okafor|Tomasz Wierzbicki|\bE1\b/)

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { EXPERT_LABEL_PATTERN, expertLabel, labelExperts } from '../../shared/record/expert-labels'
+import { EXPERT_LABEL_PATTERN, expertLabel, labelExperts, labelWithName } from '../../shared/record/expert-labels'
 import { actionLabel, answerText, subjectLabel } from '../../shared/record/format'
 
 describe('expert labels', () => {
@@ -15,6 +15,11 @@ describe('expert labels', () => {
   it('gives each expert the label of their first joining, whatever comes later', () => {
     const labels = labelExperts(['user:7', 'user:3', 'user:7', 'email:new@example.org', 'user:3'])
     expect([...labels]).toEqual([['user:7', 'Expert 1'], ['user:3', 'Expert 2'], ['email:new@example.org', 'Expert 3']])
+  })
+
+  it('adds the name only when the record shows names', () => {
+    expect(labelWithName({ code: 'Expert 2', name: 'Helen Okafor' })).toBe('Expert 2 (Helen Okafor)')
+    expect([labelWithName({ code: 'Expert 2' }), labelWithName({ code: 'Expert 2', name: null }), labelWithName({ code: 'Expert 2', name: '' })]).toEqual(['Expert 2', 'Expert 2', 'Expert 2'])
   })
 })
 

@@ -24,7 +24,7 @@ export function usePanelView(src: PanelSources) {
   const tones = computed<Record<number, string>>(() => Object.fromEntries((src.view.value?.experts ?? []).map((e, i) => [e.expertId, expertTone(i)])))
 
   const combinationLabel = computed(() => {
-    if (src.method.value === 'consensus') return 'Consensus (best fit)'
+    if (src.method.value === 'consensus') return 'Consensus (closest family)'
     const weights = { equal: 'equal weights', performance: 'performance weights', custom: 'weights set by hand' }[src.weightsMode.value]
     return `${src.method.value === 'linear' ? 'Linear' : 'Logarithmic'} pool, ${weights}`
   })
