@@ -15,6 +15,9 @@ export type FitOptions = { lower?: number; upper?: number; df?: number; weights?
 /** Degrees of freedom used for Student-t fits when none is given. */
 export const DEFAULT_T_DF = 3
 
+/** The families fitted by the least-squares search (the uniform is solved exactly). */
+type SmoothFamily = Exclude<Family, 'uniform'>
+
 const FAMILIES: readonly Family[] = ['normal', 'student-t', 'lognormal', 'gamma', 'beta', 'scaled-beta', 'uniform']
 /**
  * The search box for logarithmic parameters: e^±700 is still a finite double. It only keeps the arithmetic finite; the
@@ -28,7 +31,7 @@ const PAIR_START_GAIN = 1
 
 /**
  * A CDF model on an unconstrained parameter vector θ: normal/t [μ, ln σ], lognormal [meanlog, ln sdlog],
- * gamma [ln shape, ln rate], beta and scaled beta [ln α, ln β], uniform [L, ln(U − L)] (or [ln(U − L)] with one end fixed).
+ * gamma [ln shape, ln rate], beta and scaled beta [ln α, ln β].
  */
 interface CdfModel {
   readonly nParams: number
@@ -99,7 +102,7 @@ function scaledModel(model: CdfModel, sw: readonly number[]): CdfModel {
 }
 
 /** The model and target probabilities the least-squares search runs on (√w-scaled when weights are given). */
-function criterionModel(points: Point[], family: Family, options: FitOptions): { model: CdfModel; target: number[] } {
+function criterionModel(points: Point[], family: SmoothFamily, options: FitOptions): { model: CdfModel; target: number[] } {
   const model = buildModel(points, family, options)
   const w = options.weights
   if (!w) return { model, target: points.map((pt) => pt.prob) }
@@ -140,7 +143,7 @@ function locationScaleModel(
 /** P(a, y) and its shape derivatives for the gamma model (one buffer: the engine is single-threaded). */
 const shapeScratch = new Float64Array(4)
 
-function buildModel(points: Point[], family: Family, options: FitOptions): CdfModel {
+function buildModel(points: Point[], family: SmoothFamily, options: FitOptions): CdfModel {
   const x = points.map((p) => p.value)
   switch (family) {
     case 'normal':
@@ -216,46 +219,6 @@ function buildModel(points: Point[], family: Family, options: FitOptions): CdfMo
         toDistribution: (th) => ({ family: 'scaled-beta', alpha: Math.exp(th[0]), beta: Math.exp(th[1]), lower, upper }),
       }
     }
-    case 'uniform': {
-      const clamp = (v: number): number => (v < 0 ? 0 : v > 1 ? 1 : v)
-      if (options.lower !== undefined && options.upper !== undefined) {
-        const { lower, upper } = options
-        return { nParams: 0, logParams: [], at: () => (i) => clamp((x[i] - lower) / (upper - lower)), toDistribution: () => ({ family: 'uniform', lower, upper }) }
-      }
-      if (options.lower !== undefined) {
-        const lower = options.lower
-        return {
-          nParams: 1,
-          logParams: [true],
-          at: (th) => {
-            const w = Math.exp(th[0])
-            return (i) => clamp((x[i] - lower) / w)
-          },
-          toDistribution: (th) => ({ family: 'uniform', lower, upper: lower + Math.exp(th[0]) }),
-        }
-      }
-      if (options.upper !== undefined) {
-        const upper = options.upper
-        return {
-          nParams: 1,
-          logParams: [true],
-          at: (th) => {
-            const w = Math.exp(th[0])
-            return (i) => clamp(1 - (upper - x[i]) / w)
-          },
-          toDistribution: (th) => ({ family: 'uniform', lower: upper - Math.exp(th[0]), upper }),
-        }
-      }
-      return {
-        nParams: 2,
-        logParams: [false, true],
-        at: (th) => {
-          const w = Math.exp(th[1])
-          return (i) => clamp((x[i] - th[0]) / w)
-        },
-        toDistribution: (th) => ({ family: 'uniform', lower: th[0], upper: th[0] + Math.exp(th[1]) }),
-      }
-    }
   }
 }
 
@@ -309,9 +272,8 @@ function betaStarts(y: number[], z: number[]): number[][] {
   return starts
 }
 
-function primaryStarts(points: Point[], family: Family, options: FitOptions, z: number[], tq: number[]): number[][] {
+function primaryStarts(points: Point[], family: SmoothFamily, options: FitOptions, z: number[], tq: number[]): number[][] {
   const x = points.map((p) => p.value)
-  const p = points.map((pt) => pt.prob)
   const n = x.length
   const starts: number[][] = []
   switch (family) {
@@ -367,30 +329,12 @@ function primaryStarts(points: Point[], family: Family, options: FitOptions, z: 
       )
       break
     }
-    case 'uniform': {
-      const lower = options.lower
-      const upper = options.upper
-      if (lower !== undefined && upper !== undefined) return [[]]
-      if (lower !== undefined) {
-        const w = x.map((v, i) => (v - lower) / p[i]).filter((v) => v > 0)
-        starts.push([Math.log(w.length ? w.reduce((s, v) => s + v, 0) / w.length : 1)])
-      } else if (upper !== undefined) {
-        const w = x.map((v, i) => (upper - v) / (1 - p[i])).filter((v) => v > 0)
-        starts.push([Math.log(w.length ? w.reduce((s, v) => s + v, 0) / w.length : 1)])
-      } else {
-        const r = regress(p, x)
-        if (r.b > 0) starts.push([-r.a / r.b, -Math.log(r.b)])
-        const slope = (p[n - 1] - p[0]) / (x[n - 1] - x[0])
-        starts.push([x[0] - p[0] / slope, -Math.log(slope)])
-      }
-      break
-    }
   }
   return starts
 }
 
-/** Two-parameter starts through each pair of points: the exact two-point fit (location-scale families, uniform) or its moment match. */
-function pairStarts(points: Point[], family: Family, options: FitOptions, z: number[], tq: number[]): number[][] {
+/** Two-parameter starts through each pair of points: the exact two-point fit (location-scale families) or its moment match. */
+function pairStarts(points: Point[], family: SmoothFamily, options: FitOptions, z: number[], tq: number[]): number[][] {
   const out: number[][] = []
   const n = points.length
   for (let i = 0; i < n; i++)
@@ -419,27 +363,26 @@ function pairStarts(points: Point[], family: Family, options: FitOptions, z: num
         const med = 1 / (1 + Math.exp(-(logit(a.value) - s * za)))
         const nu = 1 / (s * s * med * (1 - med))
         out.push([Math.log(med * nu), Math.log((1 - med) * nu)])
-      } else if (family === 'uniform' && options.lower === undefined && options.upper === undefined) {
-        const slope = (b.prob - a.prob) / (b.value - a.value)
-        out.push([a.value - a.prob / slope, -Math.log(slope)])
       }
     }
   return out
 }
 
-function sanitise(starts: number[][], family: Family): number[][] {
+function sanitise(starts: number[][], family: SmoothFamily): number[][] {
   return starts
     .filter((s) => s.every(Number.isFinite))
-    .map((s) => (family === 'uniform' || s.length < 2 ? s : isLogFamily(family) ? s.map(clampLog) : [s[0], clampLog(s[1])]))
+    .map((s) => (isLogFamily(family) ? s.map(clampLog) : [s[0], clampLog(s[1])]))
 }
 
 /**
  * Starting points for the least-squares fit on the unconstrained scale of the family (see CdfModel), in the judgement's
- * own units: the starts the search uses in standardised units (standardUnit), carried back.
+ * own units: the starts the search uses in standardised units (standardUnit), carried back. None for the uniform, which
+ * is solved exactly (uniformLeastSquares).
  */
 export function fittingStarts(points: Point[], family: Family, options: FitOptions = {}): number[][] {
   checkFamilyInput(points, family, options)
   const unit = standardUnit(points, family, options)
+  if (unit.family === 'uniform') return []
   return standardStarts(unit.points, unit.family, unit.options).map(unit.thetaBack)
 }
 
@@ -449,12 +392,11 @@ export function fittingStarts(points: Point[], family: Family, options: FitOptio
  * and, when it beats all of these at the outset, the best of the exact fits through each pair of points (which rescues
  * strongly inconsistent judgements from a poor basin).
  */
-function standardStarts(points: Point[], family: Family, options: FitOptions): number[][] {
+function standardStarts(points: Point[], family: SmoothFamily, options: FitOptions): number[][] {
   const z = points.map((pt) => normalQuantile(pt.prob))
   const tq = family === 'student-t' ? points.map((pt) => studentTQuantile(pt.prob, options.df ?? DEFAULT_T_DF)) : z
   const primary = sanitise(primaryStarts(points, family, options, z, tq), family)
-  const fixedUniform = family === 'uniform' && (options.lower !== undefined || options.upper !== undefined)
-  if (!fixedUniform && points.length > 2) {
+  if (points.length > 2) {
     const { model, target: p } = criterionModel(points, family, options)
     const bestPrimary = Math.min(...primary.map((st) => sseOf(model, st, p)))
     let best: { start: number[]; sse: number } | null = null
@@ -607,13 +549,13 @@ function derivatives(model: CdfModel, theta: readonly number[], n: number): { F:
   const minus = h.map((_, j) => at(unit(j, -1)))
   const plus2 = h.map((_, j) => at(unit(j, 2)))
   const minus2 = h.map((_, j) => at(unit(j, -2)))
-  const both = k === 2 ? at([h[0], h[1]]) : []
+  const both = at([h[0], h[1]])
   for (let i = 0; i < n; i++) {
     F.push(f0[i])
     // Richardson's five-point derivative (error O(h⁴)): the gradient it gives decides where the polish stops
     J.push(h.map((hj, j) => (8 * (plus[j][i] - minus[j][i]) - (plus2[j][i] - minus2[j][i])) / (12 * hj)))
     const d2 = h.map((hj, j) => (plus[j][i] - 2 * f0[i] + minus[j][i]) / (hj * hj))
-    H.push(k === 2 ? [d2[0], (both[i] - plus[0][i] - plus[1][i] + f0[i]) / (h[0] * h[1]), d2[1]] : [d2[0]])
+    H.push([d2[0], (both[i] - plus[0][i] - plus[1][i] + f0[i]) / (h[0] * h[1]), d2[1]])
   }
   return { F, J, H }
 }
@@ -634,14 +576,14 @@ function newtonPolish(model: CdfModel, p: number[], start: number[]): { theta: n
       for (let a = 0; a < k; a++) {
         g[a] += r * J[i][a]
         for (let b = 0; b < k; b++) {
-          const second = k === 2 ? H[i][a + b] : H[i][0]
+          const second = H[i][a + b]
           gn[a * k + b] += J[i][a] * J[i][b]
           full[a * k + b] += J[i][a] * J[i][b] + r * second
         }
       }
     }
-    let step = solve(full, g, k)
-    if (!step) step = solve(gn, g, k, 1e-12)
+    let step = solve(full, g)
+    if (!step) step = solve(gn, g, 1e-12)
     if (!step) break
     let accepted = false
     let lambda = 1
@@ -663,12 +605,8 @@ function newtonPolish(model: CdfModel, p: number[], start: number[]): { theta: n
   return { theta, sse, converged: sse === 0 }
 }
 
-/** Solves a 1×1 or 2×2 symmetric system; null unless positive definite. */
-function solve(A: number[], g: number[], k: number, ridge = 0): number[] | null {
-  if (k === 1) {
-    const a = A[0] * (1 + ridge)
-    return a > 0 ? [g[0] / a] : null
-  }
+/** Solves a 2×2 symmetric system; null unless positive definite. */
+function solve(A: number[], g: number[], ridge = 0): number[] | null {
   const a = A[0] * (1 + ridge)
   const d = A[3] * (1 + ridge)
   const b = A[1]
@@ -677,45 +615,92 @@ function solve(A: number[], g: number[], k: number, ridge = 0): number[] | null 
   return [(d * g[0] - b * g[1]) / det, (a * g[1] - b * g[0]) / det]
 }
 
-/**
- * Exact (weighted) least squares for a uniform CDF: for a fixed split into points below, inside and above [L, U], the
- * inside points give a linear fit and the others a constant residual; iterate the split.
- */
-function uniformActiveSet(x: number[], p: number[], options: FitOptions, theta: number[]): number[] {
-  const w = options.weights
-  let current = theta.slice()
-  for (let iter = 0; iter < 50; iter++) {
-    const lower = options.lower ?? (options.upper !== undefined ? options.upper - Math.exp(current[0]) : current[0])
-    const width = Math.exp(current[current.length - 1])
-    const upper = options.upper ?? lower + width
-    const inside = x.map((_v, i) => i).filter((i) => x[i] > lower && x[i] < upper)
-    let next: number[] | null = null
-    if (options.lower === undefined && options.upper === undefined) {
-      if (inside.length >= 2) {
-        const r = regress(
-          inside.map((i) => p[i]),
-          inside.map((i) => x[i]),
-          w && inside.map((i) => w[i]),
-        )
-        if (r.b > 0) next = [-r.a / r.b, -Math.log(r.b)]
-      }
-    } else if (inside.length >= 1) {
-      const anchor = options.lower ?? options.upper!
-      let num = 0
-      let den = 0
-      for (const i of inside) {
-        const d = options.lower !== undefined ? x[i] - anchor : anchor - x[i]
-        const target = options.lower !== undefined ? p[i] : 1 - p[i]
-        const wi = w ? w[i] : 1
-        num += wi * d * target
-        den += wi * d * d
-      }
-      if (num > 0) next = [Math.log(den / num)]
-    }
-    if (!next || next.every((v, j) => Math.abs(v - current[j]) <= 1e-15 * (1 + Math.abs(v)))) return next ?? current
-    current = next
+/** Weighted criterion of a uniform on [lower, upper]: Σ wᵢ (clamp((xᵢ − L)/(U − L)) − pᵢ)². */
+function uniformCriterion(x: number[], p: number[], w: readonly number[] | undefined, lower: number, upper: number): number {
+  let s = 0
+  for (let i = 0; i < x.length; i++) {
+    const f = Math.min(1, Math.max(0, (x[i] - lower) / (upper - lower)))
+    s += (w ? w[i] : 1) * (f - p[i]) ** 2
   }
-  return current
+  return s
+}
+
+/**
+ * Width of the best uniform with one end fixed, measured from that end: dᵢ ≥ 0 are the distances of the points on the
+ * open side (in increasing order), tᵢ their targets (p, or 1 − p measured from a fixed upper end). With the width W
+ * between dₖ and dₖ₊₁ the first k points lie inside (F = dᵢ/W) and the rest at F = 1, so the criterion is a quadratic
+ * in c = 1/W on that interval, minimised at Σ w d t / Σ w d² clamped to it; every interval is tried (the criterion has
+ * one local minimum per interval, and the first consistent one need not be the best).
+ */
+function uniformWidth(d: number[], t: number[], w: number[]): number {
+  let best = { width: d[d.length - 1], sse: Infinity }
+  let num = 0
+  let den = 0
+  for (let k = 1; k <= d.length; k++) {
+    num += w[k - 1] * d[k - 1] * t[k - 1]
+    den += w[k - 1] * d[k - 1] * d[k - 1]
+    const cMin = k < d.length ? 1 / d[k] : 0
+    const cMax = 1 / d[k - 1]
+    const c = Math.min(cMax, Math.max(cMin, num / den))
+    if (!(c > 0) || !Number.isFinite(c)) continue
+    let sse = 0
+    for (let i = 0; i < d.length; i++) sse += w[i] * (Math.min(1, d[i] * c) - t[i]) ** 2
+    if (sse < best.sse) best = { width: 1 / c, sse }
+  }
+  return best.width
+}
+
+/** The best uniform with its lower (or upper) end fixed at `anchor`, by uniformWidth on the points beyond it. */
+function uniformFromEnd(x: number[], p: number[], w: readonly number[] | undefined, anchor: number, fixedLower: boolean): { lower: number; upper: number } {
+  const d: number[] = []
+  const t: number[] = []
+  const wt: number[] = []
+  const order = fixedLower ? x.map((_, i) => i) : x.map((_, i) => x.length - 1 - i)
+  for (const i of order) {
+    const dist = fixedLower ? x[i] - anchor : anchor - x[i]
+    if (!(dist > 0)) continue
+    d.push(dist)
+    t.push(fixedLower ? p[i] : 1 - p[i])
+    wt.push(w ? w[i] : 1)
+  }
+  if (d.length === 0) return fixedLower ? { lower: anchor, upper: anchor + 1 } : { lower: anchor - 1, upper: anchor }
+  const width = uniformWidth(d, t, wt)
+  return fixedLower ? { lower: anchor, upper: anchor + width } : { lower: anchor - width, upper: anchor }
+}
+
+/**
+ * Exact global (weighted) least squares for a uniform CDF. The criterion is piecewise quadratic: on each region where
+ * the same points lie below, inside and above [L, U] it is a least-squares line through the inside points, and its
+ * minimum lies either inside a region (the unconstrained line through a run of two or more consecutive points) or on a
+ * region's edge, where a point sits exactly at L or at U — which is the best uniform with that end fixed. All of these
+ * are tried and the lowest criterion kept.
+ */
+function uniformLeastSquares(points: Point[], options: FitOptions): { lower: number; upper: number } {
+  const x = points.map((pt) => pt.value)
+  const p = points.map((pt) => pt.prob)
+  const w = options.weights
+  if (options.lower !== undefined && options.upper !== undefined) return { lower: options.lower, upper: options.upper }
+  if (options.lower !== undefined) return uniformFromEnd(x, p, w, options.lower, true)
+  if (options.upper !== undefined) return uniformFromEnd(x, p, w, options.upper, false)
+  const n = x.length
+  let best = { lower: x[0], upper: x[n - 1], sse: Infinity }
+  const consider = (lower: number, upper: number): void => {
+    if (!(upper > lower) || !Number.isFinite(lower) || !Number.isFinite(upper)) return
+    const sse = uniformCriterion(x, p, w, lower, upper)
+    if (sse < best.sse) best = { lower, upper, sse }
+  }
+  for (let i = 0; i < n; i++) {
+    for (let j = i + 1; j < n; j++) {
+      const run = x.slice(i, j + 1)
+      const r = regress(p.slice(i, j + 1), run, w && w.slice(i, j + 1))
+      if (r.b > 0) consider(-r.a / r.b, (1 - r.a) / r.b)
+    }
+    const fromLower = uniformFromEnd(x, p, w, x[i], true)
+    consider(fromLower.lower, fromLower.upper)
+    const fromUpper = uniformFromEnd(x, p, w, x[i], false)
+    consider(fromUpper.lower, fromUpper.upper)
+  }
+  return { lower: best.lower, upper: best.upper }
 }
 
 function checkFamilyInput(points: Point[], family: Family, options: FitOptions): void {
@@ -874,24 +859,16 @@ export function fitDistribution(points: Point[], family: Family, options: FitOpt
 
 /** The least-squares search itself, on standardised points. */
 function fitStandardised(points: Point[], family: Family, options: FitOptions): Distribution {
-  const n = points.length
+  if (family === 'uniform') return { family: 'uniform', ...uniformLeastSquares(points, options) }
   const { model, target } = criterionModel(points, family, options)
-  if (model.nParams === 0) return model.toDistribution([])
   let best: { theta: number[]; sse: number } | null = null
   for (const start of standardStarts(points, family, options)) {
-    const r = n >= 2 ? levenbergMarquardtFit(model, target, start, LM_ITERATIONS, 1) : { theta: start, sse: sseOf(model, start, target) }
+    const r = levenbergMarquardtFit(model, target, start, LM_ITERATIONS, 1)
     if (!best || r.sse < best.sse) best = r
   }
-  let theta = best!.theta
-  if (family === 'uniform') {
-    const exact = uniformActiveSet(points.map((pt) => pt.value), points.map((pt) => pt.prob), options, theta)
-    if (sseOf(model, exact, target) <= best!.sse * (1 + 1e-9) + 1e-30) theta = exact
-  } else {
-    let polished = newtonPolish(model, target, theta)
-    if (!polished.converged) polished = newtonPolish(model, target, levenbergMarquardtFit(model, target, polished.theta, LM_ITERATIONS, 8).theta)
-    theta = polished.theta
-  }
-  return model.toDistribution(theta)
+  let polished = newtonPolish(model, target, best!.theta)
+  if (!polished.converged) polished = newtonPolish(model, target, levenbergMarquardtFit(model, target, polished.theta, LM_ITERATIONS, 8).theta)
+  return model.toDistribution(polished.theta)
 }
 
 /** Families fitted for a quantity's support (Student-t with df = DEFAULT_T_DF). */

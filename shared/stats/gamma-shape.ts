@@ -1,10 +1,12 @@
 // Derivatives of the regularised incomplete gamma function P(a, x) with respect to the shape a, summed term by term
 // alongside the series and the continued fraction that give P itself, so that a gamma fit converges to the true
 // stationary point at any shape (a fixed-step difference in the shape is off by its step error, which grows with √a).
-import { digamma, logGammaPrefactor } from './special'
+import { digamma, gammaPQ, logGammaPrefactor } from './special'
 
 const TINY = 1e-300
 const EPS = 2.220446049250313e-16
+/** Above this shape the series below the mode needs more than ~10⁴ terms (√a of them); differences of P are used instead. */
+const SERIES_MAX_SHAPE = 1e7
 
 /** Trigamma ψ′(a) for a > 0: recurrence ψ′(a) = ψ′(a + 1) + 1/a² up to a ≥ 10, then the asymptotic series (Abramowitz & Stegun 1964, 6.4.12). */
 export function trigamma(a: number): number {
@@ -32,6 +34,11 @@ export function gammaPShapeDerivatives(a: number, x: number, out: Float64Array):
   }
   const logPre = logGammaPrefactor(a, x)
   const pre = Math.exp(logPre)
+  if (a > SERIES_MAX_SHAPE && x < a + 1) {
+    shapeDifferences(a, x, out)
+    out[3] = pre
+    return
+  }
   const l1 = Math.log(x) - digamma(a)
   const l2 = -trigamma(a)
   if (x < a + 1) {
@@ -122,4 +129,24 @@ export function gammaPShapeDerivatives(a: number, x: number, out: Float64Array):
   out[1] = -pre * h0 * dl
   out[2] = -pre * h0 * (dl * dl + l2 + h2 / h0 - r1 * r1)
   out[3] = pre
+}
+
+/**
+ * P(a, x) and its shape derivatives at very large shape by Richardson's five-point differences in ln a (Press et al. 2007,
+ * Numerical Recipes 3rd ed., §5.7), the step scaled to the distribution's width: P depends on a through (x − a)/√a, so a
+ * step of 10⁻²/√a in ln a moves it by about 10⁻² (truncation ~10⁻⁹, rounding ~10⁻¹² in the first derivative).
+ */
+function shapeDifferences(a: number, x: number, out: Float64Array): void {
+  const h = 1e-2 / Math.sqrt(a)
+  const f = (k: number): number => gammaPQ(a * Math.exp(k * h), x).p
+  const f0 = f(0)
+  const p1 = f(1)
+  const m1 = f(-1)
+  const p2 = f(2)
+  const m2 = f(-2)
+  const d1 = (8 * (p1 - m1) - (p2 - m2)) / (12 * h)
+  const d2 = (-(p2 + m2) + 16 * (p1 + m1) - 30 * f0) / (12 * h * h)
+  out[0] = f0
+  out[1] = d1 / a
+  out[2] = (d2 - d1) / (a * a)
 }

@@ -69,11 +69,14 @@ describe('hard judgements against scipy and mpmath (fixtures/hard-fits.json)', (
 describe('shape derivatives of the regularised incomplete gamma function (mpmath, fixtures/hard-fits.json)', () => {
   const out = new Float64Array(4)
   for (const r of FIXTURE.shapeDerivatives) {
-    it(`a = ${r.shape}, x = ${r.x}: P, ∂P/∂a (1e-10) and ∂²P/∂a² (1e-8)`, () => {
+    // below the mode beyond a shape of 1e7 the engine differences P (five-point Richardson): the first derivative to ~1e-9,
+    // the second to ~1e-5
+    const [first, second] = r.shape > 1e7 ? [1e-8, 1e-4] : [1e-10, 1e-8]
+    it(`a = ${r.shape}, x = ${r.x}: P, ∂P/∂a (${first}) and ∂²P/∂a² (${second})`, () => {
       gammaPShapeDerivatives(r.shape, r.x, out)
       expect(Math.abs(out[0] - r.p)).toBeLessThan(1e-14)
-      expectRel(out[1], r.dp, 1e-10, 'dP/da')
-      expectRel(out[2], r.d2p, 1e-8, 'd²P/da²')
+      expectRel(out[1], r.dp, first, 'dP/da')
+      expectRel(out[2], r.d2p, second, 'd²P/da²')
     })
   }
 })
