@@ -161,6 +161,8 @@ export async function getRound(db: Db, access: StudyAccess, id: number): Promise
 }
 
 async function panelOf(db: Db, roundId: number): Promise<PanelMember[]> {
+  const { study_id: studyId } = await db('rounds').where({ id: roundId }).first('study_id')
+  const labels = await studyExpertLabels(db, studyId)
   const rows = await db('round_panel as p').where('p.round_id', roundId)
     .leftJoin('invitations as i', function () {
       this.on('i.panel_id', '=', 'p.id').andOnNull('i.revoked_at')
@@ -171,6 +173,7 @@ async function panelOf(db: Db, roundId: number): Promise<PanelMember[]> {
     id: p.id,
     email: p.email,
     name: p.name,
+    label: labels.ofPanelMember({ userId: p.user_id, email: p.email }),
     userId: p.user_id,
     notifiedAt: iso(p.notified_at),
     firstOpenedAt: iso(p.first_opened_at),

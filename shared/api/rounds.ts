@@ -45,6 +45,8 @@ export interface PanelMember {
   id: number
   email: string
   name: string
+  /** The study-wide anonymous label ("Expert 2"), the same on every screen and export. */
+  label: string
   userId: number | null
   notifiedAt: string | null
   firstOpenedAt: string | null

@@ -97,8 +97,8 @@ describe('panel, opening and invitations', () => {
     await analyst.post(`/api/rounds/${roundId}/invitations`, { email: 'expert2@kestrel.example', name: 'ignored for accounts' }).expect(201)
     const res = await analyst.post(`/api/rounds/${roundId}/invitations`, { email: 'Hydro.Consultant@Example.org', name: 'Mara Lindqvist' })
     expect(res.status).toBe(201)
-    expect(res.body.panel.map((p: { email: string; userId: number | null }) => [p.email, p.userId !== null])).toEqual([
-      ['expert2@kestrel.example', true], ['hydro.consultant@example.org', false],
+    expect(res.body.panel.map((p: { email: string; userId: number | null; label: string }) => [p.email, p.userId !== null, p.label])).toEqual([
+      ['expert2@kestrel.example', true, 'Expert 1'], ['hydro.consultant@example.org', false, 'Expert 2'],
     ])
     expect(await h.db('outbox_messages').where({ round_id: roundId }).where('id', '>', outboxBaseline)).toHaveLength(0)
     const dup = await analyst.post(`/api/rounds/${roundId}/invitations`, { email: 'expert2@kestrel.example', name: 'Helen' })

@@ -63,7 +63,8 @@ async function setUpReconciledStudy(page: Page): Promise<number> {
       title: 'Round 1', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * 864e5).toISOString(),
       items: [{ quantityId: flow.id, method: 'quantile' }, { quantityId: uptake.id, method: 'quantile' }],
     })
-    for (const n of [1, 2, 3]) await call('POST', `/api/rounds/${round.id}/invitations`, { email: `expert${n}@kestrel.example`, name: `Expert ${n}` })
+    const names = ['Tomasz Wierzbicki', 'Helen Okafor', 'Rafael Duarte']
+    for (const n of [1, 2, 3]) await call('POST', `/api/rounds/${round.id}/invitations`, { email: `expert${n}@kestrel.example`, name: names[n - 1] })
     await call('POST', `/api/rounds/${round.id}/open`)
 
     const flows = [[3, 1], [4, 1.3], [3.5, 0.8]]
@@ -168,6 +169,34 @@ describe('prior record: submit, return with comments, resubmit, sign off, downlo
     await expect(result.getAttribute('data-ok')).resolves.toBe('true')
     await analyst.shot('record-01-draft')
     await expectAccessible(page, 'analyst record')
+  })
+
+  it('names one expert with the same label on the reconcile screen, the record page, the JSON and the .docx', async () => {
+    const { page } = analyst
+    const flowId = await page.evaluate(async (id) => ((await (await fetch(`/api/studies/${id}/quantities`)).json()) as { id: number; symbol: string }[]).find((x) => x.symbol === 'flow')!.id, studyId)
+    // The reconcile screen shows the study team names beside the labels: Helen Okafor (expert 2, middle value 4 L/s).
+    await page.goto(`${analyst.baseUrl}/studies/${studyId}/reconcile/${flowId}`)
+    const helenRow = page.getByTestId('expert-row').filter({ hasText: 'Helen Okafor' })
+    await helenRow.waitFor()
+    const label = (await helenRow.getAttribute('data-label'))!
+    expect(label).toMatch(/^Expert \d+$/)
+    // The record page (names hidden) gives her answer, and only hers, under that label.
+    await page.goto(`${analyst.baseUrl}/studies/${studyId}/record`)
+    await waitForStatus(analyst, 'draft')
+    const flow = page.locator(`[data-testid="record-section"][data-section="${FLOW_SECTION}"]`)
+    const answerRow = flow.locator('tr').filter({ hasText: '; 4 at 0.5;' })
+    await expect(answerRow.count()).resolves.toBe(1)
+    await expect(answerRow.locator('td').nth(1).innerText()).resolves.toBe(label)
+    // The JSON and the .docx say the same.
+    const json = await page.evaluate(async (id) => (await fetch(`/api/studies/${id}/record.json`)).json(), studyId)
+    const judgement = json.quantities.find((x: { symbol: string }) => x.symbol === 'flow').judgements.find((j: { answer: { points: { value: number }[] } }) => j.answer.points[1].value === 4)
+    expect(judgement.expert).toEqual({ code: label })
+    const docx = await page.evaluate(async (id) => Array.from(new Uint8Array(await (await fetch(`/api/studies/${id}/record.docx`)).arrayBuffer())), studyId)
+    const lines = (await mammoth.extractRawText({ buffer: Buffer.from(docx) })).value.split('\n').map((l) => l.trim()).filter(Boolean)
+    const at = lines.findIndex((l) => l.includes('; 4 at 0.5;'))
+    expect(at).toBeGreaterThan(0)
+    expect(lines[at - 1]).toBe(label)
+    expect(lines.join('\n')).not.toMatch(/Helen Okafor/)
   })
 
   it('the section index stays in view while the record scrolls, jumps to a section, and long tables start folded', async () => {

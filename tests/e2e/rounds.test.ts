@@ -141,6 +141,8 @@ describe('scheduling and opening a round, and an expert entering it', () => {
     await page.getByTestId('panel-add').click()
     const row = page.locator(`[data-testid="panel-row"][data-email="${EXPERT.email}"]`)
     await row.waitFor()
+    // The team sees the study-wide label the expert will carry on every screen and in the record beside the name.
+    await expect(row.getByTestId('panel-member-label').innerText()).resolves.toMatch(/^Expert \d+$/)
     await expect(page.locator('[data-testid="panel-state"]').first().getAttribute('data-state')).resolves.toBe('pending')
     await page.locator(`[data-testid="progress-row"][data-email="${EXPERT.email}"]`).waitFor()
     await analyst.shot('rounds-04-draft-with-panel')
