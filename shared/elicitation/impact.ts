@@ -263,7 +263,7 @@ export function sweepOf(prior: PriorDistribution, data: PilotData, support: Supp
 /** A p-value from its logarithm in words: "= 0.012", or a power of ten when it is below 1e-6 (it may underflow to 0). */
 export function formatSmallP(logP: number): string {
   const log10 = logP / Math.LN10
-  if (log10 >= -6) return `= ${Math.exp(logP).toPrecision(2)}`
+  if (log10 >= -6) return `= ${formatNumber(Math.exp(logP), 2)}`
   return `is about 10^${Math.round(log10)}, practically zero`
 }
 
