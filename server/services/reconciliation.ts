@@ -33,6 +33,8 @@ async function expertFits(db: Db, roundId: number, quantityId: number): Promise<
   const rows = await db('judgements as j').join('users as u', 'u.id', 'j.expert_id')
     .where({ 'j.round_id': roundId, 'j.quantity_id': quantityId, 'j.status': 'submitted' })
     .select('j.id', 'j.expert_id', 'u.display_name', 'j.fits', 'j.chosen_family', 'j.rationale', 'j.answer', 'j.method').orderBy('j.expert_id')
+  // No submitted judgement (or no such round): nothing to label, and the round may not exist to name its study.
+  if (rows.length === 0) return []
   const { study_id: studyId } = await db('rounds').where({ id: roundId }).first('study_id')
   const labels = await studyExpertLabels(db, studyId)
   return rows.flatMap((r) => {
