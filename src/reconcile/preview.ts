@@ -3,8 +3,8 @@ import {
   type Component, type LeaveOneOut, type Summary,
 } from '@shared/elicitation/reconcile'
 import {
-  cookeClassical, EngineInputError, quantile, toUnivariate,
-  type Distribution, type FitResult, type Point, type Support, type Univariate,
+  cookeClassical, EngineInputError, optimisedCutoff, quantile, toUnivariate,
+  type CookeInput, type Distribution, type FitResult, type Point, type Support, type Univariate,
 } from '@shared/stats'
 import type { CookeScore, PoolMethod, ReconcileExpert, ReconciliationView } from '@/api/reconciliation'
 
@@ -65,23 +65,10 @@ export function componentsOf(experts: ReconcileExpert[]): Component[] {
  * server sent (the same function the server runs; it recomputes on save).
  */
 export function liveCooke(calibration: ReconciliationView['calibration'], included: Pick<ReconcileExpert, 'expertId' | 'label'>[], cutoff: number): LiveCooke {
-  const includedIds = included.map((e) => e.expertId)
-  if (calibration.questionCount === 0) {
-    return { scores: null, problem: 'No calibration question has a known true value that every included expert answered.' }
-  }
-  if (includedIds.length === 0) return { scores: null, problem: 'No expert is included.' }
-  const byId = new Map(calibration.assessments.map((a) => [Number(a.id), a]))
-  const missing = includedIds.filter((id) => !byId.has(id))
-  if (missing.length) {
-    return { scores: null, problem: 'The calibration answers of an expert you included again are computed when you save.' }
-  }
+  const made = cookeInputFor(calibration, included, cutoff)
+  if ('problem' in made) return { scores: null, problem: made.problem }
   try {
-    const result = cookeClassical({
-      quantiles: COOKE_QUANTILES,
-      experts: included.map((e) => ({ id: String(e.expertId), label: e.label, assessments: byId.get(e.expertId)!.assessments })),
-      realizations: calibration.realizations,
-      cutoff,
-    })
+    const result = cookeClassical(made.input)
     return {
       scores: result.experts.map((e) => ({
         expertId: Number(e.id), calibration: e.calibration, information: e.information, weight: e.weight, normalizedWeight: e.normalizedWeight,
@@ -90,6 +77,41 @@ export function liveCooke(calibration: ReconciliationView['calibration'], includ
     }
   } catch (err) {
     if (err instanceof EngineInputError) return { scores: null, problem: err.message }
+    throw err
+  }
+}
+
+/** The input of Cooke's model for the included experts, or why there is none yet. */
+function cookeInputFor(calibration: ReconciliationView['calibration'], included: Pick<ReconcileExpert, 'expertId' | 'label'>[], cutoff: number): { input: CookeInput } | { problem: string } {
+  const includedIds = included.map((e) => e.expertId)
+  if (calibration.questionCount === 0) return { problem: 'No calibration question has a known true value that every included expert answered.' }
+  if (includedIds.length === 0) return { problem: 'No expert is included.' }
+  const byId = new Map(calibration.assessments.map((a) => [Number(a.id), a]))
+  if (includedIds.some((id) => !byId.has(id))) return { problem: 'The calibration answers of an expert you included again are computed when you save.' }
+  return {
+    input: {
+      quantiles: COOKE_QUANTILES,
+      experts: included.map((e) => ({ id: String(e.expertId), label: e.label, assessments: byId.get(e.expertId)!.assessments })),
+      realizations: calibration.realizations,
+      cutoff,
+    },
+  }
+}
+
+/** The largest cutoff the cutoff field takes. */
+export const MAX_CUTOFF = 0.99
+
+/**
+ * The cutoff at which the combined decision maker scores best (Cooke's optimised cutoff, `optimisedCutoff`), capped at the
+ * field's 0.99; null while the scores cannot be computed.
+ */
+export function liveOptimisedCutoff(calibration: ReconciliationView['calibration'], included: Pick<ReconcileExpert, 'expertId' | 'label'>[]): number | null {
+  const made = cookeInputFor(calibration, included, 0)
+  if ('problem' in made) return null
+  try {
+    return Math.min(MAX_CUTOFF, optimisedCutoff(made.input).best.cutoff)
+  } catch (err) {
+    if (err instanceof EngineInputError) return null
     throw err
   }
 }

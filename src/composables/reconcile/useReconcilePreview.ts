@@ -1,6 +1,6 @@
 import { computed, onBeforeUnmount, shallowRef, watch, type Ref } from 'vue'
 import type { ReconciliationView } from '@/api/reconciliation'
-import { computePreview, liveCooke, type Preview, type PreviewInput } from '@/reconcile/preview'
+import { computePreview, liveCooke, liveOptimisedCutoff, type Preview, type PreviewInput } from '@/reconcile/preview'
 import { performanceWeightCautions } from '@shared/elicitation/weights'
 import type { ReconcileForm } from './useReconcileForm'
 
@@ -44,6 +44,8 @@ export function useReconcilePreview(view: Ref<ReconciliationView | null>, form: 
   const cookeNow = computed(() => (view.value ? liveCooke(view.value.calibration, form.included.value, form.cutoffValue.value) : null))
   /** The same scores with every included expert kept (cutoff 0). */
   const cookeAll = computed(() => (view.value ? liveCooke(view.value.calibration, form.included.value, 0) : null))
+  /** Cooke's optimised cutoff for the included experts, offered beside the cutoff field. */
+  const optimisedCutoff = computed(() => (view.value ? liveOptimisedCutoff(view.value.calibration, form.included.value) : null))
 
   /** Plain cautions when performance weights rest on too few calibration questions or experts (same rule as the record). */
   const weightCautions = computed(() => (view.value ? performanceWeightCautions(view.value.calibration.questionCount, form.included.value.length) : []))
@@ -55,5 +57,5 @@ export function useReconcilePreview(view: Ref<ReconciliationView | null>, form: 
   })
   const summary = computed(() => preview.value?.summary ?? null)
 
-  return { preview, cookeNow, cookeAll, weightCautions, weightsById, summary }
+  return { preview, cookeNow, cookeAll, optimisedCutoff, weightCautions, weightsById, summary }
 }
