@@ -17,6 +17,7 @@ import { datasetsRouter } from './routes/datasets'
 import { devMailboxRouter } from './routes/dev-mailbox'
 import { healthRouter } from './routes/health'
 import { impactRouter } from './routes/impact'
+import { createAnalysisQueue } from './compute/analysis-queue'
 import { invitationsRouter } from './routes/invitations'
 import { judgementsRouter } from './routes/judgements'
 import { outboxRouter } from './routes/outbox'
@@ -47,6 +48,10 @@ export interface AppOptions {
   timeZone?: string
   /** The local SMTP fake, when it runs in this process: enables /api/dev/mailbox. */
   mailFake?: SmtpFake | null
+  /** ANALYSIS_TIME_LIMIT_SECONDS as the workers apply it (default 600): the queue's lease on a job is a minute longer. */
+  analysisTimeLimitSeconds?: number
+  /** Called after an impact analysis is queued (this process's own worker, if it runs one, takes it at once). */
+  onAnalysisQueued?: () => void
 }
 
 export interface PriorsmithApp {
@@ -107,7 +112,8 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   app.use('/api', judgementsRouter(db))
   app.use('/api', reconciliationRouter(db))
   app.use('/api', datasetsRouter(db))
-  app.use('/api', impactRouter(db))
+  const analysisQueue = createAnalysisQueue({ databaseUrl: opts.databaseUrl, db, timeLimitSeconds: opts.analysisTimeLimitSeconds ?? 600, onQueued: opts.onAnalysisQueued })
+  app.use('/api', impactRouter(db, analysisQueue))
   app.use('/api', recordsRouter({ ...ctx, timeZone: opts.timeZone ?? 'UTC' }))
   app.use('/api', outboxRouter(db))
   app.use('/api', notFoundApi)
@@ -127,6 +133,7 @@ export function createApp(opts: AppOptions): PriorsmithApp {
     close: async () => {
       await signInGuard.close()
       await sessions.close()
+      await analysisQueue.close()
     },
   }
 }

@@ -1,7 +1,7 @@
 import path from 'node:path'
 import { fileURLToPath } from 'node:url'
 import { createApp } from './app'
-import { stopComputePool } from './compute/pool'
+import { createAnalysisWorker } from './compute/analysis-worker'
 import { loadConfig } from './config'
 import { createDb } from './db/knex'
 import { waitUntilIdle } from './idle'
@@ -25,6 +25,12 @@ if (!transport) {
 const mailer = createMailer({ databaseUrl: config.databaseUrl, db, transport })
 await mailer.start()
 
+// Impact analyses go on the queue; this process works it too unless IN_PROCESS_WORKER=0 (then `npm run worker`
+// processes, here or on other machines, compute them).
+const analysisWorker = config.inProcessWorker ? createAnalysisWorker({ databaseUrl: config.databaseUrl, db, ...config.analysis }) : null
+await analysisWorker?.start()
+if (!analysisWorker) console.log('[priorsmith] IN_PROCESS_WORKER=0: impact analyses wait for `npm run worker` processes')
+
 const { app, close } = createApp({
   db,
   databaseUrl: config.databaseUrl,
@@ -36,6 +42,8 @@ const { app, close } = createApp({
   timeZone: config.timeZone,
   kickMail: (ids) => mailer.kick(ids),
   mailFake,
+  analysisTimeLimitSeconds: config.analysis.timeLimitSeconds,
+  onAnalysisQueued: () => analysisWorker?.notify(),
 })
 
 const ctx = { db, publicUrl: config.publicUrl, kickMail: (ids: number[]) => mailer.kick(ids) }
@@ -63,7 +71,7 @@ async function shutdown() {
   // A handler whose client hung up may still be running its queries: let them finish before the pool closes.
   const pool = db.client.pool as { numUsed(): number; numPendingAcquires(): number }
   await waitUntilIdle(() => pool.numUsed() + pool.numPendingAcquires() === 0, 10_000)
-  stopComputePool()
+  await analysisWorker?.stop()
   await mailer.stop()
   await mailFake?.stop()
   await close()

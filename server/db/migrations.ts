@@ -13,6 +13,7 @@ import * as roundTimeZone from '../../migrations/20261203_i17b_round_time_zone'
 import * as m018 from '../../migrations/20261203_018_comparison_prior'
 import * as m022 from '../../migrations/20261203_022_compositions'
 import * as m022b from '../../migrations/20261203_022b_composition_pilot'
+import * as m024 from '../../migrations/20261203_024_impact_jobs'
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> }
 
@@ -32,6 +33,7 @@ const migrations: Record<string, Migration> = {
   '20261203_018_comparison_prior': m018,
   '20261203_022_compositions': m022,
   '20261203_022b_composition_pilot': m022b,
+  '20261203_024_impact_jobs': m024,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -1,14 +1,13 @@
 import PgBoss from 'pg-boss'
 import type { Transporter } from 'nodemailer'
 import type { Db } from '../db/knex'
+import { createQueueOnce, PGBOSS_SCHEMA } from '../queue/boss'
 import { CALENDAR_CONTENT_TYPE } from './calendar'
 import { OUTBOX_TABLE } from './outbox'
 import { createTransport, type MailConfig } from './transport'
 
 export const MAIL_QUEUE = 'deliver-mail'
-export const PGBOSS_SCHEMA = 'pgboss'
-/** Advisory lock key serializing the queue's creation across instances (audit.ts uses 7_240_001). */
-const CREATE_QUEUE_LOCK = 7_240_002
+export { PGBOSS_SCHEMA }
 
 export interface MailerOptions {
   /** pg-boss opens its own small connection pool on this database. */
@@ -179,12 +178,7 @@ export function createMailer(opts: MailerOptions): Mailer {
       const b = new PgBoss({ connectionString: opts.databaseUrl, schema: PGBOSS_SCHEMA, max: 4, application_name: 'priorsmith-mailer' })
       b.on('error', (err) => log(`queue error: ${shortError(err)}`))
       await b.start()
-      // Instances starting together on a database without the queue would each create its partition and deadlock
-      // (one of them then fails to start); a transaction-level advisory lock lets them create it one after the other.
-      await db.transaction(async (trx) => {
-        await trx.raw('SELECT pg_advisory_xact_lock(?)', [CREATE_QUEUE_LOCK])
-        await b.createQueue(MAIL_QUEUE, { name: MAIL_QUEUE, policy: 'short', retryLimit, retryDelay, retryBackoff: true, expireInSeconds: 300 })
-      })
+      await createQueueOnce(db, b, { name: MAIL_QUEUE, policy: 'short', retryLimit, retryDelay, retryBackoff: true, expireInSeconds: 300 })
       await b.work<DeliverJob>(MAIL_QUEUE, { pollingIntervalSeconds, batchSize: 5, includeMetadata: true }, async (jobs) => {
         // Each job succeeds or fails on its own: a failed one is failed here (pg-boss schedules its
         // retry); pg-boss then completes only the jobs still active.

@@ -13,7 +13,7 @@ export interface AuditInput {
 
 const GENESIS = '0'.repeat(64)
 /** Advisory-lock class of the audit chains; the second key is the study id (0 for events outside any study). */
-const AUDIT_LOCK_CLASS = 7_240_001
+export const AUDIT_LOCK_CLASS = 7_240_001
 
 /** JSON with object keys sorted at every level, so jsonb's key reordering does not change the hash. */
 export function canonicalJson(value: unknown): string {

@@ -1,10 +1,11 @@
 import { createHash } from 'node:crypto'
-import type { ImpactFindings, ImpactNotRun, ImpactResult } from '../../shared/api/impact'
+import type { ImpactNotRun, ImpactResult } from '../../shared/api/impact'
 import { chosenFit } from '../../shared/elicitation/fits'
 import { dataSize, mixtureLabel, SWEEP_FACTORS, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
 import { combine, fitCombination, fitConsensus, resolveWeights } from '../../shared/elicitation/reconcile'
 import { ENGINE_VERSION, EngineInputError, validateDistribution, type Distribution, type FitResult, type PilotData } from '../../shared/stats/index'
-import { runImpactTask } from '../compute/pool'
+import { impactSteps } from '../compute/tasks'
+import type { AnalysisQueue } from '../compute/analysis-queue'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/http-error'
@@ -13,6 +14,7 @@ import { getDataset } from './datasets'
 import { studyExpertLabels } from './expert-labels'
 import type { Quantity } from '../../shared/api/quantities'
 import { getQuantity } from './quantities'
+import { analysisOf, type ImpactJobTask, type StoredImpactJob } from './impact-jobs'
 
 export interface ImpactInput {
   datasetId: number
@@ -86,8 +88,12 @@ async function candidatesFor(db: Db, quantity: Quantity, input: ImpactInput): Pr
 /** SHA-256 of a prior's canonical JSON: how an analysis, a recorded reason and the record find the same final prior. */
 export const priorHash = (prior: Distribution) => createHash('sha256').update(canonicalJson(prior)).digest('hex')
 
-/** Runs (or returns the cached) impact analysis of every candidate prior on one pilot dataset. */
-export async function runImpact(db: Db, user: User, quantityId: number, input: ImpactInput): Promise<ImpactResult> {
+/**
+ * Prepares an impact analysis of every candidate prior on one pilot dataset and puts it on the queue; answers with the
+ * job. The inputs are checked here, so a bad request is refused at once with field errors. When the same inputs were
+ * analysed before, the job is born done with that analysis (`cached`); otherwise a worker computes it (impact-jobs.ts).
+ */
+export async function submitImpact(db: Db, queue: AnalysisQueue, user: User, quantityId: number, input: ImpactInput): Promise<{ job: StoredImpactJob; queued: boolean }> {
   const dataset = await getDataset(db, input.datasetId)
   const quantity = await getQuantity(db, quantityId)
   // Another study's dataset is answered as if it did not exist: its id says nothing about that study.
@@ -100,35 +106,38 @@ export async function runImpact(db: Db, user: User, quantityId: number, input: I
   // Everything the numbers depend on: the data, every candidate prior (the final one included), the options and the engine.
   const hashInput = { datasetSha: dataset.sha256, datasetId: dataset.id, datasetVersion: dataset.version, candidates: list, decision: input.decision ?? null, factors, trainingFraction: input.trainingFraction ?? null, support, engine: ENGINE_VERSION }
   const inputHash = createHash('sha256').update(canonicalJson(hashInput)).digest('hex')
-  const cached = await db('impact_analyses').where({ quantity_id: quantityId, input_hash: inputHash }).orderBy('id', 'desc').first()
-  if (cached) return { id: cached.id, cached: true, createdAt: cached.created_at.toISOString(), ...cached.result }
+  const row = { quantity_id: quantityId, dataset_id: dataset.id, input_hash: inputHash, input: JSON.stringify(input), created_by: user.id }
 
-  let result: ImpactFindings
-  try {
-    const computed = await runImpactTask({ candidates: list, data, decision: input.decision ?? null, reconciled, support, factors, trainingFraction: input.trainingFraction ?? null, n: dataSize(data) })
-    result = {
-      quantityId, datasetId: dataset.id, dataset: { name: dataset.name, version: dataset.version, model: dataset.model, summary: dataset.summary },
-      n: dataSize(data), decision: input.decision ?? null, excludedExperts: excluded, ...computed,
-    }
-  } catch (err) {
-    if (err instanceof EngineInputError) throw new HttpError(400, 'The analysis cannot be run with these inputs', { [err.field]: err.message })
-    throw err
+  const cached = await db('impact_analyses').where({ quantity_id: quantityId, input_hash: inputHash }).orderBy('id', 'desc').first('id')
+  if (cached) {
+    const [job] = await db('impact_jobs').insert({ ...row, state: 'done', analysis_id: cached.id, started_at: db.fn.now(), finished_at: db.fn.now() }).returning('*')
+    return { job: job as StoredImpactJob, queued: false }
   }
-  const row = await db.transaction(async (trx) => {
-    const [r] = await trx('impact_analyses').insert({
-      quantity_id: quantityId, dataset_id: dataset.id, input_hash: inputHash, prior_hash: reconciled ? priorHash(reconciled) : null,
-      input: JSON.stringify(input), result: JSON.stringify(result), created_by: user.id,
-    }).returning(['id', 'created_at'])
-    await recordAudit(trx, { actorId: user.id, studyId: quantity.studyId, action: 'impact.run', subject: `quantity:${quantityId}`, details: { analysisId: r.id, datasetId: dataset.id, candidates: list.length } })
-    return r
+
+  const n = dataSize(data)
+  const task: ImpactJobTask = {
+    compute: { candidates: list, data, decision: input.decision ?? null, reconciled, support, factors, trainingFraction: input.trainingFraction ?? null, n },
+    studyId: quantity.studyId,
+    priorHash: reconciled ? priorHash(reconciled) : null,
+    resultBase: {
+      quantityId, datasetId: dataset.id, dataset: { name: dataset.name, version: dataset.version, model: dataset.model, summary: dataset.summary },
+      n, decision: input.decision ?? null, excludedExperts: excluded,
+    },
+  }
+  // The job row and its queue entry commit together: no job waits without a queue entry, and none is handed out unknown.
+  const job = await db.transaction(async (trx) => {
+    const [stored] = await trx('impact_jobs').insert({ ...row, task: JSON.stringify(task), progress_total: impactSteps(task.compute) }).returning('*')
+    await queue.enqueue(trx, stored.id)
+    return stored as StoredImpactJob
   })
-  return { id: row.id, cached: false, createdAt: row.created_at.toISOString(), ...result }
+  queue.queued()
+  return { job, queued: true }
 }
 
 /** The newest analysis of a quantity, for the record and for reopening the page. */
 export async function latestImpact(db: Db, quantityId: number): Promise<ImpactResult | null> {
   const row = await db('impact_analyses').where({ quantity_id: quantityId }).orderBy('id', 'desc').first()
-  return row ? { id: row.id, cached: true, createdAt: row.created_at.toISOString(), input: row.input, ...row.result } : null
+  return row ? analysisOf(row, true) : null
 }
 
 /** The analyst's reason for stating the final prior without an impact analysis; it holds for this prior only. */

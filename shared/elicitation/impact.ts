@@ -155,10 +155,12 @@ export function dataSize(data: PilotData): number {
 }
 
 /**
+/**
  * Every candidate prior against the pilot data: posterior, evidence, ordinary and fractional Bayes factors against the
- * comparison prior (training fraction b, default m₀/n), power-scaling sensitivity, checks.
+ * comparison prior (training fraction b, default m₀/n), power-scaling sensitivity, checks. `onStep` is called after
+ * each candidate (a progress report).
  */
-export function evaluateCandidates(candidates: CandidateInput[], data: PilotData, rule: DecisionRule | null, trainingFraction: number | null = null): CandidateResult[] {
+export function evaluateCandidates(candidates: CandidateInput[], data: PilotData, rule: DecisionRule | null, trainingFraction: number | null = null, onStep?: () => void): CandidateResult[] {
   const n = dataSize(data)
   const results: CandidateResult[] = candidates.map((c): CandidateResult => {
     const { analysis, post } = namedFor(c, () => (c.mixture ? mixtureAnalysis(c.mixture, data) : { analysis: analyzePrior(c.prior, data), post: posteriorOf(c.prior, data) }))
@@ -166,6 +168,7 @@ export function evaluateCandidates(candidates: CandidateInput[], data: PilotData
     if (analysis.priorEss !== null && analysis.priorEss > n) flags.push('prior-dominates')
     if (analysis.conflict) flags.push('prior-data-conflict')
     const probability = rule ? tailProbability(post, rule) : null
+    onStep?.()
     return {
       key: c.key, label: c.label, kind: c.kind, prior: c.prior, priorSummary: priorSummaryOf(c),
       logEvidence: analysis.logEvidence, method: analysis.method, posterior: analysis.posterior,
@@ -236,10 +239,11 @@ export interface SweepSummary {
 
 /**
  * The width sweep of a prior (evidence and posterior against the spread factor k), the fractional Bayes factor of each
- * widened prior against the prior itself, and the posterior against the power α on the prior.
+ * widened prior against the prior itself, and the posterior against the power α on the prior. `onStep` is called after
+ * each width (a progress report).
  */
-export function sweepOf(prior: PriorDistribution, data: PilotData, support: Support, factors = SWEEP_FACTORS, trainingFraction: number | null = null): SweepSummary {
-  const s = widthSweep(prior, data, factors, support)
+export function sweepOf(prior: PriorDistribution, data: PilotData, support: Support, factors = SWEEP_FACTORS, trainingFraction: number | null = null, onStep?: () => void): SweepSummary {
+  const s = widthSweep(prior, data, factors, support, onStep)
   const reference = s.points.find((p) => p.factor === 1)?.logEvidence ?? analyzePrior(prior, data, { skipPredictiveCheck: true }).logEvidence
   const notes: string[] = []
   const fractional = attempt(notes, 'The fractional Bayes factor curve', () => fractionalBayesFactors(s.points.map((p) => p.prior), prior, data, trainingFraction ?? undefined))

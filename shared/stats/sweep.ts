@@ -91,9 +91,9 @@ export function scaleSpread(prior: PriorDistribution, k: number, support?: Suppo
 /**
  * Width sweep: evidence and posterior for the prior's spread × k (scaleSpread) for each factor. evidenceRatio is the
  * largest over the smallest evidence among the factors in [0.5, 2] together with k = 1; priorDriven follows
- * PRIOR_DRIVEN_RULE.
+ * PRIOR_DRIVEN_RULE. `onStep` is called after each factor (a progress report; it must not throw).
  */
-export function widthSweep(prior: PriorDistribution, data: PilotData, factors: number[], support?: Support): SweepResult {
+export function widthSweep(prior: PriorDistribution, data: PilotData, factors: number[], support?: Support, onStep?: () => void): SweepResult {
   if (!Array.isArray(factors) || factors.length === 0) throw new EngineInputError('factors', 'Give at least one width factor.')
   factors.forEach((k) => {
     if (!(k > 0 && Number.isFinite(k))) throw new EngineInputError('factors', 'Width factors must be positive numbers.')
@@ -104,7 +104,11 @@ export function widthSweep(prior: PriorDistribution, data: PilotData, factors: n
     const { mean, sd, q025, q975 } = a.posterior
     return { point: { factor: k, prior: scaled, logEvidence: a.logEvidence, posteriorMean: mean, q025, q975 }, sd }
   }
-  const computed = factors.map(run)
+  const computed = factors.map((k) => {
+    const c = run(k)
+    onStep?.()
+    return c
+  })
   const reference = computed.find((c) => c.point.factor === 1) ?? run(1)
   const inRange = [...computed.filter((c) => c.point.factor >= PRIOR_DRIVEN_CONVENTION.fromFactor && c.point.factor <= PRIOR_DRIVEN_CONVENTION.toFactor), reference]
   const logs = inRange.map((c) => c.point.logEvidence)

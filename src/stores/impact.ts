@@ -1,6 +1,6 @@
 import { ref } from 'vue'
 import { defineStore } from 'pinia'
-import { impactApi, type ImpactRequest, type ImpactResult } from '@/api/impact'
+import { impactApi, type ImpactJob, type ImpactRequest, type ImpactResult } from '@/api/impact'
 
 /** Impact analyses: the result shown for each quantity, and which quantity is being computed. */
 export const useImpactStore = defineStore('impact', () => {
@@ -19,11 +19,14 @@ export const useImpactStore = defineStore('impact', () => {
     return result
   }
 
-  /** POST a run; the server answers from its cache when the same inputs were run before (`cached`). */
-  async function run(quantityId: number, body: ImpactRequest): Promise<ImpactResult> {
+  /**
+   * Queues a run and waits for it with `follow` (useImpactJob, owned by the page that shows the progress); the server
+   * answers from its cache when the same inputs were run before (`cached`).
+   */
+  async function run(quantityId: number, body: ImpactRequest, follow: (job: ImpactJob) => Promise<ImpactResult>): Promise<ImpactResult> {
     running.value = quantityId
     try {
-      const result = await impactApi.run(quantityId, body)
+      const result = await follow(await impactApi.run(quantityId, body))
       results.value = { ...results.value, [quantityId]: { ...result, input: body } }
       origin.value = { ...origin.value, [quantityId]: 'run' }
       return result

@@ -1,6 +1,7 @@
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
+import { runImpact } from '../support/impact'
 
 // Smaller boundaries: closed rounds, names that reach e-mail headers, anonymous token requests, ids of another
 // study, removed members and files whose content disagrees with their name.
@@ -124,13 +125,13 @@ describe('ids of another study', () => {
     const dataset = (await analyst.agent.post(`/api/studies/${otherStudy}/datasets`).set('x-csrf-token', analyst.token)
       .field('quantityId', String(otherQuantity)).field('name', 'Pilot').field('model', 'normal-known-sigma').field('valueColumn', 'v').field('sigma', '2')
       .attach('file', Buffer.from('v\n2.2\n3.5\n2.8\n'), 'p.csv').expect(201)).body
-    const res = await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId: dataset.id, comparison: { family: 'normal', mu: 0, sigma: 10 } })
+    const res = await runImpact(analyst, quantityId, { datasetId: dataset.id, comparison: { family: 'normal', mu: 0, sigma: 10 } })
     expect(res.status).toBe(404)
     expect(res.body.error.message).toBe('Dataset not found')
     const sibling = (await analyst.post(`/api/studies/${otherStudy}/quantities`, {
       name: 'Flow beside', symbol: 'flow3', unit: 'L/s', question: 'Mean reduction in night flow beside it?', support: { kind: 'real' },
     }).expect(201)).body.id
-    const same = await analyst.post(`/api/quantities/${sibling}/impact`, { datasetId: dataset.id, comparison: { family: 'normal', mu: 0, sigma: 10 } })
+    const same = await runImpact(analyst, sibling, { datasetId: dataset.id, comparison: { family: 'normal', mu: 0, sigma: 10 } })
     expect(same.status).toBe(400)
     expect(same.body.error.fields).toEqual({ datasetId: 'Choose a dataset of this quantity' })
   })

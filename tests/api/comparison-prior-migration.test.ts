@@ -6,6 +6,7 @@ import { up as rewordStoredImpact } from '../../migrations/20261203_018_comparis
 import { verifyAuditChain } from '../../server/services/audit'
 import { contentHash } from '../../server/services/records'
 import { Client, normalQuantileAnswer as normalAnswer, openQuantileRound, signedIn, startApi, type ApiHarness } from '../support/api'
+import { impactDone } from '../support/impact'
 
 /**
  * Analyses and signed-off records stored before the comparison prior and the wide component were named so hold the
@@ -68,9 +69,9 @@ beforeAll(async () => {
     .field('quantityId', String(quantityId)).field('name', 'Pilot districts').field('model', 'normal-known-sigma').field('valueColumn', 'reduction').field('sigma', '2')
     .attach('file', Buffer.from('district,reduction\nKV-01,11.2\nKV-02,13.5\nKV-03,12.8\nKV-04,9.9\nKV-05,12.6\n'), { filename: 'pilot.csv', contentType: 'text/csv' })
   expect(upload.status).toBe(201)
-  await analyst.post(`/api/quantities/${quantityId}/impact`, {
+  await impactDone(analyst, quantityId, {
     datasetId: upload.body.id, comparison: { family: 'normal', mu: 10, sigma: 20 }, mixtureWeight: 0.2, mixtureWide: { family: 'normal', mu: 10, sigma: 20 },
-  }).expect(200)
+  })
   // As saved before the rename: the analysis, then a record submitted and signed off with that analysis in it.
   const row = await h.db('impact_analyses').where({ quantity_id: quantityId }).first('id', 'input', 'result')
   await h.db('impact_analyses').where({ id: row.id }).update(oldShape(row))

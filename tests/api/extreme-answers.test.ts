@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { signedIn, startApi, type ApiHarness, type Client } from '../support/api'
+import { runImpact } from '../support/impact'
 
 let h: ApiHarness
 let analyst: Client
@@ -77,17 +78,17 @@ describe('impact analysis with an expert that cannot be computed with', () => {
     await h.db('judgements').where({ round_id: roundId, quantity_id: quantityId, expert_id: expertIds[1] })
       .update({ fits: JSON.stringify(broken), chosen_family: 'uniform' })
     const comparison = { family: 'normal', mu: 0, sigma: 10 }
-    const refused = await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId, comparison })
+    const refused = await runImpact(analyst, quantityId, { datasetId, comparison })
     expect(refused.status).toBe(400)
     expect(Object.keys(refused.body.error.fields)).toEqual(['components[1]'])
-    const left = await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId, comparison, excludedExperts: [expertIds[1]] })
+    const left = await runImpact(analyst, quantityId, { datasetId, comparison, excludedExperts: [expertIds[1]] })
     expect(left.status, JSON.stringify(left.body)).toBe(200)
     expect(left.body.excludedExperts).toEqual([{ expertId: expertIds[1], label: 'Expert 2' }])
     expect(left.body.candidates.map((c: { label: string }) => c.label)).toEqual(['Expert 1', 'Expert 3', 'Pooled (linear, equal weights)', 'Comparison prior'])
   })
 
   it('a comparison prior too narrow to compute with, lognormal(700, 1e-300), answers 400 on the comparison field', async () => {
-    const res = await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId, comparison: { family: 'lognormal', meanlog: 700, sdlog: 1e-300 }, excludedExperts: [expertIds[1]] })
+    const res = await runImpact(analyst, quantityId, { datasetId, comparison: { family: 'lognormal', meanlog: 700, sdlog: 1e-300 }, excludedExperts: [expertIds[1]] })
     expect(res.status).toBe(400)
     expect(res.body.error.fields.comparison).toMatch(/too narrow for its location/)
   })

@@ -39,7 +39,7 @@ const hostileBody = fc.oneof(
 )
 
 const TABLES = ['users', 'studies', 'study_members', 'quantities', 'evidence_files', 'calibration_questions', 'rounds', 'round_items', 'round_panel',
-  'invitations', 'declarations', 'judgements', 'judgement_versions', 'calibration_answers', 'reconciliations', 'pilot_datasets', 'impact_analyses',
+  'invitations', 'declarations', 'judgements', 'judgement_versions', 'calibration_answers', 'reconciliations', 'pilot_datasets', 'impact_analyses', 'impact_jobs',
   'impact_not_run', 'prior_records', 'record_comments', 'outbox_messages', 'audit_events', 'compositions', 'composition_shares', 'composition_datasets', 'composition_analyses']
 
 let f: MatrixFixture

@@ -9,6 +9,7 @@ import { lgamma } from '../../shared/stats/special'
 import { DEMO_PILOT } from '../../seeds/demo'
 import { formatNumber } from '../../shared/format'
 import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
+import { runImpact } from '../support/impact'
 
 // The fractional Bayes factor and power-scaling sensitivity of every candidate on the demo pilot data (seeds/pilot/), the
 // fractional curve of the width sweep and the α-curve of the reconciled prior. The engine's own values are checked against
@@ -63,7 +64,7 @@ describe('fractional Bayes factor and power scaling on the demo burst logs (Pois
 
   beforeAll(async () => {
     await reconcile('burst_rate', reconciled)
-    const res = await analyst.post(`/api/quantities/${quantity.burst_rate}/impact`, {
+    const res = await runImpact(analyst, quantity.burst_rate, {
       datasetId: dataset.burst_rate.id, comparison, mixtureWeight: 0.2, mixtureWide: wide,
     })
     expect(res.status).toBe(200)
@@ -139,7 +140,7 @@ describe('fractional Bayes factor and power scaling on the demo burst logs (Pois
   })
 
   it('uses the analyst’s b, and a new b is a new analysis rather than the cached one', async () => {
-    const res = await analyst.post(`/api/quantities/${quantity.burst_rate}/impact`, {
+    const res = await runImpact(analyst, quantity.burst_rate, {
       datasetId: dataset.burst_rate.id, comparison, mixtureWeight: 0.2, mixtureWide: wide, trainingFraction: 0.5,
     })
     expect(res.status).toBe(200)
@@ -154,11 +155,11 @@ describe('fractional Bayes factor and power scaling on the demo burst logs (Pois
   it('refuses a training fraction outside (0, 1) with a field error and stores nothing', async () => {
     const before = (await h.db('impact_analyses').where({ quantity_id: quantity.burst_rate })).length
     for (const b of [0, 1, 1.5, -0.2]) {
-      const res = await analyst.post(`/api/quantities/${quantity.burst_rate}/impact`, { datasetId: dataset.burst_rate.id, comparison, trainingFraction: b })
+      const res = await runImpact(analyst, quantity.burst_rate, { datasetId: dataset.burst_rate.id, comparison, trainingFraction: b })
       expect(res.status, `b = ${b}`).toBe(400)
       expect(res.body.error.fields).toEqual({ trainingFraction: 'The training fraction b must be greater than 0 and less than 1' })
     }
-    const text = await analyst.post(`/api/quantities/${quantity.burst_rate}/impact`, { datasetId: dataset.burst_rate.id, comparison, trainingFraction: 'half' })
+    const text = await runImpact(analyst, quantity.burst_rate, { datasetId: dataset.burst_rate.id, comparison, trainingFraction: 'half' })
     expect(text.status).toBe(400)
     expect(text.body.error.fields).toEqual({ trainingFraction: 'The training fraction b must be a number' })
     expect((await h.db('impact_analyses').where({ quantity_id: quantity.burst_rate })).length).toBe(before)
@@ -168,7 +169,7 @@ describe('fractional Bayes factor and power scaling on the demo burst logs (Pois
 describe('findings in plain words', () => {
   it('a wide uniform prior on the night-flow data: the fractional Bayes factor stays level and is named as the alternative', async () => {
     await reconcile('night_flow_cut', { family: 'uniform', lower: -40, upper: 40 })
-    const res = await analyst.post(`/api/quantities/${quantity.night_flow_cut}/impact`, { datasetId: dataset.night_flow_cut.id, comparison: { family: 'normal', mu: 0, sigma: 10 } })
+    const res = await runImpact(analyst, quantity.night_flow_cut, { datasetId: dataset.night_flow_cut.id, comparison: { family: 'normal', mu: 0, sigma: 10 } })
     expect(res.status).toBe(200)
     const { sweep, findings } = res.body as { sweep: { evidenceRatio: number; fractionalRatio: number; priorDriven: boolean }; findings: string[] }
     // U(−40, 40) is far wider than the likelihood (σ/√n = 1.5/√8): widening divides the evidence by k, the fraction m/m_b stays.
@@ -182,7 +183,7 @@ describe('findings in plain words', () => {
   it('a narrow prior near the data reads as a weak likelihood, a strong prior far from it as a prior–data conflict', async () => {
     const data = dataset.night_flow_cut.data
     await reconcile('night_flow_cut', { family: 'normal', mu: 3.7, sigma: 0.3 })
-    const near = await analyst.post(`/api/quantities/${quantity.night_flow_cut}/impact`, { datasetId: dataset.night_flow_cut.id, comparison: { family: 'normal', mu: 0, sigma: 10 } })
+    const near = await runImpact(analyst, quantity.night_flow_cut, { datasetId: dataset.night_flow_cut.id, comparison: { family: 'normal', mu: 0, sigma: 10 } })
     const weak = byKind(near.body, 'reconciled').sensitivity!
     expect(weak).toEqual(powerScalingSensitivity({ family: 'normal', mu: 3.7, sigma: 0.3 }, data))
     expect(weak.diagnosis).toBe('weak-likelihood')
@@ -191,7 +192,7 @@ describe('findings in plain words', () => {
     )
 
     await reconcile('night_flow_cut', { family: 'normal', mu: 8, sigma: 0.5 })
-    const far = await analyst.post(`/api/quantities/${quantity.night_flow_cut}/impact`, { datasetId: dataset.night_flow_cut.id, comparison: { family: 'normal', mu: 0, sigma: 10 } })
+    const far = await runImpact(analyst, quantity.night_flow_cut, { datasetId: dataset.night_flow_cut.id, comparison: { family: 'normal', mu: 0, sigma: 10 } })
     const conflict = byKind(far.body, 'reconciled').sensitivity!
     expect(conflict.diagnosis).toBe('prior-data-conflict')
     expect(far.body.findings.some((f: string) => f.startsWith('Reconciled prior: the posterior moves when either the prior or the data is given more weight') && f.endsWith('prior and data may be in conflict.'))).toBe(true)
@@ -199,7 +200,7 @@ describe('findings in plain words', () => {
 
   it('the survey (binomial, 120 households) uses b = 1/120; the caution is exported for every screen', async () => {
     await reconcile('alert_uptake', { family: 'beta', alpha: 2, beta: 8 })
-    const res = await analyst.post(`/api/quantities/${quantity.alert_uptake}/impact`, { datasetId: dataset.alert_uptake.id, comparison: { family: 'uniform', lower: 0, upper: 1 } })
+    const res = await runImpact(analyst, quantity.alert_uptake, { datasetId: dataset.alert_uptake.id, comparison: { family: 'uniform', lower: 0, upper: 1 } })
     expect(res.status).toBe(200)
     const rec = byKind(res.body, 'reconciled')
     expect(rec.fractionalBayesFactor!.b).toBe(1 / 120)

@@ -1,9 +1,12 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
+import { createAnalysisQueue } from '../../server/compute/analysis-queue'
 import { analyzePrior, bayesFactor } from '../../shared/stats/index'
 import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
 import { check } from '../unit/stats/checks'
 import outside from './fixtures/impact-checks.json'
 import conflictFixture from '../unit/stats/fixtures/conflict.json'
+import { runImpact } from '../support/impact'
+import { waitFor } from '../support/wait'
 
 let h: ApiHarness
 let analyst: Client
@@ -70,7 +73,7 @@ describe('pilot data uploads', () => {
     expect(res.status).toBe(201)
     expect(res.body.summary.n).toBe(8)
     expect(res.body.summary.description).toBe('81 events over 8 exposure units')
-    const run = await analyst.post(`/api/quantities/${countsId}/impact`, { datasetId: res.body.id, comparison: { family: 'gamma', shape: 1, rate: 0.1 } })
+    const run = await runImpact(analyst, countsId, { datasetId: res.body.id, comparison: { family: 'gamma', shape: 1, rate: 0.1 } })
     expect(run.status).toBe(200)
     expect(run.body.n).toBe(8)
   })
@@ -152,7 +155,7 @@ describe('impact analysis', () => {
   })
 
   it('stores the engine’s values: U(0,10) against a 4× wider comparison prior gives BF 4, posterior unchanged (WIDTH-uniform, mpmath)', async () => {
-    const res = await analyst.post(`/api/quantities/${flowId}/impact`, {
+    const res = await runImpact(analyst, flowId, {
       datasetId, comparison: { family: 'uniform', lower: 0, upper: 40 }, decision: { direction: 'above', threshold: 2.5, probability: 0.8 },
     })
     expect(res.status).toBe(200)
@@ -187,7 +190,7 @@ describe('impact analysis', () => {
   })
 
   it('returns the cached analysis for the same inputs', async () => {
-    const again = await analyst.post(`/api/quantities/${flowId}/impact`, {
+    const again = await runImpact(analyst, flowId, {
       datasetId, comparison: { family: 'uniform', lower: 0, upper: 40 }, decision: { direction: 'above', threshold: 2.5, probability: 0.8 },
     })
     expect(again.body.cached).toBe(true)
@@ -196,7 +199,7 @@ describe('impact analysis', () => {
 
   it('flags a prior that conflicts with the data and one that dominates it', async () => {
     await h.db('reconciliations').where({ quantity_id: flowId }).update({ family: 'normal', distribution: JSON.stringify({ family: 'normal', mu: 10, sigma: 0.3 }) })
-    const res = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId, comparison: { family: 'normal', mu: 3, sigma: 20 } })
+    const res = await runImpact(analyst, flowId, { datasetId, comparison: { family: 'normal', mu: 3, sigma: 20 } })
     const rec = res.body.candidates.find((c: { kind: string }) => c.kind === 'reconciled')
     // ESS = σ²/τ² = 4/0.09 ≈ 44.4 > n = 5 (Morita, Thall & Müller 2008); Box p for N(10, 0.3²): z = (3 − 10)/√(0.09 + 0.8) ≈ −7.4
     // (values from fixtures/generate_impact_checks.py, scipy).
@@ -207,7 +210,7 @@ describe('impact analysis', () => {
   })
 
   it('adds a robust mixture whose evidence is the weighted sum of its parts', async () => {
-    const res = await analyst.post(`/api/quantities/${flowId}/impact`, {
+    const res = await runImpact(analyst, flowId, {
       datasetId, comparison: { family: 'normal', mu: 3, sigma: 20 }, mixtureWeight: 0.2, mixtureWide: { family: 'normal', mu: 3, sigma: 20 },
     })
     const mix = res.body.candidates.find((c: { kind: string }) => c.kind === 'mixture')
@@ -226,13 +229,116 @@ describe('impact analysis', () => {
 
   it('refuses a dataset of another quantity and an invalid comparison prior, and is closed to experts', async () => {
     const other = (await h.db('pilot_datasets').where({ quantity_id: shareId }).first('id')).id
-    const wrong = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId: other, comparison: { family: 'normal', mu: 0, sigma: 1 } })
+    const wrong = await runImpact(analyst, flowId, { datasetId: other, comparison: { family: 'normal', mu: 0, sigma: 1 } })
     expect(wrong.body.error.fields).toEqual({ datasetId: 'Choose a dataset of this quantity' })
-    const bad = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId, comparison: { family: 'normal', mu: 0, sigma: -1 } })
+    const bad = await runImpact(analyst, flowId, { datasetId, comparison: { family: 'normal', mu: 0, sigma: -1 } })
     expect(bad.status).toBe(400)
     expect(Object.keys(bad.body.error.fields)[0]).toMatch(/^comparison/)
     const expert = await signedIn(h, 'expert1@kestrel.example')
-    expect((await expert.post(`/api/quantities/${flowId}/impact`, { datasetId, comparison: { family: 'normal', mu: 0, sigma: 1 } })).status).toBe(403)
+    expect((await runImpact(expert, flowId, { datasetId, comparison: { family: 'normal', mu: 0, sigma: 1 } })).status).toBe(403)
+  })
+})
+
+describe('impact analyses as jobs on the queue', () => {
+  let datasetId: number
+  beforeAll(async () => {
+    datasetId = (await h.db('pilot_datasets').where({ quantity_id: flowId, version: 1 }).first('id')).id
+  })
+  const pick = (row: Record<string, unknown>) => ({ quantity_id: row.quantity_id, dataset_id: row.dataset_id, input: JSON.stringify(row.input), created_by: row.created_by, progress_total: row.progress_total })
+  const body = (threshold: number) => ({ datasetId, comparison: { family: 'normal', mu: 3, sigma: 20 }, decision: { direction: 'above', threshold, probability: 0.8 } })
+
+  it('answers at once with 202 and a queued job; the job, read at its Location, ends done with the analysis, stored once with one audit event', async () => {
+    const res = await analyst.post(`/api/quantities/${flowId}/impact`, body(2.75))
+    expect(res.status).toBe(202)
+    expect(res.headers.location).toBe(`/api/impact-jobs/${res.body.id}`)
+    // Each candidate prior (the reconciled one and the comparison prior), the 11 sweep widths and the tipping point.
+    const candidates = (await h.db('impact_jobs').where({ id: res.body.id }).first('task')).task.compute.candidates.length
+    expect(res.body).toMatchObject({ quantityId: flowId, state: 'queued', progress: { done: 0, total: candidates + 11 + 1 }, result: null, error: null, startedAt: null })
+    const job = await waitFor('the job done', async () => {
+      const read = (await analyst.get(res.headers.location).expect(200)).body
+      return read.state === 'queued' || read.state === 'running' ? null : read
+    })
+    expect(job).toMatchObject({ id: res.body.id, state: 'done', progress: { done: candidates + 12, total: candidates + 12 }, error: null })
+    expect(job.result).toMatchObject({ cached: false, quantityId: flowId, decision: { threshold: 2.75 } })
+    expect(job.result.candidates.map((c: { kind: string }) => c.kind)).toEqual(['reconciled', 'comparison'].slice(0, candidates))
+    const stored = await h.db('impact_analyses').where({ job_id: res.body.id })
+    expect(stored).toHaveLength(1)
+    expect(job.result.id).toBe(stored[0].id)
+    const events = await h.db('audit_events').where({ action: 'impact.run' }).whereRaw(`(details->>'analysisId')::int = ?`, [stored[0].id])
+    expect(events).toHaveLength(1)
+    expect(events[0].actor_id).toBe((await h.db('users').where({ email: 'analyst@kestrel.example' }).first('id')).id)
+  })
+
+  it('answers the same inputs again with 200 and a job already done with the cached analysis, queueing nothing', async () => {
+    const first = await runImpact(analyst, flowId, body(3.25))
+    expect(first.submitted.status).toBe(202)
+    const before = await h.db('impact_analyses').where({ quantity_id: flowId }).count({ n: '*' })
+    const again = await analyst.post(`/api/quantities/${flowId}/impact`, body(3.25))
+    expect(again.status).toBe(200)
+    expect(again.body).toMatchObject({ state: 'done', result: { id: first.body.id, cached: true }, error: null })
+    expect(await h.db('impact_analyses').where({ quantity_id: flowId }).count({ n: '*' })).toEqual(before)
+    expect((await h.db.raw(`SELECT count(*)::int AS n FROM pgboss.job WHERE id = ?`, [again.body.id])).rows[0].n).toBe(0)
+  })
+
+  it('reports inputs the engine refuses while computing as a failed job with status 400 and the field, and stores nothing', async () => {
+    // The route checks what it can before queueing (a comparison prior too narrow to compute with is refused at once)…
+    const refused = await analyst.post(`/api/quantities/${flowId}/impact`, { datasetId, comparison: { family: 'lognormal', meanlog: 700, sdlog: 1e-300 } })
+    expect(refused.status).toBe(400)
+    expect(refused.body.error.fields.comparison).toMatch(/too narrow for its location/)
+    // …and the worker reports what only the engine finds. Constructed: a queued job whose sweep has a negative width
+    // factor (the request schema refuses one), put on the queue as the route does.
+    const { job } = await runImpact(analyst, flowId, body(4.25))
+    const prepared = await h.db('impact_jobs').where({ id: job!.id }).first()
+    const task = { ...prepared.task, compute: { ...prepared.task.compute, factors: [0.5, -1, 2] } }
+    const before = await h.db('impact_analyses').count({ n: '*' })
+    const queue = createAnalysisQueue({ databaseUrl: inject('databaseUrl'), db: h.db, timeLimitSeconds: 600 })
+    let id = ''
+    try {
+      await h.db.transaction(async (trx) => {
+        const [row] = await trx('impact_jobs').insert({ ...pick(prepared), input_hash: 'e'.repeat(64), task: JSON.stringify(task) }).returning('id')
+        id = row.id
+        await queue.enqueue(trx, id)
+      })
+    } finally {
+      await queue.close()
+    }
+    const failed = await waitFor('the job failed', async () => {
+      const read = (await analyst.get(`/api/impact-jobs/${id}`).expect(200)).body
+      return read.state === 'failed' ? read : null
+    })
+    expect(failed).toMatchObject({ result: null, error: { status: 400, message: 'The analysis cannot be run with these inputs', fields: { factors: 'Width factors must be positive numbers.' } } })
+    expect(await h.db('impact_analyses').count({ n: '*' })).toEqual(before)
+  })
+
+  it('lets the study’s analysts and reviewers read a job, and no one else', async () => {
+    const { job } = await runImpact(analyst, flowId, body(3.5))
+    const url = `/api/impact-jobs/${job!.id}`
+    const directory = (await analyst.get('/api/users/directory')).body as { id: number; email: string }[]
+    await analyst.post(`/api/studies/${studyId}/members`, { userId: directory.find((u) => u.email === 'reviewer@kestrel.example')!.id, studyRole: 'reviewer' }).expect(201)
+    const reviewer = await signedIn(h, 'reviewer@kestrel.example')
+    expect((await reviewer.get(url).expect(200)).body.result.id).toBe((job!.result as { id: number }).id)
+    await analyst.post(`/api/studies/${studyId}/members`, { userId: directory.find((u) => u.email === 'expert2@kestrel.example')!.id, studyRole: 'expert' }).expect(201)
+    const member = await signedIn(h, 'expert2@kestrel.example')
+    expect((await member.get(url)).status).toBe(403)
+    const outsider = await signedIn(h, 'expert3@kestrel.example')
+    const refused = await outsider.get(url)
+    expect(refused.status).toBe(403)
+    expect(refused.body.result).toBeUndefined()
+    expect((await new Client(h).get(url)).status).toBe(401)
+    expect((await analyst.get('/api/impact-jobs/00000000-0000-4000-8000-000000000000')).status).toBe(404)
+    expect((await analyst.get('/api/impact-jobs/not-a-job')).body).toEqual({ error: { message: 'Analysis job not found' } })
+  })
+
+  it('reports a job that nothing will finish as failed: its queue entry is gone or failed while the job row still says running', async () => {
+    const { job } = await runImpact(analyst, flowId, body(3.75))
+    // Constructed: the state a worker leaves when it stops for good mid-run on the last attempt the queue allows.
+    const [stuck] = await h.db('impact_jobs').insert({
+      quantity_id: flowId, dataset_id: datasetId, input_hash: 'f'.repeat(64), input: JSON.stringify(body(4)), state: 'running', progress_total: 5, progress_done: 2,
+      created_by: (await h.db('impact_jobs').where({ id: job!.id }).first('created_by')).created_by, started_at: h.db.fn.now(),
+    }).returning('id')
+    const read = (await analyst.get(`/api/impact-jobs/${stuck.id}`).expect(200)).body
+    expect(read).toMatchObject({ state: 'failed', result: null, error: { status: 500, fields: {} } })
+    expect(read.error.message).toBe('The analysis stopped before it finished (its worker stopped or ran out of time). Run it again.')
   })
 })
 
@@ -255,7 +361,7 @@ describe('strong prior–data conflict on the impact route', () => {
 
   it('answers 200 with the evidence, ln p and the conflict flag for a uniform(0, 0.01) prior and 900 of 1000', async () => {
     const { qid, datasetId } = await conflictDataset('proportion', { model: 'binomial', binomialLayout: 'counts', successesColumn: 'joined', trialsColumn: 'asked' }, 'district,joined,asked\nKV-01,900,1000\n')
-    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId, comparison: { family: 'uniform', lower: 0, upper: 0.01 } })
+    const res = await runImpact(analyst, qid, { datasetId, comparison: { family: 'uniform', lower: 0, upper: 0.01 } })
     expect(res.status).toBe(200)
     const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'comparison')
     const expected = conflict('binomial', 'uniform')
@@ -269,7 +375,7 @@ describe('strong prior–data conflict on the impact route', () => {
 
   it('answers 200 for a uniform(0, 1) prior on a rate against a count of 10,000', async () => {
     const { qid, datasetId } = await conflictDataset('positive', { model: 'poisson', countColumn: 'bursts', exposureColumn: 'km' }, 'district,bursts,km\nKV-01,10000,1\n')
-    const res = await analyst.post(`/api/quantities/${qid}/impact`, { datasetId, comparison: { family: 'uniform', lower: 0, upper: 1 } })
+    const res = await runImpact(analyst, qid, { datasetId, comparison: { family: 'uniform', lower: 0, upper: 1 } })
     expect(res.status).toBe(200)
     const ref = res.body.candidates.find((c: { kind: string }) => c.kind === 'comparison')
     const expected = conflict('poisson', 'uniform')

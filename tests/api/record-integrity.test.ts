@@ -7,6 +7,7 @@ import { canonicalJson } from '../../server/services/audit'
 import { contentHash } from '../../server/services/records'
 import { ENGINE_VERSION } from '../../shared/stats/index'
 import { Client, normalQuantileAnswer as normalAnswer, openQuantileRound, signedIn, startApi, type ApiHarness } from '../support/api'
+import { impactDone } from '../support/impact'
 
 /**
  * What the prior record states must be true of the prior it records: the impact analysis of that very prior (never one
@@ -86,7 +87,7 @@ afterAll(async () => {
 describe('the impact analysis in the record belongs to the final prior', () => {
   it('an analysis run on a draft reconciliation is not the record’s once the final prior differs; submission is refused', async () => {
     await reconcile({ family: 'normal', reconciled: false })
-    const draftRun = await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId, comparison: COMPARISON }).expect(200)
+    const draftRun = await impactDone(analyst, quantityId, { datasetId, comparison: COMPARISON })
     const draftPrior = draftRun.body.candidates.find((c: { kind: string }) => c.kind === 'reconciled').prior
     expect(draftPrior.family).toBe('normal')
     // While the reconciliation is a draft there is no final prior, so no analysis appears in the record.
@@ -119,7 +120,7 @@ describe('the impact analysis in the record belongs to the final prior', () => {
   })
 
   it('the analysis of the final prior replaces the reason; the record shows exactly that analysis', async () => {
-    const run = await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId, comparison: COMPARISON }).expect(200)
+    const run = await impactDone(analyst, quantityId, { datasetId, comparison: COMPARISON })
     expect(run.body.cached).toBe(false)
     const rows = await h.db('impact_analyses').where({ quantity_id: quantityId }).orderBy('id')
     expect(rows).toHaveLength(2)
@@ -129,7 +130,7 @@ describe('the impact analysis in the record belongs to the final prior', () => {
     expect(q.impactNotRunReason).toBeNull()
     // A newer analysis run while the final prior is reopened as a draft with another family does not displace it.
     await reconcile({ family: 'normal', reconciled: false })
-    await analyst.post(`/api/quantities/${quantityId}/impact`, { datasetId, comparison: { family: 'normal', mu: 10, sigma: 40 } }).expect(200)
+    await impactDone(analyst, quantityId, { datasetId, comparison: { family: 'normal', mu: 10, sigma: 40 } })
     await reconcile({ weights: 'performance', family: 'student-t', distribution: FINAL, adjustReason: 'Heavier tails than the pool: the 2019 burst season is not in the records.', reconciled: true })
     expect((await record()).content.quantities[0].impact.inputHash).toBe(rows[1].input_hash)
   })

@@ -8,6 +8,7 @@ import { localMailConfig } from '../../server/mail/transport'
 import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
 import { waitFor } from '../support/wait'
 import { unzip } from '../support/zip'
+import { impactDone } from '../support/impact'
 import { oldLabelsIn } from '../support/old-labels'
 
 /**
@@ -103,7 +104,7 @@ beforeAll(async () => {
     .attach('file', Buffer.from('district,bursts,km_years\nKV-01,3,12.5\nKV-02,5,14\nKV-03,2,9.5\n'), { filename: 'bursts.csv', contentType: 'text/csv' })
   expect(upload.status).toBe(201)
   datasetId = (await h.db('pilot_datasets').where({ quantity_id: q.bursts }).first('id')).id
-  await analyst.post(`/api/quantities/${q.bursts}/impact`, { datasetId, comparison: { family: 'gamma', shape: 0.5, rate: 0.05 } }).expect(200)
+  await impactDone(analyst, q.bursts, { datasetId, comparison: { family: 'gamma', shape: 0.5, rate: 0.05 } })
   // Uptake has no pilot data here: the record needs the analyst's reason why no impact analysis was run.
   await analyst.put(`/api/quantities/${q.uptake}/impact/not-run`, { reason: 'No pilot survey of uptake exists yet; the first survey is planned for next spring.' }).expect(200)
 }, 60_000)

@@ -4,7 +4,7 @@ import { matrixFixture, type MatrixFixture } from '../support/route-matrix'
 import type { Client } from '../support/api'
 
 const TABLES = ['users', 'studies', 'study_members', 'quantities', 'evidence_files', 'calibration_questions', 'rounds', 'round_items', 'round_panel',
-  'invitations', 'declarations', 'judgements', 'judgement_versions', 'calibration_answers', 'reconciliations', 'pilot_datasets', 'impact_analyses',
+  'invitations', 'declarations', 'judgements', 'judgement_versions', 'calibration_answers', 'reconciliations', 'pilot_datasets', 'impact_analyses', 'impact_jobs',
   'prior_records', 'record_comments', 'outbox_messages', 'audit_events']
 
 let f: MatrixFixture

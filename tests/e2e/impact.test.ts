@@ -1,6 +1,8 @@
 import { readFileSync } from 'node:fs'
 import path from 'node:path'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
+import { createDb } from '../../server/db/knex'
+import { AUDIT_LOCK_CLASS } from '../../server/services/audit'
 import type { Page } from 'playwright-core'
 import { DEMO_PASSWORD } from '../../seeds/demo'
 import { openBrowser, signInAs, type BrowserSession, field, keepFailureEvidence } from '../support/browser'
@@ -9,9 +11,9 @@ import { expectAccessible } from '../support/axe'
 /**
  * Pilot data and impact analysis in chromium: the analyst uploads the demo burst logs for the burst
  * rate (after a bad file is refused with a located message), runs the impact analysis of every
- * candidate prior, sees the table (with the fractional Bayes factor and sensitivity columns), the findings, the
- * cautions, both width-sweep charts (the Bayes factor chart with its fractional curve) and the α chart, and downloads the
- * table as CSV and the charts as PNG.
+ * candidate prior (a job on the server's queue, followed with a progress bar), sees the table (with the fractional
+ * Bayes factor and sensitivity columns), the findings, the cautions, both width-sweep charts (the Bayes factor chart with
+ * its fractional curve) and the α chart, and downloads the table as CSV and the charts as PNG.
  *
  * The e2e database holds only the seeded demo study, which has no elicitation round: the reconciled
  * prior the analysis needs is set up first through the API from the page (a study of its own, so the
@@ -200,7 +202,24 @@ describe('pilot data and impact analysis', () => {
     await field(page, 'training-fraction').fill('')
     await s.shot('impact-04-settings')
 
-    await page.getByTestId('impact-run').click()
+    // The analysis runs as a job on the queue; the page follows it. The worker is held as it stores the analysis (the
+    // study's audit-chain lock, taken here, which its audit event waits for), so the page shows the job running with the
+    // steps done so far, whatever the machine's speed. 19 steps: 7 candidates, 11 sweep widths, the tipping point.
+    const db = createDb(inject('databaseUrl'))
+    const hold = await db.transaction()
+    try {
+      await hold.raw('SELECT pg_advisory_xact_lock(?, ?)', [AUDIT_LOCK_CLASS, studyId])
+      await page.getByTestId('impact-run').click()
+      const bar = page.getByTestId('impact-progress-bar')
+      await bar.waitFor({ timeout: 30_000 })
+      expect(await page.getByTestId('impact-progress').getAttribute('data-state')).toBe('running')
+      await expect.poll(async () => Number(await bar.getAttribute('aria-valuenow')), { timeout: 30_000 }).toBeGreaterThan(0)
+      expect(await page.getByTestId('impact-progress').innerText()).toMatch(/step (\d+) of 19/)
+      await s.shot('impact-04b-progress')
+    } finally {
+      await hold.commit()
+      await db.destroy()
+    }
     const table = page.getByTestId('impact-table')
     await table.waitFor({ timeout: 30_000 })
     const kinds = await page.getByTestId('candidate-row').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-kind')))

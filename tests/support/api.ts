@@ -11,9 +11,9 @@ export interface ApiHarness {
   close(): Promise<void>
 }
 
-/** The real app on the suite's PostgreSQL test database. */
-export function startApi(options: Partial<Pick<AppOptions, 'signInLimitPerWindow' | 'kickMail' | 'mailFake' | 'timeZone'>> = {}): ApiHarness {
-  const databaseUrl = inject('databaseUrl')
+/** The real app on the suite's PostgreSQL test database (or the database given). */
+export function startApi(options: Partial<Pick<AppOptions, 'signInLimitPerWindow' | 'kickMail' | 'mailFake' | 'timeZone' | 'databaseUrl'>> = {}): ApiHarness {
+  const databaseUrl = options.databaseUrl ?? inject('databaseUrl')
   const db = createDb(databaseUrl)
   const built = createApp({
     db, databaseUrl, sessionSecret: 'test-secret', publicUrl: 'http://localhost:3000', ...options,

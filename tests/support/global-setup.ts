@@ -5,6 +5,7 @@ import type { TestProject } from 'vitest/node'
 import { ensureCluster, ensureDatabase } from '../../scripts/lib/postgres.mjs'
 import { seedDemo } from '../../seeds/demo'
 import { createApp } from '../../server/app'
+import { createAnalysisWorker } from '../../server/compute/analysis-worker'
 import { createDb } from '../../server/db/knex'
 import { createMailer } from '../../server/mail/mailer'
 import { startSmtpFake } from '../../server/mail/smtp-fake'
@@ -27,10 +28,16 @@ export default async function setup(project: TestProject) {
   await db.migrate.latest()
   await seedDemo(db)
   project.provide('databaseUrl', databaseUrl)
+  // The suite's analysis worker, as a worker process beside the app runs it: every impact analysis a test asks for is
+  // computed here (tests/api/workers.test.ts runs its own workers on a database of their own).
+  const analysisWorker = createAnalysisWorker({ databaseUrl, db, pollingIntervalSeconds: 0.5, stopGraceMs: 1000, name: `${project.name}-suite-worker` })
+  await analysisWorker.start()
 
   if (project.name !== 'e2e') {
-    await db.destroy()
-    return
+    return async () => {
+      await analysisWorker.stop()
+      await db.destroy()
+    }
   }
   // The port is needed for the links in e-mails before the app is built.
   const server = createServer()
@@ -42,13 +49,14 @@ export default async function setup(project: TestProject) {
   await mailer.start()
   const { app, close } = createApp({
     db, databaseUrl, sessionSecret: 'e2e-secret', signInLimitPerWindow: 1000, clientDir: path.join(root, 'dist'),
-    publicUrl: baseUrl, kickMail: (ids) => mailer.kick(ids), mailFake,
+    publicUrl: baseUrl, kickMail: (ids) => mailer.kick(ids), mailFake, onAnalysisQueued: () => analysisWorker.notify(),
   })
   server.on('request', app)
   project.provide('baseUrl', baseUrl)
   return async () => {
     await new Promise((resolve) => server.close(resolve))
     await mailer.stop()
+    await analysisWorker.stop()
     await mailFake.stop()
     await close()
     await db.destroy()

@@ -1,4 +1,5 @@
 import { Client, signedIn, startApi, type ApiHarness } from './api'
+import { impactDone } from './impact'
 
 export type Role = 'anon' | 'admin' | 'analyst' | 'expert' | 'reviewer' | 'outsider'
 export const ROLES: Role[] = ['anon', 'outsider', 'reviewer', 'expert', 'analyst', 'admin']
@@ -84,6 +85,7 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/datasets/:id': ['admin', 'analyst', 'reviewer'],
   'POST /api/quantities/:id/impact': ['admin', 'analyst'],
   'GET /api/quantities/:id/impact': ['admin', 'analyst', 'reviewer'],
+  'GET /api/impact-jobs/:id': ['admin', 'analyst', 'reviewer'],
   'PUT /api/quantities/:id/impact/not-run': ['admin', 'analyst'],
   'GET /api/studies/:id/record': ['admin', 'analyst', 'reviewer'],
   'GET /api/studies/:id/record.json': ['admin', 'analyst', 'reviewer'],
@@ -106,7 +108,7 @@ export interface MatrixFixture {
   params: Record<string, string>
 }
 
-/** A study with one of everything (quantity, file, calibration question, open round with a panel, judgement, dataset) and a client per role. */
+/** A study with one of everything (quantity, file, calibration question, open round with a panel, judgement, dataset, impact analysis) and a client per role. */
 export async function matrixFixture(): Promise<MatrixFixture> {
   const h = startApi()
   const params: Record<string, string> = {}
@@ -132,11 +134,13 @@ export async function matrixFixture(): Promise<MatrixFixture> {
   const dataset = (await analyst.agent.post(`/api/studies/${study.id}/datasets`).set('x-csrf-token', analyst.token)
     .field('quantityId', String(quantity.id)).field('name', 'Pilot').field('model', 'normal-known-sigma').field('valueColumn', 'v').field('sigma', '2')
     .attach('file', Buffer.from('v\n2.2\n3.5\n2.8\n'), 'p.csv').expect(201)).body
+  // Done before the suites start, so that no worker writes to the tables while they compare them.
+  const { job } = await impactDone(analyst, quantity.id, { datasetId: dataset.id, comparison: { family: 'normal', mu: 0, sigma: 10 } })
   Object.assign(params, {
     'studies/:id': String(study.id), 'quantities/:id': String(quantity.id), 'files/:id': String(file.id), 'rounds/:id': String(round.id),
     'calibration-questions/:id': String(calib.id), 'datasets/:id': String(dataset.id), 'compositions/:id': String(composition.id), 'judgements/:id': String(saved.judgement.id),
     ':quantityId': String(quantity.id), ':questionId': String(calib.id), ':panelId': String(withPanel.panel[0].id),
-    ':userId': String(idOf('expert3@kestrel.example')), 'users/:id': String(idOf('expert2@kestrel.example')), 'mailbox/:id': '1', ':token': 'x'.repeat(43),
+    ':userId': String(idOf('expert3@kestrel.example')), 'users/:id': String(idOf('expert2@kestrel.example')), 'mailbox/:id': '1', ':token': 'x'.repeat(43), 'impact-jobs/:id': String(job!.id),
   })
   const anon = new Client(h)
   await anon.csrf()

@@ -1,0 +1,101 @@
+import path from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { Worker } from 'node:worker_threads'
+import { EngineInputError } from '../../shared/stats/index'
+import type { ImpactComputation } from '../../shared/api/impact'
+import type { ImpactTask } from './tasks'
+
+const ENTRY = path.join(path.dirname(fileURLToPath(import.meta.url)), 'thread-entry.mjs')
+
+export interface ThreadRequest {
+  id: number
+  task: ImpactTask
+}
+
+export type ThreadReply =
+  | { ready: true }
+  | { id: number; progress: number }
+  | { id: number; ok: true; result: ImpactComputation }
+  | { id: number; ok: false; error: { message: string; field?: string; engine: boolean } }
+
+/** An analysis that ran past its time limit; its thread was stopped. */
+export class ComputeTimeout extends Error {}
+
+interface Running {
+  id: number
+  resolve(result: ImpactComputation): void
+  reject(err: Error): void
+  onProgress(done: number): void
+}
+
+/**
+ * One compute thread (server/compute/thread.ts), started once and kept for the next analysis, one analysis at a time.
+ * An analysis past its time limit stops the thread; the next one starts a new thread.
+ */
+export class ComputeThread {
+  private worker: Worker | null = null
+  private ready: Promise<void> | null = null
+  private running: Running | null = null
+  private nextId = 1
+
+  /** Starts the thread (loading the engine takes a moment) unless it runs. */
+  start(): Promise<void> {
+    if (this.ready) return this.ready
+    const worker = new Worker(ENTRY)
+    this.worker = worker
+    this.ready = new Promise<void>((resolve, reject) => {
+      worker.on('message', (m: ThreadReply) => {
+        if ('ready' in m) return resolve()
+        const r = this.running
+        if (!r || r.id !== m.id) return
+        if ('progress' in m) return r.onProgress(m.progress)
+        this.running = null
+        if (m.ok) r.resolve(m.result)
+        else r.reject(m.error.engine ? new EngineInputError(m.error.field ?? 'input', m.error.message) : new Error(m.error.message))
+      })
+      const gone = (err: Error) => {
+        if (this.worker === worker) {
+          this.worker = null
+          this.ready = null
+        }
+        reject(err)
+        const r = this.running
+        this.running = null
+        r?.reject(err)
+      }
+      worker.on('error', (err) => gone(new Error(`The computation thread failed: ${err.message}`)))
+      worker.on('exit', (code) => gone(new Error(`The computation thread stopped (exit code ${code})`)))
+    })
+    return this.ready
+  }
+
+  /** Runs one analysis; rejects with EngineInputError for inputs the engine refuses, ComputeTimeout past `timeoutMs`. */
+  async run(task: ImpactTask, onProgress: (done: number) => void, timeoutMs: number): Promise<ImpactComputation> {
+    if (this.running) throw new Error('This compute thread is busy')
+    await this.start()
+    const worker = this.worker!
+    const id = this.nextId++
+    return new Promise<ImpactComputation>((resolve, reject) => {
+      const timer = setTimeout(() => {
+        if (this.running?.id !== id) return
+        this.running = null
+        reject(new ComputeTimeout(`The analysis took longer than ${Math.round(timeoutMs / 1000)} s and was stopped`))
+        void this.stop()
+      }, timeoutMs)
+      const settle = <T>(f: (v: T) => void) => (v: T) => {
+        clearTimeout(timer)
+        f(v)
+      }
+      this.running = { id, resolve: settle(resolve), reject: settle(reject), onProgress }
+      worker.postMessage({ id, task } satisfies ThreadRequest)
+    })
+  }
+
+  /** Stops the thread; an analysis still running is rejected. */
+  async stop(): Promise<void> {
+    const worker = this.worker
+    this.worker = null
+    this.ready = null
+    if (worker) await worker.terminate()
+  }
+}
