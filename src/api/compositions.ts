@@ -1,8 +1,8 @@
-import type { CompositionBody } from '@shared/schemas/compositions'
-import type { Composition, CompositionDirichlet } from '@shared/api/compositions'
+import type { CompositionBody, CompositionDatasetBody } from '@shared/schemas/compositions'
+import type { Composition, CompositionAnalysis, CompositionDataset, CompositionDirichlet } from '@shared/api/compositions'
 import { api } from './client'
 
-export type { Composition, CompositionDirichlet, CompositionShare } from '@shared/api/compositions'
+export type { Composition, CompositionAnalysis, CompositionDataset, CompositionDirichlet, CompositionShare } from '@shared/api/compositions'
 
 export const compositionsApi = {
   list: (studyId: number) => api.get<Composition[]>(`/api/studies/${studyId}/compositions`),
@@ -11,4 +11,8 @@ export const compositionsApi = {
   update: (id: number, body: CompositionBody & { version: number }) => api.patch<Composition>(`/api/compositions/${id}`, body),
   remove: (id: number) => api.delete(`/api/compositions/${id}`),
   dirichlet: (id: number) => api.get<CompositionDirichlet>(`/api/compositions/${id}/dirichlet`),
+  datasets: (id: number) => api.get<CompositionDataset[]>(`/api/compositions/${id}/datasets`),
+  upload: (id: number, body: CompositionDatasetBody) => api.post<CompositionDataset>(`/api/compositions/${id}/datasets`, body),
+  latestImpact: (id: number) => api.get<{ analysis: CompositionAnalysis | null }>(`/api/compositions/${id}/impact`),
+  runImpact: (id: number, datasetId: number) => api.post<CompositionAnalysis>(`/api/compositions/${id}/impact`, { datasetId }),
 }

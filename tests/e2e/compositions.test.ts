@@ -139,6 +139,7 @@ describe('compositions', () => {
     await page.getByTestId('q-lower').waitFor()
 
     const message = page.getByTestId('composition-sum-message')
+    await message.waitFor()
     await expect(page.getByTestId('composition-sum-share').allInnerTexts()).resolves.toEqual([
       `${SHARES[0].name} (this question)\nnot answered yet`, `${SHARES[1].name}\nnot answered yet`, `${SHARES[2].name}\nnot answered yet`,
     ])
@@ -236,6 +237,41 @@ describe('the joint prior on the reconcile screen', () => {
     await analyst.getByTestId('composition-prior').scrollIntoViewIfNeeded()
     await s.shot('compositions-05-reconcile-dirichlet')
     await expectAccessible(analyst, 'composition joint prior on the reconcile screen')
+  })
+})
+
+describe('the joint prior on pilot counts (impact screen)', () => {
+  it('the analyst uploads counts with a column per share, runs the analysis and reads the posterior, evidence and sweep', async () => {
+    const page = s.page
+    await page.goto(`${s.baseUrl}/studies/${setup.studyId}/impact/${setup.quantityIds[0]}`)
+    const section = page.getByTestId('composition-impact')
+    await section.waitFor()
+    await section.locator('input[type="file"]').setInputFiles({
+      name: 'uptake-survey-2026.csv', mimeType: 'text/csv',
+      buffer: Buffer.from('district,p_alert,p_meter,p_decline\nKV-01,31,17,52\nKV-02,28,22,50\nKV-05,35,15,50\n'),
+    })
+    // One count column per share, in the composition's order: the form offers the columns after the first in turn.
+    for (const [i, column] of ['p_alert', 'p_meter', 'p_decline'].entries())
+      await expect.poll(() => section.getByTestId(`composition-data-column-${i}`).innerText()).toBe(column)
+    await section.getByTestId('composition-data-submit').click()
+    await expect.poll(() => section.getByTestId('composition-impact-dataset').innerText()).toContain('p_alert 94, p_meter 54, p_decline 152 (300 in all)')
+    await section.getByTestId('composition-impact-run').click()
+    await section.getByTestId('composition-impact-result').waitFor()
+
+    const stored = await inPage(page, async (call, { studyId }) => {
+      const [whole] = await call<{ id: number }[]>('GET', `/api/studies/${studyId}/compositions`)
+      return (await call<{ analysis: { result: { prior: { analysis: { posterior: { mean: number }[]; logEvidence: number } }; comparison: { analysis: { logEvidence: number } } } } }>('GET', `/api/compositions/${whole.id}/impact`)).analysis.result
+    }, { studyId: setup.studyId })
+    const means = await section.getByTestId('composition-impact-posterior-mean').allInnerTexts()
+    expect(means).toEqual(stored.prior.analysis.posterior.map((p) => `${Math.round(p.mean * 100)} %`))
+    const evidence = (await section.getByTestId('composition-impact-log-evidence').allInnerTexts()).map(Number)
+    expect(evidence[0]).toBeCloseTo(stored.prior.analysis.logEvidence, 3)
+    expect(evidence[1]).toBeCloseTo(stored.comparison.analysis.logEvidence, 3)
+    await expect(section.getByTestId('composition-impact-sweep-row').count()).resolves.toBe(11)
+    await expect(section.getByTestId('composition-impact-bf').innerText()).resolves.toMatch(/^Bayes factor, composition prior against the comparison: /)
+    await section.scrollIntoViewIfNeeded()
+    await s.shot('compositions-06-impact')
+    await expectAccessible(page, 'composition impact')
   })
 })
 
