@@ -1,8 +1,5 @@
-import { createHash } from 'node:crypto'
 import type { Knex } from 'knex'
-import { canonicalJson, recordAudit } from '../server/services/audit'
-
-const contentHash = (content: unknown) => createHash('sha256').update(canonicalJson(content)).digest('hex')
+import { rewordStoredWork } from '../server/db/reword-stored-work'
 
 /*
  * The prior every Bayes factor is taken against was called the "reference" prior, a name the trade gives to objective
@@ -57,28 +54,7 @@ function recordContent(content: Json): Json {
 }
 
 export async function up(knex: Knex): Promise<void> {
-  const runs = await knex('impact_analyses').select('id', 'input', 'result')
-  for (const run of runs) {
-    const input = impactInput(run.input)
-    const result = impactResult(run.result)
-    if (canonicalJson(input) === canonicalJson(run.input) && canonicalJson(result) === canonicalJson(run.result)) continue
-    await knex('impact_analyses').where({ id: run.id }).update({ input: JSON.stringify(input), result: JSON.stringify(result) })
-  }
-
-  const records = await knex('prior_records').whereNotNull('content').select('id', 'study_id', 'version', 'status', 'content', 'content_hash')
-  const changed = records.map((r) => ({ ...r, next: recordContent(r.content) })).filter((r) => canonicalJson(r.next) !== canonicalJson(r.content))
-  if (changed.length === 0) return
-  // Signed-off snapshots are frozen by a trigger; this one rewording is the only change let through, and it is audited.
-  await knex.raw('ALTER TABLE prior_records DISABLE TRIGGER prior_records_frozen')
-  for (const r of changed) {
-    const hash = contentHash(r.next)
-    await knex('prior_records').where({ id: r.id }).update({ content: JSON.stringify(r.next), content_hash: hash })
-    await recordAudit(knex as Knex.Transaction, {
-      actorId: null, studyId: r.study_id, action: 'record.reworded', subject: `record:v${r.version}`,
-      details: { reason: 'comparison prior and wide component renamed', status: r.status, previousContentHash: r.content_hash, contentHash: hash },
-    })
-  }
-  await knex.raw('ALTER TABLE prior_records ENABLE TRIGGER prior_records_frozen')
+  await rewordStoredWork(knex, { impactInput, impactResult, recordContent, reason: 'comparison prior and wide component renamed' })
 }
 
 export async function down(): Promise<void> {

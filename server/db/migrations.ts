@@ -14,6 +14,7 @@ import * as m018 from '../../migrations/20261203_018_comparison_prior'
 import * as m022 from '../../migrations/20261203_022_compositions'
 import * as m022b from '../../migrations/20261203_022b_composition_pilot'
 import * as m024 from '../../migrations/20261203_024_impact_jobs'
+import * as m018b from '../../migrations/20261203_018b_expert_labels_numbered'
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> }
 
@@ -34,6 +35,7 @@ const migrations: Record<string, Migration> = {
   '20261203_022_compositions': m022,
   '20261203_022b_composition_pilot': m022b,
   '20261203_024_impact_jobs': m024,
+  '20261203_018b_expert_labels_numbered': m018b,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {
