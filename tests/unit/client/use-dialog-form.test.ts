@@ -131,4 +131,17 @@ describe('useDialogForm', () => {
     expect(t.state.conflict.value).toBe(false)
     expect(t.state.formError.value).toBe('The record is in review; that step is not possible now')
   })
+
+  it('sends the value picked through a field’s model (as a select binds it), even when the list behind the form refreshes', async () => {
+    const save = vi.fn(async () => {})
+    const t = harness({ item: { id: 1, title: 'Main renewal', note: 'General', version: 3 }, save })
+    t.open.value = true
+    await nextTick()
+    const [note] = t.state.defineField('note')
+    note.value = 'Kestrel Valley flow'
+    t.item.value = { id: 1, title: 'Main renewal', note: 'General', version: 4 }
+    await nextTick()
+    await submit(t.state)
+    expect(save).toHaveBeenCalledWith({ title: 'Main renewal', note: 'Kestrel Valley flow' }, 3)
+  })
 })
