@@ -2,10 +2,11 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { quantile } from '../../shared/stats'
 import type { FitResult } from '../../shared/stats'
-import { DEMO_PASSWORD, DEMO_STUDY_TITLE } from '../../seeds/demo'
+import { DEMO_PASSWORD } from '../../seeds/demo'
 import { formatValue } from '../../shared/format'
 import { openBrowser, signInAs, type BrowserSession, completeEntry, field, inPage, type Call, keepFailureEvidence } from '../support/browser'
 import { expectAccessible } from '../support/axe'
+import { copyDemoStudy } from '../support/demo-copy'
 import { expectPhoneLayout } from '../support/phone'
 import { expectPanelInView } from '../support/panel-ranges'
 import { handleCentre, mouseDrag, screenX } from '../support/answer-line'
@@ -28,8 +29,7 @@ interface Setup {
 }
 
 interface RoundOptions {
-  studyTitle: string
-  studyId: number | null
+  studyId: number
   title: string
   feedback: boolean
   only: boolean
@@ -45,20 +45,8 @@ async function createRound(page: Page, options: { title: string; studyId?: numbe
   return inPage(
     page,
     async (call: Call, args: RoundOptions): Promise<Setup> => {
-      type Q = { id: number; name: string; symbol: string; unit: string; question: string; support: unknown; assumptions: string; evidenceNotes: string }
-      let study: { id: number }
-      if (args.studyId === null) {
-        const studies = await call<{ id: number; title: string }[]>('GET', '/api/studies')
-        const demo = studies.find((s) => s.title === args.studyTitle)!
-        study = await call<{ id: number }>('POST', '/api/studies', { title: `Answer screen study ${Date.now()}`, context: 'A copy of the demo study for the answering screen.' })
-        for (const q of await call<Q[]>('GET', `/api/studies/${demo.id}/quantities`)) {
-          const { name, symbol, unit, question, support, assumptions, evidenceNotes } = q
-          await call('POST', `/api/studies/${study.id}/quantities`, { name, symbol, unit, question, support, assumptions, evidenceNotes })
-        }
-        for (const c of await call<{ question: string; unit: string; trueValue: number | null }[]>('GET', `/api/studies/${demo.id}/calibration-questions`)) {
-          await call('POST', `/api/studies/${study.id}/calibration-questions`, { question: c.question, unit: c.unit, trueValue: c.trueValue })
-        }
-      } else study = { id: args.studyId }
+      type Q = { id: number; symbol: string }
+      const study = { id: args.studyId }
       const quantities = await call<Q[]>('GET', `/api/studies/${study.id}/quantities`)
       const id = (symbol: string) => quantities.find((q) => q.symbol === symbol)!.id
       const items = [
@@ -80,7 +68,7 @@ async function createRound(page: Page, options: { title: string; studyId?: numbe
       await call('POST', `/api/rounds/${round.id}/open`)
       return { studyId: study.id, roundId: round.id, burst: id('burst_rate'), uptake: id('alert_uptake'), flow: id('night_flow_cut') }
     },
-    { studyTitle: DEMO_STUDY_TITLE, studyId: options.studyId ?? null, title: options.title, feedback: options.feedback ?? false, only: options.onlyBurstRate ?? false },
+    { studyId: options.studyId ?? (await copyDemoStudy(page, 'Answer screen study')), title: options.title, feedback: options.feedback ?? false, only: options.onlyBurstRate ?? false },
   )
 }
 

@@ -1,9 +1,9 @@
 import path from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Page } from 'playwright-core'
-import { DEMO_STUDY_TITLE } from '../../seeds/demo'
 import { openBrowser, signInAs, field, inPage, type BrowserSession, type Call, keepFailureEvidence } from '../support/browser'
 import { expectAccessible } from '../support/axe'
+import { copyDemoStudy } from '../support/demo-copy'
 import { expectPhoneLayout, PHONES } from '../support/phone'
 import { screenX, touchDrag } from '../support/answer-line'
 
@@ -25,9 +25,8 @@ interface Setup {
 async function createRound(page: Page): Promise<Setup> {
   return inPage(
     page,
-    async (call: Call, args: { studyTitle: string; edges: number[] }): Promise<Setup> => {
-      const studies = await call<{ id: number; title: string }[]>('GET', '/api/studies')
-      const study = studies.find((s) => s.title === args.studyTitle)!
+    async (call: Call, args: { studyId: number; edges: number[] }): Promise<Setup> => {
+      const study = { id: args.studyId }
       const quantities = await call<{ id: number; symbol: string }[]>('GET', `/api/studies/${study.id}/quantities`)
       const id = (symbol: string) => quantities.find((q) => q.symbol === symbol)!.id
       const round = await call<{ id: number }>('POST', `/api/studies/${study.id}/rounds`, {
@@ -48,7 +47,8 @@ async function createRound(page: Page): Promise<Setup> {
       await call('POST', `/api/rounds/${round.id}/open`)
       return { roundId: round.id }
     },
-    { studyTitle: DEMO_STUDY_TITLE, edges: CHIP_EDGES },
+    // A copy of the demo study: its calibration questions are asked whatever other suites answered on the demo study.
+    { studyId: await copyDemoStudy(page, 'Phone round study'), edges: CHIP_EDGES },
   )
 }
 
