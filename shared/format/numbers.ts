@@ -26,11 +26,22 @@ function notFinite(x: number | null | undefined): string | null {
 function significant(x: number, digits: number, grouping: boolean): string {
   if (x === 0) return '0'
   const wholeDigits = Math.floor(Math.log10(Math.abs(x))) + 1
-  const options: Intl.NumberFormatOptions = wholeDigits >= digits
-    ? { maximumFractionDigits: 0, useGrouping: grouping }
-    : { maximumSignificantDigits: digits, useGrouping: grouping }
-  const text = new Intl.NumberFormat('en-GB', options).format(x)
+  const text = numberFormat(wholeDigits >= digits ? 0 : digits, grouping).format(x)
   return text === '-0' ? '0' : text
+}
+
+// Building an Intl.NumberFormat costs far more than formatting with one, and fits format their warnings many times a second.
+const numberFormats = new Map<string, Intl.NumberFormat>()
+
+/** The formatter for `digits` significant digits (0: whole numbers only), kept for reuse. */
+function numberFormat(digits: number, grouping: boolean): Intl.NumberFormat {
+  const key = `${digits}:${grouping}`
+  let format = numberFormats.get(key)
+  if (!format) {
+    format = new Intl.NumberFormat('en-GB', digits === 0 ? { maximumFractionDigits: 0, useGrouping: grouping } : { maximumSignificantDigits: digits, useGrouping: grouping })
+    numberFormats.set(key, format)
+  }
+  return format
 }
 
 /** "1.234e+7", "5e-5": `digits` significant digits in exponent form, trailing zeros of the mantissa dropped. */
