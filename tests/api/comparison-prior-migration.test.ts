@@ -5,8 +5,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { up as rewordStoredImpact } from '../../migrations/20261203_018_comparison_prior'
 import { verifyAuditChain } from '../../server/services/audit'
 import { contentHash } from '../../server/services/records'
-import { Client, normalQuantileAnswer as normalAnswer, openQuantileRound, signedIn, startApi, type ApiHarness } from '../support/api'
-import { impactDone } from '../support/impact'
+import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
+import { studyWithStoredAnalysis } from '../support/stored-analysis'
 
 /**
  * Analyses and signed-off records stored before the comparison prior and the wide component were named so hold the
@@ -47,31 +47,10 @@ beforeAll(async () => {
   h = startApi()
   analyst = await signedIn(h, 'analyst@kestrel.example')
   reviewer = await signedIn(h, 'reviewer@kestrel.example')
-  const experts = [await signedIn(h, 'expert1@kestrel.example'), await signedIn(h, 'expert2@kestrel.example')]
-  studyId = (await analyst.post('/api/studies', { title: 'look: comparison prior rewording study', context: 'Old stored analyses in today’s words.' }).expect(201)).body.id
-  const directory = (await analyst.get('/api/users/directory')).body as { id: number; email: string }[]
-  await analyst.post(`/api/studies/${studyId}/members`, { userId: directory.find((u) => u.email === 'reviewer@kestrel.example')!.id, studyRole: 'reviewer' }).expect(201)
-  quantityId = (await analyst.post(`/api/studies/${studyId}/quantities`, {
-    name: 'Night-flow reduction', symbol: 'flow', unit: 'L/s', question: 'Mean reduction in minimum night flow after pressure management?', support: { kind: 'real' },
-  }).expect(201)).body.id
-  const roundId = await openQuantileRound(analyst, studyId, [quantityId], ['expert1@kestrel.example', 'expert2@kestrel.example'])
-  for (const [k, c] of experts.entries()) {
-    await c.put(`/api/rounds/${roundId}/declaration`, { expertise: 'Leakage control at a regional water utility.', interests: 'none', seenPilotData: false }).expect(200)
-    await c.put(`/api/rounds/${roundId}/judgements/${quantityId}`, { ...[normalAnswer(10, 2), normalAnswer(14, 3)][k], version: 0 }).expect(200)
-    await c.post(`/api/rounds/${roundId}/submit`).expect(200)
-  }
-  await analyst.post(`/api/rounds/${roundId}/close`).expect(200)
-  await analyst.put(`/api/quantities/${quantityId}/reconciliation`, {
-    roundId, method: 'linear', weights: 'equal', cutoff: 0, excludedExperts: [], family: 'normal', reconciled: true, version: 0,
-    rationale: 'The linear pool keeps the spread between the two experts.',
-  }).expect(200)
-  const upload = await analyst.agent.post(`/api/studies/${studyId}/datasets`).set('x-csrf-token', analyst.token)
-    .field('quantityId', String(quantityId)).field('name', 'Pilot districts').field('model', 'normal-known-sigma').field('valueColumn', 'reduction').field('sigma', '2')
-    .attach('file', Buffer.from('district,reduction\nKV-01,11.2\nKV-02,13.5\nKV-03,12.8\nKV-04,9.9\nKV-05,12.6\n'), { filename: 'pilot.csv', contentType: 'text/csv' })
-  expect(upload.status).toBe(201)
-  await impactDone(analyst, quantityId, {
-    datasetId: upload.body.id, comparison: { family: 'normal', mu: 10, sigma: 20 }, mixtureWeight: 0.2, mixtureWide: { family: 'normal', mu: 10, sigma: 20 },
-  })
+  const stored = await studyWithStoredAnalysis(h, analyst, { title: 'look: comparison prior rewording study', context: 'Old stored analyses in today’s words.' },
+    'The linear pool keeps the spread between the two experts.')
+  studyId = stored.studyId
+  quantityId = stored.quantityId
   // As saved before the rename: the analysis, then a record submitted and signed off with that analysis in it.
   const row = await h.db('impact_analyses').where({ quantity_id: quantityId }).first('id', 'input', 'result')
   await h.db('impact_analyses').where({ id: row.id }).update(oldShape(row))

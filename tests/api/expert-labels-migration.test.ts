@@ -2,8 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { numberExpertLabels, up as numberStoredLabels } from '../../migrations/20261203_018b_expert_labels_numbered'
 import { verifyAuditChain } from '../../server/services/audit'
 import { contentHash } from '../../server/services/records'
-import { Client, normalQuantileAnswer as normalAnswer, openQuantileRound, signedIn, startApi, type ApiHarness } from '../support/api'
-import { impactDone } from '../support/impact'
+import { Client, signedIn, startApi, type ApiHarness } from '../support/api'
+import { studyWithStoredAnalysis } from '../support/stored-analysis'
 
 /**
  * Analyses and signed-off records stored while the study-wide expert label was a letter ("Expert A", "Expert B", …)
@@ -33,31 +33,9 @@ beforeAll(async () => {
   h = startApi()
   analyst = await signedIn(h, 'analyst@kestrel.example')
   reviewer = await signedIn(h, 'reviewer@kestrel.example')
-  const emails = ['expert1@kestrel.example', 'expert2@kestrel.example']
-  const experts = [await signedIn(h, emails[0]), await signedIn(h, emails[1])]
-  studyId = (await analyst.post('/api/studies', { title: 'labels: letter labels numbered study', context: 'Old stored work in today’s labels.' }).expect(201)).body.id
-  const directory = (await analyst.get('/api/users/directory')).body as { id: number; email: string }[]
-  await analyst.post(`/api/studies/${studyId}/members`, { userId: directory.find((u) => u.email === 'reviewer@kestrel.example')!.id, studyRole: 'reviewer' }).expect(201)
-  quantityId = (await analyst.post(`/api/studies/${studyId}/quantities`, {
-    name: 'Night-flow reduction', symbol: 'flow', unit: 'L/s', question: 'Mean reduction in minimum night flow after pressure management?', support: { kind: 'real' },
-  }).expect(201)).body.id
-  const roundId = await openQuantileRound(analyst, studyId, [quantityId], emails)
-  for (const [k, c] of experts.entries()) {
-    await c.put(`/api/rounds/${roundId}/declaration`, { expertise: 'Leakage control at a regional water utility.', interests: 'none', seenPilotData: false }).expect(200)
-    await c.put(`/api/rounds/${roundId}/judgements/${quantityId}`, { ...[normalAnswer(10, 2), normalAnswer(14, 3)][k], version: 0 }).expect(200)
-    await c.post(`/api/rounds/${roundId}/submit`).expect(200)
-  }
-  await analyst.post(`/api/rounds/${roundId}/close`).expect(200)
-  await analyst.put(`/api/quantities/${quantityId}/reconciliation`, {
-    roundId, method: 'linear', weights: 'equal', cutoff: 0, excludedExperts: [], family: 'normal', reconciled: true, version: 0, rationale: TYPED_RATIONALE,
-  }).expect(200)
-  const upload = await analyst.agent.post(`/api/studies/${studyId}/datasets`).set('x-csrf-token', analyst.token)
-    .field('quantityId', String(quantityId)).field('name', 'Pilot districts').field('model', 'normal-known-sigma').field('valueColumn', 'reduction').field('sigma', '2')
-    .attach('file', Buffer.from('district,reduction\nKV-01,11.2\nKV-02,13.5\nKV-03,12.8\nKV-04,9.9\nKV-05,12.6\n'), { filename: 'pilot.csv', contentType: 'text/csv' })
-  expect(upload.status).toBe(201)
-  await impactDone(analyst, quantityId, {
-    datasetId: upload.body.id, comparison: { family: 'normal', mu: 10, sigma: 20 }, mixtureWeight: 0.2, mixtureWide: { family: 'normal', mu: 10, sigma: 20 },
-  })
+  const stored = await studyWithStoredAnalysis(h, analyst, { title: 'labels: letter labels numbered study', context: 'Old stored work in today’s labels.' }, TYPED_RATIONALE)
+  studyId = stored.studyId
+  quantityId = stored.quantityId
   await analyst.post(`/api/studies/${studyId}/record/submit`).expect(200)
   await reviewer.post(`/api/studies/${studyId}/record/sign-off`).expect(200)
 
