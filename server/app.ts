@@ -20,6 +20,7 @@ import { impactRouter } from './routes/impact'
 import { createAnalysisQueue } from './compute/analysis-queue'
 import { invitationsRouter } from './routes/invitations'
 import { judgementsRouter } from './routes/judgements'
+import { linkReconciliationRouter } from './routes/link-reconciliation'
 import { outboxRouter } from './routes/outbox'
 import { quantitiesRouter } from './routes/quantities'
 import { reconciliationRouter } from './routes/reconciliation'
@@ -108,6 +109,7 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   app.use('/api', quantitiesRouter(db))
   app.use('/api', calibrationRouter(db))
   app.use('/api', compositionsRouter(db))
+  app.use('/api', linkReconciliationRouter(db))
   app.use('/api', roundsRouter(ctx))
   app.use('/api', judgementsRouter(db))
   app.use('/api', reconciliationRouter(db))

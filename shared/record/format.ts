@@ -114,6 +114,8 @@ export const AUDIT_ACTIONS: Record<string, string> = {
   'impact.run': 'Impact analysis run',
   'reconciliation.save': 'Reconciliation saved',
   'reconciliation.reconciled': 'Final prior chosen',
+  'link.confirm': 'Pooled correlation of a linked pair confirmed',
+  'link.override': 'Correlation of a linked pair set by the analyst',
   'record.submit': 'Record submitted for review',
   'record.return': 'Record returned with comments',
   'record.sign-off': 'Record signed off',

@@ -1,5 +1,6 @@
 import { Client, signedIn, startApi, type ApiHarness } from './api'
 import { impactDone } from './impact'
+import { insertLink } from './links'
 
 export type Role = 'anon' | 'admin' | 'analyst' | 'expert' | 'reviewer' | 'outsider'
 export const ROLES: Role[] = ['anon', 'outsider', 'reviewer', 'expert', 'analyst', 'admin']
@@ -78,6 +79,9 @@ export const MATRIX: Record<string, Rule> = {
   'PUT /api/rounds/:id/calibration-answers/:questionId': ['expert'],
   'GET /api/rounds/:id/feedback': ['expert'],
   'GET /api/quantities/:id/reconciliation': ['admin', 'analyst', 'reviewer'],
+  'GET /api/studies/:id/linked-quantities': ['admin', 'analyst', 'reviewer'],
+  'PUT /api/links/:id/reconciliation': ['admin', 'analyst'],
+  'GET /api/quantities/:id/joint-draws': ['admin', 'analyst', 'reviewer'],
   'PUT /api/quantities/:id/reconciliation': ['admin', 'analyst'],
   'GET /api/studies/:id/datasets': ['admin', 'analyst', 'reviewer'],
   'POST /api/studies/:id/datasets/preview': ['admin', 'analyst'],
@@ -131,6 +135,7 @@ export async function matrixFixture(): Promise<MatrixFixture> {
   await analyst.post(`/api/rounds/${round.id}/open`).expect(200)
   const expert = await signedIn(h, 'expert1@kestrel.example')
   const saved = (await expert.put(`/api/rounds/${round.id}/judgements/${quantity.id}`, { method: 'quantile', lower: 0, upper: 10, points: [], version: 0 }).expect(200)).body
+  const link = await insertLink(h.db, round.id, quantity.id, shares[0], [])
   const dataset = (await analyst.agent.post(`/api/studies/${study.id}/datasets`).set('x-csrf-token', analyst.token)
     .field('quantityId', String(quantity.id)).field('name', 'Pilot').field('model', 'normal-known-sigma').field('valueColumn', 'v').field('sigma', '2')
     .attach('file', Buffer.from('v\n2.2\n3.5\n2.8\n'), 'p.csv').expect(201)).body
@@ -140,7 +145,7 @@ export async function matrixFixture(): Promise<MatrixFixture> {
     'studies/:id': String(study.id), 'quantities/:id': String(quantity.id), 'files/:id': String(file.id), 'rounds/:id': String(round.id),
     'calibration-questions/:id': String(calib.id), 'datasets/:id': String(dataset.id), 'compositions/:id': String(composition.id), 'judgements/:id': String(saved.judgement.id),
     ':quantityId': String(quantity.id), ':questionId': String(calib.id), ':panelId': String(withPanel.panel[0].id),
-    ':userId': String(idOf('expert3@kestrel.example')), 'users/:id': String(idOf('expert2@kestrel.example')), 'mailbox/:id': '1', ':token': 'x'.repeat(43), 'impact-jobs/:id': String(job!.id),
+    ':userId': String(idOf('expert3@kestrel.example')), 'users/:id': String(idOf('expert2@kestrel.example')), 'mailbox/:id': '1', ':token': 'x'.repeat(43), 'impact-jobs/:id': String(job!.id), 'links/:id': String(link),
   })
   const anon = new Client(h)
   await anon.csrf()

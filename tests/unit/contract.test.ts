@@ -15,6 +15,7 @@ import type { configApi } from '@/api/config'
 import type { impactApi } from '@/api/impact'
 import type { invitationsApi } from '@/api/invitations'
 import type { judgementsApi } from '@/api/judgements'
+import type { linkReconciliationApi } from '@/api/link-reconciliation'
 import type { mailboxApi } from '@/api/mailbox'
 import type { pilotApi } from '@/api/pilot'
 import type { quantitiesApi } from '@/api/quantities'
@@ -26,6 +27,7 @@ import type { studyAdminApi } from '@/api/studyAdmin'
 import type { usersApi } from '@/api/users'
 import type { ImpactRequest } from '@shared/api/impact'
 import type { JudgementSave } from '@shared/api/judgements'
+import type { LinkReconciliationSaveBody } from '@shared/api/link-reconciliation'
 import type { ReconciliationSaveBody } from '@shared/api/reconciliation'
 import type { RecordSubmission } from '@shared/api/records'
 import type { AppConfig, DirectoryUser, User } from '@shared/api/users'
@@ -35,6 +37,7 @@ import type { JudgementSaved } from '@shared/api/judgements'
 import type { PracticeResult } from '@shared/api/rounds'
 import type { impactSchema } from '@shared/schemas/impact'
 import type { judgementSchema } from '@shared/schemas/judgements'
+import type { linkReconciliationSchema } from '@shared/schemas/link-reconciliation'
 import type { reconciliationSchema } from '@shared/schemas/reconciliation'
 import type { recordSubmitSchema } from '@shared/schemas/records'
 import type { listOutbox } from '../../server/mail/outbox'
@@ -48,6 +51,7 @@ import type {
   addEvidenceFile, createCalibrationQuestion, createQuantity, getQuantity, listCalibrationQuestions, listQuantities, updateCalibrationQuestion, updateQuantity,
 } from '../../server/services/quantities'
 import type { getReconciliation, saveReconciliation } from '../../server/services/reconciliation'
+import type { decideLink, studyLinkedQuantities } from '../../server/services/link-reconciliation'
 import type { getRecord } from '../../server/services/records'
 import type { getRound, listMyRounds, listRounds, roundProgress } from '../../server/services/rounds'
 import type { createStudy, getStudyDetail, listStudiesFor, studyAudit, updateStudy } from '../../server/services/studies'
@@ -120,6 +124,8 @@ describe('the wire contract (checked by the type-check)', () => {
   it('reconciliation, pilot data, impact and the record', () => {
     expectTypeOf<Fetched<typeof reconciliationApi.get>>().toEqualTypeOf<Served<typeof getReconciliation>>()
     expectTypeOf<Fetched<typeof reconciliationApi.save>>().toEqualTypeOf<Served<typeof saveReconciliation>>()
+    expectTypeOf<Fetched<typeof linkReconciliationApi.studyLinks>>().toEqualTypeOf<Served<typeof studyLinkedQuantities>>()
+    expectTypeOf<Fetched<typeof linkReconciliationApi.decide>>().toEqualTypeOf<Served<typeof decideLink>>()
     expectTypeOf<Fetched<typeof pilotApi.list>>().toEqualTypeOf<Served<typeof listDatasets>>()
     expectTypeOf<Fetched<typeof pilotApi.get>>().toEqualTypeOf<Served<typeof getDataset>>()
     expectTypeOf<Fetched<typeof pilotApi.upload>>().toEqualTypeOf<Served<typeof createDataset>>()
@@ -135,6 +141,7 @@ describe('the wire contract (checked by the type-check)', () => {
   it('each field the client sends has the type the server’s schema lets through', () => {
     expectTypeOf<JudgementSave>().toExtend<Accepted<typeof judgementSchema>>()
     expectTypeOf<ReconciliationSaveBody>().toExtend<Accepted<typeof reconciliationSchema>>()
+    expectTypeOf<LinkReconciliationSaveBody>().toExtend<Accepted<typeof linkReconciliationSchema>>()
     expectTypeOf<RecordSubmission>().toExtend<Accepted<typeof recordSubmitSchema>>()
     expectTypeOf<ImpactRequest>().toExtend<Accepted<typeof impactSchema>>()
   })
