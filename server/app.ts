@@ -19,6 +19,7 @@ import { healthRouter } from './routes/health'
 import { impactRouter } from './routes/impact'
 import { createAnalysisQueue } from './compute/analysis-queue'
 import { invitationsRouter } from './routes/invitations'
+import { linksRouter } from './routes/links'
 import { judgementsRouter } from './routes/judgements'
 import { outboxRouter } from './routes/outbox'
 import { quantitiesRouter } from './routes/quantities'
@@ -110,6 +111,7 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   app.use('/api', compositionsRouter(db))
   app.use('/api', roundsRouter(ctx))
   app.use('/api', judgementsRouter(db))
+  app.use('/api', linksRouter(db))
   app.use('/api', reconciliationRouter(db))
   app.use('/api', datasetsRouter(db))
   const analysisQueue = createAnalysisQueue({ databaseUrl: opts.databaseUrl, db, timeLimitSeconds: opts.analysisTimeLimitSeconds ?? 600, onQueued: opts.onAnalysisQueued })
