@@ -5,7 +5,8 @@ import type { Db } from '../db/knex'
 import { idParam } from '../http/id-param'
 import { validateBody } from '../http/validate-body'
 import { accessVia, allow, studyAccess } from '../services/access'
-import { decideLink, jointDrawsCsv, linkStudy, studyLinkedQuantities } from '../services/link-reconciliation'
+import { decideLink, jointDrawsCsv, studyLinkedQuantities } from '../services/link-reconciliation'
+import { roundOfLink } from '../services/links'
 
 /** Links at reconciliation: the pooled correlations, the analyst's decisions, the linked sets' matrices and joint draws. */
 export function linkReconciliationRouter(db: Db): Router {
@@ -21,8 +22,7 @@ export function linkReconciliationRouter(db: Db): Router {
 
   r.put('/links/:id/reconciliation', async (req, res) => {
     const id = idParam(req.params.id, 'Link')
-    const { roundId } = await linkStudy(db, id)
-    const access = await accessVia(db, currentUser(req), 'rounds', roundId, 'Link')
+    const access = await accessVia(db, currentUser(req), 'rounds', await roundOfLink(db, id), 'Link')
     allow(access, 'analyst')
     const body = await validateBody(linkReconciliationSchema, req.body)
     res.json(await decideLink(db, access.user, access.studyId, id, body))

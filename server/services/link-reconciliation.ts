@@ -139,13 +139,6 @@ export async function studyLinkedQuantities(db: Db, studyId: number): Promise<St
   return { links: views, sets }
 }
 
-/** The study a link belongs to (404 when there is no such link). */
-export async function linkStudy(db: Db, linkId: number): Promise<{ roundId: number }> {
-  const row = await db('round_links').where({ id: linkId }).first('round_id')
-  if (!row) throw new HttpError(404, 'Link not found')
-  return { roundId: row.round_id }
-}
-
 /**
  * Confirms a link's pooled correlation or overrides it with a value and a reason; the decision, its version and its audit
  * event commit together, and a decision taken on a stale version answers 409.
