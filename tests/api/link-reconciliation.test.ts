@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { LinkReconciliationView, StudyLinkedQuantities } from '../../shared/api/link-reconciliation'
-import { nearestCorrelation, sampleJoint, type Distribution } from '../../shared/stats/index'
+import { correlationWithEigenvalueFloor, nearestCorrelation, sampleJoint, type Distribution } from '../../shared/stats/index'
 import { symmetricEigen } from '../../shared/stats/matrix'
 import { Client, normalQuantileAnswer, signedIn, startApi, type ApiHarness } from '../support/api'
 
@@ -211,15 +211,19 @@ describe('the analyst’s decision', () => {
     expect(set.positiveSemiDefinite).toBe(false)
     // The eigenvalues of this matrix are 1.9 (twice) and −0.8 (constructed: it is 1.9 I − 0.9 vvᵀ with v = (1, −1, 1)).
     expect(set.minEigenvalue).toBeCloseTo(-0.8, 12)
-    const engine = nearestCorrelation(asked)
-    expect(set.repair).toEqual({ matrix: engine.matrix, changes: engine.changes, maxChange: engine.maxChange, iterations: engine.iterations })
-    expect(set.jointMatrix).toEqual(engine.matrix)
+    // The nearest correlation matrix (Higham 2002) with its eigenvalues raised to 10⁻⁶, as the engine gives it.
+    const engine = correlationWithEigenvalueFloor(nearestCorrelation(asked).matrix, 1e-6)
+    expect(set.repair).toEqual({ matrix: engine, changes: engine.map((row, i) => row.map((x, j) => x - asked[i][j])), maxChange: expect.any(Number), iterations: nearestCorrelation(asked).iterations })
+    expect(set.jointMatrix).toEqual(engine)
     const repaired = set.repair!.matrix
     expect(repaired.map((row, i) => row[i])).toEqual([1, 1, 1])
-    expect(Math.min(...symmetricEigen(repaired).values)).toBeGreaterThan(-1e-10)
-    repaired.forEach((row, i) => row.forEach((x, j) => expect(set.repair!.changes[i][j]).toBeCloseTo(x - asked[i][j], 15)))
+    // By symmetry the nearest matrix has off-diagonals ±½ (eigenvalues 0, 1.5, 1.5; constructed); the floor moves them by about 10⁻⁶.
+    expect(repaired[0][1]).toBeCloseTo(0.5, 5)
+    expect(repaired[1][2]).toBeCloseTo(0.5, 5)
+    expect(repaired[0][2]).toBeCloseTo(-0.5, 5)
+    expect(Math.min(...symmetricEigen(repaired).values)).toBeGreaterThan(0.99e-6)
     expect(set.repair!.maxChange).toBe(Math.max(...set.repair!.changes.flat().map(Math.abs)))
-    expect(set.repair!.maxChange).toBeGreaterThan(0.1)
+    expect(set.repair!.maxChange).toBeCloseTo(0.4, 5)
   })
 })
 
@@ -258,9 +262,11 @@ describe('joint draws', () => {
     expect(byDefault.headers['content-disposition']).toBe('attachment; filename="joint-draws-bursts-repair-flow-seed20261203-n10000.csv"')
   })
 
-  it('uses the repaired matrix for a set that needed repair', async () => {
+  it('uses the repaired matrix for a set that needed repair, in the draws and in model code every language accepts', async () => {
     for (const id of [q.lossA, q.lossB, q.lossC]) await reconcile(id, 'equal')
     const set = (await linked()).sets.find((s) => s.marginals.some((m) => m.quantityId === q.lossA))!
+    // JAGS's dmnorm needs the inverse covariance: it exists because the repair keeps the eigenvalues above 10⁻⁶.
+    expect(set.modelCode.map((m) => [m.language, m.check?.ok])).toEqual([['stan', true], ['pymc', true], ['jags', true], ['brms', true]])
     const res = await draws(q.lossB, '?n=50&seed=3').expect(200)
     expect(res.text.trimEnd().split('\n').slice(1).map((l) => l.split(',').map(Number))).toEqual(sampleJoint(set.marginals.map((m) => m.distribution!), set.repair!.matrix, 50, 3))
   })
