@@ -204,7 +204,7 @@ describe('pilot data and impact analysis', () => {
 
     // The analysis runs as a job on the queue; the page follows it. The worker is held as it stores the analysis (the
     // study's audit-chain lock, taken here, which its audit event waits for), so the page shows the job running with the
-    // steps done so far, whatever the machine's speed. 19 steps: 7 candidates, 11 sweep widths, the tipping point.
+    // steps done so far, whatever the machine’s speed. 30 steps: 7 candidates, the fractional Bayes factors, 7 sensitivities, 11 sweep widths, 2 curves, the tipping point and storing the result.
     const db = createDb(inject('databaseUrl'))
     const hold = await db.transaction()
     try {
@@ -214,7 +214,7 @@ describe('pilot data and impact analysis', () => {
       await bar.waitFor({ timeout: 30_000 })
       expect(await page.getByTestId('impact-progress').getAttribute('data-state')).toBe('running')
       await expect.poll(async () => Number(await bar.getAttribute('aria-valuenow')), { timeout: 30_000 }).toBeGreaterThan(0)
-      expect(await page.getByTestId('impact-progress').innerText()).toMatch(/step (\d+) of 19/)
+      expect(await page.getByTestId('impact-progress').innerText()).toMatch(/step (\d+) of 30/)
       await s.shot('impact-04b-progress')
     } finally {
       await hold.commit()
