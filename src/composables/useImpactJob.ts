@@ -99,5 +99,11 @@ export function useImpactJob(intervalMs = 500) {
     wake?.()
   }
 
-  return { job, progress, follow, cancel }
+  /** Drops the job followed last (before another is asked for): the progress shows nothing stale meanwhile. */
+  function forget(): void {
+    job.value = null
+    answered = null
+  }
+
+  return { job, progress, follow, cancel, forget }
 }

@@ -108,7 +108,7 @@ describe('progress of a job', () => {
       return job.state === 'done' ? job : null
     })
     expect(finished.progress).toEqual({ done: total, total })
-    expect(finished.result?.sweep?.points).toHaveLength(60)
+    expect((finished.result as { sweep: { points: unknown[] } }).sweep.points).toHaveLength(60)
     expect(seen.every((p) => p.total === total)).toBe(true)
     const dones = seen.map((p) => p.done)
     console.log(`[impact-jobs] progress across ${seen.length} polls: ${[...new Set(dones)].join(' → ')} of ${total}`)
