@@ -1,5 +1,6 @@
-import { describe, expect, it } from 'vitest'
+import { afterAll, describe, expect, it } from 'vitest'
 import { computeImpact, computeSteps, impactSteps, type ImpactTask } from '../../../server/compute/tasks'
+import { ComputeCancelled, ComputeThread } from '../../../server/compute/threads'
 
 // Constructed: five pilot values with known σ = 2, two candidate priors and a reconciled prior, four sweep widths.
 const task: ImpactTask = {
@@ -84,4 +85,23 @@ describe('progress of an impact analysis (the job progress bar)', () => {
       expect(seen).toEqual(oneToN(at))
     }
   })
+})
+
+describe('cancelling an analysis on its compute thread', () => {
+  const thread = new ComputeThread()
+  afterAll(() => thread.stop())
+  const wide = { ...task, factors: Array.from({ length: 60 }, (_, i) => 0.25 * 1.06 ** i) }
+
+  it('stops at the first step once the signal is aborted, reporting no step, and keeps the thread for the next analysis', async () => {
+    // The thread reads the stop after each step; a signal aborted before the start stops it after its first step. (A
+    // signal aborted mid-run stops it the same way at the step after; when that is depends on the thread's speed.)
+    const seen: number[] = []
+    await expect(thread.run(wide, (done) => seen.push(done), 60_000, AbortSignal.abort())).rejects.toBeInstanceOf(ComputeCancelled)
+    expect(seen).toEqual([])
+
+    const after: number[] = []
+    const result = await thread.run(wide, (done) => after.push(done), 60_000)
+    expect(after).toEqual(oneToN(computeSteps(wide)))
+    expect(result.sweep?.points).toHaveLength(60)
+  }, 60_000)
 })
