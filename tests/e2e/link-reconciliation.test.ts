@@ -154,7 +154,7 @@ describe('linked quantities on the reconcile screen', () => {
     await page.reload()
     const section = page.getByTestId('linked-section')
     await section.getByTestId('linked-matrix-repaired').waitFor()
-    await expect(section.getByTestId('linked-matrix-cell').allInnerTexts()).resolves.toEqual(['1', '0.9', '-0.9', '0.9', '1', '0.9', '-0.9', '0.9', '1'])
+    await expect(section.getByTestId('linked-matrix-asked-cell').allInnerTexts()).resolves.toEqual(['1', '0.9', '-0.9', '0.9', '1', '0.9', '-0.9', '0.9', '1'])
     const view = await inPage(page, async (call, { studyId }) => call<{ sets: { repair: { matrix: number[][]; maxChange: number }; jointMatrix: number[][] }[] }>('GET', `/api/studies/${studyId}/linked-quantities`), { studyId: setup.studyId })
     const repair = view.sets[0].repair
     const shown = await section.getByTestId('linked-matrix-repair-cell').allInnerTexts()
