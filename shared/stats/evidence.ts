@@ -192,9 +192,6 @@ export function validateData(prior: PriorDistribution, data: PilotData): void {
 
 // ─── Distributions built on the way ──────────────────────────────────────────────────────────────
 
-/** What a posterior summary needs: moments, CDF and quantiles on θ. */
-type PosteriorParts = Posterior & { variance: number }
-
 /** A posterior on θ: CDF, quantiles and moments. */
 export type Posterior = Pick<Univariate, 'cdf' | 'quantile' | 'mean' | 'sd'>
 
@@ -239,25 +236,33 @@ export function summarise(d: Pick<Univariate, 'quantile' | 'mean' | 'sd'>): Post
   return { mean: d.mean(), sd: d.sd(), q025: d.quantile(PROBS[0]), q50: d.quantile(PROBS[1]), q975: d.quantile(PROBS[2]) }
 }
 
-/** Posterior moments, CDF and quantiles on θ from a LogIntegral on the prior's u scale. */
-export function posteriorFromIntegral(li: LogIntegral, scale: PriorScale): PosteriorParts {
-  const mean = li.expect((u) => scale.theta(u))
-  const variance = li.expect((u) => (scale.theta(u) - mean) ** 2)
+/**
+ * Posterior moments, CDF and quantiles on θ from a LogIntegral on the prior's u scale; the moments are integrated when first
+ * asked for (power scaling reads only the CDF of its scaled posteriors).
+ */
+export function posteriorFromIntegral(li: LogIntegral, scale: PriorScale): Posterior {
+  let moments: { mean: number; variance: number } | null = null
+  const momentsOf = (): { mean: number; variance: number } => {
+    if (!moments) {
+      const mean = li.expect((u) => scale.theta(u))
+      moments = { mean, variance: li.expect((u) => (scale.theta(u) - mean) ** 2) }
+    }
+    return moments
+  }
   return {
     cdf: (t) => {
       const u = scale.toU(t)
       return Number.isNaN(u) ? (t <= scale.theta(li.lower) ? 0 : 1) : li.cdf(u)
     },
     quantile: (p) => scale.theta(li.quantile(p)),
-    mean: () => mean,
-    sd: () => Math.sqrt(variance),
-    variance,
+    mean: () => momentsOf().mean,
+    sd: () => Math.sqrt(momentsOf().variance),
   }
 }
 
 // ─── Normal data with known σ ────────────────────────────────────────────────────────────────────
 
-type Conditional = { logEvidence: number; closed: boolean; posterior: () => PosteriorParts }
+type Conditional = { logEvidence: number; closed: boolean; posterior: () => Posterior }
 
 type ClosedMeanPrior = Extract<PriorDistribution, { family: 'normal' | 'uniform' }>
 
@@ -286,7 +291,7 @@ function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: numb
         const precision = 1 / (tau * tau) + 1 / (se * se)
         const v = 1 / precision
         const m = v * (prior.mu / (tau * tau) + xbar / (se * se))
-        return Object.assign(normalUnivariate(m, Math.sqrt(v)), { variance: v })
+        return normalUnivariate(m, Math.sqrt(v))
       },
     }
   }
@@ -294,10 +299,7 @@ function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: numb
     return {
       logEvidence: closedMeanLogEvidence(prior, st, sigma),
       closed: true,
-      posterior: () => {
-        const d = truncatedNormal(xbar, se, prior.lower, prior.upper)
-        return Object.assign(d, { variance: d.sd() ** 2 })
-      },
+      posterior: () => truncatedNormal(xbar, se, prior.lower, prior.upper),
     }
   }
   const { ss } = st
@@ -305,7 +307,7 @@ function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: numb
   const scale = priorScale(prior)
   const h = (u: number): number => scale.logPrior(u) - (n * (xbar - scale.theta(u)) ** 2) / (2 * sigma * sigma)
   const li = new LogIntegral(h, priorHints(scale, [hintOnU(scale, xbar, se)]))
-  let post: PosteriorParts | null = null
+  let post: Posterior | null = null
   return {
     logEvidence: base + li.logValue,
     closed: false,
@@ -473,7 +475,7 @@ function marginalOfMean(prior: PriorDistribution, st: NormalStats, sigmaPrior: P
   const sScale = priorScale(sigmaPrior)
   const sigmaHat = Math.sqrt(ss / Math.max(1, n - 1)) || sScale.theta(sScale.hint.center)
   const li = new LogIntegral(h, priorHints(scale, [hintOnU(scale, xbar, sigmaHat / Math.sqrt(n))]))
-  let parts: PosteriorParts | null = null
+  let parts: Posterior | null = null
   const posteriorParts = (): Posterior => (parts ??= posteriorFromIntegral(li, scale))
   return { logEvidence: li.logValue, posterior: (): PosteriorSummary => summarise(posteriorParts()), posteriorParts }
 }
@@ -633,6 +635,22 @@ function scaleMixtureKernel(s: number[], w: number[]): Kernel {
   }
 }
 
+/**
+ * The components of a scale mixture narrower than 1e-6 of its root-mean-square width, merged into one with their total
+ * weight and their mean variance: convolved with a prior whose own scale L is wider, the merged part differs from the
+ * parts by O(W (s/L)⁴) relative (the second moments agree), under 1e-18 for L above 1e-3 of the kernel's width (common
+ * practice: moment matching). The σ prior's nodes reach down to 1e-17 of its scale, and each of those narrow components
+ * otherwise needs its own detail in the kernel's tables.
+ */
+function mergeNarrowComponents(s: number[], w: number[]): [number[], number[]] {
+  const rms = Math.sqrt(s.reduce((acc, sj, j) => acc + w[j] * sj * sj, 0))
+  const narrow = s.map((sj) => sj < 1e-6 * rms)
+  const weight = w.reduce((acc, wj, j) => acc + (narrow[j] ? wj : 0), 0)
+  if (!(weight > 0)) return [s, w]
+  const variance = s.reduce((acc, sj, j) => acc + (narrow[j] ? w[j] * sj * sj : 0), 0) / weight
+  return [[Math.sqrt(variance), ...s.filter((_, j) => !narrow[j])], [weight, ...w.filter((_, j) => !narrow[j])]]
+}
+
 /** The kernels of x̄ − μ for σ priors in use, by (σ prior, n): every candidate of an analysis shares one. */
 const sigmaKernels = new Map<string, Kernel>()
 
@@ -646,7 +664,7 @@ function sigmaMixtureKernel(sigmaPrior: PriorDistribution, n: number): Kernel {
   const top = Math.max(...nodes.map((nd) => nd.weight))
   const kept = nodes.filter((nd) => nd.weight > 1e-16 * top)
   const total = kept.reduce((acc, nd) => acc + nd.weight, 0)
-  const kernel = scaleMixtureKernel(kept.map((nd) => sScale.theta(nd.u) / Math.sqrt(n)), kept.map((nd) => nd.weight / total))
+  const kernel = scaleMixtureKernel(...mergeNarrowComponents(kept.map((nd) => sScale.theta(nd.u) / Math.sqrt(n)), kept.map((nd) => nd.weight / total)))
   if (sigmaKernels.size >= 16) sigmaKernels.delete(sigmaKernels.keys().next().value!)
   sigmaKernels.set(key, kernel)
   return kernel

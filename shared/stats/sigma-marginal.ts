@@ -60,6 +60,7 @@ export class CheckedTable {
     private readonly f: (t: number) => number,
     private readonly origin: number,
     private readonly width: number,
+    private readonly tolerance = PIECE_TOLERANCE,
   ) {}
 
   at(t: number): number {
@@ -84,7 +85,7 @@ export class CheckedTable {
       coef !== null &&
       CHECKS.every((fraction) => {
         const exact = this.f(a + fraction * (b - a))
-        return Math.abs(clenshaw(coef, 2 * fraction - 1) - exact) <= PIECE_TOLERANCE * Math.max(1, Math.abs(exact))
+        return Math.abs(clenshaw(coef, 2 * fraction - 1) - exact) <= this.tolerance * Math.max(1, Math.abs(exact))
       })
     if (passes) return { a, b, coef: coef! }
     if (depth >= MAX_DEPTH || !finite) return { a, b, direct: true }
