@@ -14,6 +14,7 @@ import * as m018 from '../../migrations/20261203_018_comparison_prior'
 import * as m022 from '../../migrations/20261203_022_compositions'
 import * as m022b from '../../migrations/20261203_022b_composition_pilot'
 import * as m022c from '../../migrations/20261203_022c_round_links'
+import * as m022d from '../../migrations/20261203_022d_link_reconciliations'
 import * as m024 from '../../migrations/20261203_024_impact_jobs'
 import * as m018b from '../../migrations/20261203_018b_expert_labels_numbered'
 
@@ -38,6 +39,7 @@ const migrations: Record<string, Migration> = {
   '20261203_024_impact_jobs': m024,
   '20261203_018b_expert_labels_numbered': m018b,
   '20261203_022c_round_links': m022c,
+  '20261203_022d_link_reconciliations': m022d,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {
