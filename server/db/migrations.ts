@@ -16,6 +16,7 @@ import * as m022b from '../../migrations/20261203_022b_composition_pilot'
 import * as m022c from '../../migrations/20261203_022c_round_links'
 import * as m022d from '../../migrations/20261203_022d_link_reconciliations'
 import * as m024 from '../../migrations/20261203_024_impact_jobs'
+import * as m024b from '../../migrations/20261203_024b_impact_job_cancel'
 import * as m018b from '../../migrations/20261203_018b_expert_labels_numbered'
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> }
@@ -40,6 +41,7 @@ const migrations: Record<string, Migration> = {
   '20261203_018b_expert_labels_numbered': m018b,
   '20261203_022c_round_links': m022c,
   '20261203_022d_link_reconciliations': m022d,
+  '20261203_024b_impact_job_cancel': m024b,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -146,8 +146,8 @@ export async function studyLinkedQuantities(db: Db, studyId: number): Promise<St
 export async function decideLink(db: Db, user: User, studyId: number, linkId: number, body: LinkReconciliationBody): Promise<LinkReconciliationView> {
   const find = async () => (await studyLinkedQuantities(db, studyId)).links.find((l) => l.linkId === linkId)
   const view = await find()
-  // A pair linked again in a later round is reconciled from that round's link.
-  if (!view) throw new HttpError(409, 'This pair is reconciled from its link in a later round; open that one')
+  // A pair linked in several rounds is reconciled from one of its links (studyLinks).
+  if (!view) throw new HttpError(409, 'This pair is reconciled from its link in another round (the latest with answers); open that one')
   if (body.decision === 'confirm' && view.pooledCorrelation === null)
     throw new HttpError(400, 'There is no pooled correlation to confirm', { decision: 'No expert with weight has answered this question yet: override with a value and a reason instead' })
   const correlation = body.decision === 'confirm' ? view.pooledCorrelation! : body.correlation!

@@ -77,7 +77,7 @@ export interface LinkedSetMarginal {
   distribution: Distribution | null
 }
 
-/** The nearest correlation matrix of a set whose correlations cannot hold together, with how far each entry moved. */
+/** The nearest correlation matrix of a set whose correlations cannot hold together (its eigenvalues kept at 10⁻⁶ or more), with how far each entry moved. */
 export interface LinkedSetRepair {
   matrix: number[][]
   /** repaired − asked, entry by entry. */

@@ -1,4 +1,4 @@
-import { nearestCorrelation, quantile, type Distribution } from '../stats/index'
+import { correlationWithEigenvalueFloor, nearestCorrelation, quantile, type Distribution } from '../stats/index'
 import { linkedSetCodeWithCheck, type LinkedQuantity } from './joint-model-code'
 import { safeName } from './model-code'
 
@@ -87,16 +87,25 @@ export function linkedSetMatrix(quantityIds: number[], links: SetLink[]): { matr
   return { matrix, unlinked }
 }
 
-/** Whether a set's correlations hold together and, when not, the nearest correlation matrix (Higham 2002, through nearestCorrelation) with each entry's change. */
+/** Smallest eigenvalue a repaired matrix keeps, so that a multivariate normal accepts it (Priorsmith's convention). */
+export const REPAIR_EIGENVALUE_FLOOR = 1e-6
+
+/**
+ * Whether a set's correlations hold together and, when not, the repair: the nearest correlation matrix (Higham 2002,
+ * through nearestCorrelation) with its eigenvalues raised to REPAIR_EIGENVALUE_FLOOR (correlationWithEigenvalueFloor),
+ * with each entry's change from the asked matrix.
+ */
 export function correlationRepair(matrix: number[][]) {
   const nearest = nearestCorrelation(matrix)
   // nearestCorrelation hands a valid correlation matrix back at once (no iterations).
-  const positiveSemiDefinite = nearest.iterations === 0
+  if (nearest.iterations === 0) return { positiveSemiDefinite: true, minEigenvalue: nearest.minEigenvalue, repair: null, jointMatrix: nearest.matrix }
+  const repaired = correlationWithEigenvalueFloor(nearest.matrix, REPAIR_EIGENVALUE_FLOOR)
+  const changes = repaired.map((row, i) => row.map((x, j) => x - matrix[i][j]))
   return {
-    positiveSemiDefinite,
+    positiveSemiDefinite: false,
     minEigenvalue: nearest.minEigenvalue,
-    repair: positiveSemiDefinite ? null : { matrix: nearest.matrix, changes: nearest.changes, maxChange: nearest.maxChange, iterations: nearest.iterations },
-    jointMatrix: nearest.matrix,
+    repair: { matrix: repaired, changes, maxChange: Math.max(...changes.flat().map(Math.abs)), iterations: nearest.iterations },
+    jointMatrix: repaired,
   }
 }
 

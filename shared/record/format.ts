@@ -116,6 +116,7 @@ export const AUDIT_ACTIONS: Record<string, string> = {
   'judgement.submit': 'Judgements submitted',
   'dataset.upload': 'Pilot data uploaded',
   'impact.run': 'Impact analysis run',
+  'impact.cancel': 'Impact analysis cancelled',
   'reconciliation.save': 'Reconciliation saved',
   'reconciliation.reconciled': 'Final prior chosen',
   'link.confirm': 'Pooled correlation of a linked pair confirmed',

@@ -1,17 +1,16 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { LinkReconciliationView, StudyLinkedQuantities } from '../../shared/api/link-reconciliation'
-import { nearestCorrelation, sampleJoint, type Distribution } from '../../shared/stats/index'
+import { correlationWithEigenvalueFloor, nearestCorrelation, sampleJoint, type Distribution } from '../../shared/stats/index'
 import { symmetricEigen } from '../../shared/stats/matrix'
-import { Client, normalQuantileAnswer, openQuantileRound, signedIn, startApi, type ApiHarness } from '../support/api'
-import { insertLink } from '../support/links'
+import { Client, normalQuantileAnswer, signedIn, startApi, type ApiHarness } from '../support/api'
 
 let h: ApiHarness
 let analyst: Client
 let reviewer: Client
 let experts: Client[]
-let expertIds: number[]
 let studyId: number
 let roundId: number
+let laterRoundId: number
 const q: Record<string, number> = {}
 const link: Record<string, number> = {}
 
@@ -30,12 +29,25 @@ async function linked(c: Client = analyst): Promise<StudyLinkedQuantities> {
 }
 const linkView = (all: StudyLinkedQuantities, id: number): LinkReconciliationView => all.links.find((l) => l.linkId === id)!
 
-async function reconcile(quantityId: number, weights: 'equal' | number[]): Promise<Distribution> {
+async function reconcile(quantityId: number, weights: 'equal' | number[], version = 0): Promise<Distribution> {
   const res = await analyst.put(`/api/quantities/${quantityId}/reconciliation`, {
     roundId, method: 'linear', weights, weightsReason: Array.isArray(weights) ? 'The first expert has run this network for twenty years.' : '', family: 'normal',
-    reconciled: true, version: 0, rationale: 'The normal follows the pooled answers closely.',
+    reconciled: true, version, rationale: 'The normal follows the pooled answers closely.',
   }).expect(200)
   return res.body.saved.distribution
+}
+
+async function draftRound(title: string, quantityIds: number[]): Promise<number> {
+  return (await analyst.post(`/api/studies/${studyId}/rounds`, {
+    title, opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * 864e5).toISOString(),
+    items: quantityIds.map((quantityId) => ({ quantityId, method: 'quantile' })),
+  }).expect(201)).body.id
+}
+const addLink = async (round: number, first: string, second: string): Promise<number> =>
+  (await analyst.post(`/api/rounds/${round}/links`, { firstQuantityId: q[first], secondQuantityId: q[second] }).expect(201)).body.id
+async function openRound(round: number): Promise<void> {
+  for (const email of ['expert1@kestrel.example', 'expert2@kestrel.example']) await analyst.post(`/api/rounds/${round}/invitations`, { email, name: 'Panel member' }).expect(201)
+  await analyst.post(`/api/rounds/${round}/open`).expect(200)
 }
 
 beforeAll(async () => {
@@ -46,22 +58,27 @@ beforeAll(async () => {
   studyId = (await analyst.post('/api/studies', { title: 'linkrec: links at reconciliation', context: 'Kestrel Valley bursts, repairs and losses.' }).expect(201)).body.id
   const directory = (await analyst.get('/api/users/directory').expect(200)).body as { id: number; email: string }[]
   await analyst.post(`/api/studies/${studyId}/members`, { userId: directory.find((u) => u.email === 'reviewer@kestrel.example')!.id, studyRole: 'reviewer' }).expect(201)
-  expertIds = ['expert1@kestrel.example', 'expert2@kestrel.example'].map((e) => directory.find((u) => u.email === e)!.id)
   for (const [symbol, name] of QUANTITIES) {
     q[symbol] = (await analyst.post(`/api/studies/${studyId}/quantities`, { name, symbol, question: `In the Kestrel Valley network, ${name.toLowerCase()}?`, support: { kind: 'real' } }).expect(201)).body.id
   }
-  roundId = await openQuantileRound(analyst, studyId, Object.values(q), ['expert1@kestrel.example', 'expert2@kestrel.example'])
+  roundId = await draftRound('linkrec: round 1', Object.values(q))
+  // Constructed answers: bursts–repair 80 % and 60 %, repair–flow 30 % and 45 %; bursts–flow not linked. The district losses
+  // are linked pairwise; the analyst will set correlations that cannot hold together.
+  const answers: [string, string, string, number, number][] = [
+    ['burstsRepair', 'bursts', 'repair', 0.8, 0.6], ['repairFlow', 'repair', 'flow', 0.3, 0.45], ['ab', 'lossA', 'lossB', 0.85, 0.85], ['bc', 'lossB', 'lossC', 0.85, 0.85],
+  ]
+  for (const [name, first, second] of answers) link[name] = await addLink(roundId, first, second)
+  await openRound(roundId)
   for (const [k, c] of experts.entries()) {
     for (const [symbol, , mu, sigma] of QUANTITIES) await c.put(`/api/rounds/${roundId}/judgements/${q[symbol]}`, { ...normalQuantileAnswer(mu + k, sigma), version: 0 }).expect(200)
+    for (const [name, , , ...p] of answers) await c.put(`/api/rounds/${roundId}/link-answers/${link[name]}`, { probability: p[k], rationale: 'Both follow the winter pressure pattern.', version: 0 }).expect(200)
     await c.post(`/api/rounds/${roundId}/submit`).expect(200)
   }
-  // Constructed answers: bursts–repair 80 % and 60 %, repair–flow 30 % and 45 %; bursts–flow not linked.
-  link.burstsRepair = await insertLink(h.db, roundId, q.bursts, q.repair, [{ expertId: expertIds[0], probability: 0.8 }, { expertId: expertIds[1], probability: 0.6 }])
-  link.repairFlow = await insertLink(h.db, roundId, q.repair, q.flow, [{ expertId: expertIds[0], probability: 0.3 }, { expertId: expertIds[1], probability: 0.45 }])
-  // Three district losses linked pairwise; the analyst will set correlations that cannot hold together.
-  link.ab = await insertLink(h.db, roundId, q.lossA, q.lossB, [{ expertId: expertIds[0], probability: 0.85 }])
-  link.bc = await insertLink(h.db, roundId, q.lossB, q.lossC, [{ expertId: expertIds[0], probability: 0.85 }])
-  link.ac = await insertLink(h.db, roundId, q.lossA, q.lossC, [])
+  // A later round links district losses A–C (nobody has answered it yet) and bursts–repair again (nobody answers either).
+  laterRoundId = await draftRound('linkrec: round 2', [q.lossA, q.lossC, q.bursts, q.repair])
+  link.ac = await addLink(laterRoundId, 'lossA', 'lossC')
+  link.burstsRepairLater = await addLink(laterRoundId, 'bursts', 'repair')
+  await openRound(laterRoundId)
 }, 120_000)
 afterAll(async () => {
   await h.close()
@@ -98,6 +115,16 @@ describe('pooled correlation of a link', () => {
     expect(rf.weightRule).toBe('The average of the experts’ weights in the reconciled quantity and equal weights for the one not reconciled yet')
     // sin(−0.2π) and sin(−0.05π) pooled with equal weights: −0.393557456208211 (constructed, mpmath).
     expect(rf.pooledCorrelation).toBeCloseTo(-0.393557456208211, 13)
+  })
+
+  it('reconciles a pair linked in two rounds from the latest round with answers, and refuses a decision on the other link', async () => {
+    const all = await linked()
+    expect(all.links.map((l) => [l.linkId, l.roundId])).toEqual([
+      [link.burstsRepair, roundId], [link.repairFlow, roundId], [link.ab, roundId], [link.bc, roundId], [link.ac, laterRoundId],
+    ])
+    const res = await analyst.put(`/api/links/${link.burstsRepairLater}/reconciliation`, { decision: 'confirm', version: 0 })
+    expect(res.status).toBe(409)
+    expect(res.body.error.message).toBe('This pair is reconciled from its link in another round (the latest with answers); open that one')
   })
 
   it('lists the linked set with unlinked pairs at 0, the reconciled priors it uses, and waits for the rest', async () => {
@@ -162,6 +189,17 @@ describe('the analyst’s decision', () => {
     expect((await h.db('audit_events').where({ subject: `link:${link.burstsRepair}` }).orderBy('id').select('action')).map((e) => e.action)).toEqual(['link.confirm', 'link.override'])
   })
 
+  it('marks a confirmation stale when the pool moves afterwards, and keeps using the confirmed value', async () => {
+    const confirmed = (await analyst.put(`/api/links/${link.repairFlow}/reconciliation`, { decision: 'confirm', version: 0 }).expect(200)).body
+    expect(confirmed).toMatchObject({ source: 'confirmed', stale: false })
+    // Repair time reconciled again with weights 1 : 3: the link's weights become (0.25 + 0.5)/2 and (0.75 + 0.5)/2.
+    await reconcile(q.repair, [1, 3], 1)
+    const v = linkView(await linked(), link.repairFlow)
+    expect(v.answers.map((a) => a.weight)).toEqual([0.375, 0.625])
+    expect(v.pooledCorrelation).not.toBeCloseTo(confirmed.correlation, 6)
+    expect(v).toMatchObject({ stale: true, source: 'confirmed', correlation: confirmed.correlation, saved: { decision: 'confirm', version: 1 } })
+  })
+
   it('reports a set whose correlations cannot hold together and repairs it to the nearest correlation matrix', async () => {
     for (const [id, correlation, version] of [[link.ab, 0.9, 0], [link.bc, 0.9, 0], [link.ac, -0.9, 0]] as const)
       await analyst.put(`/api/links/${id}/reconciliation`, { decision: 'override', correlation, reason: 'Set by the analyst to test the repair report.', version }).expect(200)
@@ -173,15 +211,19 @@ describe('the analyst’s decision', () => {
     expect(set.positiveSemiDefinite).toBe(false)
     // The eigenvalues of this matrix are 1.9 (twice) and −0.8 (constructed: it is 1.9 I − 0.9 vvᵀ with v = (1, −1, 1)).
     expect(set.minEigenvalue).toBeCloseTo(-0.8, 12)
-    const engine = nearestCorrelation(asked)
-    expect(set.repair).toEqual({ matrix: engine.matrix, changes: engine.changes, maxChange: engine.maxChange, iterations: engine.iterations })
-    expect(set.jointMatrix).toEqual(engine.matrix)
+    // The nearest correlation matrix (Higham 2002) with its eigenvalues raised to 10⁻⁶, as the engine gives it.
+    const engine = correlationWithEigenvalueFloor(nearestCorrelation(asked).matrix, 1e-6)
+    expect(set.repair).toEqual({ matrix: engine, changes: engine.map((row, i) => row.map((x, j) => x - asked[i][j])), maxChange: expect.any(Number), iterations: nearestCorrelation(asked).iterations })
+    expect(set.jointMatrix).toEqual(engine)
     const repaired = set.repair!.matrix
     expect(repaired.map((row, i) => row[i])).toEqual([1, 1, 1])
-    expect(Math.min(...symmetricEigen(repaired).values)).toBeGreaterThan(-1e-10)
-    repaired.forEach((row, i) => row.forEach((x, j) => expect(set.repair!.changes[i][j]).toBeCloseTo(x - asked[i][j], 15)))
+    // By symmetry the nearest matrix has off-diagonals ±½ (eigenvalues 0, 1.5, 1.5; constructed); the floor moves them by about 10⁻⁶.
+    expect(repaired[0][1]).toBeCloseTo(0.5, 5)
+    expect(repaired[1][2]).toBeCloseTo(0.5, 5)
+    expect(repaired[0][2]).toBeCloseTo(-0.5, 5)
+    expect(Math.min(...symmetricEigen(repaired).values)).toBeGreaterThan(0.99e-6)
     expect(set.repair!.maxChange).toBe(Math.max(...set.repair!.changes.flat().map(Math.abs)))
-    expect(set.repair!.maxChange).toBeGreaterThan(0.1)
+    expect(set.repair!.maxChange).toBeCloseTo(0.4, 5)
   })
 })
 
@@ -220,9 +262,11 @@ describe('joint draws', () => {
     expect(byDefault.headers['content-disposition']).toBe('attachment; filename="joint-draws-bursts-repair-flow-seed20261203-n10000.csv"')
   })
 
-  it('uses the repaired matrix for a set that needed repair', async () => {
+  it('uses the repaired matrix for a set that needed repair, in the draws and in model code every language accepts', async () => {
     for (const id of [q.lossA, q.lossB, q.lossC]) await reconcile(id, 'equal')
     const set = (await linked()).sets.find((s) => s.marginals.some((m) => m.quantityId === q.lossA))!
+    // JAGS's dmnorm needs the inverse covariance: it exists because the repair keeps the eigenvalues above 10⁻⁶.
+    expect(set.modelCode.map((m) => [m.language, m.check?.ok])).toEqual([['stan', true], ['pymc', true], ['jags', true], ['brms', true]])
     const res = await draws(q.lossB, '?n=50&seed=3').expect(200)
     expect(res.text.trimEnd().split('\n').slice(1).map((l) => l.split(',').map(Number))).toEqual(sampleJoint(set.marginals.map((m) => m.distribution!), set.repair!.matrix, 50, 3))
   })
@@ -260,6 +304,6 @@ describe('access', () => {
     expect((await outsider.get(`/api/studies/${studyId}/linked-quantities`)).status).toBe(403)
     expect((await analyst.put('/api/links/2000000000/reconciliation', { decision: 'confirm', version: 0 })).status).toBe(404)
     expect((await linked(reviewer)).links.map((l) => l.linkId)).toEqual([link.burstsRepair, link.repairFlow, link.ab, link.bc, link.ac])
-    expect(await h.db('link_reconciliations').where({ link_id: link.repairFlow })).toEqual([])
+    expect(await h.db('link_reconciliations').where({ link_id: link.repairFlow }).select('version', 'decision')).toEqual([{ version: 1, decision: 'confirm' }])
   })
 })

@@ -97,6 +97,8 @@ export const MATRIX: Record<string, Rule> = {
   'POST /api/quantities/:id/impact': ['admin', 'analyst'],
   'GET /api/quantities/:id/impact': ['admin', 'analyst', 'reviewer'],
   'GET /api/impact-jobs/:id': ['admin', 'analyst', 'reviewer'],
+  'POST /api/impact-jobs/:id/cancel': ['admin', 'analyst'],
+  'GET /api/quantities/:id/impact-jobs/active': ['admin', 'analyst', 'reviewer'],
   'PUT /api/quantities/:id/impact/not-run': ['admin', 'analyst'],
   'GET /api/studies/:id/record': ['admin', 'analyst', 'reviewer'],
   'GET /api/studies/:id/record.json': ['admin', 'analyst', 'reviewer'],

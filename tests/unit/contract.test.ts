@@ -46,7 +46,7 @@ import type { recordSubmitSchema } from '@shared/schemas/records'
 import type { listOutbox } from '../../server/mail/outbox'
 import type { createDataset, getDataset, listDatasets } from '../../server/services/datasets'
 import type { latestImpact, recordImpactNotRun } from '../../server/services/impact'
-import type { toImpactJob } from '../../server/services/impact-jobs'
+import type { activeImpactJobs, toImpactJob } from '../../server/services/impact-jobs'
 import type { describeInvitation } from '../../server/services/invitations'
 import type { getLink, linkAnswerHistory, listLinkAnswers, reorderLinks, saveLinkAnswer } from '../../server/services/links'
 import type { feedbackFor, listCalibrationAnswers, listJudgements, saveCalibrationAnswer } from '../../server/services/judgements'
@@ -135,6 +135,8 @@ describe('the wire contract (checked by the type-check)', () => {
     expectTypeOf<Fetched<typeof pilotApi.upload>>().toEqualTypeOf<Served<typeof createDataset>>()
     expectTypeOf<Fetched<typeof impactApi.run>>().toEqualTypeOf<Served<typeof toImpactJob>>()
     expectTypeOf<Fetched<typeof impactApi.job>>().toEqualTypeOf<Served<typeof toImpactJob>>()
+    expectTypeOf<Fetched<typeof impactApi.cancel>>().toEqualTypeOf<Served<typeof toImpactJob>>()
+    expectTypeOf<Fetched<typeof impactApi.active>>().toEqualTypeOf<Served<typeof activeImpactJobs>>()
     expectTypeOf<Fetched<typeof impactApi.latest>>().toEqualTypeOf<Served<typeof latestImpact>>()
     expectTypeOf<Fetched<typeof impactApi.notRun>>().toEqualTypeOf<Served<typeof recordImpactNotRun>>()
     expectTypeOf<Fetched<typeof recordApi.get>>().toEqualTypeOf<Served<typeof getRecord>>()
