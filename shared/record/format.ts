@@ -1,3 +1,4 @@
+import { REPAIR_EIGENVALUE_FLOOR } from '../elicitation/linked-sets'
 import { formatNumber, formatPercent, formatPercentPoints, formatProbability } from '../format/numbers'
 
 /**
@@ -223,7 +224,7 @@ export function linkScatterCaption(first: { name: string; symbol: string }, seco
   return `${draws.n} joint draws (seed ${draws.seed}) from the linked set’s joint prior: ${first.name} (${first.symbol}) across, ${second.name} (${second.symbol}) up. The frame holds the middle 99 % of the draws on each axis.`
 }
 
-/** A correlation matrix's repair in words (nearest correlation matrix, Higham 2002). */
+/** A correlation matrix's repair in words (nearest correlation matrix, Higham 2002, with Priorsmith's eigenvalue floor). */
 export function correlationRepairText(minEigenvalue: number, maxChange: number): string {
-  return `The correlations as decided cannot all hold together (the matrix's smallest eigenvalue is ${formatNumber(minEigenvalue, 3)}, below 0). The joint prior uses the nearest correlation matrix (Higham 2002), whose entries moved by up to ${formatNumber(maxChange, 3)}.`
+  return `The correlations as decided cannot all hold together (the matrix's smallest eigenvalue is ${formatNumber(minEigenvalue, 3)}, below 0). The joint prior uses the nearest correlation matrix (Higham 2002) with its eigenvalues raised to at least ${formatNumber(REPAIR_EIGENVALUE_FLOOR)} so that a multivariate normal accepts it; its entries moved by up to ${formatNumber(maxChange, 3)}.`
 }

@@ -7,9 +7,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { RecordLinkedSet } from '../../shared/api/records'
 import { formatNumber } from '../../shared/format'
 import { RECORD_JOINT_DRAWS } from '../../shared/record/joint-draws'
-import { nearestCorrelation, type Distribution } from '../../shared/stats/index'
-import { Client, normalQuantileAnswer, openQuantileRound, signedIn, startApi, type ApiHarness } from '../support/api'
-import { insertLink } from '../support/links'
+import type { Distribution } from '../../shared/stats/index'
+import { symmetricEigen } from '../../shared/stats/matrix'
+import { Client, normalQuantileAnswer, signedIn, startApi, type ApiHarness } from '../support/api'
 
 // Linked quantities in the prior record: each linked set's confirmed correlations, its matrix and repair, the seeded draws
 // of its scatter, the model code; the JSON export against docs/prior-record.schema.json; the .docx with a scatter per link.
@@ -35,19 +35,33 @@ const QUANTITIES: [string, string, number, number][] = [
 const content = async () => (await analyst.get(`/api/studies/${studyId}/record`).expect(200)).body.content
 const setOf = (c: { linkedSets: RecordLinkedSet[] }, name: string) => c.linkedSets.find((s) => s.name === name)!
 
+const addLink = async (first: string, second: string): Promise<number> =>
+  (await analyst.post(`/api/rounds/${roundId}/links`, { firstQuantityId: q[first], secondQuantityId: q[second] }).expect(201)).body.id
+
 beforeAll(async () => {
   h = startApi()
   analyst = await signedIn(h, 'analyst@kestrel.example')
   const experts = [await signedIn(h, 'expert1@kestrel.example'), await signedIn(h, 'expert2@kestrel.example')]
   studyId = (await analyst.post('/api/studies', { title: 'jrecord: links in the record', context: 'Kestrel Valley bursts, repairs and losses.' }).expect(201)).body.id
-  const directory = (await analyst.get('/api/users/directory').expect(200)).body as { id: number; email: string }[]
-  const expertIds = ['expert1@kestrel.example', 'expert2@kestrel.example'].map((e) => directory.find((u) => u.email === e)!.id)
   for (const [symbol, name] of QUANTITIES) {
     q[symbol] = (await analyst.post(`/api/studies/${studyId}/quantities`, { name, symbol, question: `In the Kestrel Valley network, ${name.toLowerCase()}?`, support: { kind: 'real' } }).expect(201)).body.id
   }
-  roundId = await openQuantileRound(analyst, studyId, Object.values(q), ['expert1@kestrel.example', 'expert2@kestrel.example'])
+  roundId = (await analyst.post(`/api/studies/${studyId}/rounds`, {
+    title: 'jrecord: round 1', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * 864e5).toISOString(),
+    items: Object.values(q).map((quantityId) => ({ quantityId, method: 'quantile' })),
+  }).expect(201)).body.id
+  // Constructed answers: bursts–repair 80 % and 60 % (pooled 1/φ, to be confirmed); the three district losses linked pairwise
+  // (the analyst will set correlations that cannot hold together); pipe age–flow answered but left undecided.
+  const answers: [string, string, string, number, number][] = [
+    ['burstsRepair', 'bursts', 'repair', 0.8, 0.6], ['ab', 'lossA', 'lossB', 0.85, 0.85], ['bc', 'lossB', 'lossC', 0.85, 0.85],
+    ['ac', 'lossA', 'lossC', 0.3, 0.3], ['ageFlow', 'age', 'flow', 0.35, 0.4],
+  ]
+  for (const [name, first, second] of answers) link[name] = await addLink(first, second)
+  for (const email of ['expert1@kestrel.example', 'expert2@kestrel.example']) await analyst.post(`/api/rounds/${roundId}/invitations`, { email, name: 'Panel member' }).expect(201)
+  await analyst.post(`/api/rounds/${roundId}/open`).expect(200)
   for (const [k, c] of experts.entries()) {
     for (const [symbol, , mu, sigma] of QUANTITIES) await c.put(`/api/rounds/${roundId}/judgements/${q[symbol]}`, { ...normalQuantileAnswer(mu + k, sigma), version: 0 }).expect(200)
+    for (const [name, , , ...p] of answers) await c.put(`/api/rounds/${roundId}/link-answers/${link[name]}`, { probability: p[k], rationale: 'Both follow the winter pressure pattern.', version: 0 }).expect(200)
     await c.post(`/api/rounds/${roundId}/submit`).expect(200)
   }
   for (const symbol of Object.keys(q)) {
@@ -55,13 +69,6 @@ beforeAll(async () => {
       roundId, method: 'linear', weights: 'equal', family: 'normal', reconciled: true, version: 0, rationale: 'The normal follows the pooled answers closely.',
     }).expect(200)).body.saved.distribution
   }
-  // Constructed answers: bursts–repair 80 % and 60 % (pooled 1/φ, confirmed); three district losses set by the analyst to
-  // correlations that cannot hold together; pipe age–flow answered but not decided.
-  link.burstsRepair = await insertLink(h.db, roundId, q.bursts, q.repair, [{ expertId: expertIds[0], probability: 0.8 }, { expertId: expertIds[1], probability: 0.6 }])
-  link.ab = await insertLink(h.db, roundId, q.lossA, q.lossB, [{ expertId: expertIds[0], probability: 0.85 }])
-  link.bc = await insertLink(h.db, roundId, q.lossB, q.lossC, [{ expertId: expertIds[0], probability: 0.85 }])
-  link.ac = await insertLink(h.db, roundId, q.lossA, q.lossC, [])
-  link.ageFlow = await insertLink(h.db, roundId, q.age, q.flow, [{ expertId: expertIds[1], probability: 0.35 }])
   await analyst.put(`/api/links/${link.burstsRepair}/reconciliation`, { decision: 'confirm', version: 0 }).expect(200)
   for (const [id, correlation] of [[link.ab, 0.9], [link.bc, 0.9], [link.ac, -0.9]])
     await analyst.put(`/api/links/${id}/reconciliation`, { decision: 'override', correlation, reason: 'The districts share one trunk main; set from the 2025 flow logs.', version: 0 }).expect(200)
@@ -100,11 +107,22 @@ describe('linked quantities in the prior record', () => {
     expect(set.matrix).toEqual(decided)
     expect(set.links.map((l) => [l.first.symbol, l.second.symbol, l.source, l.correlation])).toEqual([['lossA', 'lossB', 'overridden', 0.9], ['lossB', 'lossC', 'overridden', 0.9], ['lossA', 'lossC', 'overridden', -0.9]])
     expect(set.links[2].reason).toBe('The districts share one trunk main; set from the 2025 flow logs.')
-    const nearest = nearestCorrelation(decided)
+    // The same set as the reconcile screen shows it.
+    const atReconciliation = (await analyst.get(`/api/studies/${studyId}/linked-quantities`).expect(200)).body.sets
+      .find((x: { linkIds: number[] }) => x.linkIds.includes(link.ab))
+    expect(set.repair).toEqual(atReconciliation.repair)
+    expect(set.minEigenvalue).toBe(atReconciliation.minEigenvalue)
     expect(set.positiveSemiDefinite).toBe(false)
-    expect(set.minEigenvalue).toBeLessThan(0)
-    expect(set.repair).toEqual({ matrix: nearest.matrix, changes: nearest.changes, maxChange: nearest.maxChange, iterations: nearest.iterations })
-    expect(set.jointMatrix).toEqual(nearest.matrix)
+    // The decided matrix has eigenvalues 1.9, 1.9 and −0.8; by symmetry its nearest correlation matrix has ±0.5 off the
+    // diagonal, eigenvalues 1.5, 1.5 and 0 (constructed by hand); the floor lifts the 0 to 1e-6, moving entries by 5e-7.
+    const repaired = set.repair!.matrix
+    expect(set.minEigenvalue).toBeCloseTo(-0.8, 12)
+    expect(repaired.map((row) => row.map((x) => Math.round(x * 1e4) / 1e4))).toEqual([[1, 0.5, -0.5], [0.5, 1, 0.5], [-0.5, 0.5, 1]])
+    expect(Math.min(...symmetricEigen(repaired).values)).toBeCloseTo(1e-6, 9)
+    expect(set.repair!.changes).toEqual(repaired.map((row, i) => row.map((x, j) => x - decided[i][j])))
+    expect(set.repair!.maxChange).toBe(Math.max(...set.repair!.changes.flat().map(Math.abs)))
+    expect(set.jointMatrix).toEqual(repaired)
+    const nearest = set.repair!
     expect(c.cautions).toContainEqual({
       rule: 'correlations-repaired', quantity: 'jrecord: District A losses (ML/d), jrecord: District B losses (ML/d), jrecord: District C losses (ML/d)',
       text: `Linked quantities jrecord: District A losses (ML/d), jrecord: District B losses (ML/d), jrecord: District C losses (ML/d): the correlations as decided cannot all hold together; the joint prior uses the nearest correlation matrix, whose entries moved by up to ${formatNumber(nearest.maxChange, 3)}.`,
@@ -118,7 +136,9 @@ describe('linked quantities in the prior record', () => {
       inPrior: false, draws: null, modelCode: [],
       notInPriorReason: 'Not part of the prior: the analyst has not confirmed or set the correlation of jrecord: Mean pipe age (years) and jrecord: Night-flow reduction (L/s).',
     })
-    expect(set.links[0]).toMatchObject({ source: 'pooled', correlation: expect.closeTo(Math.sin(Math.PI * (0.35 - 0.5)), 12) })
+    // Equal weights pool sin(−0.15π) and sin(−0.1π) on Fisher's z scale (constructed).
+    const pooled = Math.tanh((Math.atanh(Math.sin(-0.15 * Math.PI)) + Math.atanh(Math.sin(-0.1 * Math.PI))) / 2)
+    expect(set.links[0]).toMatchObject({ source: 'pooled', correlation: expect.closeTo(pooled, 12) })
     expect(c.cautions.filter((x: { rule: string }) => x.rule === 'linked-set-not-in-prior').map((x: { text: string }) => x.text)).toEqual([
       'Linked quantities jrecord: Mean pipe age (years), jrecord: Night-flow reduction (L/s): not part of the prior: the analyst has not confirmed or set the correlation of jrecord: Mean pipe age (years) and jrecord: Night-flow reduction (L/s).',
     ])
