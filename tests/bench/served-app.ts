@@ -44,7 +44,10 @@ export async function serveBenchApp(opts: { database: string; port: number; env:
     const { token: t1 } = await r1.json()
     if (!email) return { cookie, token: t1 }
     const r2 = await fetch(`${base}/api/auth/sign-in`, { method: 'POST', headers: { cookie, 'x-csrf-token': t1, 'content-type': 'application/json' }, body: JSON.stringify({ email, password }) })
-    if (r2.status !== 200) throw new Error(`sign-in ${email}: ${r2.status} ${await r2.text()}`)
+    // The whole answer is read before going on: express-session sends its last byte only once the signed-in session is
+    // stored, and a token asked for before then is lost when that store lands after it (every write then answers 403).
+    const signedIn = await r2.text()
+    if (r2.status !== 200) throw new Error(`sign-in ${email}: ${r2.status} ${signedIn}`)
     cookie = (r2.headers.get('set-cookie') ?? '').split(';')[0]
     const { token } = await (await fetch(`${base}/api/auth/csrf`, { headers: { cookie } })).json()
     return { cookie, token }
