@@ -19,7 +19,9 @@ import { healthRouter } from './routes/health'
 import { impactRouter } from './routes/impact'
 import { createAnalysisQueue } from './compute/analysis-queue'
 import { invitationsRouter } from './routes/invitations'
+import { linksRouter } from './routes/links'
 import { judgementsRouter } from './routes/judgements'
+import { linkReconciliationRouter } from './routes/link-reconciliation'
 import { outboxRouter } from './routes/outbox'
 import { quantitiesRouter } from './routes/quantities'
 import { reconciliationRouter } from './routes/reconciliation'
@@ -108,8 +110,10 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   app.use('/api', quantitiesRouter(db))
   app.use('/api', calibrationRouter(db))
   app.use('/api', compositionsRouter(db))
+  app.use('/api', linkReconciliationRouter(db))
   app.use('/api', roundsRouter(ctx))
   app.use('/api', judgementsRouter(db))
+  app.use('/api', linksRouter(db))
   app.use('/api', reconciliationRouter(db))
   app.use('/api', datasetsRouter(db))
   const analysisQueue = createAnalysisQueue({ databaseUrl: opts.databaseUrl, db, timeLimitSeconds: opts.analysisTimeLimitSeconds ?? 600, onQueued: opts.onAnalysisQueued })

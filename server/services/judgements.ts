@@ -13,6 +13,8 @@ import { calibrationAnsweredEarlier } from './invitations'
 import { studyExpertLabels } from './expert-labels'
 import { supportFromRow } from './quantities'
 import { assertExpertOpens, roundRow } from './rounds'
+import { refuseUnlessAnswering } from './round-status'
+import { reopenLinkAnswers, submitLinkAnswers, unansweredLinks } from './links'
 
 interface JudgementRow {
   id: number
@@ -95,12 +97,6 @@ function answeringItem(row: AnsweringRow) {
   if (!row.method) throw new HttpError(404, 'This quantity is not part of the round')
   const item: AnswerItem = { method: row.method, edges: row.edges ?? undefined, chips: row.chips ?? undefined, askTails: row.ask_tails }
   return { studyId: row.study_id, item, support: supportFromRow(row) }
-}
-
-/** The refusals of every answering call, in their order: a closed round first, then a user not on its panel. */
-function refuseUnlessAnswering(round: { status: string; closes_at: Date }, onPanel: boolean): void {
-  if (round.status !== 'open' || round.closes_at.getTime() <= Date.now()) throw new HttpError(409, 'This round is closed; answers can no longer change')
-  if (!onPanel) throw new HttpError(403, 'You are not on the panel of this round')
 }
 
 async function assertAnswering(db: Db, user: User, roundId: number) {
@@ -202,6 +198,7 @@ export async function submitRound(db: Db, user: User, roundId: number) {
       if (!answered.has(q.id)) fields[`calibration.${q.id}`] = `Calibration question ${i + 1}: give your 5 %, 50 % and 95 % values`
     })
   }
+  Object.assign(fields, await unansweredLinks(db, user, roundId))
   if (Object.keys(fields).length) throw new HttpError(400, 'Some answers are not complete yet', fields)
   await db.transaction(async (trx) => {
     // Two submits at once: the second waits here and finds the round already submitted.
@@ -213,8 +210,9 @@ export async function submitRound(db: Db, user: User, roundId: number) {
         judgement_id: j.id, version: j.version + 1, answer: JSON.stringify(j.answer), rationale: j.rationale, fits: JSON.stringify(j.fits), chosen_family: j.chosen_family, status: 'submitted', saved_by: user.id,
       })
     }
+    const linkAnswers = await submitLinkAnswers(trx, user, roundId)
     await trx('round_panel').where({ id: member.id }).update({ submitted_at: trx.fn.now() })
-    await recordAudit(trx, { actorId: user.id, studyId: round.study_id, action: 'round.submit', subject: `round:${roundId}`, details: { judgements: judgements.length } })
+    await recordAudit(trx, { actorId: user.id, studyId: round.study_id, action: 'round.submit', subject: `round:${roundId}`, details: { judgements: judgements.length, ...(linkAnswers ? { linkAnswers } : {}) } })
   })
 }
 
@@ -227,6 +225,7 @@ export async function reopenSubmission(db: Db, analyst: User, roundId: number, e
   if (!member.submitted_at) throw new HttpError(409, 'This expert has not submitted')
   await db.transaction(async (trx) => {
     await trx('judgements').where({ round_id: roundId, expert_id: expertId }).update({ status: 'draft', submitted_at: null, version: trx.raw('version + 1'), updated_at: trx.fn.now() })
+    await reopenLinkAnswers(trx, roundId, expertId)
     await trx('round_panel').where({ id: member.id }).update({ submitted_at: null })
     await recordAudit(trx, { actorId: analyst.id, studyId: round.study_id, action: 'round.reopen', subject: `round:${roundId}`, details: { expertId, reason } })
   })

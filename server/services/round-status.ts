@@ -1,4 +1,5 @@
 import type { Knex } from 'knex'
+import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
 
 /**
@@ -22,4 +23,10 @@ export async function followQuantities(trx: Knex.Transaction, actorId: number | 
     await trx('rounds').where({ id: r.id }).update({ status: to, version: trx.raw('version + 1'), updated_at: trx.fn.now() })
     await recordAudit(trx, { actorId, studyId: r.study_id, action: 'round.status', subject: `round:${r.id}`, details: { roundId: r.id, from: r.status, to } })
   }
+}
+
+/** The refusals of every answering call, in their order: a closed round first, then a user not on its panel. */
+export function refuseUnlessAnswering(round: { status: string; closes_at: Date }, onPanel: boolean): void {
+  if (round.status !== 'open' || round.closes_at.getTime() <= Date.now()) throw new HttpError(409, 'This round is closed; answers can no longer change')
+  if (!onPanel) throw new HttpError(403, 'You are not on the panel of this round')
 }

@@ -9,6 +9,7 @@ import type { StudyAccess } from './access'
 import { recordAudit } from './audit'
 import { studyExpertLabels } from './expert-labels'
 import { followQuantities } from './round-status'
+import { dropLinksOutsideItems, linkProgress, listRoundLinks } from './links'
 import { supportFromRow } from './quantities'
 import { sendPanelInvitation, sendReminder } from './notify'
 
@@ -156,6 +157,7 @@ export async function getRound(db: Db, access: StudyAccess, id: number): Promise
         files: files.filter((f) => f.quantity_id === i.quantity_id).map((f) => ({ id: f.id, filename: f.filename, mimeType: f.mime_type, sizeBytes: f.size_bytes })),
       },
     })),
+    links: await listRoundLinks(db, id),
     panel,
   }
 }
@@ -244,6 +246,7 @@ export async function updateRound(db: Db, user: User, id: number, body: RoundUpd
     if (body.items) {
       await trx('round_items').where({ round_id: id }).delete()
       await trx('round_items').insert(itemRows(id, body.items))
+      await dropLinksOutsideItems(trx, user, r.study_id, id, body.items.map((i) => i.quantityId))
     }
     await recordAudit(trx, {
       actorId: user.id, studyId: r.study_id, action: extended ? 'round.extend' : 'round.update', subject: `round:${id}`,
@@ -354,6 +357,7 @@ export async function roundProgress(db: Db, roundId: number): Promise<RoundProgr
   const labels = await studyExpertLabels(db, studyId)
   return {
     quantities: items.map((i) => ({ id: i.quantity_id, name: i.name, symbol: i.symbol })),
+    links: await linkProgress(db, roundId),
     experts: panel.map((p) => ({
       panelId: p.id,
       label: labels.ofPanelMember({ userId: p.userId, email: p.email }),

@@ -1,5 +1,6 @@
 import type { ElicitationMethod } from '../schemas/rounds'
 import type { Distribution, Point } from '../stats/types'
+import type { LinkedQuantity, RoundLink } from './links'
 import type { EvidenceFile, Quantity } from './quantities'
 
 /** Response shapes of the round routes, returned by the server's mappers and read by the client. */
@@ -77,6 +78,8 @@ export interface Round {
   closedAt: string | null
   version: number
   items: RoundItem[]
+  /** Pairs of the round's quantities that may move together, each asked as a conditional question, in order. */
+  links: RoundLink[]
   /** Empty for experts. */
   panel: PanelMember[]
 }
@@ -112,9 +115,19 @@ export interface PanelInviteBody {
 /** Where one expert's answer for one quantity stands. */
 export type ProgressStatus = 'not started' | 'draft' | 'submitted'
 
-/** GET /api/rounds/:id/progress: who opened, who submitted, per quantity. */
+/** How many experts have given a chance for one link, and how many submitted it (counts only, never values). */
+export interface LinkProgress {
+  linkId: number
+  first: LinkedQuantity
+  second: LinkedQuantity
+  answered: number
+  submitted: number
+}
+
+/** GET /api/rounds/:id/progress: who opened, who submitted, per quantity and per link. */
 export interface RoundProgress {
   quantities: { id: number; name: string; symbol: string }[]
+  links: LinkProgress[]
   experts: {
     panelId: number
     /** The expert's anonymous label in this study, the same on every screen and export. */

@@ -16,7 +16,7 @@ const FIELDS = [
   'role', 'disabled', 'userId', 'studyRole', 'expertise', 'interests', 'interestsText', 'seenPilotData', 'q05', 'q50', 'q95', 'weights', 'cutoff',
   'family', 'distribution', 'datasetId', 'comparison', 'decision', 'showNames', 'comment', 'section', 'body', 'png', 'trueValue', 'reason', 'expertId', 'roundId',
   'wording', 'quantityIds', 'residual', 'residualLabel', 'csv', 'filename', 'delimiter', 'layout', 'categoryColumns', 'categoryColumn', 'categories',
-  '__proto__', 'constructor', 'prototype',
+  'firstQuantityId', 'secondQuantityId', 'linkIds', 'probability', '__proto__', 'constructor', 'prototype',
 ]
 
 const hostileScalar = fc.oneof(
@@ -40,7 +40,8 @@ const hostileBody = fc.oneof(
 
 const TABLES = ['users', 'studies', 'study_members', 'quantities', 'evidence_files', 'calibration_questions', 'rounds', 'round_items', 'round_panel',
   'invitations', 'declarations', 'judgements', 'judgement_versions', 'calibration_answers', 'reconciliations', 'pilot_datasets', 'impact_analyses', 'impact_jobs',
-  'impact_not_run', 'prior_records', 'record_comments', 'outbox_messages', 'audit_events', 'compositions', 'composition_shares', 'composition_datasets', 'composition_analyses']
+  'impact_not_run', 'prior_records', 'record_comments', 'outbox_messages', 'audit_events', 'compositions', 'composition_shares', 'composition_datasets', 'composition_analyses',
+  'round_links', 'link_answers', 'link_answer_versions']
 
 let f: MatrixFixture
 beforeAll(async () => {

@@ -77,7 +77,18 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/rounds/:id/calibration-answers': MEMBERS,
   'PUT /api/rounds/:id/calibration-answers/:questionId': ['expert'],
   'GET /api/rounds/:id/feedback': ['expert'],
+  'POST /api/rounds/:id/links': ['admin', 'analyst'],
+  'PUT /api/rounds/:id/links/order': ['admin', 'analyst'],
+  'GET /api/links/:id': ['admin', 'analyst', 'reviewer'],
+  'PATCH /api/links/:id': ['admin', 'analyst'],
+  'DELETE /api/links/:id': ['admin', 'analyst'],
+  'GET /api/rounds/:id/link-answers': MEMBERS,
+  'PUT /api/rounds/:id/link-answers/:linkId': ['expert'],
+  'GET /api/link-answers/:id/history': ['admin', 'analyst', 'reviewer', 'expert'],
   'GET /api/quantities/:id/reconciliation': ['admin', 'analyst', 'reviewer'],
+  'GET /api/studies/:id/linked-quantities': ['admin', 'analyst', 'reviewer'],
+  'PUT /api/links/:id/reconciliation': ['admin', 'analyst'],
+  'GET /api/quantities/:id/joint-draws': ['admin', 'analyst', 'reviewer'],
   'PUT /api/quantities/:id/reconciliation': ['admin', 'analyst'],
   'GET /api/studies/:id/datasets': ['admin', 'analyst', 'reviewer'],
   'POST /api/studies/:id/datasets/preview': ['admin', 'analyst'],
@@ -86,6 +97,8 @@ export const MATRIX: Record<string, Rule> = {
   'POST /api/quantities/:id/impact': ['admin', 'analyst'],
   'GET /api/quantities/:id/impact': ['admin', 'analyst', 'reviewer'],
   'GET /api/impact-jobs/:id': ['admin', 'analyst', 'reviewer'],
+  'POST /api/impact-jobs/:id/cancel': ['admin', 'analyst'],
+  'GET /api/quantities/:id/impact-jobs/active': ['admin', 'analyst', 'reviewer'],
   'PUT /api/quantities/:id/impact/not-run': ['admin', 'analyst'],
   'GET /api/studies/:id/record': ['admin', 'analyst', 'reviewer'],
   'GET /api/studies/:id/record.json': ['admin', 'analyst', 'reviewer'],
@@ -129,7 +142,17 @@ export async function matrixFixture(): Promise<MatrixFixture> {
   }).expect(201)).body
   const withPanel = (await analyst.post(`/api/rounds/${round.id}/invitations`, { email: 'expert1@kestrel.example', name: 'Tomasz' }).expect(201)).body
   await analyst.post(`/api/rounds/${round.id}/open`).expect(200)
+  // A second round holds a link (links are made while a round is a draft) and the expert's answer to it.
+  const second = (await analyst.post(`/api/studies/${study.id}/quantities`, { name: 'Repair time', symbol: 'repair', unit: 'h', question: 'Median hours to repair a mains burst in 2026?', support: { kind: 'positive' } }).expect(201)).body
+  const linkRound = (await analyst.post(`/api/studies/${study.id}/rounds`, {
+    title: 'Matrix link round', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * 86400e3).toISOString(),
+    items: [{ quantityId: quantity.id, method: 'quantile' }, { quantityId: second.id, method: 'quantile' }],
+  }).expect(201)).body
+  const link = (await analyst.post(`/api/rounds/${linkRound.id}/links`, { firstQuantityId: quantity.id, secondQuantityId: second.id }).expect(201)).body
+  await analyst.post(`/api/rounds/${linkRound.id}/invitations`, { email: 'expert1@kestrel.example', name: 'Tomasz' }).expect(201)
+  await analyst.post(`/api/rounds/${linkRound.id}/open`).expect(200)
   const expert = await signedIn(h, 'expert1@kestrel.example')
+  const linkAnswer = (await expert.put(`/api/rounds/${linkRound.id}/link-answers/${link.id}`, { probability: 0.7, rationale: '', version: 0 }).expect(200)).body
   const saved = (await expert.put(`/api/rounds/${round.id}/judgements/${quantity.id}`, { method: 'quantile', lower: 0, upper: 10, points: [], version: 0 }).expect(200)).body
   const dataset = (await analyst.agent.post(`/api/studies/${study.id}/datasets`).set('x-csrf-token', analyst.token)
     .field('quantityId', String(quantity.id)).field('name', 'Pilot').field('model', 'normal-known-sigma').field('valueColumn', 'v').field('sigma', '2')
@@ -139,6 +162,7 @@ export async function matrixFixture(): Promise<MatrixFixture> {
   Object.assign(params, {
     'studies/:id': String(study.id), 'quantities/:id': String(quantity.id), 'files/:id': String(file.id), 'rounds/:id': String(round.id),
     'calibration-questions/:id': String(calib.id), 'datasets/:id': String(dataset.id), 'compositions/:id': String(composition.id), 'judgements/:id': String(saved.judgement.id),
+    'links/:id': String(link.id), 'link-answers/:id': String(linkAnswer.id), ':linkId': String(link.id),
     ':quantityId': String(quantity.id), ':questionId': String(calib.id), ':panelId': String(withPanel.panel[0].id),
     ':userId': String(idOf('expert3@kestrel.example')), 'users/:id': String(idOf('expert2@kestrel.example')), 'mailbox/:id': '1', ':token': 'x'.repeat(43), 'impact-jobs/:id': String(job!.id),
   })

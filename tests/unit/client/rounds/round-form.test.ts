@@ -23,6 +23,7 @@ const draft: Round = {
     { quantityId: 11, method: 'quantile', askTails: false, quantity: { ...quantities[0], files: [] } },
     { quantityId: 12, method: 'fixed-interval', edges: [0, 0.5, 1], askTails: false, quantity: { ...quantities[1], files: [] } },
   ],
+  links: [],
   panel: [],
 }
 
