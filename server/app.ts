@@ -21,6 +21,7 @@ import { createAnalysisQueue } from './compute/analysis-queue'
 import { invitationsRouter } from './routes/invitations'
 import { linksRouter } from './routes/links'
 import { judgementsRouter } from './routes/judgements'
+import { linkReconciliationRouter } from './routes/link-reconciliation'
 import { outboxRouter } from './routes/outbox'
 import { quantitiesRouter } from './routes/quantities'
 import { reconciliationRouter } from './routes/reconciliation'
@@ -109,6 +110,7 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   app.use('/api', quantitiesRouter(db))
   app.use('/api', calibrationRouter(db))
   app.use('/api', compositionsRouter(db))
+  app.use('/api', linkReconciliationRouter(db))
   app.use('/api', roundsRouter(ctx))
   app.use('/api', judgementsRouter(db))
   app.use('/api', linksRouter(db))

@@ -32,6 +32,7 @@ declare module 'vue' {
     CompositionImpactSection: typeof import('./components/impact/CompositionImpactSection.vue')['default']
     CompositionModelCode: typeof import('./components/composition/CompositionModelCode.vue')['default']
     CompositionPriorPanel: typeof import('./components/composition/CompositionPriorPanel.vue')['default']
+    CompositionRecord: typeof import('./components/record/CompositionRecord.vue')['default']
     CompositionSection: typeof import('./components/reconcile/CompositionSection.vue')['default']
     CompositionsSection: typeof import('./components/study/CompositionsSection.vue')['default']
     CompositionSum: typeof import('./components/answer/CompositionSum.vue')['default']

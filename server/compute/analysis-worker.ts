@@ -3,9 +3,9 @@ import PgBoss from 'pg-boss'
 import { EngineInputError } from '../../shared/stats/index'
 import type { Db } from '../db/knex'
 import { createQueueOnce, PGBOSS_SCHEMA } from '../queue/boss'
-import { claimImpactJob, completeImpactJob, failImpactJob, saveImpactProgress } from '../services/impact-jobs'
+import { claimImpactJob, completeImpactJob, failImpactJob, syncImpactProgress } from '../services/impact-jobs'
 import { IMPACT_QUEUE, queueSettings, type ImpactQueueJob } from './analysis-queue'
-import { ComputeThread, ComputeTimeout } from './threads'
+import { ComputeCancelled, ComputeThread, ComputeTimeout } from './threads'
 
 export interface AnalysisWorkerOptions {
   databaseUrl: string
@@ -31,14 +31,18 @@ export interface AnalysisWorker {
   notify(): void
 }
 
-/** Progress is written at most this often per job: the client polls about twice a second. */
+/**
+ * Progress is written (and the job's state read back, to notice a cancel) at most this often per job, and at least this
+ * often while a step takes longer: the client polls about twice a second.
+ */
 const PROGRESS_EVERY_MS = 250
 
 /**
  * Works the impact-analysis queue: takes a job, computes it on a compute thread with its progress written to the job
  * row, and stores the analysis with its audit event. Any number of these may run, in web processes and in worker
  * processes on other machines (`npm run worker`), against one database; each analysis is stored once
- * (completeImpactJob), whichever worker finishes it first.
+ * (completeImpactJob), whichever worker finishes it first. A job cancelled meanwhile stops at its next step and stores
+ * nothing.
  */
 export function createAnalysisWorker(opts: AnalysisWorkerOptions): AnalysisWorker {
   const { db } = opts
@@ -52,20 +56,36 @@ export function createAnalysisWorker(opts: AnalysisWorkerOptions): AnalysisWorke
 
   async function handle(jobId: string, thread: ComputeThread): Promise<void> {
     const job = await claimImpactJob(db, jobId, name)
-    if (!job?.task) return // done or failed already (a job handed out again after its first worker finished it)
-    let written = 0
-    let writing: Promise<void> | null = null
-    const onProgress = (done: number) => {
-      if (writing || Date.now() - written < PROGRESS_EVERY_MS) return
-      written = Date.now()
-      writing = saveImpactProgress(db, job.id, done)
+    if (!job?.task) return // done, failed or cancelled already (a job handed out again after its first worker finished it)
+    const cancelled = new AbortController()
+    let reported = 0
+    let synced = 0
+    let syncing: Promise<void> | null = null
+    // Writes the steps reported so far and reads back whether the job still runs; a cancel aborts the computation.
+    const sync = () => {
+      if (syncing || cancelled.signal.aborted) return
+      synced = Date.now()
+      syncing = syncImpactProgress(db, job.id, reported)
+        .then((running) => {
+          if (!running) cancelled.abort()
+        })
         .catch((err) => log(`progress of ${job.id}: ${(err as Error).message}`))
-        .finally(() => { writing = null })
+        .finally(() => { syncing = null })
     }
+    const onProgress = (done: number) => {
+      reported = done
+      if (Date.now() - synced >= PROGRESS_EVERY_MS) sync()
+    }
+    // Also between reports: a cancel is noticed while a long step computes, and stops the analysis after that step.
+    const watch = setInterval(() => {
+      if (Date.now() - synced >= PROGRESS_EVERY_MS) sync()
+    }, PROGRESS_EVERY_MS)
     let computed
     try {
-      computed = await thread.run(job.task.compute, onProgress, timeLimitMs)
+      computed = await thread.run(job.task.compute, onProgress, timeLimitMs, cancelled.signal)
     } catch (err) {
+      // Cancelled: the job row says so already; nothing to store.
+      if (err instanceof ComputeCancelled) return
       // Stopping: the queue hands the job to another worker (pg-boss fails work in hand when it stops).
       if (stopping) throw err
       if (err instanceof EngineInputError) {
@@ -77,9 +97,14 @@ export function createAnalysisWorker(opts: AnalysisWorkerOptions): AnalysisWorke
         await failImpactJob(db, job.id, { status: 500, message: 'The analysis failed on the server. Try again; if it fails again, tell the study’s administrator.', fields: {} })
       }
       return
+    } finally {
+      clearInterval(watch)
+      await syncing
     }
-    await writing
-    // A failure to store (the database away) fails the queue job, which pg-boss hands out again.
+    // Every computed step shows while the result is stored; the stored job shows the last step (storing) done too.
+    // A job cancelled meanwhile is not stored. A failure to store (the database away) fails the queue job, which pg-boss
+    // hands out again.
+    if (!(await syncImpactProgress(db, job.id, reported))) return
     await completeImpactJob(db, job, computed)
   }
 

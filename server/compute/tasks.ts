@@ -1,6 +1,6 @@
 import type { ImpactComputation } from '../../shared/api/impact'
-import { evaluateCandidates, findings, sweepOf, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
-import { tippingPoint } from '../../shared/elicitation/tipping'
+import { candidateSteps, evaluateCandidates, findings, sweepOf, sweepSteps, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
+import { tippingPoint, type TippingPoint } from '../../shared/elicitation/tipping'
 import type { Distribution, PilotData, Support } from '../../shared/stats/index'
 
 export interface ImpactTask {
@@ -15,14 +15,23 @@ export interface ImpactTask {
   n: number
 }
 
-/** Steps of an analysis, for its progress: each candidate prior, each width of the sweep, the tipping point. */
+/** The last step of every analysis: storing its result with its audit event (the worker reports it, not the computation). */
+export const STORE_STEPS = 1
+
+/** Steps the computation reports (computeImpact): the candidates with their diagnostics, the sweep with its curves, the tipping point. */
+export function computeSteps(t: ImpactTask): number {
+  return candidateSteps(t.candidates) + (t.reconciled ? sweepSteps(t.factors) : 0) + (t.reconciled && t.decision ? 1 : 0)
+}
+
+/** Steps of an analysis, for its progress bar: the computation's, then storing the result; done equals this only once stored. */
 export function impactSteps(t: ImpactTask): number {
-  return t.candidates.length + (t.reconciled ? t.factors.length : 0) + (t.reconciled && t.decision ? 1 : 0)
+  return computeSteps(t) + STORE_STEPS
 }
 
 /**
- * The heavy part of an impact analysis: every candidate's evidence and posterior, the width sweep, the tipping point.
- * `onProgress` hears the steps finished after each one (impactSteps in all).
+ * The heavy part of an impact analysis: every candidate's evidence, posterior and diagnostics, the width sweep with its
+ * curves, the tipping point. `onProgress` hears the steps finished after each one (computeSteps in all); it may throw
+ * to stop the computation at that step.
  */
 export function computeImpact(t: ImpactTask, onProgress: (done: number) => void = () => {}): ImpactComputation {
   const started = Date.now()
@@ -31,7 +40,10 @@ export function computeImpact(t: ImpactTask, onProgress: (done: number) => void 
   const candidates = evaluateCandidates(t.candidates, t.data, t.decision, t.trainingFraction ?? null, step)
   const sweep = t.reconciled ? sweepOf(t.reconciled, t.data, t.support, t.factors, t.trainingFraction ?? null, step) : null
   if (sweep?.priorDriven) candidates.find((c) => c.kind === 'reconciled')?.flags.push('prior-driven-bayes-factor')
-  const tipping = t.reconciled && t.decision ? tippingPoint(t.reconciled, t.data, t.decision, t.support) : null
-  if (tipping) step()
+  let tipping: TippingPoint | null = null
+  if (t.reconciled && t.decision) {
+    tipping = tippingPoint(t.reconciled, t.data, t.decision, t.support)
+    step()
+  }
   return { candidates, sweep, tipping, findings: findings(candidates, sweep, t.n), computeMs: Date.now() - started }
 }

@@ -14,15 +14,22 @@ try {
   // not permitted here
 }
 
+/** Thrown from a step's report when the worker asked to stop: unwinds the computation at that step. */
+class Stopped extends Error {}
+
 const port = parentPort!
-port.on('message', ({ id, task }: ThreadRequest) => {
+port.on('message', ({ id, task, stop }: ThreadRequest) => {
   const reply = (m: ThreadReply) => port.postMessage(m)
+  const stopFlag = new Int32Array(stop)
   try {
-    const result = computeImpact(task as ImpactTask, (done) => reply({ id, progress: done }))
+    const result = computeImpact(task as ImpactTask, (done) => {
+      if (Atomics.load(stopFlag, 0) === 1) throw new Stopped()
+      reply({ id, progress: done })
+    })
     reply({ id, ok: true, result })
   } catch (err) {
     const e = err as Error
-    reply({ id, ok: false, error: { message: e.message, field: err instanceof EngineInputError ? err.field : undefined, engine: err instanceof EngineInputError } })
+    reply({ id, ok: false, error: { message: e.message, field: err instanceof EngineInputError ? err.field : undefined, engine: err instanceof EngineInputError, stopped: err instanceof Stopped } })
   }
 })
 port.postMessage({ ready: true } satisfies ThreadReply)

@@ -10,16 +10,25 @@ const ENTRY = path.join(path.dirname(fileURLToPath(import.meta.url)), 'thread-en
 export interface ThreadRequest {
   id: number
   task: ImpactTask
+  /** One Int32 the worker sets to 1 to stop the analysis; the thread reads it after each step. */
+  stop: SharedArrayBuffer
 }
 
 export type ThreadReply =
   | { ready: true }
   | { id: number; progress: number }
   | { id: number; ok: true; result: ImpactComputation }
-  | { id: number; ok: false; error: { message: string; field?: string; engine: boolean } }
+  | { id: number; ok: false; error: { message: string; field?: string; engine: boolean; stopped?: boolean } }
 
 /** An analysis that ran past its time limit; its thread was stopped. */
 export class ComputeTimeout extends Error {}
+
+/** An analysis stopped at a step because its signal was aborted (the job was cancelled); the thread stays for the next one. */
+export class ComputeCancelled extends Error {
+  constructor() {
+    super('The analysis was cancelled')
+  }
+}
 
 interface Running {
   id: number
@@ -51,6 +60,7 @@ export class ComputeThread {
         if ('progress' in m) return r.onProgress(m.progress)
         this.running = null
         if (m.ok) r.resolve(m.result)
+        else if (m.error.stopped) r.reject(new ComputeCancelled())
         else r.reject(m.error.engine ? new EngineInputError(m.error.field ?? 'input', m.error.message) : new Error(m.error.message))
       })
       const gone = (err: Error) => {
@@ -69,12 +79,19 @@ export class ComputeThread {
     return this.ready
   }
 
-  /** Runs one analysis; rejects with EngineInputError for inputs the engine refuses, ComputeTimeout past `timeoutMs`. */
-  async run(task: ImpactTask, onProgress: (done: number) => void, timeoutMs: number): Promise<ImpactComputation> {
+  /**
+   * Runs one analysis; rejects with EngineInputError for inputs the engine refuses, ComputeTimeout past `timeoutMs`,
+   * ComputeCancelled at the first step after `signal` aborts.
+   */
+  async run(task: ImpactTask, onProgress: (done: number) => void, timeoutMs: number, signal?: AbortSignal): Promise<ImpactComputation> {
     if (this.running) throw new Error('This compute thread is busy')
     await this.start()
     const worker = this.worker!
     const id = this.nextId++
+    const stop = new SharedArrayBuffer(4)
+    const raise = () => Atomics.store(new Int32Array(stop), 0, 1)
+    if (signal?.aborted) raise()
+    else signal?.addEventListener('abort', raise, { once: true })
     return new Promise<ImpactComputation>((resolve, reject) => {
       const timer = setTimeout(() => {
         if (this.running?.id !== id) return
@@ -84,10 +101,11 @@ export class ComputeThread {
       }, timeoutMs)
       const settle = <T>(f: (v: T) => void) => (v: T) => {
         clearTimeout(timer)
+        signal?.removeEventListener('abort', raise)
         f(v)
       }
       this.running = { id, resolve: settle(resolve), reject: settle(reject), onProgress }
-      worker.postMessage({ id, task } satisfies ThreadRequest)
+      worker.postMessage({ id, task, stop } satisfies ThreadRequest)
     })
   }
 

@@ -14,7 +14,9 @@ import * as m018 from '../../migrations/20261203_018_comparison_prior'
 import * as m022 from '../../migrations/20261203_022_compositions'
 import * as m022b from '../../migrations/20261203_022b_composition_pilot'
 import * as m022c from '../../migrations/20261203_022c_round_links'
+import * as m022d from '../../migrations/20261203_022d_link_reconciliations'
 import * as m024 from '../../migrations/20261203_024_impact_jobs'
+import * as m024b from '../../migrations/20261203_024b_impact_job_cancel'
 import * as m018b from '../../migrations/20261203_018b_expert_labels_numbered'
 
 type Migration = { up(knex: Knex): Promise<void>; down(knex: Knex): Promise<void> }
@@ -38,6 +40,8 @@ const migrations: Record<string, Migration> = {
   '20261203_024_impact_jobs': m024,
   '20261203_018b_expert_labels_numbered': m018b,
   '20261203_022c_round_links': m022c,
+  '20261203_022d_link_reconciliations': m022d,
+  '20261203_024b_impact_job_cancel': m024b,
 }
 
 export const migrationSource: Knex.MigrationSource<string> = {

@@ -4,9 +4,12 @@ import {
 } from 'docx'
 import { PILOT_MODEL_LABELS, type PilotModel } from '../../shared/elicitation/pilot'
 import { cautionText, type RecordCaution } from '../../shared/elicitation/record-cautions'
-import { describeDistribution as describe, formatDateTime, formatNumber, formatProbability } from '../../shared/format'
+import { describeDistribution as describe, formatDateTime, formatNumber, formatPercent, formatProbability } from '../../shared/format'
 import { labelWithName } from '../../shared/record/expert-labels'
-import { answerText, CANDIDATE_KIND_LABELS, flagLabel, LANGUAGE_LABELS, SUPPORT_LABELS, WEIGHTS_LABELS } from '../../shared/record/format'
+import {
+  answerText, CANDIDATE_KIND_LABELS, compositionBayesFactorText, compositionDirichletText, compositionSweepText, flagLabel, jointCheckText, JOINT_PRIORS_INTRO, LANGUAGE_LABELS,
+  SUPPORT_LABELS, WEIGHTS_LABELS,
+} from '../../shared/record/format'
 import { COMMENT_OUTCOME_LABELS, type CommentOutcome } from '../../shared/schemas/records'
 import { POOL_METHOD_LABELS } from '../../shared/schemas/reconciliation'
 import { METHOD_LABELS, type ElicitationMethod } from '../../shared/schemas/rounds'
@@ -95,6 +98,58 @@ function producedBySection(outline: Outline, produced: Json | undefined, n: numb
     p(`${produced.application} ${produced.version}`),
     p(`Statistical engine ${produced.engineVersion}`),
     p(produced.commit ? `Repository commit ${produced.commit}` : 'Repository commit not known (the application was not run from a git checkout).'),
+  ]
+}
+
+const percentOrDash = (x: number | null | undefined) => (x === null || x === undefined ? '—' : formatPercent(x))
+
+/** One composition of the joint-priors section: its shares, the Dirichlet and its model code, or why it is not part of the prior. */
+function compositionParagraphs(outline: Outline, c: Json, number: string): (Paragraph | Table)[] {
+  const out: (Paragraph | Table)[] = [
+    outline.heading(`${number} ${c.name} (shares of a whole, ${c.symbol})`, 2),
+    p(`What the shares are shares of: ${c.wording}`),
+  ]
+  if (!c.inPrior) out.push(p(c.notInPriorReason, { bold: true, color: '8A5A12' }))
+  else out.push(p(compositionDirichletText(c.dirichlet, c.residual ? c.shares.at(-1).name : null), { bold: true }))
+  out.push(table(['Share', 'Symbol', 'Reconciled prior', 'Its mean', 'Dirichlet α', 'Dirichlet mean', 'Largest gap'], (c.shares as Json[]).map((s) => [
+    s.name, s.symbol ?? '—', s.prior ? describe(s.prior) : s.symbol === null ? 'the rest (not asked)' : 'not reconciled', percentOrDash(s.elicitedMean),
+    s.alpha === null ? '—' : formatNumber(s.alpha), percentOrDash(s.dirichletMean), s.mismatch === null ? '—' : formatProbability(s.mismatch),
+  ]), 3))
+  if (!c.inPrior) return out
+  out.push(
+    p('“Largest gap” is the largest difference in probability between a share’s reconciled prior and the Dirichlet’s share at the reconciled 5, 25, 50, 75 and 95 % values; one Dirichlet has a single total concentration for all shares.', { size: 20 }),
+    ...(c.dirichlet.warnings as Json[]).map((w) => p(`Warning: ${w.message}`, { color: '8A5A12' })),
+    p('Model code (the shares’ order is in the comment; Priorsmith’s reader takes the concentrations back out of each line; the languages themselves were not run):', { size: 20 }),
+    table(['Language', 'Code', 'Read-back check'], (c.modelCode as Json[]).map((m) => [LANGUAGE_LABELS[m.language] ?? m.language, m.code, jointCheckText(m.check)]), 9),
+  )
+  const im = c.impact
+  if (!im) {
+    out.push(p('No impact analysis of this Dirichlet on pilot counts exists.'))
+    return out
+  }
+  out.push(
+    p(`Impact on the pilot counts ${im.dataset.name}, version ${im.dataset.version} (${im.dataset.summary.description}; ${formatNumber(im.observations)} observations in ${formatNumber(im.dataset.rows)} rows).`),
+    table(['Prior', 'Total concentration', 'log evidence'], [im.prior, im.comparison].map((x: Json) => [
+      x.label, formatNumber((x.alpha as number[]).reduce((a, b) => a + b, 0)), formatNumber(x.logEvidence, 6),
+    ]), 1),
+    p(compositionBayesFactorText(im)),
+    table(['Share', 'Prior mean', 'Posterior mean', '95 % interval'], (c.shares as Json[]).map((s, j) => [
+      s.name, percentOrDash(s.dirichletMean), formatPercent(im.prior.posterior[j].mean), `${formatPercent(im.prior.posterior[j].q025)} to ${formatPercent(im.prior.posterior[j].q975)}`,
+    ]), 1),
+    p(compositionSweepText(im.sweep), { size: 20 }),
+    ...(im.findings as string[]).map((f) => p(f)),
+  )
+  return out
+}
+
+/** The joint priors after the quantities: each composition in turn; nothing for records without them (before schema 1.2 or none). */
+function jointSection(outline: Outline, content: Json, n: number): (Paragraph | Table)[] {
+  const compositions = (content.compositions ?? []) as Json[]
+  if (!compositions.length) return []
+  return [
+    outline.heading(`${n}. Joint priors`, 1),
+    p(JOINT_PRIORS_INTRO),
+    ...compositions.flatMap((c, i) => compositionParagraphs(outline, c, `${n}.${i + 1}`)),
   ]
 }
 
@@ -200,7 +255,9 @@ export async function recordDocx(content: Json, meta: Json, charts: Map<string, 
       sections.push(p('No impact analysis: there is no final prior.'))
     }
   })
-  const last = (content.quantities as Json[]).length + 4
+  const joint = jointSection(outline, content, (content.quantities as Json[]).length + 4)
+  sections.push(...joint)
+  const last = (content.quantities as Json[]).length + 4 + (joint.length ? 1 : 0)
   const responses = new Map(comments.filter((c) => c.kind === 'response').map((c) => [c.replyTo, c]))
   sections.push(
     outline.heading(`${last}. Cautions`, 1),

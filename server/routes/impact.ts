@@ -8,7 +8,7 @@ import { idParam } from '../http/id-param'
 import { validateBody } from '../http/validate-body'
 import { allow, accessVia } from '../services/access'
 import { latestImpact, recordImpactNotRun, submitImpact, type ImpactInput } from '../services/impact'
-import { findImpactJob, toImpactJob } from '../services/impact-jobs'
+import { activeImpactJobs, cancelImpactJob, findImpactJob, toImpactJob } from '../services/impact-jobs'
 
 /** What each candidate prior does to the posterior and to the evidence on pilot data. */
 export function impactRouter(db: Db, queue: AnalysisQueue): Router {
@@ -34,6 +34,25 @@ export function impactRouter(db: Db, queue: AnalysisQueue): Router {
     const access = await accessVia(db, user, 'quantities', job.quantity_id, 'Analysis job')
     allow(access, 'analyst', 'reviewer')
     res.json(await toImpactJob(db, job))
+  })
+
+  // An analyst stops a queued or running job; it stores nothing. 409 once it has finished.
+  r.post('/impact-jobs/:id/cancel', async (req, res) => {
+    const user = currentUser(req)
+    const job = await findImpactJob(db, String(req.params.id))
+    if (!job) throw new HttpError(404, 'Analysis job not found')
+    const access = await accessVia(db, user, 'quantities', job.quantity_id, 'Analysis job')
+    allow(access, 'analyst')
+    res.json(await toImpactJob(db, await cancelImpactJob(db, access.user, job, access.studyId)))
+  })
+
+  // The quantity's analyses still queued or running, newest first: a page opened again follows them.
+  r.get('/quantities/:id/impact-jobs/active', async (req, res) => {
+    const user = currentUser(req)
+    const id = idParam(req.params.id, 'Quantity')
+    const access = await accessVia(db, user, 'quantities', id, 'Quantity')
+    allow(access, 'analyst', 'reviewer')
+    res.json(await activeImpactJobs(db, id))
   })
 
   r.get('/quantities/:id/impact', async (req, res) => {

@@ -9,10 +9,11 @@ import { BUILD_INFO } from '../build-info'
 import { studyExpertLabels } from './expert-labels'
 import { priorHash } from './impact'
 import { supportFromRow } from './quantities'
+import { recordCompositions } from './record-compositions'
 import { savedWeightCautions, weightedExpertIds } from './reconciliation'
 
 export const RECORD_SCHEMA_ID = 'https://priorsmith.example/schemas/prior-record-1.json'
-export const RECORD_SCHEMA_VERSION = '1.1'
+export const RECORD_SCHEMA_VERSION = '1.2'
 
 const iso = (d: Date | null | undefined) => (d ? new Date(d).toISOString() : null)
 
@@ -138,6 +139,8 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
       impactNotRunReason: notRunReason,
     }
   })
+  const finals = new Map<number, Distribution>(recs.filter((r) => r.status === 'reconciled').map((r) => [r.quantity_id, r.distribution]))
+  const compositions = await recordCompositions(db, studyId, finals, new Set(leftOut.keys()))
   const calibration = {
     questions: calibrationQuestions.map((c) => ({ question: c.question, unit: c.unit, trueValue: c.true_value })),
     method: 'Cooke’s classical model (Cooke 1991, ch. 12): calibration as the χ² p-value of the bin frequencies, information against a uniform background on the intrinsic range with 10 % overshoot',
@@ -152,7 +155,8 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
     panel,
     calibration,
     quantities: quantityRecords,
-    cautions: recordCautions({ panel, quantities: quantityRecords }),
+    compositions,
+    cautions: recordCautions({ panel, quantities: quantityRecords, compositions }),
     producedBy: BUILD_INFO,
   }
 }

@@ -1,4 +1,5 @@
 import type { AnswerInput } from '../elicitation/answers'
+import type { CompositionModelLine } from '../elicitation/composition-prior'
 import type { DecisionRule } from '../elicitation/impact'
 import type { ModelLanguage } from '../elicitation/model-code'
 import type { PilotModel, PilotSummary } from '../elicitation/pilot'
@@ -197,6 +198,59 @@ export interface RecordQuantity {
   impactNotRunReason?: string | null
 }
 
+/** A share of a composition in the record: its reconciled prior beside the Dirichlet's share. */
+export interface RecordCompositionShare {
+  name: string
+  /** The share's quantity symbol; null for the "other" share, which nobody was asked about. */
+  symbol: string | null
+  /** The share's reconciled prior (null for the "other" share or a share not reconciled yet). */
+  prior: Distribution | null
+  /** Mean of the reconciled prior, before the shares are scaled to add up to 1. */
+  elicitedMean: number | null
+  alpha: number | null
+  /** αᵢ / Σα: the share's mean under the Dirichlet. */
+  dirichletMean: number | null
+  /** The Dirichlet's beta marginal for this share. */
+  marginal: Distribution | null
+  /** Largest |F_Dirichlet(q) − p| at the share's own 5/25/50/75/95 % quantiles (probability scale). */
+  mismatch: number | null
+  /** Concentration the share's own mean and variance imply: m(1 − m)/v − 1. */
+  impliedConcentration: number | null
+}
+
+/** The newest impact analysis of the composition's Dirichlet on multinomial pilot counts, run on this very Dirichlet. */
+export interface RecordCompositionImpact {
+  dataset: { name: string; version: number; rows: number; summary: PilotSummary; sha256: string }
+  observations: number
+  /** The composition's Dirichlet: log evidence of the counts as recorded, prior ESS (Σα) and each share's posterior. */
+  prior: { label: string; alpha: number[]; logEvidence: number; priorEss: number; posteriorAlpha: number[]; posterior: { mean: number; sd: number; q025: number; q975: number }[] }
+  comparison: { label: string; alpha: number[]; logEvidence: number }
+  /** The Dirichlet against the comparison prior: logBF its natural logarithm, label the Kass–Raftery category of |2 ln BF|. */
+  bayesFactor: { logBF: number; twoLnBF: number; label: string; favours: 'prior' | 'comparison' }
+  sweep: { evidenceRatio: number; priorDriven: boolean; points: { factor: number; totalConcentration: number; logEvidence: number; logBFvsComparison: number }[] }
+  flags: string[]
+  findings: string[]
+}
+
+/** A composition (shares of a whole) in the record: its Dirichlet when it is part of the prior, else why not. */
+export interface RecordComposition {
+  name: string
+  wording: string
+  /** The model's name for the simplex, derived from the composition's name. */
+  symbol: string
+  /** A last "other" share takes what the listed shares leave. */
+  residual: boolean
+  shares: RecordCompositionShare[]
+  /** True when every share is reconciled, none is left out of the record, and the Dirichlet could be fitted. */
+  inPrior: boolean
+  /** Why the composition is not part of the prior; null when it is. */
+  notInPriorReason: string | null
+  dirichlet: { alpha: number[]; totalConcentration: number; meanSum: number; warnings: { code: string; message: string }[] } | null
+  /** The Dirichlet in each language with its read-back check; empty when the composition is not part of the prior. */
+  modelCode: CompositionModelLine[]
+  impact: RecordCompositionImpact | null
+}
+
 /** What produced the record. */
 export interface ProducedBy {
   application: string
@@ -218,6 +272,8 @@ export interface RecordContent {
   cautions: (string | RecordCaution)[]
   /** Absent before schema 1.1. */
   producedBy?: ProducedBy
+  /** The study's compositions (shares of a whole); absent before schema 1.2. */
+  compositions?: RecordComposition[]
 }
 
 export type CommentKind = 'comment' | 'return' | 'response'

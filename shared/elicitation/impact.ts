@@ -155,10 +155,15 @@ export function dataSize(data: PilotData): number {
 }
 
 /**
+/** Progress steps of evaluateCandidates: each candidate, the fractional Bayes factors (with a comparison prior), each candidate's sensitivity. */
+export function candidateSteps(candidates: readonly CandidateInput[]): number {
+  return 2 * candidates.length + (candidates.some((c) => c.kind === 'comparison') ? 1 : 0)
+}
+
 /**
  * Every candidate prior against the pilot data: posterior, evidence, ordinary and fractional Bayes factors against the
  * comparison prior (training fraction b, default m₀/n), power-scaling sensitivity, checks. `onStep` is called after
- * each candidate (a progress report).
+ * each step (a progress report; candidateSteps in all); it may throw to stop the computation.
  */
 export function evaluateCandidates(candidates: CandidateInput[], data: PilotData, rule: DecisionRule | null, trainingFraction: number | null = null, onStep?: () => void): CandidateResult[] {
   const n = dataSize(data)
@@ -185,9 +190,11 @@ export function evaluateCandidates(candidates: CandidateInput[], data: PilotData
       r.bayesFactor = { logBF: bf.logBF, twoLnBF: bf.twoLnBF, label: bf.label }
     }
     addFractionalBayesFactors(candidates, results, data, trainingFraction)
+    onStep?.()
   }
   results.forEach((r, i) => {
     r.sensitivity = attempt(r.diagnosticNotes, 'The power-scaling sensitivity', () => powerScalingSensitivity(candidatePrior(candidates[i]), data))
+    onStep?.()
   })
   return results
 }
@@ -237,16 +244,24 @@ export interface SweepSummary {
   notes: string[]
 }
 
+/** Progress steps of sweepOf: each width, the fractional Bayes factor curve, the α-curve. */
+export function sweepSteps(factors: readonly number[]): number {
+  return factors.length + 2
+}
+
 /**
  * The width sweep of a prior (evidence and posterior against the spread factor k), the fractional Bayes factor of each
  * widened prior against the prior itself, and the posterior against the power α on the prior. `onStep` is called after
- * each width (a progress report).
+ * each width and after each curve (a progress report; sweepSteps in all); it may throw to stop the computation.
  */
 export function sweepOf(prior: PriorDistribution, data: PilotData, support: Support, factors = SWEEP_FACTORS, trainingFraction: number | null = null, onStep?: () => void): SweepSummary {
   const s = widthSweep(prior, data, factors, support, onStep)
   const reference = s.points.find((p) => p.factor === 1)?.logEvidence ?? analyzePrior(prior, data, { skipPredictiveCheck: true }).logEvidence
   const notes: string[] = []
   const fractional = attempt(notes, 'The fractional Bayes factor curve', () => fractionalBayesFactors(s.points.map((p) => p.prior), prior, data, trainingFraction ?? undefined))
+  onStep?.()
+  const alphaCurve = attempt(notes, 'The posterior against the power on the prior', () => priorPowerCurve(prior, data, ALPHA_CURVE_POWERS))
+  onStep?.()
   const inRange = fractional?.filter((_, i) => factors[i] >= PRIOR_DRIVEN_CONVENTION.fromFactor && factors[i] <= PRIOR_DRIVEN_CONVENTION.toFactor).map((f) => f.logBF) ?? []
   return {
     factors,
@@ -259,7 +274,7 @@ export function sweepOf(prior: PriorDistribution, data: PilotData, support: Supp
     trainingFraction: fractional ? fractional[0].b : null,
     priorDriven: s.priorDriven,
     rule: PRIOR_DRIVEN_RULE,
-    alphaCurve: attempt(notes, 'The posterior against the power on the prior', () => priorPowerCurve(prior, data, ALPHA_CURVE_POWERS)),
+    alphaCurve,
     notes,
   }
 }

@@ -8,9 +8,13 @@ import { flagLabel } from '../record/format'
  */
 
 export interface RecordCaution {
-  /** Which rule raised it: 'statistician-review', 'prior-influence', 'left-out', 'not-reconciled', 'seen-pilot-data', a flag of the final prior, 'hand-adjusted', 'performance-weights', 'no-impact-analysis'. */
+  /**
+   * Which rule raised it: 'statistician-review', 'prior-influence', 'left-out', 'not-reconciled', 'seen-pilot-data', a flag of
+   * the final prior, 'hand-adjusted', 'performance-weights', 'no-impact-analysis'; for a composition 'composition-not-in-prior',
+   * a Dirichlet warning ('dirichlet-mean-sum', 'dirichlet-unequal-certainty') or a flag of its impact analysis ('dirichlet-prior-dominates', 'dirichlet-prior-driven').
+   */
   rule: string
-  /** The quantity it concerns, by name; null for the record as a whole. */
+  /** The quantity (or composition) it concerns, by name; null for the record as a whole. */
   quantity: string | null
   text: string
 }
@@ -40,6 +44,13 @@ export interface CautionFacts {
     combination: { adjusted: boolean; adjustReason: string; weightCautions?: string[] } | null
     impact: { candidates: { kind: string; flags: string[] }[]; sweep: { priorDriven: boolean } | null } | null
     impactNotRunReason?: string | null
+  }[]
+  /** The study's compositions (absent in records stored before schema 1.2). */
+  compositions?: {
+    name: string
+    notInPriorReason: string | null
+    dirichlet: { warnings: { code: string; message: string }[] } | null
+    impact: { flags: string[] } | null
   }[]
 }
 
@@ -74,7 +85,22 @@ export function recordCautions(facts: CautionFacts): RecordCaution[] {
         : 'no impact analysis of the final prior exists.')
     }
   }
+  for (const c of facts.compositions ?? []) {
+    const add = (rule: string, text: string) => out.push({ rule, quantity: c.name, text: `${c.name}: ${text}` })
+    if (c.notInPriorReason) {
+      add('composition-not-in-prior', c.notInPriorReason.charAt(0).toLowerCase() + c.notInPriorReason.slice(1))
+      continue
+    }
+    for (const w of c.dirichlet?.warnings ?? []) add(`dirichlet-${w.code}`, w.message)
+    for (const f of c.impact?.flags ?? []) add(`dirichlet-${f}`, DIRICHLET_FLAG_TEXT[f] ?? f)
+  }
   return out
+}
+
+/** A composition's impact flags in words (shared/elicitation/composition-impact.ts). */
+const DIRICHLET_FLAG_TEXT: Record<string, string> = {
+  'prior-dominates': 'the Dirichlet carries more information than the pilot counts (its total concentration exceeds the observations).',
+  'prior-driven': 'a Bayes factor built on the Dirichlet reflects its width more than the pilot counts.',
 }
 
 /** A caution's words: records stored before schema 1.1 hold plain text. */

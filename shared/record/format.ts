@@ -1,4 +1,4 @@
-import { formatNumber, formatProbability } from '../format/numbers'
+import { formatNumber, formatPercentPoints, formatProbability } from '../format/numbers'
 
 /**
  * The prior record in words: answers, flags, audit events and their subjects as the screen and the .docx both write
@@ -116,8 +116,11 @@ export const AUDIT_ACTIONS: Record<string, string> = {
   'judgement.submit': 'Judgements submitted',
   'dataset.upload': 'Pilot data uploaded',
   'impact.run': 'Impact analysis run',
+  'impact.cancel': 'Impact analysis cancelled',
   'reconciliation.save': 'Reconciliation saved',
   'reconciliation.reconciled': 'Final prior chosen',
+  'link.confirm': 'Pooled correlation of a linked pair confirmed',
+  'link.override': 'Correlation of a linked pair set by the analyst',
   'record.submit': 'Record submitted for review',
   'record.return': 'Record returned with comments',
   'record.sign-off': 'Record signed off',
@@ -165,3 +168,39 @@ export function subjectLabel(subject: string | null | undefined, names: SubjectN
 }
 
 export const LANGUAGE_LABELS: Record<string, string> = { stan: 'Stan', pymc: 'PyMC', jags: 'JAGS', brms: 'brms' }
+
+/** A Dirichlet by its concentrations: "Dirichlet(12.4, 8.27, 20.6)". */
+export const dirichletText = (alpha: number[]): string => `Dirichlet(${alpha.map((a) => formatNumber(a)).join(', ')})`
+
+/** A composition's Dirichlet in one plain sentence: its concentrations, what the total is worth, and how the means were scaled. */
+export function compositionDirichletText(
+  dirichlet: { alpha: number[]; totalConcentration: number; meanSum: number },
+  residualName: string | null,
+): string {
+  const scaled = residualName === null
+    ? `The reconciled shares' means add up to ${formatPercentPoints(100 * dirichlet.meanSum)} and are scaled to add up to 100 %.`
+    : `The reconciled shares' means add up to ${formatPercentPoints(100 * dirichlet.meanSum)}; the rest goes to ${residualName}.`
+  return `${dirichletText(dirichlet.alpha)}: total concentration ${formatNumber(dirichlet.totalConcentration)}, worth about ${formatNumber(dirichlet.totalConcentration, 2)} observations of which share each falls in. ${scaled}`
+}
+
+/** The read-back check of a joint prior's model code (its parameters taken back out of the line), in words. */
+export function jointCheckText(check: { ok: boolean; maxRelativeDifference: number } | null): string {
+  if (!check) return 'not available'
+  return check.ok ? `passed: the same parameters come out of the code (largest relative difference ${formatNumber(check.maxRelativeDifference, 2)})` : 'FAILED: the parameters that come out differ; do not use this code'
+}
+
+/** A composition's impact: the Bayes factor of its Dirichlet against the comparison prior, in words. */
+export function compositionBayesFactorText(impact: { bayesFactor: { logBF: number; label: string; favours: 'prior' | 'comparison' }; comparison: { alpha: number[] } }): string {
+  const bf = impact.bayesFactor
+  const by = formatNumber(Math.exp(Math.abs(bf.logBF)), 3)
+  return `The counts favour ${bf.favours === 'prior' ? `the elicited Dirichlet over the comparison prior ${dirichletText(impact.comparison.alpha)}` : `the comparison prior ${dirichletText(impact.comparison.alpha)} over the elicited Dirichlet`} by a Bayes factor of ${by} (${bf.label} on the Kass–Raftery scale; log Bayes factor ${formatNumber(bf.logBF, 4)}).`
+}
+
+/** The width sweep of a composition's Dirichlet, in words (the rule is Priorsmith's convention, docs/methods/joint-priors.md). */
+export function compositionSweepText(sweep: { evidenceRatio: number; priorDriven: boolean }): string {
+  return `Width sweep (the total concentration divided by k² at width factor k from 0.25 to 8, means kept): the evidence changes by a factor ${formatNumber(sweep.evidenceRatio, 4)} from half to twice the width; ${sweep.priorDriven ? 'so a Bayes factor built on this Dirichlet reflects its width more than the counts (Priorsmith’s rule of thumb).' : 'Bayes factors built on this Dirichlet are not driven by its width.'}`
+}
+
+/** What the record's joint-priors section states first, on the page and in the .docx. */
+export const JOINT_PRIORS_INTRO =
+  'Quantities whose priors are stated together. Shares of a whole have one Dirichlet prior for all of them, fitted to the shares’ reconciled priors: use the Dirichlet rather than the shares’ own priors in a model that needs the shares to add up to one.'

@@ -109,6 +109,29 @@ export function nearestCorrelation(R: number[][], tolerance = 1e-12): NearestCor
   return { matrix, maxChange, changes, minEigenvalue, iterations: iterations + 1 }
 }
 
+/**
+ * A correlation matrix whose eigenvalues are raised to at least `floor`, rebuilt from its eigenvectors and rescaled to a
+ * unit diagonal (the spectral method of Rebonato & Jäckel 2000, "The most general methodology to create a valid
+ * correlation matrix for risk management and option pricing purposes", J. Risk 2, from memory). The nearest correlation
+ * matrix of a matrix that was not one is singular, which the Cholesky factorisation of a multivariate normal refuses;
+ * a floor of 10⁻⁶ moves its entries by about that much. A matrix already above the floor comes back unchanged.
+ */
+export function correlationWithEigenvalueFloor(R: number[][], floor: number): number[][] {
+  requireSymmetric(R, 'R')
+  requireFinite(floor, 'floor', 'The eigenvalue floor')
+  if (!(floor > 0 && floor < 1)) throw new EngineInputError('floor', 'The eigenvalue floor must be strictly between 0 and 1.')
+  const { values, vectors } = symmetricEigen(R)
+  if (Math.min(...values) >= floor) return R.map((row) => [...row])
+  const n = R.length
+  const S = Array.from({ length: n }, () => new Array<number>(n).fill(0))
+  for (let k = 0; k < n; k++) {
+    const lam = Math.max(values[k], floor)
+    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) S[i][j] += vectors[i][k] * lam * vectors[j][k]
+  }
+  const d = S.map((row, i) => Math.sqrt(row[i]))
+  return S.map((row, i) => row.map((x, j) => (i === j ? 1 : (x / (d[i] * d[j]) + S[j][i] / (d[i] * d[j])) / 2)))
+}
+
 /** Throws EngineInputError('R') unless R is a k × k correlation matrix (unit diagonal, entries in [−1, 1], positive semi-definite); returns its Cholesky factor. */
 function correlationFactor(R: number[][], k: number): number[][] {
   requireSymmetric(R, 'R')

@@ -82,6 +82,7 @@ export { COMPOSITION_CONVENTION, dirichletFromMarginals, dirichletMarginal, diri
 export {
   conditionalFromCopulaCorrelation,
   copulaCorrelationFromConditional,
+  correlationWithEigenvalueFloor,
   nearestCorrelation,
   poolCorrelations,
   rankCorrelationOfCopula,

@@ -91,7 +91,7 @@ export function scaleSpread(prior: PriorDistribution, k: number, support?: Suppo
 /**
  * Width sweep: evidence and posterior for the prior's spread × k (scaleSpread) for each factor. evidenceRatio is the
  * largest over the smallest evidence among the factors in [0.5, 2] together with k = 1; priorDriven follows
- * PRIOR_DRIVEN_RULE. `onStep` is called after each factor (a progress report; it must not throw).
+ * PRIOR_DRIVEN_RULE. `onStep` is called after each factor (a progress report; it may throw to stop the sweep).
  */
 export function widthSweep(prior: PriorDistribution, data: PilotData, factors: number[], support?: Support, onStep?: () => void): SweepResult {
   if (!Array.isArray(factors) || factors.length === 0) throw new EngineInputError('factors', 'Give at least one width factor.')

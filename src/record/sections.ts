@@ -3,7 +3,7 @@ import type { RecordComment, RecordContent } from '@/api/record'
 /** Comments the server accepts name their section in at most 80 characters (shared/schemas/records.ts). */
 export const SECTION_MAX = 80
 
-export type SectionKind = 'study' | 'panel' | 'calibration' | 'quantity' | 'cautions' | 'review' | 'history'
+export type SectionKind = 'study' | 'panel' | 'calibration' | 'quantity' | 'joint' | 'cautions' | 'review' | 'history'
 
 export interface RecordSectionInfo {
   /** The heading without its number: what comments name as their section. */
@@ -20,8 +20,11 @@ const clip = (text: string) => (text.length > SECTION_MAX ? `${text.slice(0, SEC
 
 export const quantityHeading = (q: { name: string; symbol: string }) => clip(`${q.name} (${q.symbol})`)
 
-/** The record's sections in order, numbered as in the .docx: 1 study, 2 panel, 3 calibration, one per quantity, then the rest. */
-export function recordSections(content: Pick<RecordContent, 'quantities'>): RecordSectionInfo[] {
+/**
+ * The record's sections in order, numbered as in the .docx: 1 study, 2 panel, 3 calibration, one per quantity, the joint
+ * priors when the study has any (records before schema 1.2 have none), then the rest.
+ */
+export function recordSections(content: Pick<RecordContent, 'quantities' | 'compositions'>): RecordSectionInfo[] {
   const list: RecordSectionInfo[] = [
     { key: 'Study and decision', number: 1, kind: 'study', aliases: [] },
     { key: 'Expert panel', number: 2, kind: 'panel', aliases: ['Panel'] },
@@ -30,7 +33,8 @@ export function recordSections(content: Pick<RecordContent, 'quantities'>): Reco
   content.quantities.forEach((q, i) => {
     list.push({ key: quantityHeading(q), number: 4 + i, kind: 'quantity', quantityIndex: i, aliases: [q.name, q.symbol] })
   })
-  const n = 4 + content.quantities.length
+  let n = 4 + content.quantities.length
+  if (content.compositions?.length) list.push({ key: 'Joint priors', number: n++, kind: 'joint', aliases: content.compositions.map((c) => c.name) })
   list.push(
     { key: 'Cautions', number: n, kind: 'cautions', aliases: [] },
     { key: 'Review and sign-off', number: n + 1, kind: 'review', aliases: ['Review'] },

@@ -19,20 +19,36 @@ export const useImpactStore = defineStore('impact', () => {
     return result
   }
 
-  /**
-   * Queues a run and waits for it with `follow` (useImpactJob, owned by the page that shows the progress); the server
-   * answers from its cache when the same inputs were run before (`cached`).
-   */
-  async function run(quantityId: number, body: ImpactRequest, follow: (job: ImpactJob) => Promise<ImpactResult>): Promise<ImpactResult> {
+  /** Follows a job until it ends, with `running` set meanwhile; shows its analysis (with the request `input` when given). */
+  async function track(quantityId: number, job: () => Promise<ImpactJob>, follow: (job: ImpactJob) => Promise<ImpactResult>, input?: ImpactRequest): Promise<ImpactResult> {
     running.value = quantityId
     try {
-      const result = await follow(await impactApi.run(quantityId, body))
-      results.value = { ...results.value, [quantityId]: { ...result, input: body } }
+      const result = await follow(await job())
+      results.value = { ...results.value, [quantityId]: input ? { ...result, input } : result }
       origin.value = { ...origin.value, [quantityId]: 'run' }
       return result
     } finally {
       if (running.value === quantityId) running.value = null
     }
+  }
+
+  /**
+   * Queues a run and waits for it with `follow` (useImpactJob, owned by the page that shows the progress); the server
+   * answers from its cache when the same inputs were run before (`cached`).
+   */
+  function run(quantityId: number, body: ImpactRequest, follow: (job: ImpactJob) => Promise<ImpactResult>): Promise<ImpactResult> {
+    return track(quantityId, () => impactApi.run(quantityId, body), follow, body)
+  }
+
+  /**
+   * Picks up the quantity's newest analysis still queued or running (the page was left or reloaded while it ran) and
+   * follows it; null when there is none.
+   */
+  async function resume(quantityId: number, follow: (job: ImpactJob) => Promise<ImpactResult>): Promise<ImpactResult | null> {
+    if (running.value === quantityId) return null
+    const [newest] = await impactApi.active(quantityId)
+    if (!newest || running.value === quantityId) return null
+    return track(quantityId, async () => newest, follow)
   }
 
   function clear(): void {
@@ -41,5 +57,5 @@ export const useImpactStore = defineStore('impact', () => {
     running.value = null
   }
 
-  return { results, origin, running, fetchLatest, run, clear }
+  return { results, origin, running, fetchLatest, run, resume, clear }
 })

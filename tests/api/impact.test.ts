@@ -251,14 +251,16 @@ describe('impact analyses as jobs on the queue', () => {
     const res = await analyst.post(`/api/quantities/${flowId}/impact`, body(2.75))
     expect(res.status).toBe(202)
     expect(res.headers.location).toBe(`/api/impact-jobs/${res.body.id}`)
-    // Each candidate prior (the reconciled one and the comparison prior), the 11 sweep widths and the tipping point.
+    // Each candidate prior (the reconciled one and the comparison prior) with its sensitivity, the fractional Bayes
+    // factors, the 11 sweep widths with the two curves, the tipping point, and storing the result.
     const candidates = (await h.db('impact_jobs').where({ id: res.body.id }).first('task')).task.compute.candidates.length
-    expect(res.body).toMatchObject({ quantityId: flowId, state: 'queued', progress: { done: 0, total: candidates + 11 + 1 }, result: null, error: null, startedAt: null })
+    const total = 2 * candidates + 1 + 11 + 2 + 1 + 1
+    expect(res.body).toMatchObject({ quantityId: flowId, state: 'queued', progress: { done: 0, total }, result: null, error: null, startedAt: null })
     const job = await waitFor('the job done', async () => {
       const read = (await analyst.get(res.headers.location).expect(200)).body
       return read.state === 'queued' || read.state === 'running' ? null : read
     })
-    expect(job).toMatchObject({ id: res.body.id, state: 'done', progress: { done: candidates + 12, total: candidates + 12 }, error: null })
+    expect(job).toMatchObject({ id: res.body.id, state: 'done', progress: { done: total, total }, error: null })
     expect(job.result).toMatchObject({ cached: false, quantityId: flowId, decision: { threshold: 2.75 } })
     expect(job.result.candidates.map((c: { kind: string }) => c.kind)).toEqual(['reconciled', 'comparison'].slice(0, candidates))
     const stored = await h.db('impact_analyses').where({ job_id: res.body.id })

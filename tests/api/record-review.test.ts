@@ -268,7 +268,8 @@ describe('review by e-mail, with comments answered', () => {
     await reviewer.post(`/api/studies/${studyId}/record/sign-off`).expect(200)
     const rows = await mailFor('record-signed-off')
     expect(rows.map((r) => r.to_address)).toEqual(['analyst@kestrel.example'])
-    const delivered = await waitFor('the sign-off e-mail', async () => fake.messages.find((m) => m.to === 'analyst@kestrel.example' && m.subject.startsWith('Prior record signed off')))
+    // Another suite's sign-off mail to the same analyst may reach this fake through the outbox sweeper: find this study's.
+    const delivered = await waitFor('the sign-off e-mail', async () => fake.messages.find((m) => m.to === 'analyst@kestrel.example' && m.subject.startsWith('Prior record signed off: "Record review study"')))
     expect(delivered.subject).toBe('Prior record signed off: "Record review study" (version 1)')
     expect(await h.db('outbox_messages').where({ study_id: studyId }).whereIn('kind', ['record-submitted', 'record-returned', 'record-signed-off']).count('* as n').first())
       .toEqual({ n: '4' })

@@ -92,7 +92,7 @@ describe('prior record workflow', () => {
     const { record, ...content } = res.body
     expect(record.status).toBe('signed_off')
     expect(record.contentHash).toBe(contentHash(content))
-    expect(content.schemaVersion).toBe('1.1')
+    expect(content.schemaVersion).toBe('1.2')
     expect(content.$schema).toBe('https://priorsmith.example/schemas/prior-record-1.json')
     const schema = JSON.parse(readFileSync(new URL('../../docs/prior-record.schema.json', import.meta.url), 'utf8'))
     const validate = new Ajv2020({ allErrors: true, strict: false }).compile(schema)

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import mammoth from 'mammoth'
 import type { Page } from 'playwright-core'
 import { openBrowser, signInAs, type BrowserSession, completeEntry, field, inPage, keepFailureEvidence } from '../support/browser'
 import { expectAccessible } from '../support/axe'
@@ -9,7 +10,8 @@ import { expectPhoneLayout } from '../support/phone'
  * quantities of a new study into a composition on the quantities screen (inline errors first), reorders and saves it;
  * a round asks the three shares; one expert answers on a 360 px phone and sees the total of their shares live, the
  * other answers through the API; the analyst reconciles two shares through the API and the last on its reconcile
- * screen, where the Dirichlet fitted to the three reconciled shares appears with its mismatch and model code.
+ * screen, where the Dirichlet fitted to the three reconciled shares appears with its mismatch and model code; the analyst runs
+ * it on pilot counts; the record page and the .docx state the Dirichlet, its model code and its impact.
  */
 
 const TAG = `joint-${Date.now() % 100000}`
@@ -272,6 +274,45 @@ describe('the joint prior on pilot counts (impact screen)', () => {
     await section.scrollIntoViewIfNeeded()
     await s.shot('compositions-06-impact')
     await expectAccessible(page, 'composition impact')
+  })
+})
+
+describe('the joint prior in the record', () => {
+  it('the record page and the .docx state the Dirichlet, its shares, its model code with the read-back check and its impact', async () => {
+    const page = s.page
+    const facts = await inPage(page, async (call, { studyId }) => {
+      const view = await call<{ content: { compositions: { name: string; inPrior: boolean; dirichlet: { alpha: number[] }; modelCode: { language: string; code: string }[]; impact: { prior: { logEvidence: number } } | null }[] } }>('GET', `/api/studies/${studyId}/record`)
+      return view.content.compositions
+    }, { studyId: setup.studyId })
+    expect(facts.map((c) => [c.name, c.inPrior])).toEqual([['Household uptake', true]])
+    const [whole] = facts
+    expect(whole.impact).not.toBeNull()
+
+    await page.goto(`${s.baseUrl}/studies/${setup.studyId}/record`)
+    const section = page.locator('[data-testid="record-section"][data-section="Joint priors"]')
+    await section.waitFor()
+    // Four quantities come first (the three shares and the night-flow reduction): the joint priors are section 8.
+    await expect(section.getByRole('heading', { level: 2 }).innerText()).resolves.toBe('8. Joint priors')
+    const composition = section.getByTestId('record-composition')
+    await expect(composition.getAttribute('data-in-prior')).resolves.toBe('true')
+    await expect(composition.getByTestId('record-composition-dirichlet').innerText()).resolves.toMatch(/^Dirichlet\([\d.]+, [\d.]+, [\d.]+\): total concentration /)
+    const alphas = (await composition.getByTestId('record-composition-alpha').allInnerTexts()).map(Number)
+    alphas.forEach((a, i) => expect(a).toBeCloseTo(whole.dirichlet.alpha[i], 2))
+    await expect(composition.getByTestId('composition-model-code').first().innerText()).resolves.toBe(whole.modelCode[0].code)
+    await expect(composition.getByTestId('composition-model-check').evaluateAll((els) => els.map((e) => e.getAttribute('data-ok')))).resolves.toEqual(['true', 'true', 'true', 'true'])
+    await expect(composition.getByTestId('record-composition-impact').innerText()).resolves.toContain('p_alert 94, p_meter 54, p_decline 152 (300 in all)')
+    const shownEvidence = Number(await composition.getByTestId('record-composition-log-evidence').first().innerText())
+    expect(shownEvidence).toBeCloseTo(whole.impact!.prior.logEvidence, 3)
+    await section.scrollIntoViewIfNeeded()
+    await s.shot('compositions-07-record')
+    await expectAccessible(page, 'joint priors in the record')
+
+    const docx = await page.evaluate(async (id) => Array.from(new Uint8Array(await (await fetch(`/api/studies/${id}/record.docx`)).arrayBuffer())), setup.studyId)
+    const text = (await mammoth.extractRawText({ buffer: Buffer.from(docx) })).value
+    for (const expected of ['8. Joint priors', '8.1 Household uptake (shares of a whole, household_uptake)', whole.modelCode[0].code.split('\n')[1], whole.modelCode[1].code.split('\n')[1], 'passed: the same parameters come out of the code'])
+      expect(text).toContain(expected)
+    expect(text).toMatch(/Dirichlet\([\d.]+, [\d.]+, [\d.]+\): total concentration/)
+    expect(text).toMatch(/The counts favour the (elicited Dirichlet|comparison prior)/)
   })
 })
 

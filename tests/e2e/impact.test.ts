@@ -5,7 +5,7 @@ import { createDb } from '../../server/db/knex'
 import { AUDIT_LOCK_CLASS } from '../../server/services/audit'
 import type { Page } from 'playwright-core'
 import { DEMO_PASSWORD } from '../../seeds/demo'
-import { openBrowser, signInAs, type BrowserSession, field, keepFailureEvidence } from '../support/browser'
+import { openBrowser, signInAs, type BrowserSession, field, inPage, keepFailureEvidence } from '../support/browser'
 import { expectAccessible } from '../support/axe'
 
 /**
@@ -95,6 +95,22 @@ async function setUpReconciledPrior(page: Page): Promise<{ studyId: number; quan
     await signOut()
     return { studyId: study.id, quantityId: quantity.id }
   }, { password: DEMO_PASSWORD, quantityName: QUANTITY_NAME })
+}
+
+/**
+ * Runs `during` while every worker is held as it stores an analysis (a share lock on impact_analyses, taken here, which
+ * the insert waits for): a job shows as running with every computed step, whatever the machine's speed.
+ */
+async function holdingStores(during: () => Promise<void>): Promise<void> {
+  const db = createDb(inject('databaseUrl'))
+  const hold = await db.transaction()
+  try {
+    await hold.raw('LOCK TABLE impact_analyses IN SHARE MODE')
+    await during()
+  } finally {
+    await hold.commit()
+    await db.destroy()
+  }
 }
 
 beforeAll(async () => {
@@ -204,7 +220,7 @@ describe('pilot data and impact analysis', () => {
 
     // The analysis runs as a job on the queue; the page follows it. The worker is held as it stores the analysis (the
     // study's audit-chain lock, taken here, which its audit event waits for), so the page shows the job running with the
-    // steps done so far, whatever the machine's speed. 19 steps: 7 candidates, 11 sweep widths, the tipping point.
+    // steps done so far, whatever the machine’s speed. 30 steps: 7 candidates, the fractional Bayes factors, 7 sensitivities, 11 sweep widths, 2 curves, the tipping point and storing the result.
     const db = createDb(inject('databaseUrl'))
     const hold = await db.transaction()
     try {
@@ -214,7 +230,7 @@ describe('pilot data and impact analysis', () => {
       await bar.waitFor({ timeout: 30_000 })
       expect(await page.getByTestId('impact-progress').getAttribute('data-state')).toBe('running')
       await expect.poll(async () => Number(await bar.getAttribute('aria-valuenow')), { timeout: 30_000 }).toBeGreaterThan(0)
-      expect(await page.getByTestId('impact-progress').innerText()).toMatch(/step (\d+) of 19/)
+      expect(await page.getByTestId('impact-progress').innerText()).toMatch(/step (\d+) of 30/)
       await s.shot('impact-04b-progress')
     } finally {
       await hold.commit()
@@ -301,6 +317,67 @@ describe('pilot data and impact analysis', () => {
     await page.getByTestId('impact-run').click()
     await page.getByTestId('impact-cached').waitFor()
     await s.shot('impact-06-cached')
+  })
+
+  it('picks up a running analysis after a reload: the progress bar is back and the result arrives', async () => {
+    const { page } = s
+    await field(page, 'decision-threshold').fill('13')
+    await holdingStores(async () => {
+      await page.getByTestId('impact-run').click()
+      await expect.poll(async () => page.getByTestId('impact-progress').innerText(), { timeout: 30_000 }).toMatch(/step 29 of 30/)
+      await page.reload()
+      // The page opened again finds the job still running and follows it: the bar with the steps computed so far.
+      const bar = page.getByTestId('impact-progress-bar')
+      await bar.waitFor({ timeout: 30_000 })
+      await expect.poll(async () => page.getByTestId('impact-progress').innerText(), { timeout: 30_000 }).toMatch(/step 29 of 30/)
+      expect(Number(await bar.getAttribute('aria-valuenow'))).toBe(97)
+      await expect(page.getByTestId('impact-run').isDisabled()).resolves.toBe(true)
+      await s.shot('impact-07-picked-up')
+    })
+    await page.getByTestId('impact-table').waitFor({ timeout: 30_000 })
+    await expect.poll(async () => page.getByTestId('tipping-panel').innerText(), { timeout: 30_000 }).toContain('act if P(burst_rate > 13')
+    await expect(page.getByTestId('impact-progress').count()).resolves.toBe(0)
+  })
+
+  it('cancels a queued analysis with the button beside the progress: it ends cancelled and stores nothing', async () => {
+    const { page } = s
+    const analyses = async () => (await inPage(page, (call, id) => call('GET', `/api/quantities/${id}/impact`), quantityId) as { id: number }).id
+    const before = await analyses()
+    let queuedId = ''
+    await holdingStores(async () => {
+      // Another analysis keeps the worker busy storing, so the one run from the page waits in the queue.
+      const busy = await inPage(page, async (call, id) => {
+        const last = await call('GET', `/api/quantities/${id}/impact`) as { input: { decision: object } }
+        return call('POST', `/api/quantities/${id}/impact`, { ...last.input, decision: { ...last.input.decision, threshold: 14 } })
+      }, quantityId) as { id: string }
+      await expect.poll(async () => (await inPage(page, (call, id) => call('GET', `/api/impact-jobs/${id}`), busy.id) as { state: string }).state, { timeout: 30_000 }).toBe('running')
+      await field(page, 'decision-threshold').fill('15')
+      await page.getByTestId('impact-run').click()
+      const progress = page.getByTestId('impact-progress')
+      await progress.getByText('Waiting for a free analysis worker').waitFor({ timeout: 30_000 })
+      await expect.poll(async () => (await inPage(page, (call, id) => call('GET', `/api/quantities/${id}/impact-jobs/active`), quantityId) as unknown[]).length).toBe(2)
+      expect(await progress.getAttribute('data-state')).toBe('queued')
+      await s.shot('impact-08-queued')
+      queuedId = (await inPage(page, (call, id) => call('GET', `/api/quantities/${id}/impact-jobs/active`), quantityId) as { id: string }[])
+        .find((j) => j.id !== busy.id)!.id
+      await page.getByTestId('impact-cancel').click()
+      await page.getByTestId('impact-cancelled').getByText('The analysis was cancelled before it finished; nothing was stored.').waitFor()
+      await expect(progress.count()).resolves.toBe(0)
+      await expect(page.getByTestId('impact-run').isEnabled()).resolves.toBe(true)
+      await s.shot('impact-09-cancelled')
+    })
+    const job = await inPage(page, (call, id) => call('GET', `/api/impact-jobs/${id}`), queuedId) as { state: string; result: unknown }
+    expect(job).toMatchObject({ state: 'cancelled', result: null })
+    // The busy analysis was stored after the hold; the cancelled one never is.
+    await expect.poll(analyses, { timeout: 30_000 }).toBeGreaterThan(before)
+    const db = createDb(inject('databaseUrl'))
+    try {
+      expect(await db('impact_analyses').where({ job_id: queuedId })).toEqual([])
+    } finally {
+      await db.destroy()
+    }
+    // The page still shows the analysis it showed before (threshold 13), not the cancelled one's.
+    expect(await page.getByTestId('tipping-panel').innerText()).toContain('act if P(burst_rate > 13')
   })
 
   it('logged no console errors beyond the refused uploads and loaded nothing from another origin', async () => {

@@ -15,6 +15,7 @@ import type { configApi } from '@/api/config'
 import type { impactApi } from '@/api/impact'
 import type { invitationsApi } from '@/api/invitations'
 import type { judgementsApi } from '@/api/judgements'
+import type { linkReconciliationApi } from '@/api/link-reconciliation'
 import type { linksApi } from '@/api/links'
 import type { mailboxApi } from '@/api/mailbox'
 import type { pilotApi } from '@/api/pilot'
@@ -27,6 +28,7 @@ import type { studyAdminApi } from '@/api/studyAdmin'
 import type { usersApi } from '@/api/users'
 import type { ImpactRequest } from '@shared/api/impact'
 import type { JudgementSave } from '@shared/api/judgements'
+import type { LinkReconciliationSaveBody } from '@shared/api/link-reconciliation'
 import type { LinkAnswerSave, LinkOrderBody, LinkPatchBody, LinkWriteBody } from '@shared/api/links'
 import type { ReconciliationSaveBody } from '@shared/api/reconciliation'
 import type { RecordSubmission } from '@shared/api/records'
@@ -37,13 +39,14 @@ import type { JudgementSaved } from '@shared/api/judgements'
 import type { PracticeResult } from '@shared/api/rounds'
 import type { impactSchema } from '@shared/schemas/impact'
 import type { judgementSchema } from '@shared/schemas/judgements'
+import type { linkReconciliationSchema } from '@shared/schemas/link-reconciliation'
 import type { linkAnswerSchema, linkOrderSchema, linkSchema, linkUpdateSchema } from '@shared/schemas/links'
 import type { reconciliationSchema } from '@shared/schemas/reconciliation'
 import type { recordSubmitSchema } from '@shared/schemas/records'
 import type { listOutbox } from '../../server/mail/outbox'
 import type { createDataset, getDataset, listDatasets } from '../../server/services/datasets'
 import type { latestImpact, recordImpactNotRun } from '../../server/services/impact'
-import type { toImpactJob } from '../../server/services/impact-jobs'
+import type { activeImpactJobs, toImpactJob } from '../../server/services/impact-jobs'
 import type { describeInvitation } from '../../server/services/invitations'
 import type { getLink, linkAnswerHistory, listLinkAnswers, reorderLinks, saveLinkAnswer } from '../../server/services/links'
 import type { feedbackFor, listCalibrationAnswers, listJudgements, saveCalibrationAnswer } from '../../server/services/judgements'
@@ -52,6 +55,7 @@ import type {
   addEvidenceFile, createCalibrationQuestion, createQuantity, getQuantity, listCalibrationQuestions, listQuantities, updateCalibrationQuestion, updateQuantity,
 } from '../../server/services/quantities'
 import type { getReconciliation, saveReconciliation } from '../../server/services/reconciliation'
+import type { decideLink, studyLinkedQuantities } from '../../server/services/link-reconciliation'
 import type { getRecord } from '../../server/services/records'
 import type { getRound, listMyRounds, listRounds, roundProgress } from '../../server/services/rounds'
 import type { createStudy, getStudyDetail, listStudiesFor, studyAudit, updateStudy } from '../../server/services/studies'
@@ -124,11 +128,15 @@ describe('the wire contract (checked by the type-check)', () => {
   it('reconciliation, pilot data, impact and the record', () => {
     expectTypeOf<Fetched<typeof reconciliationApi.get>>().toEqualTypeOf<Served<typeof getReconciliation>>()
     expectTypeOf<Fetched<typeof reconciliationApi.save>>().toEqualTypeOf<Served<typeof saveReconciliation>>()
+    expectTypeOf<Fetched<typeof linkReconciliationApi.studyLinks>>().toEqualTypeOf<Served<typeof studyLinkedQuantities>>()
+    expectTypeOf<Fetched<typeof linkReconciliationApi.decide>>().toEqualTypeOf<Served<typeof decideLink>>()
     expectTypeOf<Fetched<typeof pilotApi.list>>().toEqualTypeOf<Served<typeof listDatasets>>()
     expectTypeOf<Fetched<typeof pilotApi.get>>().toEqualTypeOf<Served<typeof getDataset>>()
     expectTypeOf<Fetched<typeof pilotApi.upload>>().toEqualTypeOf<Served<typeof createDataset>>()
     expectTypeOf<Fetched<typeof impactApi.run>>().toEqualTypeOf<Served<typeof toImpactJob>>()
     expectTypeOf<Fetched<typeof impactApi.job>>().toEqualTypeOf<Served<typeof toImpactJob>>()
+    expectTypeOf<Fetched<typeof impactApi.cancel>>().toEqualTypeOf<Served<typeof toImpactJob>>()
+    expectTypeOf<Fetched<typeof impactApi.active>>().toEqualTypeOf<Served<typeof activeImpactJobs>>()
     expectTypeOf<Fetched<typeof impactApi.latest>>().toEqualTypeOf<Served<typeof latestImpact>>()
     expectTypeOf<Fetched<typeof impactApi.notRun>>().toEqualTypeOf<Served<typeof recordImpactNotRun>>()
     expectTypeOf<Fetched<typeof recordApi.get>>().toEqualTypeOf<Served<typeof getRecord>>()
@@ -149,6 +157,7 @@ describe('the wire contract (checked by the type-check)', () => {
   it('each field the client sends has the type the server’s schema lets through', () => {
     expectTypeOf<JudgementSave>().toExtend<Accepted<typeof judgementSchema>>()
     expectTypeOf<ReconciliationSaveBody>().toExtend<Accepted<typeof reconciliationSchema>>()
+    expectTypeOf<LinkReconciliationSaveBody>().toExtend<Accepted<typeof linkReconciliationSchema>>()
     expectTypeOf<RecordSubmission>().toExtend<Accepted<typeof recordSubmitSchema>>()
     expectTypeOf<ImpactRequest>().toExtend<Accepted<typeof impactSchema>>()
     expectTypeOf<LinkWriteBody>().toExtend<Accepted<typeof linkSchema>>()

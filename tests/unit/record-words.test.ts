@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { EXPERT_LABEL_PATTERN, expertLabel, labelExperts, labelWithName } from '../../shared/record/expert-labels'
-import { actionLabel, answerText, subjectLabel } from '../../shared/record/format'
+import { actionLabel, answerText, compositionBayesFactorText, compositionDirichletText, compositionSweepText, jointCheckText, subjectLabel } from '../../shared/record/format'
 
 describe('expert labels', () => {
   it('numbers the experts from 1 in joining order, never with letters', () => {
@@ -39,6 +39,25 @@ describe('the record in words', () => {
     expect(subjectLabel('record:v2')).toBe('record version 2')
     expect(subjectLabel('study:9')).toBe('this study')
     expect(subjectLabel(null)).toBe('')
+  })
+})
+
+describe('joint priors in words', () => {
+  it('writes a composition’s Dirichlet, its check, its Bayes factor and its sweep', () => {
+    const dirichlet = { alpha: [12.345678, 8.2, 20.5], totalConcentration: 41.045678, meanSum: 0.97 }
+    expect(compositionDirichletText(dirichlet, null)).toBe(
+      'Dirichlet(12.35, 8.2, 20.5): total concentration 41.05, worth about 41 observations of which share each falls in. The reconciled shares\' means add up to 97 % and are scaled to add up to 100 %.',
+    )
+    expect(compositionDirichletText(dirichlet, 'Other')).toMatch(/means add up to 97 %; the rest goes to Other\.$/)
+    expect(jointCheckText({ ok: true, maxRelativeDifference: 1.2e-16 })).toBe('passed: the same parameters come out of the code (largest relative difference 1.2e-16)')
+    expect(jointCheckText({ ok: false, maxRelativeDifference: 0.5 })).toMatch(/^FAILED/)
+    expect(compositionBayesFactorText({ bayesFactor: { logBF: Math.log(20), label: 'strong', favours: 'prior' }, comparison: { alpha: [1, 1, 1] } })).toBe(
+      'The counts favour the elicited Dirichlet over the comparison prior Dirichlet(1, 1, 1) by a Bayes factor of 20 (strong on the Kass–Raftery scale; log Bayes factor 2.996).',
+    )
+    expect(compositionBayesFactorText({ bayesFactor: { logBF: -Math.log(4), label: 'positive', favours: 'comparison' }, comparison: { alpha: [1, 1] } })).toMatch(
+      /^The counts favour the comparison prior Dirichlet\(1, 1\) over the elicited Dirichlet by a Bayes factor of 4 \(positive/,
+    )
+    expect(compositionSweepText({ evidenceRatio: 5.5, priorDriven: true })).toMatch(/factor 5\.5 from half to twice the width; so a Bayes factor built on this Dirichlet reflects its width/)
   })
 })
 

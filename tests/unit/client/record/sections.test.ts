@@ -4,6 +4,7 @@ import { mount } from '@vue/test-utils'
 import { ElButton } from 'element-plus'
 import RecordSection from '@/components/record/RecordSection.vue'
 import { groupComments, recordSections, SECTION_MAX } from '@/record/sections'
+import type { RecordComposition } from '@/api/record'
 import { comment, quantity } from './fixtures'
 
 const content = { quantities: [quantity(), quantity({ name: 'Leak-alert uptake', symbol: 'uptake' })] }
@@ -14,6 +15,14 @@ describe('record sections and their comments', () => {
       '1. Study and decision', '2. Expert panel', '3. Calibration questions', '4. Night-flow reduction (flow)', '5. Leak-alert uptake (uptake)',
       '6. Cautions', '7. Review and sign-off', '8. Change history',
     ])
+  })
+
+  it('adds the joint priors after the quantities when the record has compositions, numbered as the .docx does', () => {
+    const withShares = { ...content, compositions: [{ name: 'Household uptake' } as RecordComposition] }
+    const sections = recordSections(withShares)
+    expect(sections.map((s) => `${s.number}. ${s.key}`).slice(5)).toEqual(['6. Joint priors', '7. Cautions', '8. Review and sign-off', '9. Change history'])
+    expect(groupComments([comment(1, 'Household uptake', 'Why a Dirichlet?')], sections).bySection['Joint priors'].map((c) => c.id)).toEqual([1])
+    expect(recordSections({ ...content, compositions: [] }).map((s) => s.key)).not.toContain('Joint priors')
   })
 
   it('keeps section names within what the server accepts', () => {
