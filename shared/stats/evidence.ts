@@ -1,7 +1,7 @@
 import { logCdfSf, quantile, studentTLogPdf, supportOf, toUnivariate, validateDistribution } from './distributions'
 import { EngineInputError } from './errors'
 import { findRoot, LogIntegral, maximize, type Hint } from './quadrature'
-import { SigmaMarginal } from './sigma-marginal'
+import { CheckedTable, SigmaMarginal } from './sigma-marginal'
 import {
   gammaPQ,
   lbeta,
@@ -192,9 +192,6 @@ export function validateData(prior: PriorDistribution, data: PilotData): void {
 
 // ─── Distributions built on the way ──────────────────────────────────────────────────────────────
 
-/** What a posterior summary needs: moments, CDF and quantiles on θ. */
-type PosteriorParts = Posterior & { variance: number }
-
 /** A posterior on θ: CDF, quantiles and moments. */
 export type Posterior = Pick<Univariate, 'cdf' | 'quantile' | 'mean' | 'sd'>
 
@@ -239,25 +236,33 @@ export function summarise(d: Pick<Univariate, 'quantile' | 'mean' | 'sd'>): Post
   return { mean: d.mean(), sd: d.sd(), q025: d.quantile(PROBS[0]), q50: d.quantile(PROBS[1]), q975: d.quantile(PROBS[2]) }
 }
 
-/** Posterior moments, CDF and quantiles on θ from a LogIntegral on the prior's u scale. */
-export function posteriorFromIntegral(li: LogIntegral, scale: PriorScale): PosteriorParts {
-  const mean = li.expect((u) => scale.theta(u))
-  const variance = li.expect((u) => (scale.theta(u) - mean) ** 2)
+/**
+ * Posterior moments, CDF and quantiles on θ from a LogIntegral on the prior's u scale; the moments are integrated when first
+ * asked for (power scaling reads only the CDF of its scaled posteriors).
+ */
+export function posteriorFromIntegral(li: LogIntegral, scale: PriorScale): Posterior {
+  let moments: { mean: number; variance: number } | null = null
+  const momentsOf = (): { mean: number; variance: number } => {
+    if (!moments) {
+      const mean = li.expect((u) => scale.theta(u))
+      moments = { mean, variance: li.expect((u) => (scale.theta(u) - mean) ** 2) }
+    }
+    return moments
+  }
   return {
     cdf: (t) => {
       const u = scale.toU(t)
       return Number.isNaN(u) ? (t <= scale.theta(li.lower) ? 0 : 1) : li.cdf(u)
     },
     quantile: (p) => scale.theta(li.quantile(p)),
-    mean: () => mean,
-    sd: () => Math.sqrt(variance),
-    variance,
+    mean: () => momentsOf().mean,
+    sd: () => Math.sqrt(momentsOf().variance),
   }
 }
 
 // ─── Normal data with known σ ────────────────────────────────────────────────────────────────────
 
-type Conditional = { logEvidence: number; closed: boolean; posterior: () => PosteriorParts }
+type Conditional = { logEvidence: number; closed: boolean; posterior: () => Posterior }
 
 type ClosedMeanPrior = Extract<PriorDistribution, { family: 'normal' | 'uniform' }>
 
@@ -286,7 +291,7 @@ function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: numb
         const precision = 1 / (tau * tau) + 1 / (se * se)
         const v = 1 / precision
         const m = v * (prior.mu / (tau * tau) + xbar / (se * se))
-        return Object.assign(normalUnivariate(m, Math.sqrt(v)), { variance: v })
+        return normalUnivariate(m, Math.sqrt(v))
       },
     }
   }
@@ -294,10 +299,7 @@ function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: numb
     return {
       logEvidence: closedMeanLogEvidence(prior, st, sigma),
       closed: true,
-      posterior: () => {
-        const d = truncatedNormal(xbar, se, prior.lower, prior.upper)
-        return Object.assign(d, { variance: d.sd() ** 2 })
-      },
+      posterior: () => truncatedNormal(xbar, se, prior.lower, prior.upper),
     }
   }
   const { ss } = st
@@ -305,7 +307,7 @@ function normalKnownSigma(prior: PriorDistribution, st: NormalStats, sigma: numb
   const scale = priorScale(prior)
   const h = (u: number): number => scale.logPrior(u) - (n * (xbar - scale.theta(u)) ** 2) / (2 * sigma * sigma)
   const li = new LogIntegral(h, priorHints(scale, [hintOnU(scale, xbar, se)]))
-  let post: PosteriorParts | null = null
+  let post: Posterior | null = null
   return {
     logEvidence: base + li.logValue,
     closed: false,
@@ -387,40 +389,57 @@ function sigmaMixturePosterior(prior: ClosedMeanPrior, st: NormalStats, nodes: {
 
 /**
  * The p-quantile of a continuous distribution with the given CDF, density, mean and sd on [lower, upper]: a bracket grown
- * from mean ± 2 sd by doubling steps, then Newton steps from the normal approximation, kept inside the bracket by
- * bisection, to 1e-15 of the sd (common practice).
+ * from the normal approximation mean + sd·z_p by doubling steps, then Newton steps kept inside the bracket by bisection,
+ * to 1e-15 of the sd (common practice).
  */
 function quantileByNewton(cdf: (x: number) => number, pdf: (x: number) => number, p: number, mean: number, sd: number, lower: number, upper: number): number {
   if (!(p >= 0 && p <= 1)) return NaN
   if (p === 0) return lower
   if (p === 1) return upper
-  let x = Math.min(upper, Math.max(lower, mean + sd * quantile({ family: 'normal', mu: 0, sigma: 1 }, p)))
-  let lo = lower
-  let hi = upper
+  const clamp = (x: number): number => Math.min(upper, Math.max(lower, x))
+  let x = clamp(mean + sd * quantile({ family: 'normal', mu: 0, sigma: 1 }, p))
+  let f = cdf(x) - p
+  if (f === 0) return x
+  // The bracket [lo, hi]: the starting point on one side, a point found by doubling steps away from it on the other.
+  let lo = f < 0 ? x : lower
+  let hi = f < 0 ? upper : x
+  for (let step = sd, i = 0; i < 200; step *= 2, i++) {
+    const probe = clamp(f < 0 ? x + step : x - step)
+    const fp = cdf(probe) - p
+    if (fp === 0) return probe
+    if ((fp > 0) === (f < 0)) {
+      if (f < 0) hi = probe
+      else lo = probe
+      break
+    }
+    if (f < 0) lo = probe
+    else hi = probe
+    if (probe === lower || probe === upper) break
+  }
   for (let i = 0; i < 100; i++) {
-    const f = cdf(x) - p
-    if (f === 0) return x
+    let next = x - f / pdf(x)
+    // A Newton step this small has converged (a step to the bracket's own end included).
+    if (Math.abs(next - x) <= 1e-15 * (Math.abs(x) + sd)) return next
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi)
+    x = next
+    if (!(hi - lo > 2e-16 * (Math.abs(x) + sd))) break
+    f = cdf(x) - p
+    if (f === 0) break
     if (f < 0) lo = x
     else hi = x
-    const density = pdf(x)
-    let next = x - f / density
-    if (!(next > lo && next < hi)) {
-      if (Number.isFinite(lo) && Number.isFinite(hi)) next = 0.5 * (lo + hi)
-      else next = f < 0 ? x + Math.max(sd, Math.abs(x - lo) || sd) : x - Math.max(sd, Math.abs(hi - x) || sd)
-      next = Math.min(upper, Math.max(lower, next))
-    }
-    const step = Math.abs(next - x)
-    x = next
-    if (step <= 1e-15 * (Math.abs(x) + sd)) break
   }
   return x
 }
 
-/** The σ-marginal likelihood tables in use, keyed by (n, S, σ prior); a few are kept so that a whole impact analysis shares one. */
+/** The σ-marginal likelihood tables in use, keyed by (n, S, power, σ prior); a few are kept so that a whole impact analysis shares them. */
 const sigmaMarginals = new Map<string, SigmaMarginal>()
 
-function sigmaMarginalFor(st: NormalStats, sigmaPrior: PriorDistribution): SigmaMarginal {
-  const key = `${st.n}|${st.ss}|${JSON.stringify(sigmaPrior)}`
+/**
+ * The table of ln M for the data's (n, S) and the σ prior; with a power α, of the likelihood raised to α (n·α observations,
+ * S·α: read it at α·q).
+ */
+export function sigmaMarginalFor(st: NormalStats, sigmaPrior: PriorDistribution, power = 1): SigmaMarginal {
+  const key = `${st.n}|${st.ss}|${power}|${JSON.stringify(sigmaPrior)}`
   let m = sigmaMarginals.get(key)
   if (!m) {
     const sScale = priorScale(sigmaPrior)
@@ -430,11 +449,11 @@ function sigmaMarginalFor(st: NormalStats, sigmaPrior: PriorDistribution): Sigma
         logPrior: sScale.logPrior,
         hints: (sigma, spread) => priorHints(sScale, [sigma !== null && spread !== null ? hintOnU(sScale, sigma, spread) : null]),
       },
-      st.n,
-      st.ss,
+      st.n * power,
+      st.ss * power,
       sScale.theta(sScale.hint.center),
     )
-    if (sigmaMarginals.size >= 16) sigmaMarginals.delete(sigmaMarginals.keys().next().value!)
+    if (sigmaMarginals.size >= 32) sigmaMarginals.delete(sigmaMarginals.keys().next().value!)
     sigmaMarginals.set(key, m)
   }
   return m
@@ -456,7 +475,7 @@ function marginalOfMean(prior: PriorDistribution, st: NormalStats, sigmaPrior: P
   const sScale = priorScale(sigmaPrior)
   const sigmaHat = Math.sqrt(ss / Math.max(1, n - 1)) || sScale.theta(sScale.hint.center)
   const li = new LogIntegral(h, priorHints(scale, [hintOnU(scale, xbar, sigmaHat / Math.sqrt(n))]))
-  let parts: PosteriorParts | null = null
+  let parts: Posterior | null = null
   const posteriorParts = (): Posterior => (parts ??= posteriorFromIntegral(li, scale))
   return { logEvidence: li.logValue, posterior: (): PosteriorSummary => summarise(posteriorParts()), posteriorParts }
 }
@@ -466,8 +485,11 @@ function marginalOfMean(prior: PriorDistribution, st: NormalStats, sigmaPrior: P
 /** Prior predictive of x̄: log density and log tails (kept in logs so that a strong conflict gives ln p, not 0). */
 type Predictive = { logDensity(t: number): number; logLower(t: number): number; logUpper(t: number): number; symmetric: boolean; center: number; spread: number }
 
-/** Error kernel of x̄ − μ: a normal (known σ) or a scale mixture of normals Σ w_j N(0, s_j²) (σ integrated over its prior). */
-type Kernel = { s: number[]; w: number[] }
+/**
+ * Error kernel of x̄ − μ: a normal (known σ) or a scale mixture of normals Σ w_j N(0, s_j²) (σ integrated over its prior),
+ * with its log density and log CDF.
+ */
+type Kernel = { s: number[]; w: number[]; logPdf(e: number): number; logCdf(e: number): number }
 
 export function logSumExp(terms: number[]): number {
   const m = Math.max(...terms)
@@ -499,10 +521,10 @@ function meanPredictive(prior: PriorDistribution, kernel: Kernel): Predictive {
     }
   }
   const scale = priorScale(prior)
-  const logK = (e: number): number => kernelLogCdf(kernel, e)
-  const logk = (e: number): number => kernelLogPdf(kernel, e)
+  const logK = kernel.logCdf
+  const logk = kernel.logPdf
   const integral = (t: number, logKernel: (theta: number) => number): number =>
-    new LogIntegral((u) => scale.logPrior(u) + logKernel(scale.theta(u)), priorHints(scale, [hintOnU(scale, t, sBar)])).logValue
+    s.length > 1 ? logConvolutionSplit(scale, t, sBar, logKernel) : new LogIntegral((u) => scale.logPrior(u) + logKernel(scale.theta(u)), priorHints(scale, [hintOnU(scale, t, sBar)])).logValue
   const logLowerByQuadrature = (t: number): number => integral(t, (th) => logK(t - th))
   const logUpperByQuadrature = (t: number): number => integral(t, (th) => logK(th - t))
   if (prior.family === 'uniform') {
@@ -533,28 +555,41 @@ function meanPredictive(prior: PriorDistribution, kernel: Kernel): Predictive {
   }
 }
 
-/** ln Σ w_j Φ(e / s_j): the kernel's log CDF, in one pass without allocation (it runs inside nested quadratures). */
-function kernelLogCdf(kernel: Kernel, e: number): number {
-  const { s, w } = kernel
+/**
+ * ln ∫ π(u) F(θ(u)) du over the prior's u scale for a kernel term F of a scale mixture read at θ(u), split at u_t = u(t)
+ * and taken on each side in w = ln|u − u_t|. The mixture's components down to tiny widths make F a peak at θ = t that spans
+ * many scales, which adaptive bisection in u resolves only after dozens of halvings; in ln|u − u_t| it is smooth (common
+ * practice: a change of variable that takes an endpoint singularity away). Where t is outside the prior's support, the
+ * plain integral in u.
+ */
+function logConvolutionSplit(scale: PriorScale, t: number, sBar: number, logKernel: (theta: number) => number): number {
+  const ut = scale.toU(t)
+  const kernelHint = hintOnU(scale, t, sBar)
+  const hints = priorHints(scale, [kernelHint])
+  if (!Number.isFinite(ut)) return new LogIntegral((u) => scale.logPrior(u) + logKernel(scale.theta(u)), hints).logValue
+  const centres = [Math.abs(scale.hint.center - ut), scale.hint.scale, ...(kernelHint ? [kernelHint.scale] : [])].filter((d) => d > 0 && Number.isFinite(d))
+  const sides = [-1, 1].map((dir) => {
+    const h = (w: number): number => {
+      const u = ut + dir * Math.exp(w)
+      return scale.logPrior(u) + logKernel(scale.theta(u)) + w
+    }
+    return new LogIntegral(h, centres.map((d) => ({ center: Math.log(d), scale: 1 }))).logValue
+  })
+  return logSumExp(sides)
+}
+
+/** ln Σ w_j Φ(e / s_j): the kernel's log CDF, in one pass without allocation. */
+function kernelLogCdf(s: Float64Array, logW: Float64Array, e: number): number {
   let top = -Infinity
-  for (let j = 0; j < s.length; j++) top = Math.max(top, logNormCdf(e / s[j]))
+  for (let j = 0; j < s.length; j++) top = Math.max(top, logW[j] + logNormCdf(e / s[j]))
   if (!Number.isFinite(top)) return top
   let total = 0
-  for (let j = 0; j < s.length; j++) total += w[j] * Math.exp(logNormCdf(e / s[j]) - top)
+  for (let j = 0; j < s.length; j++) total += Math.exp(logW[j] + logNormCdf(e / s[j]) - top)
   return top + Math.log(total)
 }
 
-/** Per-kernel constants of its log density: 1/s_j and ln w_j − ln s_j − ½ ln 2π. */
-const kernelConstants = new WeakMap<Kernel, { inv: Float64Array; c: Float64Array }>()
-
-/** ln Σ w_j φ(e / s_j) / s_j: the kernel's log density, in one pass without allocation (it runs inside nested quadratures). */
-function kernelLogPdf(kernel: Kernel, e: number): number {
-  let k = kernelConstants.get(kernel)
-  if (!k) {
-    k = { inv: Float64Array.from(kernel.s, (sj) => 1 / sj), c: Float64Array.from(kernel.s, (sj, j) => Math.log(kernel.w[j]) - Math.log(sj) - 0.5 * LN_2PI) }
-    kernelConstants.set(kernel, k)
-  }
-  const { inv, c } = k
+/** ln Σ w_j φ(e / s_j) / s_j: the kernel's log density, in one pass without allocation; inv = 1/s_j, c = ln w_j − ln s_j − ½ ln 2π. */
+function kernelLogPdf(inv: Float64Array, c: Float64Array, e: number): number {
   let top = -Infinity
   for (let j = 0; j < inv.length; j++) {
     const z = e * inv[j]
@@ -570,14 +605,69 @@ function kernelLogPdf(kernel: Kernel, e: number): number {
   return top + Math.log(total)
 }
 
+/**
+ * The kernel Σ w_j N(0, s_j²). A normal is read directly; a mixture through CheckedTables of its log density and log CDF
+ * (e ≤ 0; the other side by symmetry, K(e) = 1 − K(−e)) in t = ln(|e| + min s_j), which follow the sums to 2e-13: the
+ * predictive check reads the kernel inside nested quadratures, and each direct read costs one exponential per component.
+ */
+function scaleMixtureKernel(s: number[], w: number[]): Kernel {
+  const sd = Float64Array.from(s)
+  const logW = Float64Array.from(w, Math.log)
+  const inv = Float64Array.from(s, (sj) => 1 / sj)
+  const c = Float64Array.from(s, (sj, j) => logW[j] - Math.log(sj) - 0.5 * LN_2PI)
+  if (s.length === 1) return { s, w, logPdf: (e) => kernelLogPdf(inv, c, e), logCdf: (e) => kernelLogCdf(sd, logW, e) }
+  const floor = Math.min(...s)
+  const origin = Math.log(floor)
+  const atDistance = (t: number): number => Math.max(0, Math.exp(t) - floor)
+  const pdf = new CheckedTable((t) => kernelLogPdf(inv, c, atDistance(t)), origin, 2)
+  const lowerTail = new CheckedTable((t) => kernelLogCdf(sd, logW, -atDistance(t)), origin, 2)
+  const logLowerTail = (e: number): number => lowerTail.at(Math.log(-e + floor))
+  return {
+    s,
+    w,
+    logPdf: (e) => (Number.isFinite(e) ? pdf.at(Math.log(Math.abs(e) + floor)) : -Infinity),
+    logCdf: (e) => {
+      if (Number.isNaN(e)) return NaN
+      if (e === -Infinity) return -Infinity
+      if (e === Infinity) return 0
+      return e <= 0 ? logLowerTail(e) : Math.log1p(-Math.exp(logLowerTail(-e)))
+    },
+  }
+}
+
+/**
+ * The components of a scale mixture narrower than 1e-6 of its root-mean-square width, merged into one with their total
+ * weight and their mean variance: convolved with a prior whose own scale L is wider, the merged part differs from the
+ * parts by O(W (s/L)⁴) relative (the second moments agree), under 1e-18 for L above 1e-3 of the kernel's width (common
+ * practice: moment matching). The σ prior's nodes reach down to 1e-17 of its scale, and each of those narrow components
+ * otherwise needs its own detail in the kernel's tables.
+ */
+function mergeNarrowComponents(s: number[], w: number[]): [number[], number[]] {
+  const rms = Math.sqrt(s.reduce((acc, sj, j) => acc + w[j] * sj * sj, 0))
+  const narrow = s.map((sj) => sj < 1e-6 * rms)
+  const weight = w.reduce((acc, wj, j) => acc + (narrow[j] ? wj : 0), 0)
+  if (!(weight > 0)) return [s, w]
+  const variance = s.reduce((acc, sj, j) => acc + (narrow[j] ? w[j] * sj * sj : 0), 0) / weight
+  return [[Math.sqrt(variance), ...s.filter((_, j) => !narrow[j])], [weight, ...w.filter((_, j) => !narrow[j])]]
+}
+
+/** The kernels of x̄ − μ for σ priors in use, by (σ prior, n): every candidate of an analysis shares one. */
+const sigmaKernels = new Map<string, Kernel>()
+
 /** The kernel of x̄ − μ when σ has a prior: the σ prior's quadrature nodes as a scale mixture of N(0, σ²/n). */
 function sigmaMixtureKernel(sigmaPrior: PriorDistribution, n: number): Kernel {
+  const key = `${n}|${JSON.stringify(sigmaPrior)}`
+  const known = sigmaKernels.get(key)
+  if (known) return known
   const sScale = priorScale(sigmaPrior)
   const nodes = new LogIntegral((v) => sScale.logPrior(v), [sScale.hint]).nodes()
   const top = Math.max(...nodes.map((nd) => nd.weight))
   const kept = nodes.filter((nd) => nd.weight > 1e-16 * top)
   const total = kept.reduce((acc, nd) => acc + nd.weight, 0)
-  return { s: kept.map((nd) => sScale.theta(nd.u) / Math.sqrt(n)), w: kept.map((nd) => nd.weight / total) }
+  const kernel = scaleMixtureKernel(...mergeNarrowComponents(kept.map((nd) => sScale.theta(nd.u) / Math.sqrt(n)), kept.map((nd) => nd.weight / total)))
+  if (sigmaKernels.size >= 16) sigmaKernels.delete(sigmaKernels.keys().next().value!)
+  sigmaKernels.set(key, kernel)
+  return kernel
 }
 
 /**
@@ -918,7 +1008,7 @@ export function analyzePrior(
     case 'normal-known-sigma': {
       const st = normalStats(data.values)
       const c = normalKnownSigma(prior, st, data.sigma, force)
-      const pred = options.skipPredictiveCheck ? null : meanPredictive(prior, { s: [data.sigma / Math.sqrt(st.n)], w: [1] })
+      const pred = options.skipPredictiveCheck ? null : meanPredictive(prior, scaleMixtureKernel([data.sigma / Math.sqrt(st.n)], [1]))
       return {
         logEvidence: c.logEvidence,
         method: c.closed ? 'closed-form' : 'quadrature',

@@ -3,8 +3,8 @@
 import { logPdf, supportOf, toUnivariate } from './distributions'
 import { EngineInputError } from './errors'
 import {
-  asStandardBeta, hintOnU, logSumExp, normalStats, posteriorFromIntegral, priorScale, summarise, truncatedNormal, validateData,
-  type NormalStats, type Posterior, type PriorScale,
+  asStandardBeta, hintOnU, logSumExp, normalStats, posteriorFromIntegral, priorScale, sigmaMarginalFor, summarise, truncatedNormal, validateData,
+  type Posterior, type PriorScale,
 } from './evidence'
 import { integrate, LogIntegral, type Hint } from './quadrature'
 import { lbeta, lgamma, logNormDiff, softplus } from './special'
@@ -33,6 +33,8 @@ export const POWER_SCALING_STEP = 1.01
  * for a draw-free computation: 4000 draws, the default of four chains of 1000 in the paper's software).
  */
 export const CJS_DRAWS = 4000
+
+const LN_2PI = Math.log(2 * Math.PI)
 
 // ─── Data ────────────────────────────────────────────────────────────────────────────────────────
 
@@ -155,63 +157,15 @@ function kernelFor(data: PilotData, scale: PriorScale, alpha: number): Kernel {
     }
     case 'normal': {
       const st = normalStats(data.values)
-      const inner = sigmaIntegral(data.sigmaPrior, st, alpha)
+      // ∫ π(σ) σ^(−nα) exp(−α q / 2σ²) dσ is M for n·α observations at α·q, times (2π)^(nα/2).
+      const marginal = sigmaMarginalFor(st, data.sigmaPrior, alpha)
+      const constant = ((st.n * alpha) / 2) * LN_2PI
       const sigmaHat = Math.sqrt(st.ss / Math.max(1, st.n - 1))
-      return { logLik: (u) => inner(st.ss + st.n * (st.mean - scale.theta(u)) ** 2), hint: hintOnU(scale, st.mean, sigmaHat / Math.sqrt(alpha * st.n)) }
+      return {
+        logLik: (u) => marginal.logM(alpha * (st.ss + st.n * (st.mean - scale.theta(u)) ** 2)) + constant,
+        hint: hintOnU(scale, st.mean, sigmaHat / Math.sqrt(alpha * st.n)),
+      }
     }
-  }
-}
-
-/**
- * ln ∫ π(σ) σ^(−nα) exp(−α q / 2σ²) dσ as a function of q = Σ(xᵢ − μ)², the normal likelihood raised to α with σ
- * integrated out ((2π)^(−nα/2) left off). Interpolated in ln q by a Chebyshev series on 64 nodes over the range μ can
- * reach (Trefethen 2013, Approximation Theory and Approximation Practice, ch. 3–8); direct quadrature outside it.
- */
-function sigmaIntegral(sigmaPrior: PriorDistribution, st: NormalStats, alpha: number): (q: number) => number {
-  const key = JSON.stringify([sigmaPrior, st.n, st.mean, st.ss, alpha])
-  let fn = SIGMA_INTEGRALS.get(key)
-  if (!fn) {
-    if (SIGMA_INTEGRALS.size >= 64) SIGMA_INTEGRALS.clear()
-    fn = buildSigmaIntegral(sigmaPrior, st, alpha)
-    SIGMA_INTEGRALS.set(key, fn)
-  }
-  return fn
-}
-
-/** Interpolants already built, by σ prior, sufficient statistics and power: every candidate of one analysis shares them. */
-const SIGMA_INTEGRALS = new Map<string, (q: number) => number>()
-
-function buildSigmaIntegral(sigmaPrior: PriorDistribution, st: NormalStats, alpha: number): (q: number) => number {
-  const sScale = priorScale(sigmaPrior)
-  const { n, ss } = st
-  const direct = (q: number): number => {
-    const h = (v: number): number => {
-      const sigma = sScale.theta(v)
-      if (!(sigma > 0) || !Number.isFinite(sigma)) return -Infinity
-      return sScale.logPrior(v) - n * alpha * Math.log(sigma) - (alpha * q) / (2 * sigma * sigma)
-    }
-    const likHint = hintOnU(sScale, Math.sqrt(q / n), Math.sqrt(q / n) / Math.sqrt(2 * n * alpha))
-    return new LogIntegral(h, [sScale.hint, ...(likHint ? [likHint] : [])]).logValue
-  }
-  if (!(ss > 0)) return direct
-  const sigmaHat = Math.sqrt(ss / Math.max(1, n - 1))
-  const lo = Math.log(ss)
-  const hi = Math.log(ss + n * (40 * sigmaHat) ** 2)
-  const N = 64
-  const values = Array.from({ length: N }, (_, k) => direct(Math.exp(lo + ((hi - lo) * (1 + Math.cos((Math.PI * (k + 0.5)) / N))) / 2)))
-  const coef = Array.from({ length: N }, (_, j) => (2 / N) * values.reduce((s, f, k) => s + f * Math.cos((Math.PI * j * (k + 0.5)) / N), 0))
-  return (q) => {
-    const s = Math.log(q)
-    if (!(s >= lo && s <= hi)) return direct(q)
-    const x = (2 * (s - lo)) / (hi - lo) - 1
-    let b1 = 0
-    let b2 = 0
-    for (let j = N - 1; j >= 1; j--) {
-      const b0 = 2 * x * b1 - b2 + coef[j]
-      b2 = b1
-      b1 = b0
-    }
-    return x * b1 - b2 + coef[0] / 2
   }
 }
 

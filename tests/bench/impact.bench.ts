@@ -33,7 +33,7 @@ const scenarios: Scenario[] = [
   },
   {
     label: 'normal, unknown σ (σ ~ half-normal(5))',
-    data: (j) => ({ model: 'normal', values: X.map((x) => x + j), sigmaPrior: { family: 'half-normal', scale: 5 } }),
+    data: (j) => ({ model: 'normal', values: X.map((x) => x + j), sigmaPrior: { family: 'half-normal', scale: 5 + j } }),
     support: { kind: 'positive' },
     priors: NORMAL_PRIORS,
     reconciled: { conjugate: { family: 'normal', mu: 3, sigma: 1 }, other: { family: 'student-t', mu: 3, sigma: 1, df: 3 } },
