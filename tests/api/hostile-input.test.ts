@@ -41,7 +41,7 @@ const hostileBody = fc.oneof(
 const TABLES = ['users', 'studies', 'study_members', 'quantities', 'evidence_files', 'calibration_questions', 'rounds', 'round_items', 'round_panel',
   'invitations', 'declarations', 'judgements', 'judgement_versions', 'calibration_answers', 'reconciliations', 'pilot_datasets', 'impact_analyses', 'impact_jobs',
   'impact_not_run', 'prior_records', 'record_comments', 'outbox_messages', 'audit_events', 'compositions', 'composition_shares', 'composition_datasets', 'composition_analyses',
-  'round_links', 'link_answers', 'link_answer_versions']
+  'round_links', 'link_answers', 'link_answer_versions', 'link_reconciliations', 'link_reconciliation_versions']
 
 let f: MatrixFixture
 beforeAll(async () => {

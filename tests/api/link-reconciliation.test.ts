@@ -279,6 +279,9 @@ describe('joint draws', () => {
     ['?seed=-1', { seed: 'The seed is a whole number from 0 to 2147483647' }],
     ['?seed=1e12', { seed: 'The seed is a whole number from 0 to 2147483647' }],
     ['?n=5&seed=x', { seed: 'The seed is a whole number from 0 to 2147483647' }],
+    ['?n=', { n: 'Ask for a whole number of draws from 1 to 100000' }],
+    ['?n=1&n=2', { n: 'Must be a number' }],
+    ['?draws=5', { draws: 'Unknown field: draws' }],
   ])('refuses %s with a field error', async (query, fields) => {
     const res = await draws(q.bursts, query)
     expect(res.status).toBe(400)
