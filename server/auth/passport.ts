@@ -1,8 +1,10 @@
+import type { Request } from 'express'
 import passport, { type PassportStatic } from 'passport'
 import { Strategy as LocalStrategy } from 'passport-local'
 import type { User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { findUserById, verifyCredentials } from '../services/users'
+import { accountReadWithSession } from '../session'
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
@@ -25,7 +27,10 @@ export function createPassport(db: Db): PassportStatic {
     }),
   )
   p.serializeUser((user, done) => done(null, (user as User).id))
-  p.deserializeUser((id: number, done) => {
+  p.deserializeUser((req: Request, id: number, done: (err: unknown, user?: Express.User | false) => void) => {
+    // The session store read the account with the session (one query a request); otherwise read it here.
+    const read = accountReadWithSession(req)
+    if (read !== undefined && (read === null || read.id === id)) return done(null, read && !read.disabled ? read : false)
     findUserById(db, id).then(
       (user) => done(null, user && !user.disabled ? user : false),
       (err) => done(err),

@@ -4,11 +4,11 @@ import type { JudgementSaved } from '../../shared/api/judgements'
 import { currentUser } from '../auth/guards'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/http-error'
-import { idParam } from '../http/id-param'
+import { idOrNull, idParam } from '../http/id-param'
 import { validateBody } from '../http/validate-body'
-import { allow, accessVia } from '../services/access'
+import { accessFromRow, allow, accessVia } from '../services/access'
 import {
-  feedbackFor, judgementHistory, listCalibrationAnswers, listJudgements, reopenSubmission, saveCalibrationAnswer, saveJudgement, submitRound,
+  feedbackFor, judgementHistory, listCalibrationAnswers, listJudgements, readForSave, reopenSubmission, saveCalibrationAnswer, saveJudgement, submitRound,
 } from '../services/judgements'
 
 /** Experts' answers: their own drafts and submission; analysts read everything and may reopen. */
@@ -29,11 +29,15 @@ export function judgementsRouter(db: Db): Router {
   })
 
   r.put('/rounds/:id/judgements/:quantityId', async (req, res) => {
-    const { id, access } = await roundAccess(req)
+    // The autosave: the access check and everything the save reads come in one query, refused in roundAccess's order.
+    const user = currentUser(req)
+    const id = idParam(req.params.id, 'Round')
+    const read = await readForSave(db, user, id, idOrNull(req.params.quantityId))
+    const access = accessFromRow(read, user, 'Round')
     allow(access, 'expert')
     if (access.role !== 'expert') throw new HttpError(403, 'Only the experts on the panel answer')
     const body = await validateBody(judgementSchema, req.body)
-    const { judgement, fits, complete, fitMessage } = await saveJudgement(db, access.user, id, idParam(req.params.quantityId, 'Quantity'), body)
+    const { judgement, fits, complete, fitMessage } = await saveJudgement(db, access.user, id, idParam(req.params.quantityId, 'Quantity'), body, read)
     res.json({ judgement, fits, complete, fitMessage } satisfies JudgementSaved)
   })
 

@@ -22,6 +22,14 @@ export async function accessVia(db: Db, user: User, table: StudyOwned, id: numbe
     .leftJoin('study_members as m', (j) => j.on('m.study_id', '=', studyColumn).andOn('m.user_id', '=', db.raw('?', [user.id])))
     .where('t.id', id)
     .first(`${studyColumn} as study_id`, 'm.study_role')
+  return accessFromRow(row, user, what)
+}
+
+/**
+ * The access a row of an object's study and the caller's membership gives (a query that reads more, such as the
+ * autosave's, selects `study_id` and `study_role` the way accessVia does): 404 without the row, 403 for a non-member.
+ */
+export function accessFromRow(row: { study_id: number; study_role: StudyRole | null } | undefined, user: User, what: string): StudyAccess {
   if (!row) throw new HttpError(404, `${what} not found`)
   if (user.role === 'admin') return { studyId: row.study_id, role: 'admin', user }
   if (!row.study_role) throw new HttpError(403, 'You are not a member of this study')

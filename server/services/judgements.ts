@@ -2,9 +2,9 @@ import { fitAnswer, type AnswerInput, type AnswerItem } from '../../shared/elici
 import { chosenFit } from '../../shared/elicitation/fits'
 import type { CalibrationAnswer, Judgement, JudgementSaved, JudgementVersion, RoundFeedback } from '../../shared/api/judgements'
 import type { ElicitationMethod } from '../../shared/schemas/rounds'
-import type { Family, FitResult } from '../../shared/stats/index'
+import type { Family, FitResult, Support } from '../../shared/stats/index'
 import { RATIONALE_MIN, type JudgementBody } from '../../shared/schemas/judgements'
-import type { User } from '../../shared/types/index'
+import type { StudyRole, User } from '../../shared/types/index'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/http-error'
 import { canAnalyse, studyAccess } from './access'
@@ -52,22 +52,51 @@ function toJudgement(r: JudgementRow, withName: boolean): Judgement {
   }
 }
 
+/** What a save reads before writing: the caller's role in the round's study, the round, its panel and the item. */
+export interface AnsweringRow {
+  study_id: number
+  study_role: StudyRole | null
+  status: string
+  closes_at: Date
+  panel_id: number | null
+  method: ElicitationMethod | null
+  edges: number[] | null
+  chips: number | null
+  ask_tails: boolean
+  support_kind: Support['kind']
+  support_lower: number | null
+  support_upper: number | null
+}
+
 /**
- * Everything a save checks before writing, in one query (autosave runs it every few seconds per expert): the round
- * is open, the user is on its panel, the quantity is one of its items.
+ * Everything a save checks before writing, in one query (autosave runs it every second or so per typing expert): the
+ * caller's study membership (as accessVia reads it), the round is open, the user is on its panel, the quantity is one
+ * of its items (none when `quantityId` is null). A missing round is refused here; the other refusals stay with the
+ * callers, in accessVia's and answering's order: accessFromRow for the study, saveJudgement for the round and the item.
  */
-async function answeringItem(db: Db, user: User, roundId: number, quantityId: number) {
-  const row = await db('rounds as r')
-    .leftJoin('round_panel as p', (j) => j.on('p.round_id', '=', 'r.id').andOn('p.user_id', '=', db.raw('?', [user.id])))
-    .leftJoin('round_items as i', (j) => j.on('i.round_id', '=', 'r.id').andOn('i.quantity_id', '=', db.raw('?', [quantityId])))
-    .leftJoin('quantities as q', 'q.id', 'i.quantity_id')
-    .where('r.id', roundId)
-    .first('r.status', 'r.closes_at', 'r.study_id', 'p.id as panel_id', 'i.method', 'i.edges', 'i.chips', 'i.ask_tails', 'q.support_kind', 'q.support_lower', 'q.support_upper')
-  if (!row) throw new HttpError(404, 'Round not found')
-  refuseUnlessAnswering(row, !!row.panel_id)
+export async function readForSave(db: Db, user: User, roundId: number, quantityId: number | null): Promise<AnsweringRow> {
+  const { rows } = await db.raw(
+    `SELECT r.study_id, m.study_role, r.status, r.closes_at, p.id AS panel_id, i.method, i.edges, i.chips, i.ask_tails,
+            q.support_kind, q.support_lower, q.support_upper
+       FROM rounds r
+       LEFT JOIN study_members m ON m.study_id = r.study_id AND m.user_id = :userId
+       LEFT JOIN round_panel p ON p.round_id = r.id AND p.user_id = :userId
+       LEFT JOIN round_items i ON i.round_id = r.id AND i.quantity_id = :quantityId
+       LEFT JOIN quantities q ON q.id = i.quantity_id
+      WHERE r.id = :roundId
+      LIMIT 1`,
+    { userId: user.id, roundId, quantityId },
+  )
+  if (!rows[0]) throw new HttpError(404, 'Round not found')
+  return rows[0]
+}
+
+/** The answered item and its quantity's support, or the refusal: round closed, user not on the panel, item not in the round. */
+function answeringItem(row: AnsweringRow) {
+  refuseUnlessAnswering(row, row.panel_id !== null)
   if (!row.method) throw new HttpError(404, 'This quantity is not part of the round')
   const item: AnswerItem = { method: row.method, edges: row.edges ?? undefined, chips: row.chips ?? undefined, askTails: row.ask_tails }
-  return { studyId: row.study_id as number, item, support: supportFromRow(row) }
+  return { studyId: row.study_id, item, support: supportFromRow(row) }
 }
 
 async function assertAnswering(db: Db, user: User, roundId: number) {
@@ -89,8 +118,8 @@ export async function listJudgements(db: Db, roundId: number, viewer: { user: Us
  * Saves one draft answer: incoherent input → 400 with field errors; stale version → 409; a submitted
  * answer is frozen. The fits are recomputed here with the same engine the browser ran.
  */
-export async function saveJudgement(db: Db, user: User, roundId: number, quantityId: number, body: JudgementBody): Promise<JudgementSaved & { studyId: number }> {
-  const { studyId, item, support } = await answeringItem(db, user, roundId, quantityId)
+export async function saveJudgement(db: Db, user: User, roundId: number, quantityId: number, body: JudgementBody, read: AnsweringRow): Promise<JudgementSaved & { studyId: number }> {
+  const { studyId, item, support } = answeringItem(read)
   if (body.method !== item.method) throw new HttpError(400, 'This quantity uses another method in this round', { method: `This round uses the ${item.method} method here` })
   const input: AnswerInput = item.method === 'quantile'
     ? { lower: body.lower, upper: body.upper, points: body.points }

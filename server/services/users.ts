@@ -1,4 +1,6 @@
 import bcrypt from 'bcryptjs'
+import type { SessionData } from 'express-session'
+import type pg from 'pg'
 import { normaliseEmail } from '../../shared/schemas/auth'
 import type { Role, StudyRole, User } from '../../shared/types/index'
 import { checkPassword } from '../auth/passwords'
@@ -21,7 +23,7 @@ const BCRYPT_COST = 10
 /** A hash of no one's password at the same cost: unknown and disabled accounts take as long to refuse as a wrong password. */
 const DUMMY_HASH = '$2b$10$fZqvjp3eClntf3TNw635fOllKOXt.O74VD.t8cr9iwIzsupSAwkwe'
 
-export function toUser(r: UserRow): User {
+export function toUser(r: Omit<UserRow, 'password_hash'>): User {
   return {
     id: r.id,
     email: r.email,
@@ -36,6 +38,26 @@ export function toUser(r: UserRow): User {
 export async function findUserById(db: Db, id: number): Promise<User | null> {
   const row = await db<UserRow>('users').where({ id }).first()
   return row ? toUser(row) : null
+}
+
+/**
+ * A stored session with the account it is signed in to, in one query (this runs on every request, autosaves
+ * included): the session's data when it exists and has not expired (connect-pg-simple's own condition, `now` in
+ * seconds), and its account (null when the session is not signed in or the account is gone). Reads the session
+ * store's table through the store's own pool.
+ */
+export async function sessionWithAccount(pool: pg.Pool, sid: string, now: number): Promise<{ sess: SessionData; account: User | null } | undefined> {
+  const { rows } = await pool.query<{ sess: SessionData } & Partial<Omit<UserRow, 'password_hash'>>>(
+    `SELECT s.sess, u.id, u.email, u.display_name, u.role, u.disabled, u.created_at, u.updated_at
+       FROM "session" s
+       LEFT JOIN users u ON u.id = CASE WHEN s.sess #>> '{passport,user}' ~ '^[0-9]{1,9}$' THEN (s.sess #>> '{passport,user}')::int END
+      WHERE s.sid = $1 AND s.expire >= to_timestamp($2)`,
+    [sid, now],
+  )
+  const row = rows[0]
+  if (!row) return undefined
+  const { sess, ...account } = row
+  return { sess, account: account.id === null || account.id === undefined ? null : toUser(account as Omit<UserRow, 'password_hash'>) }
 }
 
 /** Returns the user when the password matches an enabled account, else null (no hint which part failed). */

@@ -132,6 +132,34 @@ describe('saving answers', () => {
     const all = (await analyst.get(`/api/rounds/${roundId}/judgements`)).body
     expect(all.map((j: { expertName: string }) => j.expertName)).toEqual(['Tomasz Wierzbicki', 'Tomasz Wierzbicki', 'Tomasz Wierzbicki'])
   })
+
+  it('refuses a save for the first thing wrong, in a fixed order: round, study membership, role, body, panel, quantity', async () => {
+    const refusal = async (c: Client, round: number | string, quantity: number | string, body: object) => {
+      const res = await c.put(`/api/rounds/${round}/judgements/${quantity}`, body)
+      return [res.status, res.body.error?.message]
+    }
+    const good = quantile({ lower: 1, upper: 9 }, 0)
+    const bad = { ...good, points: 'none' }
+    const outsider = await signedIn(h, 'expert3@kestrel.example')
+    const admin = await signedIn(h, 'admin@kestrel.example')
+    const unasked = (await analyst.post(`/api/studies/${studyId}/quantities`, { name: 'load unasked', symbol: 'unasked', unit: 'u', question: 'What is not asked in the round?', support: { kind: 'real' } }).expect(201)).body.id
+    // A second round of the study whose panel is expert 2 alone: expert 1 is a member of the study but not on it.
+    const other = (await analyst.post(`/api/studies/${studyId}/rounds`, {
+      title: 'load second round', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + day).toISOString(), items: [{ quantityId: q.burst, method: 'quantile' }],
+    }).expect(201)).body.id
+    await analyst.post(`/api/rounds/${other}/invitations`, { email: 'expert2@kestrel.example', name: 'Helen' }).expect(201)
+    await analyst.post(`/api/rounds/${other}/open`).expect(200)
+
+    expect(await refusal(expert1, 2_000_000_000, q.burst, bad)).toEqual([404, 'Round not found'])
+    expect(await refusal(outsider, roundId, 'x', bad)).toEqual([403, 'You are not a member of this study'])
+    expect(await refusal(analyst, roundId, 'x', bad)).toEqual([403, 'Your role in this study does not allow this'])
+    expect(await refusal(admin, roundId, 'x', bad)).toEqual([403, 'Only the experts on the panel answer'])
+    expect((await refusal(expert1, other, 'x', bad))[0]).toBe(400)
+    expect(await refusal(expert1, roundId, 'x', good)).toEqual([404, 'Quantity not found'])
+    expect(await refusal(expert1, other, q.burst, good)).toEqual([403, 'You are not on the panel of this round'])
+    expect(await refusal(expert1, roundId, unasked, good)).toEqual([404, 'This quantity is not part of the round'])
+    expect(await refusal(expert2, other, q.burst, good)).toEqual([200, undefined])
+  })
 })
 
 describe('submitting', () => {

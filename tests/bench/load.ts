@@ -3,6 +3,7 @@
 // made anew (migrated and seeded) each run, so the development database is left as it was. Run with
 // `npm run bench:load` after `npm run db:up` (and `npm run build` for the bundle figures).
 import { readdirSync, readFileSync, existsSync } from 'node:fs'
+import { cpus } from 'node:os'
 import path from 'node:path'
 import { gzipSync } from 'node:zlib'
 import autocannon from 'autocannon'
@@ -12,7 +13,8 @@ const EXPERTS = Number(process.env.LOAD_EXPERTS ?? 50)
 const SECONDS = Number(process.env.LOAD_SECONDS ?? 20)
 const PASSWORD = 'load-test-pass-1'
 
-const { root, db, base, session, call, stop } = await serveBenchApp({ database: 'priorsmith_load', port: Number(process.env.LOAD_PORT ?? 3917), env: { SESSION_SECRET: 'load-bench', SIGN_IN_LIMIT: '100000' } })
+// Two app instances on the one database: the first serves every phase, the second only the last one (what it adds).
+const { root, db, base, bases, session, call, stop, cpuTimes } = await serveBenchApp({ database: 'priorsmith_load', port: Number(process.env.LOAD_PORT ?? 3917), instances: 2, env: { SESSION_SECRET: 'load-bench', SIGN_IN_LIMIT: '100000' } })
 
 const stamp = Date.now()
 console.log(`setting up: ${EXPERTS} expert accounts, a study, a round, a pilot dataset and a reconciled prior…`)
@@ -30,7 +32,9 @@ for (const [k, v] of Object.entries({ quantityId: String(quantity.id), name: 'Lo
 form.append('file', new Blob(['v\n3.1\n4.6\n2.4\n3.8\n5.2\n2.9\n4.1\n3.5\n']), 'pilot.csv')
 const dataset = await (await fetch(`${base}/api/studies/${study.id}/datasets`, { method: 'POST', headers: { cookie: analyst.cookie, 'x-csrf-token': analyst.token }, body: form })).json()
 await db('reconciliations').insert({ quantity_id: quantity.id, round_id: round.id, method: 'linear', weights_mode: 'equal', family: 'gamma', distribution: JSON.stringify({ family: 'gamma', shape: 6, rate: 1.6 }), status: 'reconciled', rationale: 'Load benchmark fixture.' })
-const sessions = await Promise.all(emails.map((e) => session(e, PASSWORD)))
+// One sign-in at a time: the app checks passwords on one thread with a bounded queue and answers a burst of 50 with 429s.
+const sessions: Session[] = []
+for (const email of emails) sessions.push(await session(email, PASSWORD))
 
 interface Measured {
   requests: number
@@ -66,6 +70,18 @@ function summary(label: string, m: Measured) {
   console.log(`${label}: ${m.requests} requests, ${(m.requests / m.seconds).toFixed(1)} req/s, latency p50 ${ms(50)} ms, p95 ${ms(95)} ms, p99 ${ms(99)} ms, max ${ms(100)} ms, errors ${m.errors} (non-2xx ${m.non2xx})`)
 }
 
+/** CPU time per save over a phase: the app processes' and the PostgreSQL backends' (the analyst's requests included). */
+function cpuPerSave(before: ReturnType<typeof cpuTimes>, m: Measured) {
+  const after = cpuTimes()
+  if (!before || !after) return
+  const per = (ms: number) => (ms / m.requests).toFixed(2)
+  const app = after.app - before.app
+  const main = after.appMain - before.appMain
+  const postgres = after.postgres - before.postgres
+  const s = (ms: number) => `${(ms / 1000).toFixed(1)} s`
+  console.log(`CPU per save: app's main thread ${per(main)} ms (whole app ${per(app)} ms, its analysis thread included), PostgreSQL backends ${per(postgres)} ms; in all ${s(main)}, ${s(app)}, ${s(postgres)} over ${m.seconds} s on ${cpus().length} cores`)
+}
+
 // Each expert's current draft version, by session cookie: a save sends the version the previous save returned, as
 // the client does. autocannon resets a connection's context before each new cycle of its request list, so the
 // version is kept here, and the context only carries which expert the request in flight belongs to.
@@ -73,10 +89,10 @@ const versions = new Map<string, number>(sessions.map((s) => [s.cookie, 0]))
 let firstFailure = ''
 
 /** Autosaves of the given experts, one connection each, at `rate` saves per second each or back to back. */
-function autosaves(experts: Session[], rate: number | undefined, seconds = SECONDS) {
+function autosaves(experts: Session[], rate: number | undefined, seconds = SECONDS, url = base) {
   let connection = 0
   return measured({
-    url: base, connections: experts.length, duration: seconds, ...(rate ? { connectionRate: rate } : {}),
+    url, connections: experts.length, duration: seconds, ...(rate ? { connectionRate: rate } : {}),
     setupClient: (client) => {
       const s = experts[connection++ % experts.length]
       client.setHeaders({ cookie: s.cookie, 'x-csrf-token': s.token, 'content-type': 'application/json' })
@@ -170,9 +186,25 @@ await reloadVersions()
 // Saturation: every expert saves again the moment the previous save returns. Shows the capacity, and the latency
 // once requests queue behind each other.
 console.log(`running ${SECONDS} s: ${EXPERTS} experts autosaving back to back, 1 analyst running impact analyses…`)
+let cpu = cpuTimes()
 const [flat, flatImpact] = await Promise.all([autosaves(sessions, undefined), impactLoad()])
 summary(`autosave, saturated (PUT judgement, ${EXPERTS} connections back to back)`, flat)
 summary('impact analysis alongside (queued and followed to its result, uncached)', flatImpact)
+cpuPerSave(cpu, flat)
+
+await reloadVersions()
+
+// What a second app instance adds: the same back-to-back load, half the experts on each of two app processes on the
+// one database (as behind a load balancer). On one 2-core machine both processes and PostgreSQL share the cores.
+console.log(`running ${SECONDS} s: ${EXPERTS} experts autosaving back to back on ${bases.length} app instances, 1 analyst running impact analyses…`)
+cpu = cpuTimes()
+const [two, twoImpact] = await Promise.all([
+  Promise.all(bases.map((url, i) => autosaves(sessions.filter((_, j) => j % bases.length === i), undefined, SECONDS, url))).then(together),
+  impactLoad(),
+])
+summary(`autosave, saturated on ${bases.length} instances (PUT judgement, ${EXPERTS} connections back to back)`, two)
+summary('impact analysis alongside (queued and followed to its result, uncached)', twoImpact)
+cpuPerSave(cpu, two)
 if (firstFailure) console.log(`first autosave refusal: ${firstFailure}`)
 
 const assets = path.join(root, 'dist', 'assets')
