@@ -18,6 +18,7 @@ import { devMailboxRouter } from './routes/dev-mailbox'
 import { healthRouter } from './routes/health'
 import { impactRouter } from './routes/impact'
 import { createAnalysisQueue } from './compute/analysis-queue'
+import { ComputeThread } from './compute/threads'
 import { invitationsRouter } from './routes/invitations'
 import { linksRouter } from './routes/links'
 import { judgementsRouter } from './routes/judgements'
@@ -110,7 +111,11 @@ export function createApp(opts: AppOptions): PriorsmithApp {
   app.use('/api', quantitiesRouter(db))
   app.use('/api', calibrationRouter(db))
   app.use('/api', compositionsRouter(db))
-  app.use('/api', linkReconciliationRouter(db))
+  // Joint draws (up to 100,000 rows of a linked set) take seconds: a compute thread of the web process makes them, so other
+  // requests are answered meanwhile. Started on the first download; one download at a time, the next waits its turn.
+  const drawsThread = new ComputeThread()
+  const analysisTimeLimitMs = (opts.analysisTimeLimitSeconds ?? 600) * 1000
+  app.use('/api', linkReconciliationRouter(db, (task) => drawsThread.jointDraws(task, analysisTimeLimitMs)))
   app.use('/api', roundsRouter(ctx))
   app.use('/api', judgementsRouter(db))
   app.use('/api', linksRouter(db))
@@ -138,6 +143,7 @@ export function createApp(opts: AppOptions): PriorsmithApp {
       await signInGuard.close()
       await sessions.close()
       await analysisQueue.close()
+      await drawsThread.stop()
     },
   }
 }

@@ -1,7 +1,7 @@
 import type { ImpactComputation } from '../../shared/api/impact'
 import { candidateSteps, evaluateCandidates, findings, sweepOf, sweepSteps, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
 import { tippingPoint, type TippingPoint } from '../../shared/elicitation/tipping'
-import type { Distribution, PilotData, Support } from '../../shared/stats/index'
+import { sampleJoint, type Distribution, type PilotData, type PriorDistribution, type Support } from '../../shared/stats/index'
 
 export interface ImpactTask {
   candidates: CandidateInput[]
@@ -46,4 +46,22 @@ export function computeImpact(t: ImpactTask, onProgress: (done: number) => void 
     step()
   }
   return { candidates, sweep, tipping, findings: findings(candidates, sweep, t.n), computeMs: Date.now() - started }
+}
+
+/** A linked set's joint draws: the marginals in column order with their symbols, the correlation matrix, n and the seed. */
+export interface JointDrawsTask {
+  symbols: string[]
+  marginals: PriorDistribution[]
+  matrix: number[][]
+  n: number
+  seed: number
+}
+
+/**
+ * The joint draws (sampleJoint) as CSV: one column per quantity named by its symbol, one draw per line, each number
+ * written with the digits that read back to the same double, so the same seed gives the same bytes.
+ */
+export function computeJointDraws(t: JointDrawsTask): string {
+  const draws = sampleJoint(t.marginals, t.matrix, t.n, t.seed)
+  return `${t.symbols.join(',')}\n${draws.map((row) => row.map(String).join(',')).join('\n')}\n`
 }

@@ -1,9 +1,9 @@
-// A compute thread: runs impact analyses off the event loop of the process that works the queue, so that its
-// progress reports, its database writes and (in the web process) other users' requests carry on meanwhile.
+// A compute thread: runs impact analyses (and a linked set's joint draws) off the event loop of the process that asks,
+// so that its progress reports, its database writes and (in the web process) other users' requests carry on meanwhile.
 import { setPriority } from 'node:os'
 import { parentPort } from 'node:worker_threads'
 import { EngineInputError } from '../../shared/stats/index'
-import { computeImpact, type ImpactTask } from './tasks'
+import { computeImpact, computeJointDraws } from './tasks'
 import type { ThreadReply, ThreadRequest } from './threads'
 
 // On Linux a thread has a nice value of its own: below the process's other threads (the web process's requests, the
@@ -18,14 +18,16 @@ try {
 class Stopped extends Error {}
 
 const port = parentPort!
-port.on('message', ({ id, task, stop }: ThreadRequest) => {
+port.on('message', ({ id, work, stop }: ThreadRequest) => {
   const reply = (m: ThreadReply) => port.postMessage(m)
   const stopFlag = new Int32Array(stop)
   try {
-    const result = computeImpact(task as ImpactTask, (done) => {
-      if (Atomics.load(stopFlag, 0) === 1) throw new Stopped()
-      reply({ id, progress: done })
-    })
+    const result = work.kind === 'impact'
+      ? computeImpact(work.task, (done) => {
+        if (Atomics.load(stopFlag, 0) === 1) throw new Stopped()
+        reply({ id, progress: done })
+      })
+      : computeJointDraws(work.task)
     reply({ id, ok: true, result })
   } catch (err) {
     const e = err as Error

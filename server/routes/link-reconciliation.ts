@@ -5,11 +5,11 @@ import type { Db } from '../db/knex'
 import { idParam } from '../http/id-param'
 import { validateBody } from '../http/validate-body'
 import { accessVia, allow, studyAccess } from '../services/access'
-import { decideLink, jointDrawsCsv, studyLinkedQuantities } from '../services/link-reconciliation'
+import { decideLink, jointDrawsCsv, studyLinkedQuantities, type JointDrawsComputer } from '../services/link-reconciliation'
 import { roundOfLink } from '../services/links'
 
 /** Links at reconciliation: the pooled correlations, the analyst's decisions, the linked sets' matrices and joint draws. */
-export function linkReconciliationRouter(db: Db): Router {
+export function linkReconciliationRouter(db: Db, computeDraws: JointDrawsComputer): Router {
   const r = Router()
   // Mounted at /api: no router-wide guard, or unknown /api routes would answer 401; currentUser() guards each handler.
 
@@ -33,7 +33,7 @@ export function linkReconciliationRouter(db: Db): Router {
     const access = await accessVia(db, currentUser(req), 'quantities', id, 'Quantity')
     allow(access, 'analyst', 'reviewer')
     const query = await validateBody(jointDrawsSchema, req.query)
-    const { csv, symbols } = await jointDrawsCsv(db, access.studyId, id, query)
+    const { csv, symbols } = await jointDrawsCsv(db, computeDraws, access.studyId, id, query)
     res.setHeader('Content-Type', 'text/csv; charset=utf-8')
     res.setHeader('Content-Disposition', `attachment; filename="joint-draws-${symbols.join('-').replace(/[^A-Za-z0-9_-]/g, '_')}-seed${query.seed}-n${query.n}.csv"`)
     res.send(csv)

@@ -6,9 +6,10 @@ import {
 } from '../../shared/elicitation/linked-sets'
 import type { JointDrawsQuery, LinkReconciliationBody } from '../../shared/schemas/link-reconciliation'
 import {
-  conditionalFromCopulaCorrelation, copulaCorrelationFromConditional, poolCorrelations, sampleJoint, type Distribution,
+  conditionalFromCopulaCorrelation, copulaCorrelationFromConditional, poolCorrelations, type Distribution,
 } from '../../shared/stats/index'
 import type { User } from '../../shared/types/index'
+import type { JointDrawsTask } from '../compute/tasks'
 import type { Db } from '../db/knex'
 import { HttpError } from '../http/http-error'
 import { recordAudit } from './audit'
@@ -180,13 +181,16 @@ async function readySetOf(db: Db, studyId: number, quantityId: number): Promise<
   return set
 }
 
+/** Computes joint draws as CSV text (computeJointDraws), on a compute thread in the app. */
+export type JointDrawsComputer = (task: JointDrawsTask) => Promise<string>
+
 /**
- * n seeded joint draws of the quantity's linked set as CSV: one column per quantity named by its symbol, one draw per line,
- * each number written with the digits that read back to the same double, so the same seed gives the same bytes.
+ * n seeded joint draws of the quantity's linked set as CSV (computeJointDraws): one column per quantity named by its
+ * symbol, the same bytes for the same seed. Up to 100,000 draws take seconds, so `compute` runs them off the event loop.
  */
-export async function jointDrawsCsv(db: Db, studyId: number, quantityId: number, query: JointDrawsQuery): Promise<{ csv: string; symbols: string[] }> {
+export async function jointDrawsCsv(db: Db, compute: JointDrawsComputer, studyId: number, quantityId: number, query: JointDrawsQuery): Promise<{ csv: string; symbols: string[] }> {
   const set = await readySetOf(db, studyId, quantityId)
-  const draws = sampleJoint(set.marginals.map((m) => m.distribution!), set.jointMatrix, query.n, query.seed)
   const symbols = set.marginals.map((m) => m.symbol)
-  return { csv: `${symbols.join(',')}\n${draws.map((row) => row.map(String).join(',')).join('\n')}\n`, symbols }
+  const csv = await compute({ symbols, marginals: set.marginals.map((m) => m.distribution!), matrix: set.jointMatrix, n: query.n, seed: query.seed })
+  return { csv, symbols }
 }

@@ -22,6 +22,12 @@ export function quantityStatus(s: { started: boolean; complete: boolean; fitted:
   return s.started ? 'in-progress' : 'not-started'
 }
 
+/** A link's question: complete once a chance is given (the reason is optional); in progress once a reason is typed. */
+export function linkStatus(s: { probability: number | null; rationale: string }): ItemStatus {
+  if (s.probability !== null) return 'complete'
+  return s.rationale.trim() ? 'in-progress' : 'not-started'
+}
+
 /** The calibration block: complete when every question has its three values saved. */
 export function calibrationStatus(questions: { saved: boolean; started: boolean }[]): ItemStatus {
   if (questions.length > 0 && questions.every((q) => q.saved)) return 'complete'
@@ -33,17 +39,20 @@ export interface SubmitProblems {
   quantities: Record<number, string>
   /** Messages by calibration question id. */
   calibration: Record<number, string>
+  /** Messages by link id. */
+  links: Record<number, string>
   /** Messages not tied to an item. */
   other: string[]
 }
 
-/** Sorts the submit endpoint's field errors ('quantity.<id>', 'calibration.<questionId>') onto the rail's items. */
+/** Sorts the submit endpoint's field errors ('quantity.<id>', 'calibration.<questionId>', 'link.<id>') onto the rail's items. */
 export function submitProblems(fields: Record<string, string>): SubmitProblems {
-  const out: SubmitProblems = { quantities: {}, calibration: {}, other: [] }
+  const out: SubmitProblems = { quantities: {}, calibration: {}, links: {}, other: [] }
   for (const [key, message] of Object.entries(fields)) {
-    const m = /^(quantity|calibration)\.(\d+)$/.exec(key)
+    const m = /^(quantity|calibration|link)\.(\d+)$/.exec(key)
     if (!m) out.other.push(message)
     else if (m[1] === 'quantity') out.quantities[Number(m[2])] = message
+    else if (m[1] === 'link') out.links[Number(m[2])] = message
     else out.calibration[Number(m[2])] = message
   }
   return out

@@ -4,6 +4,7 @@ import { api } from './client'
 export type { LinkAnswer, LinkAnswerSave, LinkAnswerStatus, LinkAnswerVersion, LinkedQuantity, LinkPatchBody, LinkWriteBody, RoundLink } from '@shared/api/links'
 
 export const linksApi = {
+  get: (id: number) => api.get<RoundLink>(`/api/links/${id}`),
   create: (roundId: number, body: LinkWriteBody) => api.post<RoundLink>(`/api/rounds/${roundId}/links`, body),
   update: (id: number, body: LinkPatchBody) => api.patch<RoundLink>(`/api/links/${id}`, body),
   remove: (id: number) => api.delete(`/api/links/${id}`),

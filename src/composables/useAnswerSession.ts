@@ -1,7 +1,8 @@
 import { computed, effectScope, reactive, ref, shallowRef, type ComputedRef, type EffectScope, type Ref } from 'vue'
 import type { AnswerItem } from '@shared/elicitation/answers'
 import { chosenFit } from '@shared/elicitation/fits'
-import type { FitResult } from '@shared/stats'
+import type { Distribution, FitResult } from '@shared/stats'
+import type { RoundLink } from '@/api/links'
 import type { Composition } from '@/api/compositions'
 import type { CalibrationQuestion } from '@/api/calibration'
 import { ApiError } from '@/api/client'
@@ -15,6 +16,7 @@ import { FIELD_TITLES } from '@/answer/quantile'
 import {
   calibrationProblems,
   calibrationStatus,
+  linkStatus,
   quantityStatus,
   submitProblems as sortSubmitProblems,
   type ItemStatus,
@@ -77,9 +79,31 @@ export interface CalibrationState {
   started: ComputedRef<boolean>
 }
 
+/** The changing part of a link's answer (reactive): the chance as a fraction, null until given. */
+export interface LinkData {
+  probability: number | null
+  rationale: string
+  version: number
+  conflict: Conflict | null
+}
+
+/** One link of the round: its answer, autosave, and the expert's own fitted distributions of its two quantities. */
+export interface LinkState {
+  kind: 'link'
+  key: string
+  link: RoundLink
+  data: LinkData
+  autosave: Autosave
+  /** The two quantities' answer states, first then second. */
+  quantities: [QuantityState, QuantityState]
+  /** The expert's fitted distributions of the two quantities (null until both are answered). */
+  marginals: ComputedRef<[Distribution, Distribution] | null>
+  status: ComputedRef<ItemStatus>
+}
+
 export interface RailItem {
   key: string
-  kind: 'quantity' | 'calibration'
+  kind: 'quantity' | 'calibration' | 'link'
   title: string
   status: ItemStatus
   /** A problem the submit found with this item. */
@@ -164,6 +188,7 @@ export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: 
   const store = useJudgementsStore()
   const quantities = shallowRef<QuantityState[]>([])
   const calibrations = shallowRef<CalibrationState[]>([])
+  const links = shallowRef<LinkState[]>([])
   const problems = ref<SubmitProblems | null>(null)
   const submitError = ref<string | null>(null)
   const submitting = ref(false)
@@ -259,12 +284,41 @@ export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: 
     return { question, number, data, autosave, values, problems, saved: isSaved, started }
   }
 
+  function linkState(link: RoundLink, first: QuantityState, second: QuantityState): LinkState {
+    const saved = store.linkAnswers[link.id]
+    const data = reactive<LinkData>({ probability: saved?.probability ?? null, rationale: saved?.rationale ?? '', version: saved?.version ?? 0, conflict: null })
+    const marginals = computed<[Distribution, Distribution] | null>(() => {
+      const a = shownFitOf(first)?.distribution
+      const b = shownFitOf(second)?.distribution
+      return a && b ? [a, b] : null
+    })
+    const status = computed(() => linkStatus(data))
+    const autosave = useAutosave({
+      blockedBy: () => null,
+      save: async () => {
+        const answer = await store.saveLinkAnswer(round.value.id, link.id, { probability: data.probability, rationale: data.rationale, version: data.version })
+        data.version = answer.version
+      },
+      onConflict: (error) => {
+        data.conflict = { message: error.message, reloading: false, reloaded: false, typed: [] }
+      },
+    })
+    if (saved) autosave.resume(new Date(saved.updatedAt))
+    return { kind: 'link', key: `l-${link.id}`, link, data, autosave, quantities: [first, second], marginals, status }
+  }
+
   /** Builds the states from the store (after loading). */
   function build(): void {
     scope?.stop()
     scope = effectScope(true)
     scope.run(() => {
       quantities.value = round.value.items.map((item) => quantityState(item, store.judgements[item.quantityId]))
+      const byQuantity = new Map(quantities.value.map((q) => [q.item.quantityId, q]))
+      links.value = round.value.links.flatMap((link) => {
+        const first = byQuantity.get(link.first.quantityId)
+        const second = byQuantity.get(link.second.quantityId)
+        return first && second ? [linkState(link, first, second)] : []
+      })
       // Calibration questions are asked once per study: those answered in an earlier round are not asked again.
       const done = new Set(calibrationAnsweredEarlier.value)
       calibrations.value = askCalibration.value ? store.questions.filter((q) => !done.has(q.id)).map((q, i) => calibrationState(q, i + 1)) : []
@@ -272,7 +326,10 @@ export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: 
   }
 
   async function load(): Promise<void> {
-    await store.load({ roundId: round.value.id, studyId: round.value.studyId, askCalibration: askCalibration.value, feedbackEnabled: round.value.feedbackEnabled })
+    await store.load({
+      roundId: round.value.id, studyId: round.value.studyId, askCalibration: askCalibration.value, feedbackEnabled: round.value.feedbackEnabled,
+      hasLinks: round.value.links.length > 0,
+    })
     build()
   }
 
@@ -289,6 +346,34 @@ export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: 
     state.data.texts[key] = text
     problems.value = null
     state.autosave.changed()
+  }
+
+  /** Applies a change to a link's answer and lets autosave know. */
+  function editLink(state: LinkState, change: (data: LinkData) => void): void {
+    if (readOnly.value || (state.data.conflict && !state.data.conflict.reloaded)) return
+    change(state.data)
+    problems.value = null
+    state.autosave.changed()
+  }
+
+  /** After a 409 on a link answer: fetch the saved one; what was typed stays listed. */
+  async function reloadLink(state: LinkState): Promise<void> {
+    const data = state.data
+    if (!data.conflict) return
+    data.conflict.reloading = true
+    try {
+      const typed = [`Chance: ${data.probability === null ? '—' : `${Math.round(data.probability * 100)} %`}`, `Why: ${data.rationale}`]
+      await store.reloadLinkAnswers(round.value.id)
+      const a = store.linkAnswers[state.link.id]
+      data.probability = a?.probability ?? null
+      data.rationale = a?.rationale ?? ''
+      data.version = a?.version ?? 0
+      state.autosave.resume(a ? new Date(a.updatedAt) : undefined)
+      data.conflict = { ...data.conflict, reloading: false, reloaded: true, typed }
+    } catch (error) {
+      data.conflict.reloading = false
+      data.conflict.message = error instanceof Error ? error.message : String(error)
+    }
   }
 
   const labels = (state: QuantityState) => {
@@ -337,7 +422,7 @@ export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: 
   }
 
   /** Closes the notice after a reload. */
-  function dismissConflict(state: QuantityState | CalibrationState): void {
+  function dismissConflict(state: QuantityState | CalibrationState | LinkState): void {
     state.data.conflict = null
   }
 
@@ -353,6 +438,9 @@ export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: 
       status: s.status.value,
       problem: problems.value?.quantities[s.item.quantityId] ?? null,
     }))
+    for (const l of links.value) {
+      qs.push({ key: l.key, kind: 'link', title: `${l.link.first.name} and ${l.link.second.name}`, status: l.status.value, problem: problems.value?.links[l.link.id] ?? null })
+    }
     if (!calibrations.value.length) return qs
     const calibrationMessages = problems.value ? Object.values(problems.value.calibration) : []
     const calibrationProblem = calibrationMessages.length
@@ -372,7 +460,9 @@ export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: 
 
   /** Saves whatever is waiting; resolves false if something could not be saved. */
   async function flushAll(): Promise<boolean> {
-    const results = await Promise.all([...quantities.value.map((s) => s.autosave.flush()), ...calibrations.value.map((c) => c.autosave.flush())])
+    const results = await Promise.all([
+      ...quantities.value.map((s) => s.autosave.flush()), ...calibrations.value.map((c) => c.autosave.flush()), ...links.value.map((l) => l.autosave.flush()),
+    ])
     return results.every(Boolean)
   }
 
@@ -390,6 +480,10 @@ export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: 
       for (const s of quantities.value) {
         const j = store.judgements[s.item.quantityId]
         if (j) s.data.version = j.version
+      }
+      for (const l of links.value) {
+        const a = store.linkAnswers[l.link.id]
+        if (a) l.data.version = a.version
       }
       return true
     } catch (error) {
@@ -424,12 +518,14 @@ export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: 
     scope?.stop()
     for (const s of quantities.value) s.autosave.dispose()
     for (const c of calibrations.value) c.autosave.dispose()
+    for (const l of links.value) l.autosave.dispose()
   }
 
   return {
     store,
     quantities,
     calibrations,
+    links,
     railItems,
     allComplete,
     compositionsOf,
@@ -443,6 +539,8 @@ export function useAnswerSession(round: Ref<Round>, calibrationAnsweredEarlier: 
     load,
     edit,
     editCalibration,
+    editLink,
+    reloadLink,
     reloadQuantity,
     reloadCalibration,
     dismissConflict,

@@ -12,6 +12,7 @@ import {
   type JudgementSaved,
   type RoundFeedback,
 } from '@/api/judgements'
+import { linksApi, type LinkAnswer, type LinkAnswerSave } from '@/api/links'
 import { useAuthStore } from './auth'
 
 export interface AnsweringLoad {
@@ -19,6 +20,8 @@ export interface AnsweringLoad {
   studyId: number
   askCalibration: boolean
   feedbackEnabled: boolean
+  /** Whether the round links quantities (then the expert's answers to the links are loaded too). */
+  hasLinks?: boolean
 }
 
 /** The signed-in expert's answers in one round: judgements, calibration answers and the feedback of earlier rounds. */
@@ -32,6 +35,8 @@ export const useJudgementsStore = defineStore('judgements', () => {
   const feedback = ref<RoundFeedback[] | null>(null)
   /** The study's compositions (shares of a whole): the answer screen adds up the shares asked in this round. */
   const compositions = ref<Composition[]>([])
+  /** The expert's answers to the round's links, by link id. */
+  const linkAnswers = ref<Record<number, LinkAnswer>>({})
 
   function putJudgements(list: Judgement[]): void {
     judgements.value = Object.fromEntries(list.map((j) => [j.quantityId, j]))
@@ -39,7 +44,7 @@ export const useJudgementsStore = defineStore('judgements', () => {
 
   async function load(opts: AnsweringLoad): Promise<void> {
     if (roundId.value !== opts.roundId) clear()
-    const [list, qs, answers, fb, wholes] = await Promise.all([
+    const [list, qs, answers, fb, wholes, links] = await Promise.all([
       judgementsApi.list(opts.roundId),
       opts.askCalibration ? calibrationApi.list(opts.studyId) : Promise.resolve([] as CalibrationQuestion[]),
       opts.askCalibration ? judgementsApi.calibrationAnswers(opts.roundId) : Promise.resolve([] as CalibrationAnswer[]),
@@ -51,6 +56,7 @@ export const useJudgementsStore = defineStore('judgements', () => {
           })
         : Promise.resolve(null),
       compositionsApi.list(opts.studyId),
+      opts.hasLinks ? linksApi.answers(opts.roundId) : Promise.resolve([] as LinkAnswer[]),
     ])
     roundId.value = opts.roundId
     compositions.value = wholes
@@ -58,6 +64,24 @@ export const useJudgementsStore = defineStore('judgements', () => {
     questions.value = [...qs].sort((a, b) => a.position - b.position || a.id - b.id)
     calibration.value = Object.fromEntries(answers.map((a) => [a.questionId, a]))
     feedback.value = fb
+    putLinkAnswers(links)
+  }
+
+  function putLinkAnswers(list: LinkAnswer[]): void {
+    linkAnswers.value = Object.fromEntries(list.map((a) => [a.linkId, a]))
+  }
+
+  /** Fetches the expert's link answers again (after a conflict or a submit). */
+  async function reloadLinkAnswers(id: number): Promise<LinkAnswer[]> {
+    const list = await linksApi.answers(id)
+    if (roundId.value === id) putLinkAnswers(list)
+    return list
+  }
+
+  async function saveLinkAnswer(id: number, linkId: number, body: LinkAnswerSave): Promise<LinkAnswer> {
+    const saved = await linksApi.saveAnswer(id, linkId, body)
+    if (roundId.value === id) linkAnswers.value[linkId] = saved
+    return saved
   }
 
   /** Fetches the expert's judgements again (after a conflict or a submit). */
@@ -88,6 +112,7 @@ export const useJudgementsStore = defineStore('judgements', () => {
   async function submit(id: number): Promise<Judgement[]> {
     const list = await judgementsApi.submit(id)
     if (roundId.value === id) putJudgements(list)
+    if (Object.keys(linkAnswers.value).length) await reloadLinkAnswers(id)
     return list
   }
 
@@ -98,6 +123,7 @@ export const useJudgementsStore = defineStore('judgements', () => {
     calibration.value = {}
     feedback.value = null
     compositions.value = []
+    linkAnswers.value = {}
   }
 
   // One account's answers must not show for the next one signed in on this browser.
@@ -109,5 +135,8 @@ export const useJudgementsStore = defineStore('judgements', () => {
     },
   )
 
-  return { roundId, judgements, questions, calibration, feedback, compositions, load, reloadJudgements, reloadCalibration, save, saveCalibration, submit, clear }
+  return {
+    roundId, judgements, questions, calibration, feedback, compositions, linkAnswers,
+    load, reloadJudgements, reloadCalibration, reloadLinkAnswers, save, saveCalibration, saveLinkAnswer, submit, clear,
+  }
 })

@@ -4,6 +4,7 @@ import type { Page } from 'playwright-core'
 import { openBrowser, signInAs, type BrowserSession, completeEntry, field, inPage, keepFailureEvidence } from '../support/browser'
 import { expectAccessible } from '../support/axe'
 import { expectPhoneLayout } from '../support/phone'
+import { answerQuantile as answerWith } from '../support/quantile-answer'
 
 /**
  * Shares of a whole in chromium, in the Kestrel Valley household-uptake scenario: the analyst groups three proportion
@@ -37,18 +38,8 @@ const ANSWERS = {
   expert2: [[0.15, 0.55, 0.35, 0.3, 0.4], [0.05, 0.3, 0.15, 0.11, 0.19], [0.2, 0.75, 0.5, 0.44, 0.56]],
 }
 
-/** Fills the quantile steps of the item on show: range, middle value, quartiles. */
-async function answerQuantile(page: Page, [lower, upper, median, q1, q3]: number[]): Promise<void> {
-  await field(page, 'q-lower').fill(String(lower))
-  await field(page, 'q-upper').fill(String(upper))
-  await page.getByTestId('q-next').click()
-  await field(page, 'q-median').fill(String(median))
-  await page.getByTestId('q-next').click()
-  await field(page, 'q-q1').fill(String(q1))
-  await field(page, 'q-q3').fill(String(q3))
-  await expect.poll(() => page.getByTestId('feedback-card').getAttribute('data-ready')).toBe('true')
-  await field(page, 'rationale').fill('Take-up of the meter offer in the 2024 survey of the Board’s customers.')
-}
+/** Fills the quantile steps of the item on show (range, middle value, quartiles) with the survey as the rationale. */
+const answerQuantile = (page: Page, values: number[]) => answerWith(page, values, 'Take-up of the meter offer in the 2024 survey of the Board’s customers.')
 
 beforeAll(async () => {
   s = await openBrowser()

@@ -145,6 +145,7 @@ describe('the wire contract (checked by the type-check)', () => {
   })
 
   it('round links and the experts’ answers to them', () => {
+    expectTypeOf<Fetched<typeof linksApi.get>>().toEqualTypeOf<Served<typeof getLink>>()
     expectTypeOf<Fetched<typeof linksApi.create>>().toEqualTypeOf<Served<typeof getLink>>()
     expectTypeOf<Fetched<typeof linksApi.update>>().toEqualTypeOf<Served<typeof getLink>>()
     expectTypeOf<Fetched<typeof linksApi.reorder>>().toEqualTypeOf<Served<typeof reorderLinks>>()

@@ -1,5 +1,5 @@
 import { afterAll, describe, expect, it } from 'vitest'
-import { computeImpact, computeSteps, impactSteps, type ImpactTask } from '../../../server/compute/tasks'
+import { computeImpact, computeJointDraws, computeSteps, impactSteps, type ImpactTask, type JointDrawsTask } from '../../../server/compute/tasks'
 import { ComputeCancelled, ComputeThread } from '../../../server/compute/threads'
 
 // Constructed: five pilot values with known σ = 2, two candidate priors and a reconciled prior, four sweep widths.
@@ -87,7 +87,7 @@ describe('progress of an impact analysis (the job progress bar)', () => {
   })
 })
 
-describe('cancelling an analysis on its compute thread', () => {
+describe('a compute thread: cancelling an analysis, and joint draws off the event loop', () => {
   const thread = new ComputeThread()
   afterAll(() => thread.stop())
   const wide = { ...task, factors: Array.from({ length: 60 }, (_, i) => 0.25 * 1.06 ** i) }
@@ -103,5 +103,18 @@ describe('cancelling an analysis on its compute thread', () => {
     const result = await thread.run(wide, (done) => after.push(done), 60_000)
     expect(after).toEqual(oneToN(computeSteps(wide)))
     expect(result.sweep?.points).toHaveLength(60)
+  }, 60_000)
+
+  it('makes joint draws byte for byte as in the process, several asked at once each in its turn', async () => {
+    // Constructed: a gamma and a normal marginal bound by a Gaussian copula with correlation 0.4.
+    const draws: JointDrawsTask = { symbols: ['bursts', 'flow'], marginals: [{ family: 'gamma', shape: 8, rate: 0.7 }, { family: 'normal', mu: 3, sigma: 1 }], matrix: [[1, 0.4], [0.4, 1]], n: 2000, seed: 7 }
+    const other = { ...draws, seed: 8 }
+    const [a, b] = await Promise.all([thread.jointDraws(draws, 60_000), thread.jointDraws(other, 60_000)])
+    expect(a).toBe(computeJointDraws(draws))
+    expect(b).toBe(computeJointDraws(other))
+    expect(a).not.toBe(b)
+    const lines = a.trimEnd().split('\n')
+    expect(lines[0]).toBe('bursts,flow')
+    expect(lines).toHaveLength(2001)
   }, 60_000)
 })

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { draftFromAnswer, emptyDraft, percentText, probOf, readDraft, saveBody } from '@/answer/draft'
 import { remainingPercent } from '@/answer/intervals'
-import { calibrationProblems, calibrationStatus, quantityStatus, submitProblems } from '@/answer/status'
+import { calibrationProblems, calibrationStatus, linkStatus, quantityStatus, submitProblems } from '@/answer/status'
 
 const intervals = { method: 'fixed-interval' as const, edges: [0, 0.1, 0.2, 0.3, 0.5, 1] }
 
@@ -54,11 +54,21 @@ describe('item status', () => {
     expect(calibrationProblems({ q05: 10, q50: null, q95: 5 })).toEqual({ q95: 'Your 95 % value must be above your 5 % value (10)' })
   })
 
-  it('sorts the submit’s field errors onto quantities and calibration questions', () => {
-    expect(submitProblems({ 'quantity.3': 'flow: complete your answer', 'calibration.7': 'Calibration question 1: give your 5 %, 50 % and 95 % values', other: 'x' })).toEqual({
+  it('sorts the submit’s field errors onto quantities, calibration questions and links', () => {
+    expect(submitProblems({
+      'quantity.3': 'flow: complete your answer', 'calibration.7': 'Calibration question 1: give your 5 %, 50 % and 95 % values',
+      'link.12': 'Flow and Bursts: say how likely', other: 'x',
+    })).toEqual({
       quantities: { 3: 'flow: complete your answer' },
       calibration: { 7: 'Calibration question 1: give your 5 %, 50 % and 95 % values' },
+      links: { 12: 'Flow and Bursts: say how likely' },
       other: ['x'],
     })
+  })
+
+  it('counts a link complete once a chance is given, the reason being optional', () => {
+    expect(linkStatus({ probability: null, rationale: '' })).toBe('not-started')
+    expect(linkStatus({ probability: null, rationale: 'Frost' })).toBe('in-progress')
+    expect(linkStatus({ probability: 0.7, rationale: '' })).toBe('complete')
   })
 })

@@ -7,13 +7,14 @@ import type { Judgement } from '@/api/judgements'
 import { roundCompositions, useAnswerSession, shownFits, sameFit, type QuantityState } from '@/composables/useAnswerSession'
 import type { Composition } from '@/api/compositions'
 import type { Round } from '@/api/rounds'
+import type { LinkAnswer, RoundLink } from '@/api/links'
 import { mockFetch, type RecordedCall, type Reply } from '../fetch-mock'
 
 const quantity = (id: number, name: string, support: object) => ({ id, name, symbol: `q${id}`, unit: 'u', question: `${name}?`, support, assumptions: '', evidenceNotes: '', files: [] })
 const round = {
   id: 9, studyId: 2, number: 1, title: 'Round', briefing: '', opensAt: '2026-01-01T00:00:00Z', closesAt: '2099-01-01T00:00:00Z', status: 'open',
   reminderHoursBefore: null, reminderSentAt: null, calibrationPosition: 'after', feedbackEnabled: false, askCalibration: true,
-  practice: { question: 'Practice', unit: 'km' }, openedAt: null, closedAt: null, version: 1, panel: [],
+  practice: { question: 'Practice', unit: 'km' }, openedAt: null, closedAt: null, version: 1, panel: [], links: [],
   items: [
     { quantityId: 1, method: 'quantile', askTails: false, quantity: quantity(1, 'Burst rate', { kind: 'positive' }) },
     { quantityId: 2, method: 'fixed-interval', edges: [0, 0.5, 1], askTails: false, quantity: quantity(2, 'Uptake', { kind: 'proportion' }) },
@@ -25,8 +26,8 @@ const judgement = (over: Partial<Judgement>): Judgement => ({
   status: 'draft', version: 1, submittedAt: null, updatedAt: '2026-03-03T09:00:00Z', ...over,
 })
 
-let server: { judgements: Judgement[]; put: (c: RecordedCall) => Reply; submit: () => Reply }
-function setup() {
+let server: { judgements: Judgement[]; put: (c: RecordedCall) => Reply; submit: () => Reply; linkAnswers?: LinkAnswer[]; putLink?: (c: RecordedCall) => Reply }
+function setup(answering: Round = round) {
   const mock = mockFetch((c) => {
     if (c.url === '/api/auth/csrf') return { status: 200, body: { token: 't' } }
     if (c.url === '/api/rounds/9/judgements' && c.method === 'GET') return { status: 200, body: server.judgements }
@@ -35,10 +36,12 @@ function setup() {
     if (c.url === '/api/studies/2/compositions') return { status: 200, body: [] }
     if (c.url.startsWith('/api/rounds/9/judgements/') && c.method === 'PUT') return server.put(c)
     if (c.url === '/api/rounds/9/submit') return server.submit()
+    if (c.url === '/api/rounds/9/link-answers' && c.method === 'GET') return { status: 200, body: server.linkAnswers ?? [] }
+    if (c.url.startsWith('/api/rounds/9/link-answers/') && c.method === 'PUT') return server.putLink!(c)
   })
   vi.stubGlobal('fetch', mock.fetch)
   setActivePinia(createPinia())
-  return { session: useAnswerSession(ref(round)), calls: mock.calls }
+  return { session: useAnswerSession(ref(answering)), calls: mock.calls }
 }
 
 describe('the answering session', () => {
@@ -132,6 +135,72 @@ describe('the answering session', () => {
     expect(shownFits([a], [reordered], true).source).toBe('browser')
     expect(shownFits([a], [{ distribution: { family: 'uniform', lower: 0, upper: 1 }, sse: 0.01 }], false).source).toBe('browser')
     expect(shownFits([a], [{ distribution: { family: 'uniform', lower: 0, upper: 1 }, sse: 0.01 }], true)).toMatchObject({ source: 'server', differs: true })
+  })
+})
+
+describe('links on the answering screen', () => {
+  const link: RoundLink = {
+    id: 31, roundId: 9, first: { quantityId: 1, name: 'Burst rate', symbol: 'q1' }, second: { quantityId: 2, name: 'Uptake', symbol: 'q2' },
+    wording: 'Suppose burst rate turned out above your middle value. How likely is it that uptake is also above yours?', position: 1, version: 1, createdAt: '', updatedAt: '',
+  }
+  const linked = {
+    ...round, links: [link],
+    items: [round.items[0], { quantityId: 2, method: 'quantile', askTails: false, quantity: quantity(2, 'Uptake', { kind: 'proportion' }) }],
+  } as Round
+  const answer = (over: Partial<LinkAnswer>): LinkAnswer => ({
+    id: 5, linkId: 31, expertId: 3, probability: null, rationale: '', status: 'draft', version: 1, submittedAt: null, updatedAt: '2026-03-03T09:00:00Z', ...over,
+  })
+  beforeEach(() => {
+    vi.useFakeTimers()
+    server = { judgements: [judgement({})], put: () => ({ status: 500 }), submit: () => ({ status: 500 }), linkAnswers: [answer({ rationale: 'Frost' })] }
+  })
+  afterEach(() => {
+    vi.useRealTimers()
+    vi.unstubAllGlobals()
+  })
+
+  it('puts each link after the quantities and before the calibration block, waits for both fits, and autosaves the chance with its version', async () => {
+    const { session, calls } = setup(linked)
+    await session.load()
+    expect(session.railItems.value.map((i) => [i.key, i.kind, i.title, i.status])).toEqual([
+      ['q-1', 'quantity', 'Burst rate', 'in-progress'], ['q-2', 'quantity', 'Uptake', 'not-started'],
+      ['l-31', 'link', 'Burst rate and Uptake', 'in-progress'], ['calibration', 'calibration', 'Calibration questions', 'not-started'],
+    ])
+    const state = session.links.value[0]
+    expect(state.data).toMatchObject({ probability: null, rationale: 'Frost', version: 1 })
+    // No fitted distribution for either quantity yet: no marginals to draw from.
+    expect(state.marginals.value).toBeNull()
+    session.edit(session.quantities.value[0], (d) => Object.assign(d.texts, { median: '10', q1: '8', q3: '13' }))
+    expect(state.marginals.value).toBeNull()
+    session.edit(session.quantities.value[1], (d) => Object.assign(d.texts, { lower: '0.1', upper: '0.9', median: '0.4', q1: '0.3', q3: '0.5' }))
+    expect(state.marginals.value?.map((m) => m.family)).toHaveLength(2)
+
+    server.putLink = (c) => ({ status: 200, body: answer({ ...(c.body as object), version: 2 }) })
+    session.editLink(state, (d) => (d.probability = 0.7))
+    await vi.advanceTimersByTimeAsync(800)
+    const put = calls.find((c) => c.url === '/api/rounds/9/link-answers/31')!
+    expect(put.body).toEqual({ probability: 0.7, rationale: 'Frost', version: 1 })
+    expect(state.data.version).toBe(2)
+    expect(session.railItems.value[2].status).toBe('complete')
+  })
+
+  it('shows the submit’s message on the link, and stops saving on 409 until the saved answer is reloaded', async () => {
+    const { session } = setup(linked)
+    await session.load()
+    server.submit = () => ({ status: 400, body: { error: { message: 'Some answers are not complete yet', fields: { 'link.31': 'Burst rate and Uptake: say how likely' } } } })
+    expect(await session.submit()).toBe(false)
+    expect(session.railItems.value.map((i) => i.problem)).toEqual([null, null, 'Burst rate and Uptake: say how likely', null])
+    const state = session.links.value[0]
+    server.putLink = () => ({ status: 409, body: { error: { message: 'This answer was saved from another window or device since you loaded it; reload to continue from the newer version' } } })
+    session.editLink(state, (d) => (d.probability = 0.3))
+    await vi.advanceTimersByTimeAsync(800)
+    expect(state.autosave.status.value.state).toBe('conflict')
+    session.editLink(state, (d) => (d.probability = 0.9))
+    expect(state.data.probability).toBe(0.3)
+    server.linkAnswers = [answer({ probability: 0.6, version: 4 })]
+    await session.reloadLink(state)
+    expect(state.data).toMatchObject({ probability: 0.6, rationale: '', version: 4 })
+    expect(state.data.conflict).toMatchObject({ reloaded: true, typed: ['Chance: 30 %', 'Why: Frost'] })
   })
 })
 
