@@ -1,4 +1,4 @@
-import { logPdf, quantile, sd as sdOf, mean as meanOf, supportOf, toUnivariate, validateDistribution } from './distributions'
+import { logDensityFunction, quantile, sd as sdOf, mean as meanOf, supportOf, toUnivariate, validateDistribution } from './distributions'
 import { EngineInputError } from './errors'
 import { findRoot, LogIntegral } from './quadrature'
 import type { Distribution, Pool, Univariate } from './types'
@@ -130,7 +130,14 @@ function numericLogPool(components: Distribution[], w: number[]): Pool {
   const lower = Math.max(...active.map((a) => supportOf(a.c).lower))
   const upper = Math.min(...active.map((a) => supportOf(a.c).upper))
   if (!(lower < upper)) throw new EngineInputError('components', 'The distributions have no common support, so their logarithmic pool is empty.')
-  const logF = (x: number): number => active.reduce((s, a) => s + a.w * logPdf(a.c, x), 0)
+  // Each component's log density is made once (parameters checked, constants computed), not at every quadrature node.
+  const logDensities = active.map((a) => logDensityFunction(a.c))
+  const activeWeights = active.map((a) => a.w)
+  const logF = (x: number): number => {
+    let s = 0
+    for (let i = 0; i < logDensities.length; i++) s += activeWeights[i] * logDensities[i](x)
+    return s
+  }
   const toX = (u: number): number =>
     Number.isFinite(lower) && Number.isFinite(upper)
       ? lower + (upper - lower) / (1 + Math.exp(-u))
