@@ -200,8 +200,16 @@ describe('the analyst’s decision', () => {
     expect(v).toMatchObject({ stale: true, source: 'confirmed', correlation: confirmed.correlation, saved: { decision: 'confirm', version: 1 } })
   })
 
+  it('keeps one of two first decisions sent at the same moment and answers 409 to the other', async () => {
+    const body = { decision: 'override', correlation: 0.9, reason: 'Set by the analyst to test the repair report.', version: 0 }
+    const both = await Promise.all([analyst.put(`/api/links/${link.ab}/reconciliation`, body), analyst.put(`/api/links/${link.ab}/reconciliation`, body)])
+    expect(both.map((r) => r.status).sort()).toEqual([200, 409])
+    expect(await h.db('link_reconciliations').where({ link_id: link.ab }).select('version')).toEqual([{ version: 1 }])
+    expect(await h.db('audit_events').where({ subject: `link:${link.ab}` }).count('* as n').first()).toEqual({ n: '1' })
+  })
+
   it('reports a set whose correlations cannot hold together and repairs it to the nearest correlation matrix', async () => {
-    for (const [id, correlation, version] of [[link.ab, 0.9, 0], [link.bc, 0.9, 0], [link.ac, -0.9, 0]] as const)
+    for (const [id, correlation, version] of [[link.bc, 0.9, 0], [link.ac, -0.9, 0]] as const)
       await analyst.put(`/api/links/${id}/reconciliation`, { decision: 'override', correlation, reason: 'Set by the analyst to test the repair report.', version }).expect(200)
     const set = (await linked()).sets.find((s) => s.marginals.some((m) => m.quantityId === q.lossA))!
     const asked = [[1, 0.9, -0.9], [0.9, 1, 0.9], [-0.9, 0.9, 1]]
@@ -294,6 +302,20 @@ describe('joint draws', () => {
       ['stan', 'multivariate-normal', true], ['pymc', 'multivariate-normal', true], ['jags', 'multivariate-normal', true], ['brms', 'multivariate-normal', true],
     ])
     expect(set.modelCode[0].code).toContain('joint_bursts_repair_flow ~ multi_normal(')
+  })
+})
+
+describe('weights from reconciliations that leave an expert out', () => {
+  it('gives an expert left out of one quantity’s reconciliation no weight from that side', async () => {
+    const second = (await h.db('users').where({ email: 'expert2@kestrel.example' }).first('id')).id as number
+    // Night flow reconciled again without the second expert; repair time keeps its 1 : 3 weights. The link's weights are
+    // (1 + 0.25)/2 = 0.625 and (0 + 0.75)/2 = 0.375 (constructed, by hand).
+    await analyst.put(`/api/quantities/${q.flow}/reconciliation`, {
+      roundId, method: 'linear', weights: 'equal', excludedExperts: [second], family: 'normal', reconciled: true, version: 1,
+      rationale: 'The second expert has not worked on the night-flow loggers.',
+    }).expect(200)
+    const v = linkView(await linked(), link.repairFlow)
+    expect(v.answers.map((a) => [a.label, a.weight])).toEqual([['Expert 1', 0.625], ['Expert 2', 0.375]])
   })
 })
 
