@@ -578,27 +578,49 @@ function logConvolutionSplit(scale: PriorScale, t: number, sBar: number, logKern
   return logSumExp(sides)
 }
 
-/** ln Σ w_j Φ(e / s_j): the kernel's log CDF, in one pass without allocation. */
-function kernelLogCdf(s: Float64Array, logW: Float64Array, e: number): number {
+/**
+ * The first component (of widths in ascending order) that can matter at e: one narrower than |e|/40 has a term below
+ * e^(−800) of its weight, negligible beside any wider one; all of them when none is wider.
+ */
+function firstWideEnough(s: Float64Array, e: number): number {
+  const narrowest = Math.abs(e) / 40
+  let lo = 0
+  let hi = s.length
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1
+    if (s[mid] < narrowest) lo = mid + 1
+    else hi = mid
+  }
+  return lo < s.length ? lo : 0
+}
+
+/** ln Σ w_j Φ(e / s_j): the kernel's log CDF (widths s ascending), each term once into the scratch array. */
+function kernelLogCdf(s: Float64Array, logW: Float64Array, scratch: Float64Array, e: number): number {
+  const from = firstWideEnough(s, e)
   let top = -Infinity
-  for (let j = 0; j < s.length; j++) top = Math.max(top, logW[j] + logNormCdf(e / s[j]))
+  for (let j = from; j < s.length; j++) {
+    const t = logW[j] + logNormCdf(e / s[j])
+    scratch[j] = t
+    if (t > top) top = t
+  }
   if (!Number.isFinite(top)) return top
   let total = 0
-  for (let j = 0; j < s.length; j++) total += Math.exp(logW[j] + logNormCdf(e / s[j]) - top)
+  for (let j = from; j < s.length; j++) total += Math.exp(scratch[j] - top)
   return top + Math.log(total)
 }
 
-/** ln Σ w_j φ(e / s_j) / s_j: the kernel's log density, in one pass without allocation; inv = 1/s_j, c = ln w_j − ln s_j − ½ ln 2π. */
-function kernelLogPdf(inv: Float64Array, c: Float64Array, e: number): number {
+/** ln Σ w_j φ(e / s_j) / s_j: the kernel's log density (widths ascending; inv = 1/s_j, c = ln w_j − ln s_j − ½ ln 2π). */
+function kernelLogPdf(s: Float64Array, inv: Float64Array, c: Float64Array, e: number): number {
+  const from = firstWideEnough(s, e)
   let top = -Infinity
-  for (let j = 0; j < inv.length; j++) {
+  for (let j = from; j < inv.length; j++) {
     const z = e * inv[j]
     const t = c[j] - 0.5 * z * z
     if (t > top) top = t
   }
   if (!Number.isFinite(top)) return top
   let total = 0
-  for (let j = 0; j < inv.length; j++) {
+  for (let j = from; j < inv.length; j++) {
     const z = e * inv[j]
     total += Math.exp(c[j] - 0.5 * z * z - top)
   }
@@ -611,16 +633,20 @@ function kernelLogPdf(inv: Float64Array, c: Float64Array, e: number): number {
  * predictive check reads the kernel inside nested quadratures, and each direct read costs one exponential per component.
  */
 function scaleMixtureKernel(s: number[], w: number[]): Kernel {
-  const sd = Float64Array.from(s)
-  const logW = Float64Array.from(w, Math.log)
-  const inv = Float64Array.from(s, (sj) => 1 / sj)
-  const c = Float64Array.from(s, (sj, j) => logW[j] - Math.log(sj) - 0.5 * LN_2PI)
-  if (s.length === 1) return { s, w, logPdf: (e) => kernelLogPdf(inv, c, e), logCdf: (e) => kernelLogCdf(sd, logW, e) }
-  const floor = Math.min(...s)
+  const order = s.map((_, j) => j).sort((i, j) => s[i] - s[j])
+  const sd = Float64Array.from(order, (j) => s[j])
+  const logW = Float64Array.from(order, (j) => Math.log(w[j]))
+  const inv = Float64Array.from(sd, (sj) => 1 / sj)
+  const c = Float64Array.from(sd, (sj, j) => logW[j] - Math.log(sj) - 0.5 * LN_2PI)
+  const scratch = new Float64Array(sd.length)
+  const logPdf = (e: number): number => kernelLogPdf(sd, inv, c, e)
+  const logCdf = (e: number): number => kernelLogCdf(sd, logW, scratch, e)
+  if (s.length === 1) return { s, w, logPdf, logCdf }
+  const floor = sd[0]
   const origin = Math.log(floor)
   const atDistance = (t: number): number => Math.max(0, Math.exp(t) - floor)
-  const pdf = new CheckedTable((t) => kernelLogPdf(inv, c, atDistance(t)), origin, 2)
-  const lowerTail = new CheckedTable((t) => kernelLogCdf(sd, logW, -atDistance(t)), origin, 2)
+  const pdf = new CheckedTable((t) => logPdf(atDistance(t)), origin, 2)
+  const lowerTail = new CheckedTable((t) => logCdf(-atDistance(t)), origin, 2)
   const logLowerTail = (e: number): number => lowerTail.at(Math.log(-e + floor))
   return {
     s,

@@ -70,6 +70,22 @@ export function gaussKronrod21(f: (x: number) => number, a: number, b: number): 
   return { value, error, resabs, resasc }
 }
 
+/** The 21 Kronrod abscissae and weights of QK21 mapped to [a, b] (Piessens et al. 1983), for integrating several functions at the same points. */
+export function kronrod21Rule(a: number, b: number): { x: Float64Array; w: Float64Array } {
+  const centr = 0.5 * (a + b)
+  const hlgth = 0.5 * (b - a)
+  const x = new Float64Array(21)
+  const w = new Float64Array(21)
+  x[0] = centr
+  w[0] = WGK[10] * hlgth
+  for (let j = 0; j < 10; j++) {
+    x[2 * j + 1] = centr - hlgth * XGK[j]
+    x[2 * j + 2] = centr + hlgth * XGK[j]
+    w[2 * j + 1] = w[2 * j + 2] = WGK[j] * hlgth
+  }
+  return { x, w }
+}
+
 export type Panel = { a: number; b: number; value: number; error: number; resabs: number }
 
 export type AdaptiveOptions = {
@@ -358,21 +374,6 @@ export class LogIntegral {
     this.panels = result.panels
     this.lower = lower
     this.upper = upper
-  }
-
-  /** The G–K 21 abscissae and weights of the final panels: a fixed rule ∫ f(u) du ≈ Σ w_k f(u_k) over the cut range. */
-  rule(): { u: number; w: number }[] {
-    const out: { u: number; w: number }[] = []
-    for (const p of this.panels) {
-      const centr = 0.5 * (p.a + p.b)
-      const hlgth = 0.5 * (p.b - p.a)
-      out.push({ u: centr, w: WGK[10] * hlgth })
-      for (let j = 0; j < 10; j++) {
-        const absc = hlgth * XGK[j]
-        out.push({ u: centr - absc, w: WGK[j] * hlgth }, { u: centr + absc, w: WGK[j] * hlgth })
-      }
-    }
-    return out
   }
 
   /** The G–K 21 nodes of the final panels with weights summing to ≈ 1: a quadrature rule for the normalised density. */

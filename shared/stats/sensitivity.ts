@@ -6,7 +6,7 @@ import {
   asStandardBeta, hintOnU, logSumExp, normalStats, posteriorFromIntegral, priorScale, sigmaMarginalFor, summarise, truncatedNormal, validateData,
   type Posterior, type PriorScale,
 } from './evidence'
-import { integrate, LogIntegral, type Hint } from './quadrature'
+import { integrate, kronrod21Rule, LogIntegral, type Hint } from './quadrature'
 import { lbeta, lgamma, logNormDiff, softplus } from './special'
 import type { PilotData, PosteriorSummary, PriorDistribution } from './types'
 
@@ -355,30 +355,170 @@ function memo(f: (x: number) => number): (x: number) => number {
   }
 }
 
+/** The four power-scaled posteriors of the finite difference: the prior or the likelihood raised to 1/1.01 or 1.01. */
+const SCALINGS = [
+  { target: 'prior', alpha: 1 / POWER_SCALING_STEP },
+  { target: 'prior', alpha: POWER_SCALING_STEP },
+  { target: 'likelihood', alpha: 1 / POWER_SCALING_STEP },
+  { target: 'likelihood', alpha: POWER_SCALING_STEP },
+] as const
+
+/**
+ * The base posterior and the CDFs of the four power-scaled ones from one quadrature: the scaled integrands differ from the
+ * base one by the factor π(θ)^(α−1) or f(x | θ)^(α−1), within 1 % of 1 in the power, so the base posterior's panels resolve
+ * them as well (the same G10–K21 panels, each integrand with its own cumulative sums and total). Each CDF value then costs
+ * one set of 21 evaluations of the prior and likelihood for all five posteriors.
+ */
+function scaledFamilyByQuadrature(prior: CandidatePrior, data: PilotData): { base: Posterior; cdfs: ((x: number) => number)[]; prepare(xs: number[]): void } {
+  const p = priorOnU(prior)
+  const kernel = kernelFor(data, p.scale, 1)
+  // The likelihood at a power is its own function for σ unknown (σ is integrated after the power); a plain multiple otherwise.
+  const scaledLik = data.model === 'normal' ? [kernelFor(data, p.scale, SCALINGS[2].alpha), kernelFor(data, p.scale, SCALINGS[3].alpha)] : null
+  const h = (u: number): number => p.logDensity(u) + p.logJacobian(u) + kernel.logLik(u)
+  const li = new LogIntegral(h, [p.scale.hint, ...(kernel.hint ? [kernel.hint] : [])])
+  const count = SCALINGS.length + 1
+  // The log integrands relative to the base one at its mode, so that each weight is of order 1 where the mass is.
+  const terms = (u: number, out: Float64Array): void => {
+    const d = p.logDensity(u)
+    const base = d + p.logJacobian(u)
+    const lik = kernel.logLik(u)
+    out[0] = base + lik
+    out[1] = out[0] + (SCALINGS[0].alpha - 1) * d
+    out[2] = out[0] + (SCALINGS[1].alpha - 1) * d
+    out[3] = base + (scaledLik ? scaledLik[0].logLik(u) : SCALINGS[2].alpha * lik)
+    out[4] = base + (scaledLik ? scaledLik[1].logLik(u) : SCALINGS[3].alpha * lik)
+  }
+  const mode = li.panels.reduce((best, panel) => (panel.value > best.value ? panel : best)).a
+  const offset = new Float64Array(count)
+  terms(mode, offset)
+  const logs = new Float64Array(count)
+  /** Adds ∫ over [a, b] of each integrand, by the Kronrod rule there, to sums. */
+  const addPanel = (a: number, b: number, sums: Float64Array): void => {
+    const { x, w } = kronrod21Rule(a, b)
+    for (let k = 0; k < 21; k++) {
+      terms(x[k], logs)
+      for (let i = 0; i < count; i++) {
+        const v = Math.exp(logs[i] - offset[i])
+        if (v > 0) sums[i] += w[k] * v
+      }
+    }
+  }
+  const panels = li.panels
+  const cumulative = panels.map(() => new Float64Array(count))
+  const totals = new Float64Array(count)
+  panels.forEach((panel, k) => {
+    cumulative[k].set(totals)
+    addPanel(panel.a, panel.b, totals)
+  })
+  for (let i = 1; i < count; i++) {
+    if (!(totals[i] > 0 && Number.isFinite(totals[i]))) throw new EngineInputError('alpha', 'At this power the prior cannot be normalised with these data; choose a power nearer 1.')
+  }
+  const values = new Map<number, Float64Array>()
+  const cdfsAt = (t: number): Float64Array => {
+    let v = values.get(t)
+    if (v) return v
+    v = new Float64Array(count)
+    const u = p.scale.toU(t)
+    if (Number.isNaN(u)) v.fill(t <= p.scale.theta(li.lower) ? 0 : 1)
+    else if (u <= li.lower) v.fill(0)
+    else if (u >= li.upper) v.fill(1)
+    else {
+      let lo = 0
+      let hi = panels.length - 1
+      while (lo < hi) {
+        const mid = (lo + hi + 1) >> 1
+        if (panels[mid].a <= u) lo = mid
+        else hi = mid - 1
+      }
+      v.set(cumulative[lo])
+      if (u > panels[lo].a) addPanel(panels[lo].a, u, v)
+      for (let i = 0; i < count; i++) v[i] = Math.min(1, Math.max(0, v[i] / totals[i]))
+    }
+    values.set(t, v)
+    return v
+  }
+  /** ∫ over [a, b] of each integrand by 5-point Gauss–Legendre (Abramowitz & Stegun 1964, 25.4.30), added to sums. */
+  const addGap = (a: number, b: number, sums: Float64Array): void => {
+    const centre = 0.5 * (a + b)
+    const half = 0.5 * (b - a)
+    for (let k = 0; k < 5; k++) {
+      terms(centre + half * GAUSS5_X[k], logs)
+      for (let i = 0; i < count; i++) {
+        const v = Math.exp(logs[i] - offset[i])
+        if (v > 0) sums[i] += half * GAUSS5_W[k] * v
+      }
+    }
+  }
+  /**
+   * The CDFs at many points at once, in ascending order: each from the one before by 5-point Gauss–Legendre over the gap
+   * when the gap lies in one panel and spans at most a quarter of it (the panel's own Kronrod rule resolved the integrands
+   * across four times that width), otherwise as at a single point.
+   */
+  const prepare = (xs: number[]): void => {
+    const sorted = [...new Set(xs)].filter((x) => !values.has(x)).sort((a, b) => a - b)
+    const running = new Float64Array(count)
+    let previous = NaN
+    let panel = -1
+    for (const t of sorted) {
+      const u = p.scale.toU(t)
+      if (!(u > li.lower && u < li.upper)) {
+        cdfsAt(t)
+        panel = -1
+        continue
+      }
+      let k = Math.max(0, panel)
+      while (k + 1 < panels.length && panels[k + 1].a <= u) k++
+      const width = panels[k].b - panels[k].a
+      const from = k === panel ? previous : panels[k].a
+      if (k !== panel) running.set(cumulative[k])
+      if (u - from <= 0.25 * width) addGap(from, u, running)
+      else {
+        running.set(cumulative[k])
+        if (u > panels[k].a) addPanel(panels[k].a, u, running)
+      }
+      previous = u
+      panel = k
+      const v = new Float64Array(count)
+      for (let i = 0; i < count; i++) v[i] = Math.min(1, Math.max(0, running[i] / totals[i]))
+      values.set(t, v)
+    }
+  }
+  return { base: posteriorFromIntegral(li, p.scale), cdfs: Array.from({ length: count }, (_, i) => (x: number) => cdfsAt(x)[i]), prepare }
+}
+
+/** Nodes and weights of 5-point Gauss–Legendre on [−1, 1] (Abramowitz & Stegun 1964, 25.4.30). */
+const GAUSS5_X = [-0.906179845938664, -0.5384693101056831, 0, 0.5384693101056831, 0.906179845938664]
+const GAUSS5_W = [0.2369268850561891, 0.4786286704993665, 0.5688888888888889, 0.4786286704993665, 0.2369268850561891]
+
 /**
  * Power-scaling sensitivity of the posterior (Kallioinen et al. 2023, §3.3): for the prior and for the likelihood, the
  * derivative of the cumulative Jensen–Shannon distance between the base and the power-scaled posterior with respect to
  * log₂ α at α = 1, by the finite difference (D(1/1.01) + D(1.01)) / (2 log₂ 1.01); 0.05 or more counts as sensitive.
- * The diagnosis reads the pair as docs/methods/sensitivity.md explains.
+ * The diagnosis reads the pair as docs/methods/sensitivity.md explains. Closed forms where the prior is conjugate,
+ * otherwise the five posteriors from one quadrature (scaledFamilyByQuadrature).
  */
 export function powerScalingSensitivity(prior: CandidatePrior, data: PilotData, options: { forceQuadrature?: boolean } = {}): PowerScalingSensitivity {
   validateCandidate(prior, data)
   if (data.model === 'normal' && data.values.length < 2) throw new EngineInputError('values', 'With σ unknown, power scaling needs at least 2 observations.')
-  const base = scaledPosterior(prior, data, 1, 'prior', options)
+  const closed = !options.forceQuadrature && prior.family !== 'mixture' && temperedClosedForm(prior, data, 1, 1) !== null
+  const family = closed ? null : scaledFamilyByQuadrature(prior, data)
+  const base = family ? family.base : scaledPosterior(prior, data, 1, 'prior', options)
   const tail = 1 / (CJS_DRAWS + 1)
   const lower = base.quantile(tail)
   const upper = base.quantile(1 - tail)
   const breaks = [0.01, 0.1, 0.3, 0.5, 0.7, 0.9, 0.99].map((p) => base.quantile(p))
-  const baseCdf = memo((x) => base.cdf(x))
-  const step = (target: 'prior' | 'likelihood'): number => {
-    const d = [1 / POWER_SCALING_STEP, POWER_SCALING_STEP].map((a) => {
-      const q = scaledPosterior(prior, data, a, target, options)
-      return cumulativeJsDistance(baseCdf, (x) => q.cdf(x), lower, upper, breaks)
-    })
-    return (d[0] + d[1]) / (2 * Math.log2(POWER_SCALING_STEP))
-  }
-  const p = step('prior')
-  const l = step('likelihood')
+  const baseCdf = family ? family.cdfs[0] : memo((x) => base.cdf(x))
+  // The points the distances' first Kronrod panels read, all at once (the integrals mostly converge on those panels).
+  const ends = [lower, ...breaks.filter((x) => x > lower && x < upper).sort((a, b) => a - b), upper]
+  family?.prepare(ends.slice(1).flatMap((b, i) => (b > ends[i] ? Array.from(kronrod21Rule(ends[i], b).x) : [])))
+  const distances = SCALINGS.map(({ target, alpha }, i) => {
+    const scaled = family ? null : scaledPosterior(prior, data, alpha, target, options)
+    const q = family ? family.cdfs[i + 1] : (x: number) => scaled!.cdf(x)
+    return cumulativeJsDistance(baseCdf, q, lower, upper, breaks)
+  })
+  const derivative = (d: number[]): number => (d[0] + d[1]) / (2 * Math.log2(POWER_SCALING_STEP))
+  const p = derivative(distances.slice(0, 2))
+  const l = derivative(distances.slice(2))
   return { prior: p, likelihood: l, diagnosis: diagnose(p, l) }
 }
 

@@ -1,6 +1,7 @@
-// Speed of a full impact analysis (not a test; part of `npm run bench`): for each data model, 10 candidate priors, a
-// 50-factor width sweep of the reconciled prior and the tipping point, exactly as the server computes it; then the share
-// of the two diagnostics (fractional Bayes factor and power-scaling sensitivity) in it.
+// Speed of a full impact analysis (not a test; part of `npm run bench`): for each data model, 10 candidate priors with their
+// evidence, posterior, Box's check and both diagnostics (fractional Bayes factor and power-scaling sensitivity), a 50-factor
+// width sweep of the reconciled prior with its fractional curve and α-curve, and the tipping point, exactly as the server
+// computes it (computeImpact); then the share of the diagnostics in it. The aim is 200 ms for every data model.
 import { computeImpact, type ImpactTask } from '../../server/compute/tasks'
 import { ALPHA_CURVE_POWERS, dataSize, type CandidateInput, type DecisionRule } from '../../shared/elicitation/impact'
 import { fractionalBayesFactors, powerScalingSensitivity, priorPowerCurve, scaleSpread } from '../../shared/stats/index'
@@ -98,16 +99,28 @@ function timed(run: () => unknown): { wall: number; cpu: number } {
 const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]
 
 console.log('')
-console.log(`Full impact analysis: 10 candidate priors, a ${FACTORS.length}-factor width sweep of the reconciled prior, tipping point`)
-console.log(`(each run on new data, so nothing is reused between runs; median of ${REPEATS}, wall clock and CPU time)`)
+console.log(`Full impact analysis: 10 candidate priors (evidence, posterior, Box's check, fractional Bayes factor, power scaling),`)
+console.log(`a ${FACTORS.length}-factor width sweep of the reconciled prior (with its fractional curve and α-curve), tipping point`)
+console.log(`(each run on new data and a new σ prior, so nothing is reused between runs; median of ${REPEATS} after one run that`)
+console.log('warms the code, whose time is given as "first"; wall clock and CPU time)')
 computeImpact(task(scenarios[0], scenarios[0].reconciled.conjugate, 0))
+const slowest = new Map<string, { wall: number; cpu: number }>()
 for (const s of scenarios) {
   for (const [which, reconciled] of [['conjugate', s.reconciled.conjugate], ['other', s.reconciled.other]] as const) {
+    const first = timed(() => computeImpact(task(s, reconciled, (which === 'conjugate' ? 0.5 : 0.7) * 1e-7)))
     const runs = Array.from({ length: REPEATS }, (_, r) => timed(() => computeImpact(task(s, reconciled, (r + 1) * 1e-7))))
-    const name = `${s.label}, reconciled ${reconciled.family}${which === 'conjugate' ? '' : ''}`
-    console.log(`  ${name.padEnd(62)} ${fmt(median(runs.map((r) => r.wall))).padStart(8)}   (CPU ${fmt(median(runs.map((r) => r.cpu)))})`)
+    const wall = median(runs.map((r) => r.wall))
+    const cpu = median(runs.map((r) => r.cpu))
+    const before = slowest.get(s.label)
+    slowest.set(s.label, { wall: Math.max(before?.wall ?? 0, wall), cpu: Math.max(before?.cpu ?? 0, cpu) })
+    const name = `${s.label}, reconciled ${reconciled.family}`
+    console.log(`  ${name.padEnd(62)} ${fmt(wall).padStart(8)}   (CPU ${fmt(cpu)}; first ${fmt(first.wall)})`)
   }
 }
+console.log('')
+console.log('Slowest full analysis per data model (aim 200 ms; on a busy machine the wall clock also counts the waits for a core,')
+console.log('so the CPU time is what the aim is read against):')
+for (const [label, t] of slowest) console.log(`  ${label.padEnd(62)} ${fmt(t.wall).padStart(8)}   (CPU ${fmt(t.cpu)}, ${t.cpu < 200 ? 'under' : 'OVER'} 200 ms)`)
 
 // The diagnostics alone, as evaluateCandidates and sweepOf run them: each candidate's fractional Bayes factor against the
 // comparison prior (default b = m₀/n) and its power-scaling sensitivity; then the fractional curve over the 50 factors

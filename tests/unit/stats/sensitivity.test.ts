@@ -129,6 +129,22 @@ describe('power-scaling sensitivity against an independent implementation of the
     expect(diagnose(0.049, 0.01)).toBe('none')
   })
 
+  // Consistency check of the engine against itself: by quadrature the base and the four scaled posteriors come from one set of
+  // panels (the base posterior's); where the prior is conjugate each scaled posterior also has its own closed form, and the
+  // two routes agree.
+  it.each<[string, CandidatePrior, PilotData]>([
+    ['normal prior, σ known', { family: 'normal', mu: 3, sigma: 1.5 }, { model: 'normal-known-sigma', sigma: 2, values: [3.1, 4.2, 2.7, 5.0, 3.8, 4.4] }],
+    ['narrow normal prior against the data', { family: 'normal', mu: 9, sigma: 0.4 }, { model: 'normal-known-sigma', sigma: 1, values: [3.1, 4.2, 2.7] }],
+    ['uniform prior, σ known', { family: 'uniform', lower: 0, upper: 6 }, { model: 'normal-known-sigma', sigma: 2, values: [3.1, 4.2, 2.7, 5.0] }],
+    ['beta prior, binomial', { family: 'beta', alpha: 2, beta: 3 }, { model: 'binomial', successes: 7, trials: 20 }],
+    ['gamma prior, Poisson', { family: 'gamma', shape: 3, rate: 1.5 }, { model: 'poisson', counts: [4, 7], exposures: [2, 3.5] }],
+  ])('%s: the sensitivities from one quadrature equal the closed forms to 1e-6', (_, prior, data) => {
+    const closed = powerScalingSensitivity(prior, data)
+    const quadrature = powerScalingSensitivity(prior, data, { forceQuadrature: true })
+    expectRel(quadrature.prior, closed.prior, 1e-6, 'prior')
+    expectRel(quadrature.likelihood, closed.likelihood, 1e-6, 'likelihood')
+  })
+
   // Constructed: a uniform prior raised to a power is the same uniform, so the posterior cannot move.
   it('a uniform prior has no prior sensitivity', () => {
     const data: PilotData = { model: 'binomial', successes: 4, trials: 20 }
