@@ -25,6 +25,7 @@ const UNIQUE_MESSAGES: Record<string, { message: string; field?: string }> = {
   judgements_round_id_quantity_id_expert_id_unique: { message: 'This answer was saved from another window or device at the same moment; reload to continue from it' },
   judgement_versions_judgement_id_version_unique: { message: 'Your answers were submitted from another window or device at the same moment' },
   users_email_lower_idx: { message: 'This e-mail address is already registered', field: 'email' },
+  link_reconciliations_link_id_unique: { message: 'Another analyst decided this correlation at the same moment; reload to see their decision' },
 }
 
 /** The one error handler: every error leaves as `{ error: { message, fields?, …details } }`. */

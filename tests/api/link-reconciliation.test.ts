@@ -200,8 +200,16 @@ describe('the analyst’s decision', () => {
     expect(v).toMatchObject({ stale: true, source: 'confirmed', correlation: confirmed.correlation, saved: { decision: 'confirm', version: 1 } })
   })
 
+  it('keeps one of two first decisions sent at the same moment and answers 409 to the other', async () => {
+    const body = { decision: 'override', correlation: 0.9, reason: 'Set by the analyst to test the repair report.', version: 0 }
+    const both = await Promise.all([analyst.put(`/api/links/${link.ab}/reconciliation`, body), analyst.put(`/api/links/${link.ab}/reconciliation`, body)])
+    expect(both.map((r) => r.status).sort()).toEqual([200, 409])
+    expect(await h.db('link_reconciliations').where({ link_id: link.ab }).select('version')).toEqual([{ version: 1 }])
+    expect(await h.db('audit_events').where({ subject: `link:${link.ab}` }).count('* as n').first()).toEqual({ n: '1' })
+  })
+
   it('reports a set whose correlations cannot hold together and repairs it to the nearest correlation matrix', async () => {
-    for (const [id, correlation, version] of [[link.ab, 0.9, 0], [link.bc, 0.9, 0], [link.ac, -0.9, 0]] as const)
+    for (const [id, correlation, version] of [[link.bc, 0.9, 0], [link.ac, -0.9, 0]] as const)
       await analyst.put(`/api/links/${id}/reconciliation`, { decision: 'override', correlation, reason: 'Set by the analyst to test the repair report.', version }).expect(200)
     const set = (await linked()).sets.find((s) => s.marginals.some((m) => m.quantityId === q.lossA))!
     const asked = [[1, 0.9, -0.9], [0.9, 1, 0.9], [-0.9, 0.9, 1]]
