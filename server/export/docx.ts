@@ -6,8 +6,12 @@ import { PILOT_MODEL_LABELS, type PilotModel } from '../../shared/elicitation/pi
 import { cautionText, type RecordCaution } from '../../shared/elicitation/record-cautions'
 import { describeDistribution as describe, formatDateTime, formatNumber, formatPercent, formatProbability } from '../../shared/format'
 import { labelWithName } from '../../shared/record/expert-labels'
+import { linkedSetScatters } from '../../shared/record/joint-draws'
+import type { RecordLinkedSet } from '../../shared/api/records'
+import { scatterPng } from './scatter-png'
 import {
-  answerText, CANDIDATE_KIND_LABELS, compositionBayesFactorText, compositionDirichletText, compositionSweepText, flagLabel, jointCheckText, JOINT_PRIORS_INTRO, LANGUAGE_LABELS,
+  answerText, CANDIDATE_KIND_LABELS, compositionBayesFactorText, compositionDirichletText, compositionSweepText, correlationRepairText, flagLabel, jointCheckText, JOINT_PRIORS_INTRO, LANGUAGE_LABELS, LINK_SOURCE_LABELS, linkAnswerText,
+  linkScatterCaption,
   SUPPORT_LABELS, WEIGHTS_LABELS,
 } from '../../shared/record/format'
 import { COMMENT_OUTCOME_LABELS, type CommentOutcome } from '../../shared/schemas/records'
@@ -142,14 +146,57 @@ function compositionParagraphs(outline: Outline, c: Json, number: string): (Para
   return out
 }
 
-/** The joint priors after the quantities: each composition in turn; nothing for records without them (before schema 1.2 or none). */
+const matrixTable = (symbols: string[], m: number[][], digits = 3) =>
+  table(['', ...symbols], m.map((row, i) => [symbols[i], ...row.map((x) => formatNumber(x, digits))]), 1)
+
+/** One linked set of the joint-priors section: its links and answers, the matrix and its repair, a scatter per link, the model code. */
+function linkedSetParagraphs(outline: Outline, set: RecordLinkedSet, number: string): (Paragraph | Table)[] {
+  const symbols = set.quantities.map((q) => q.symbol)
+  const out: (Paragraph | Table)[] = [
+    outline.heading(`${number} Linked: ${set.quantities.map((q) => q.name).join(', ')} (${set.name})`, 2),
+    ...(set.notInPriorReason ? [p(set.notInPriorReason, { bold: true, color: '8A5A12' })] : []),
+    table(['Quantity', 'Symbol', 'Reconciled prior'], set.quantities.map((q) => [q.name, q.symbol, q.distribution ? describe(q.distribution) : 'not reconciled']), 9),
+    p('Each link asked the experts a conditional question; an answer p means the Gaussian-copula correlation sin(π(p − 1/2)) (50 % means unrelated). The experts’ correlations are pooled on Fisher’s z scale.', { size: 20 }),
+    table(['Question', 'Experts’ answers', 'Pooled correlation', 'Correlation used', 'How it was set'], set.links.map((l) => [
+      `Round ${l.round}: ${l.wording}`, l.answers.map((a) => linkAnswerText(a, labelWithName(a.expert))).join('; ') || 'none',
+      formatNumber(l.pooledCorrelation, 3), formatNumber(l.correlation, 3),
+      `${LINK_SOURCE_LABELS[l.source] ?? l.source}${l.reason ? `: ${l.reason}` : ''}${l.stale ? ' (the pooled value changed since it was confirmed)' : ''}. Weights: ${l.weightRule}.`,
+    ]), 9),
+    p('Correlation matrix as decided:', { size: 20 }),
+    matrixTable(symbols, set.matrix),
+    ...set.unlinkedPairs.map((u) => p(`No link joins ${u.first} and ${u.second}: their correlation is taken as 0.`, { size: 20 })),
+  ]
+  if (set.repair) {
+    out.push(
+      p(correlationRepairText(set.minEigenvalue, set.repair.maxChange), { color: '8A5A12' }),
+      p('The matrix the joint prior uses:', { size: 20 }), matrixTable(symbols, set.repair.matrix),
+      p('How far each entry moved (used minus decided):', { size: 20 }), matrixTable(symbols, set.repair.changes),
+    )
+  }
+  if (!set.inPrior || !set.draws) return out
+  for (const scatter of linkedSetScatters(set)) {
+    out.push(
+      new Paragraph({ spacing: { before: 120, after: 60 }, children: [new ImageRun({ type: 'png', data: scatterPng(scatter.points), transformation: { width: 480, height: 320 } })] }),
+      p(`Figure: ${linkScatterCaption(scatter.first, scatter.second, set.draws)}`, { size: 18, italics: true }),
+    )
+  }
+  out.push(
+    p(`Model code (${set.modelCode[0]?.form === 'multivariate-normal' ? 'a multivariate normal, on the log scale for lognormal quantities' : 'the Gaussian copula with its Jacobian'}; Priorsmith’s reader takes the parameters back out of each block; the languages themselves were not run):`, { size: 20 }),
+    table(['Language', 'Code', 'Read-back check'], set.modelCode.map((m) => [LANGUAGE_LABELS[m.language] ?? m.language, m.code, jointCheckText(m.check)]), 9),
+  )
+  return out
+}
+
+/** The joint priors after the quantities: each composition, then each linked set; nothing for records without them (before schema 1.2 or none). */
 function jointSection(outline: Outline, content: Json, n: number): (Paragraph | Table)[] {
   const compositions = (content.compositions ?? []) as Json[]
-  if (!compositions.length) return []
+  const linkedSets = (content.linkedSets ?? []) as RecordLinkedSet[]
+  if (!compositions.length && !linkedSets.length) return []
   return [
     outline.heading(`${n}. Joint priors`, 1),
     p(JOINT_PRIORS_INTRO),
     ...compositions.flatMap((c, i) => compositionParagraphs(outline, c, `${n}.${i + 1}`)),
+    ...linkedSets.flatMap((set, i) => linkedSetParagraphs(outline, set, `${n}.${compositions.length + i + 1}`)),
   ]
 }
 

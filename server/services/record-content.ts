@@ -10,6 +10,7 @@ import { studyExpertLabels } from './expert-labels'
 import { priorHash } from './impact'
 import { supportFromRow } from './quantities'
 import { recordCompositions } from './record-compositions'
+import { recordLinkedSets } from './record-links'
 import { savedWeightCautions, weightedExpertIds } from './reconciliation'
 
 export const RECORD_SCHEMA_ID = 'https://priorsmith.example/schemas/prior-record-1.json'
@@ -141,6 +142,7 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
   })
   const finals = new Map<number, Distribution>(recs.filter((r) => r.status === 'reconciled').map((r) => [r.quantity_id, r.distribution]))
   const compositions = await recordCompositions(db, studyId, finals, new Set(leftOut.keys()))
+  const linkedSets = await recordLinkedSets(db, studyId, new Set(leftOut.keys()), who)
   const calibration = {
     questions: calibrationQuestions.map((c) => ({ question: c.question, unit: c.unit, trueValue: c.true_value })),
     method: 'Cooke’s classical model (Cooke 1991, ch. 12): calibration as the χ² p-value of the bin frequencies, information against a uniform background on the intrinsic range with 10 % overshoot',
@@ -156,7 +158,8 @@ export async function assembleRecord(db: Db, studyId: number, options: { showNam
     calibration,
     quantities: quantityRecords,
     compositions,
-    cautions: recordCautions({ panel, quantities: quantityRecords, compositions }),
+    linkedSets,
+    cautions: recordCautions({ panel, quantities: quantityRecords, compositions, linkedSets }),
     producedBy: BUILD_INFO,
   }
 }

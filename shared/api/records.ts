@@ -251,6 +251,60 @@ export interface RecordComposition {
   impact: RecordCompositionImpact | null
 }
 
+/** An expert's answer to a link's conditional question, under the study's label. */
+export interface RecordLinkAnswer {
+  expert: ExpertRef
+  /** P(second above the expert's median | first above theirs). */
+  probability: number
+  /** The Gaussian-copula correlation it means: sin(π(p − 1/2)). */
+  correlation: number
+  /** The expert's share of the pool. */
+  weight: number
+}
+
+/** One link of a linked set: the question, the experts' answers, their pool and the analyst's decision. */
+export interface RecordLink {
+  round: number
+  first: { name: string; symbol: string }
+  second: { name: string; symbol: string }
+  wording: string
+  answers: RecordLinkAnswer[]
+  weightRule: string
+  /** tanh(Σ wᵢ atanh ρᵢ) on Fisher's z scale; null when no expert with weight answered. */
+  pooledCorrelation: number | null
+  /** confirmed or overridden by the analyst; pooled or none when the analyst has not decided (not part of the prior). */
+  source: 'confirmed' | 'overridden' | 'pooled' | 'none'
+  /** An override's reason (empty for a confirmation). */
+  reason: string
+  /** A confirmation whose pooled value changed since: it must be confirmed again. */
+  stale: boolean
+  /** The correlation the set's matrix uses. */
+  correlation: number
+}
+
+/** Quantities joined by links, with their correlation matrix, its repair, the scatter's seeded draws and the model code. */
+export interface RecordLinkedSet {
+  /** The model's name for the set's vector. */
+  name: string
+  /** The quantities in the matrix's order, with the reconciled prior each enters with. */
+  quantities: { name: string; symbol: string; distribution: Distribution | null }[]
+  links: RecordLink[]
+  /** The correlations as decided: 1 on the diagonal, 0 for pairs no link joins. */
+  matrix: number[][]
+  unlinkedPairs: { first: string; second: string }[]
+  positiveSemiDefinite: boolean
+  minEigenvalue: number
+  /** The nearest correlation matrix (Higham 2002) when the decided one is not positive semi-definite, with each entry's change. */
+  repair: { matrix: number[][]; changes: number[][]; maxChange: number; iterations: number } | null
+  /** The matrix the joint prior uses: the repaired one when a repair was needed. */
+  jointMatrix: number[][]
+  inPrior: boolean
+  notInPriorReason: string | null
+  /** The seeded joint draws the record's scatter shows (sampleJoint with this seed and n); null when not part of the prior. */
+  draws: { seed: number; n: number } | null
+  modelCode: { language: ModelLanguage; form: 'multivariate-normal' | 'gaussian-copula'; code: string; check: { ok: boolean; maxRelativeDifference: number } | null }[]
+}
+
 /** What produced the record. */
 export interface ProducedBy {
   application: string
@@ -274,6 +328,8 @@ export interface RecordContent {
   producedBy?: ProducedBy
   /** The study's compositions (shares of a whole); absent before schema 1.2. */
   compositions?: RecordComposition[]
+  /** The study's linked sets (quantities that move together); absent before schema 1.2. */
+  linkedSets?: RecordLinkedSet[]
 }
 
 export type CommentKind = 'comment' | 'return' | 'response'

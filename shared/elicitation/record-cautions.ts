@@ -1,4 +1,5 @@
 import { labelWithName } from '../record/expert-labels'
+import { formatNumber } from '../format/numbers'
 import { flagLabel } from '../record/format'
 
 /**
@@ -11,7 +12,8 @@ export interface RecordCaution {
   /**
    * Which rule raised it: 'statistician-review', 'prior-influence', 'left-out', 'not-reconciled', 'seen-pilot-data', a flag of
    * the final prior, 'hand-adjusted', 'performance-weights', 'no-impact-analysis'; for a composition 'composition-not-in-prior',
-   * a Dirichlet warning ('dirichlet-mean-sum', 'dirichlet-unequal-certainty') or a flag of its impact analysis ('dirichlet-prior-dominates', 'dirichlet-prior-driven').
+   * a Dirichlet warning ('dirichlet-mean-sum', 'dirichlet-unequal-certainty') or a flag of its impact analysis ('dirichlet-prior-dominates', 'dirichlet-prior-driven');
+   * for a linked set 'linked-set-not-in-prior' or 'correlations-repaired'.
    */
   rule: string
   /** The quantity (or composition) it concerns, by name; null for the record as a whole. */
@@ -52,6 +54,8 @@ export interface CautionFacts {
     dirichlet: { warnings: { code: string; message: string }[] } | null
     impact: { flags: string[] } | null
   }[]
+  /** The study's linked sets (absent in records stored before schema 1.2). */
+  linkedSets?: { quantities: { name: string }[]; notInPriorReason: string | null; repair: { maxChange: number } | null }[]
 }
 
 
@@ -93,6 +97,12 @@ export function recordCautions(facts: CautionFacts): RecordCaution[] {
     }
     for (const w of c.dirichlet?.warnings ?? []) add(`dirichlet-${w.code}`, w.message)
     for (const f of c.impact?.flags ?? []) add(`dirichlet-${f}`, DIRICHLET_FLAG_TEXT[f] ?? f)
+  }
+  for (const set of facts.linkedSets ?? []) {
+    const names = set.quantities.map((q) => q.name).join(', ')
+    const add = (rule: string, text: string) => out.push({ rule, quantity: names, text: `Linked quantities ${names}: ${text}` })
+    if (set.notInPriorReason) add('linked-set-not-in-prior', set.notInPriorReason.charAt(0).toLowerCase() + set.notInPriorReason.slice(1))
+    else if (set.repair) add('correlations-repaired', `the correlations as decided cannot all hold together; the joint prior uses the nearest correlation matrix, whose entries moved by up to ${formatNumber(set.repair.maxChange, 3)}.`)
   }
   return out
 }

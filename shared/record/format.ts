@@ -1,4 +1,5 @@
-import { formatNumber, formatPercentPoints, formatProbability } from '../format/numbers'
+import { REPAIR_EIGENVALUE_FLOOR } from '../elicitation/linked-sets'
+import { formatNumber, formatPercent, formatPercentPoints, formatProbability } from '../format/numbers'
 
 /**
  * The prior record in words: answers, flags, audit events and their subjects as the screen and the .docx both write
@@ -203,4 +204,27 @@ export function compositionSweepText(sweep: { evidenceRatio: number; priorDriven
 
 /** What the record's joint-priors section states first, on the page and in the .docx. */
 export const JOINT_PRIORS_INTRO =
-  'Quantities whose priors are stated together. Shares of a whole have one Dirichlet prior for all of them, fitted to the shares’ reconciled priors: use the Dirichlet rather than the shares’ own priors in a model that needs the shares to add up to one.'
+  'Quantities whose priors are stated together. Shares of a whole have one Dirichlet prior for all of them, fitted to the shares’ reconciled priors: use the Dirichlet rather than the shares’ own priors in a model that needs the shares to add up to one. Quantities that move together keep their own reconciled priors, joined by a Gaussian copula whose correlations come from the experts’ answers to a conditional question: use the joint prior where the model has both quantities.'
+
+/** Where the correlation a link's row of the matrix uses comes from, in words. */
+export const LINK_SOURCE_LABELS: Record<string, string> = {
+  confirmed: 'the experts’ pooled value, confirmed by the analyst',
+  overridden: 'set by the analyst',
+  pooled: 'the experts’ pooled value, not confirmed yet',
+  none: 'nobody answered; 0 until the analyst sets it',
+}
+
+/** An expert's answer to a link's question in one line: "Expert 1: 80 % (correlation 0.809, weight 0.5)". */
+export function linkAnswerText(a: { probability: number; correlation: number; weight: number }, label: string): string {
+  return `${label}: ${formatPercent(a.probability)} (correlation ${formatNumber(a.correlation, 3)}, weight ${formatNumber(a.weight, 3)})`
+}
+
+/** The caption of a link's scatter in the record: how many seeded draws, which quantity goes where, what the frame holds. */
+export function linkScatterCaption(first: { name: string; symbol: string }, second: { name: string; symbol: string }, draws: { seed: number; n: number }): string {
+  return `${draws.n} joint draws (seed ${draws.seed}) from the linked set’s joint prior: ${first.name} (${first.symbol}) across, ${second.name} (${second.symbol}) up. The frame holds the middle 99 % of the draws on each axis.`
+}
+
+/** A correlation matrix's repair in words (nearest correlation matrix, Higham 2002, with Priorsmith's eigenvalue floor). */
+export function correlationRepairText(minEigenvalue: number, maxChange: number): string {
+  return `The correlations as decided cannot all hold together (the matrix's smallest eigenvalue is ${formatNumber(minEigenvalue, 3)}, below 0). The joint prior uses the nearest correlation matrix (Higham 2002) with its eigenvalues raised to at least ${formatNumber(REPAIR_EIGENVALUE_FLOOR)} so that a multivariate normal accepts it; its entries moved by up to ${formatNumber(maxChange, 3)}.`
+}

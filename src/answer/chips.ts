@@ -1,4 +1,4 @@
-import { niceStep } from '@/utils/axis'
+import { niceStep } from '@shared/format/axis'
 
 /** What a key press on a chip-grid bin does: move the focus to another bin, or add or remove a chip. */
 export type ChipAction = { type: 'focus'; index: number } | { type: 'add'; index: number } | { type: 'remove'; index: number }

@@ -1,5 +1,5 @@
 import { supportBounds, type Support } from '@shared/stats'
-import { niceAxis, niceStep } from '@/utils/axis'
+import { niceAxis, niceStep } from '@shared/format/axis'
 import type { QuantileField, QuantileValues } from './quantile'
 
 /** Position of each field on the line, left to right (bounds outside the probabilities). */

@@ -4,7 +4,7 @@ import type {
 import { api } from './client'
 
 export type {
-  FinalPrior, RecordComment, RecordComposition, RecordContent, RecordImpact, RecordQuantity, RecordRound, RecordStatus, RecordSubmission, RecordView,
+  FinalPrior, RecordComment, RecordComposition, RecordContent, RecordLinkedSet, RecordImpact, RecordQuantity, RecordRound, RecordStatus, RecordSubmission, RecordView,
 } from '@shared/api/records'
 
 const base = (studyId: number) => `/api/studies/${studyId}/record`

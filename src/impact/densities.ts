@@ -1,7 +1,7 @@
 import { pdf, posteriorOf, quantile, supportBounds, type PilotData, type Posterior, type Support } from '@shared/stats'
 import type { ImpactCandidate, ImpactRequest } from '@/api/impact'
 import { robustMixture } from '@shared/elicitation/impact'
-import { niceAxis } from '@/utils/axis'
+import { niceAxis } from '@shared/format/axis'
 
 /** Chart colours fixed app-wide (theme.css): prior amber, likelihood slate, posterior green, pooled/consensus ink. */
 export const CHART_COLOURS = {

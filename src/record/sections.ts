@@ -22,9 +22,9 @@ export const quantityHeading = (q: { name: string; symbol: string }) => clip(`${
 
 /**
  * The record's sections in order, numbered as in the .docx: 1 study, 2 panel, 3 calibration, one per quantity, the joint
- * priors when the study has any (records before schema 1.2 have none), then the rest.
+ * priors when the study has compositions or linked sets (records before schema 1.2 have none), then the rest.
  */
-export function recordSections(content: Pick<RecordContent, 'quantities' | 'compositions'>): RecordSectionInfo[] {
+export function recordSections(content: Pick<RecordContent, 'quantities' | 'compositions' | 'linkedSets'>): RecordSectionInfo[] {
   const list: RecordSectionInfo[] = [
     { key: 'Study and decision', number: 1, kind: 'study', aliases: [] },
     { key: 'Expert panel', number: 2, kind: 'panel', aliases: ['Panel'] },
@@ -34,7 +34,9 @@ export function recordSections(content: Pick<RecordContent, 'quantities' | 'comp
     list.push({ key: quantityHeading(q), number: 4 + i, kind: 'quantity', quantityIndex: i, aliases: [q.name, q.symbol] })
   })
   let n = 4 + content.quantities.length
-  if (content.compositions?.length) list.push({ key: 'Joint priors', number: n++, kind: 'joint', aliases: content.compositions.map((c) => c.name) })
+  if (content.compositions?.length || content.linkedSets?.length) {
+    list.push({ key: 'Joint priors', number: n++, kind: 'joint', aliases: [...(content.compositions ?? []).map((c) => c.name), ...(content.linkedSets ?? []).map((s) => s.name)] })
+  }
   list.push(
     { key: 'Cautions', number: n, kind: 'cautions', aliases: [] },
     { key: 'Review and sign-off', number: n + 1, kind: 'review', aliases: ['Review'] },

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { niceAxis, niceStep } from '@/utils/axis'
+import { niceAxis, niceStep } from '@shared/format/axis'
 
 // Round axis ends: outward to multiples of a 1-2-5 step (common practice for axis ticks); values constructed by hand.
 describe('niceAxis', () => {

@@ -4,7 +4,7 @@ import { mount } from '@vue/test-utils'
 import { ElButton } from 'element-plus'
 import RecordSection from '@/components/record/RecordSection.vue'
 import { groupComments, recordSections, SECTION_MAX } from '@/record/sections'
-import type { RecordComposition } from '@/api/record'
+import type { RecordComposition, RecordLinkedSet } from '@/api/record'
 import { comment, quantity } from './fixtures'
 
 const content = { quantities: [quantity(), quantity({ name: 'Leak-alert uptake', symbol: 'uptake' })] }
@@ -23,6 +23,8 @@ describe('record sections and their comments', () => {
     expect(sections.map((s) => `${s.number}. ${s.key}`).slice(5)).toEqual(['6. Joint priors', '7. Cautions', '8. Review and sign-off', '9. Change history'])
     expect(groupComments([comment(1, 'Household uptake', 'Why a Dirichlet?')], sections).bySection['Joint priors'].map((c) => c.id)).toEqual([1])
     expect(recordSections({ ...content, compositions: [] }).map((s) => s.key)).not.toContain('Joint priors')
+    const linkedOnly = recordSections({ ...content, compositions: [], linkedSets: [{ name: 'joint_bursts_repair' } as RecordLinkedSet] })
+    expect(linkedOnly.find((s) => s.kind === 'joint')).toMatchObject({ number: 6, key: 'Joint priors', aliases: ['joint_bursts_repair'] })
   })
 
   it('keeps section names within what the server accepts', () => {

@@ -23,3 +23,10 @@ export function niceAxis(lo: number, hi: number, count = 6, floor = -Infinity, c
   const max = Math.min(ceiling, onStep(Math.ceil(hi / step - 1e-9), step))
   return { min, max, step }
 }
+
+/** The tick values of a round axis: every step from min to max, without binary-float tails. */
+export function axisTicks(axis: { min: number; max: number; step: number }): number[] {
+  const out: number[] = []
+  for (let k = 0; axis.min + k * axis.step <= axis.max + axis.step * 1e-9; k++) out.push(Number((axis.min + k * axis.step).toPrecision(12)))
+  return out
+}
