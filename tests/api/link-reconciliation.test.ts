@@ -305,6 +305,20 @@ describe('joint draws', () => {
   })
 })
 
+describe('weights from reconciliations that leave an expert out', () => {
+  it('gives an expert left out of one quantity’s reconciliation no weight from that side', async () => {
+    const second = (await h.db('users').where({ email: 'expert2@kestrel.example' }).first('id')).id as number
+    // Night flow reconciled again without the second expert; repair time keeps its 1 : 3 weights. The link's weights are
+    // (1 + 0.25)/2 = 0.625 and (0 + 0.75)/2 = 0.375 (constructed, by hand).
+    await analyst.put(`/api/quantities/${q.flow}/reconciliation`, {
+      roundId, method: 'linear', weights: 'equal', excludedExperts: [second], family: 'normal', reconciled: true, version: 1,
+      rationale: 'The second expert has not worked on the night-flow loggers.',
+    }).expect(200)
+    const v = linkView(await linked(), link.repairFlow)
+    expect(v.answers.map((a) => [a.label, a.weight])).toEqual([['Expert 1', 0.625], ['Expert 2', 0.375]])
+  })
+})
+
 describe('access', () => {
   it('is the study team’s: experts and outsiders are refused, reviewers read but do not decide', async () => {
     expect((await experts[0].get(`/api/studies/${studyId}/linked-quantities`)).status).toBe(403)
