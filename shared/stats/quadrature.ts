@@ -30,31 +30,45 @@ export type RuleResult = { value: number; error: number; resabs: number; resasc:
 export function gaussKronrod21(f: (x: number) => number, a: number, b: number): RuleResult {
   const centr = 0.5 * (a + b)
   const hlgth = 0.5 * (b - a)
-  const dhlgth = Math.abs(hlgth)
   const fv1 = new Array<number>(10)
   const fv2 = new Array<number>(10)
   const fc = f(centr)
+  for (let j = 0; j < 5; j++) {
+    const jtw = 2 * j + 1
+    const absc = hlgth * XGK[jtw]
+    fv1[jtw] = f(centr - absc)
+    fv2[jtw] = f(centr + absc)
+  }
+  for (let j = 0; j < 5; j++) {
+    const jtwm1 = 2 * j
+    const absc = hlgth * XGK[jtwm1]
+    fv1[jtwm1] = f(centr - absc)
+    fv2[jtwm1] = f(centr + absc)
+  }
+  return kronrod21FromValues(fc, fv1, fv2, hlgth)
+}
+
+/**
+ * QK21's value and error estimate from the integrand at the centre (fc) and at centre ∓ hlgth·XGK[j] (fv1[j], fv2[j]),
+ * for integrands already read at those points (Piessens et al. 1983, routine QK21).
+ */
+export function kronrod21FromValues(fc: number, fv1: ArrayLike<number>, fv2: ArrayLike<number>, hlgth: number): RuleResult {
+  const dhlgth = Math.abs(hlgth)
   let resg = 0
   let resk = WGK[10] * fc
   let resabs = Math.abs(resk)
   for (let j = 0; j < 5; j++) {
     const jtw = 2 * j + 1
-    const absc = hlgth * XGK[jtw]
-    const f1 = f(centr - absc)
-    const f2 = f(centr + absc)
-    fv1[jtw] = f1
-    fv2[jtw] = f2
+    const f1 = fv1[jtw]
+    const f2 = fv2[jtw]
     resg += WG[j] * (f1 + f2)
     resk += WGK[jtw] * (f1 + f2)
     resabs += WGK[jtw] * (Math.abs(f1) + Math.abs(f2))
   }
   for (let j = 0; j < 5; j++) {
     const jtwm1 = 2 * j
-    const absc = hlgth * XGK[jtwm1]
-    const f1 = f(centr - absc)
-    const f2 = f(centr + absc)
-    fv1[jtwm1] = f1
-    fv2[jtwm1] = f2
+    const f1 = fv1[jtwm1]
+    const f2 = fv2[jtwm1]
     resk += WGK[jtwm1] * (f1 + f2)
     resabs += WGK[jtwm1] * (Math.abs(f1) + Math.abs(f2))
   }

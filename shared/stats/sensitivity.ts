@@ -6,7 +6,7 @@ import {
   asStandardBeta, hintOnU, logSumExp, normalStats, posteriorFromIntegral, priorScale, sigmaMarginalFor, summarise, truncatedNormal, validateData,
   type Posterior, type PriorScale,
 } from './evidence'
-import { integrate, kronrod21Rule, LogIntegral, type Hint } from './quadrature'
+import { integrate, kronrod21FromValues, kronrod21Rule, LogIntegral, type Hint } from './quadrature'
 import { lbeta, lgamma, logNormDiff, softplus } from './special'
 import type { PilotData, PosteriorSummary, PriorDistribution } from './types'
 
@@ -328,18 +328,64 @@ export function cumulativeJsDistance(P: (x: number) => number, Q: (x: number) =>
   const pAt = memo(P)
   const qAt = memo(Q)
   const distance = (F: (x: number) => number, G: (x: number) => number): number => {
-    const bound = integrate((x) => F(x) + G(x), points, { epsrel: 1e-10 }).value
+    const bound = integrate((x) => F(x) + G(x), points, { epsrel: BOUND_TOLERANCE }).value
     if (!(bound > 0)) return 0
-    // Absolute tolerance 1e-14·bound: D is then known to 1e-7 even when the two CDFs differ only by rounding.
-    const div = integrate((x) => {
-      const f = F(x)
-      const g = G(x)
-      const s = f + g
-      return s > 0 ? (s / 2) * jsTerm((g - f) / s) : 0
-    }, points, { epsrel: 1e-9, epsabs: 1e-14 * bound * Math.LN2, limit: 400 }).value / Math.LN2
-    return Math.sqrt(Math.max(0, div) / bound)
+    const div = integrate((x) => divergenceTerm(F(x), G(x)), points, { epsrel: DIVERGENCE_TOLERANCE, epsabs: divergenceFloor(bound), limit: 400 }).value
+    return Math.sqrt(Math.max(0, div / Math.LN2) / bound)
   }
   return Math.max(distance(pAt, qAt), distance((x) => 1 - pAt(x), (x) => 1 - qAt(x)))
+}
+
+/** Relative tolerance of the integral of F + G that bounds the distance. */
+const BOUND_TOLERANCE = 1e-10
+/** Relative tolerance of the divergence integral. */
+const DIVERGENCE_TOLERANCE = 1e-9
+
+/** Absolute tolerance 1e-14·bound of the divergence (in nats): D is then known to 1e-7 even when the two CDFs differ only by rounding. */
+function divergenceFloor(bound: number): number {
+  return 1e-14 * bound * Math.LN2
+}
+
+/** The divergence's integrand in nats, (s/2)·J((g − f)/s) with s = f + g, from the two CDFs' values f and g. */
+function divergenceTerm(f: number, g: number): number {
+  const s = f + g
+  return s > 0 ? (s / 2) * jsTerm((g - f) / s) : 0
+}
+
+/**
+ * cumulativeJsDistance from the two CDFs read at the Kronrod nodes of the panels between the points (kronrod21Rule order,
+ * 21 values a panel): the same value when every one of its integrals passes integrate's test on those first panels; null
+ * when one would be refined (the caller then takes cumulativeJsDistance).
+ */
+function jsDistanceOnPanels(p: Float64Array, q: Float64Array, panels: { a: number; b: number }[]): number | null {
+  const fv1 = new Float64Array(10)
+  const fv2 = new Float64Array(10)
+  const integral = (term: (k: number) => number): { value: number; error: number } => {
+    let value = 0
+    let error = 0
+    panels.forEach((panel, i) => {
+      const at = 21 * i
+      for (let j = 0; j < 10; j++) {
+        fv1[j] = term(at + 2 * j + 1)
+        fv2[j] = term(at + 2 * j + 2)
+      }
+      const r = kronrod21FromValues(term(at), fv1, fv2, 0.5 * (panel.b - panel.a))
+      value += r.value
+      error += r.error
+    })
+    return { value, error }
+  }
+  const distance = (f: (k: number) => number, g: (k: number) => number): number | null => {
+    const bound = integral((k) => f(k) + g(k))
+    if (!(bound.error <= BOUND_TOLERANCE * Math.abs(bound.value))) return null
+    if (!(bound.value > 0)) return 0
+    const div = integral((k) => divergenceTerm(f(k), g(k)))
+    if (!(div.error <= Math.max(divergenceFloor(bound.value), DIVERGENCE_TOLERANCE * Math.abs(div.value)))) return null
+    return Math.sqrt(Math.max(0, div.value / Math.LN2) / bound.value)
+  }
+  const direct = distance((k) => p[k], (k) => q[k])
+  const complement = direct === null ? null : distance((k) => 1 - p[k], (k) => 1 - q[k])
+  return direct === null || complement === null ? null : Math.max(direct, complement)
 }
 
 /** f with its values kept by argument (the CDFs are read at the same points by several integrals). */
@@ -508,13 +554,18 @@ export function powerScalingSensitivity(prior: CandidatePrior, data: PilotData, 
   const upper = base.quantile(1 - tail)
   const breaks = [0.01, 0.1, 0.3, 0.5, 0.7, 0.9, 0.99].map((p) => base.quantile(p))
   const baseCdf = family ? family.cdfs[0] : memo((x) => base.cdf(x))
-  // The points the distances' first Kronrod panels read, all at once (the integrals mostly converge on those panels).
+  // The distances' first Kronrod panels: their points read all at once, their integrals taken from those values when they
+  // converge there (they mostly do), otherwise by cumulativeJsDistance.
   const ends = [lower, ...breaks.filter((x) => x > lower && x < upper).sort((a, b) => a - b), upper]
-  family?.prepare(ends.slice(1).flatMap((b, i) => (b > ends[i] ? Array.from(kronrod21Rule(ends[i], b).x) : [])))
+  const panels = ends.slice(1).map((b, i) => ({ a: ends[i], b })).filter((panel) => panel.b > panel.a)
+  const nodes = panels.flatMap((panel) => Array.from(kronrod21Rule(panel.a, panel.b).x))
+  family?.prepare(nodes)
+  const baseValues = family ? Float64Array.from(nodes, baseCdf) : null
   const distances = SCALINGS.map(({ target, alpha }, i) => {
     const scaled = family ? null : scaledPosterior(prior, data, alpha, target, options)
     const q = family ? family.cdfs[i + 1] : (x: number) => scaled!.cdf(x)
-    return cumulativeJsDistance(baseCdf, q, lower, upper, breaks)
+    const onPanels = baseValues ? jsDistanceOnPanels(baseValues, Float64Array.from(nodes, q), panels) : null
+    return onPanels ?? cumulativeJsDistance(baseCdf, q, lower, upper, breaks)
   })
   const derivative = (d: number[]): number => (d[0] + d[1]) / (2 * Math.log2(POWER_SCALING_STEP))
   const p = derivative(distances.slice(0, 2))
