@@ -1,4 +1,4 @@
-import { quantile, validateDistribution } from './distributions'
+import { quantileFunction, validateDistribution } from './distributions'
 import { EngineInputError, requireFinite } from './errors'
 import { choleskyLower, requireSymmetric, symmetricEigen } from './matrix'
 import { seededUniform } from './random'
@@ -173,18 +173,21 @@ export function sampleJoint(marginals: PriorDistribution[], R: number[][], n: nu
     spare = r * Math.sin(angle)
     return r * Math.cos(angle)
   }
-  const z = new Array<number>(k)
-  const out: number[][] = []
+  // Each marginal's quantile function is made once (parameters checked, constants computed), not once per draw.
+  const quantiles = marginals.map(quantileFunction)
+  const z = new Float64Array(k)
+  const out: number[][] = new Array(n)
   for (let draw = 0; draw < n; draw++) {
     for (let i = 0; i < k; i++) z[i] = standardNormal()
     const row = new Array<number>(k)
     for (let i = 0; i < k; i++) {
+      const Li = L[i]
       let s = 0
-      for (let j = 0; j <= i; j++) s += L[i][j] * z[j]
+      for (let j = 0; j <= i; j++) s += Li[j] * z[j]
       // The clamp keeps an unbounded marginal's quantile finite for the (rare) draws beyond 8 standard deviations.
-      row[i] = quantile(marginals[i], Math.min(1 - 2 ** -53, Math.max(2 ** -60, normCdf(s))))
+      row[i] = quantiles[i](Math.min(1 - 2 ** -53, Math.max(2 ** -60, normCdf(s))))
     }
-    out.push(row)
+    out[draw] = row
   }
   return out
 }

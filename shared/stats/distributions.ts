@@ -238,36 +238,67 @@ export function studentTQuantile(p: number, df: number): number {
 
 /** Natural-log density; −Infinity outside the support. */
 export function logPdf(d: PriorDistribution, x: number): number {
+  return logDensityFunction(d)(x)
+}
+
+/**
+ * The natural-log density of d as a function of x, with the parameters validated and the per-family constants computed
+ * once, for callers that evaluate one distribution many times (pools, quadrature); the same arithmetic as logPdf.
+ */
+export function logDensityFunction(d: PriorDistribution): (x: number) => number {
   validateParameters(d, 'distribution')
   switch (d.family) {
-    case 'normal':
-      return logNormPdf((x - d.mu) / d.sigma) - Math.log(d.sigma)
-    case 'student-t':
-      return studentTLogPdf((x - d.mu) / d.sigma, d.df) - Math.log(d.sigma)
-    case 'lognormal':
-      if (!(x > 0)) return -Infinity
-      return logNormPdf((Math.log(x) - d.meanlog) / d.sdlog) - Math.log(d.sdlog) - Math.log(x)
-    case 'gamma':
-      if (!(x > 0)) return x === 0 && d.shape === 1 ? Math.log(d.rate) : -Infinity
-      return logGammaPrefactor(d.shape, d.rate * x) - Math.log(x)
-    case 'beta':
-      return betaLogPdf(x, 1 - x, d.alpha, d.beta)
-    case 'scaled-beta': {
-      const w = d.upper - d.lower
-      return betaLogPdf((x - d.lower) / w, (d.upper - x) / w, d.alpha, d.beta) - Math.log(w)
+    case 'normal': {
+      const { mu, sigma } = d
+      const logSigma = Math.log(sigma)
+      return (x) => logNormPdf((x - mu) / sigma) - logSigma
     }
-    case 'uniform':
-      return x >= d.lower && x <= d.upper ? -Math.log(d.upper - d.lower) : -Infinity
-    case 'half-normal':
-      return x >= 0 ? Math.LN2 + logNormPdf(x / d.scale) - Math.log(d.scale) : -Infinity
+    case 'student-t': {
+      const { mu, sigma, df } = d
+      const logSigma = Math.log(sigma)
+      return (x) => studentTLogPdf((x - mu) / sigma, df) - logSigma
+    }
+    case 'lognormal': {
+      const { meanlog, sdlog } = d
+      const logSd = Math.log(sdlog)
+      return (x) => (x > 0 ? logNormPdf((Math.log(x) - meanlog) / sdlog) - logSd - Math.log(x) : -Infinity)
+    }
+    case 'gamma': {
+      const { shape, rate } = d
+      const atZero = shape === 1 ? Math.log(rate) : -Infinity
+      return (x) => (x > 0 ? logGammaPrefactor(shape, rate * x) - Math.log(x) : x === 0 ? atZero : -Infinity)
+    }
+    case 'beta': {
+      const { alpha, beta } = d
+      const lb = lbeta(alpha, beta)
+      return (x) => betaLogKernel(x, 1 - x, alpha, beta) - lb
+    }
+    case 'scaled-beta': {
+      const { alpha, beta, lower, upper } = d
+      const w = upper - lower
+      const lb = lbeta(alpha, beta)
+      const logW = Math.log(w)
+      return (x) => betaLogKernel((x - lower) / w, (upper - x) / w, alpha, beta) - lb - logW
+    }
+    case 'uniform': {
+      const { lower, upper } = d
+      const logDensity = -Math.log(upper - lower)
+      return (x) => (x >= lower && x <= upper ? logDensity : -Infinity)
+    }
+    case 'half-normal': {
+      const scale = d.scale
+      const logScale = Math.log(scale)
+      return (x) => (x >= 0 ? Math.LN2 + logNormPdf(x / scale) - logScale : -Infinity)
+    }
   }
 }
 
-function betaLogPdf(y: number, ycomp: number, a: number, b: number): number {
+/** ln of the beta density's kernel y^(a−1) (1−y)^(b−1), given y and 1 − y; −Infinity outside [0, 1]. */
+function betaLogKernel(y: number, ycomp: number, a: number, b: number): number {
   if (!(y >= 0 && ycomp >= 0)) return -Infinity
   const la = a === 1 ? 0 : (a - 1) * Math.log(y)
   const lb = b === 1 ? 0 : (b - 1) * Math.log(ycomp)
-  return la + lb - lbeta(a, b)
+  return la + lb
 }
 
 /** Density f(x) (Johnson, Kotz & Balakrishnan 1994–95, the family's chapter). */
@@ -385,42 +416,58 @@ function clamp01(v: number): number {
 
 /** Quantile F⁻¹(p): closed forms where they exist, otherwise jstat's inverse refined by Newton steps on the accurate CDF. */
 export function quantile(d: PriorDistribution, p: number): number {
+  return quantileFunction(d)(p)
+}
+
+/**
+ * The quantile function of d (as quantile), with the parameters validated and the per-family constants and tail functions
+ * made once, for callers that invert one distribution many times (joint draws, pools): the same arithmetic as quantile.
+ */
+export function quantileFunction(d: PriorDistribution): (p: number) => number {
   validateParameters(d, 'distribution')
-  if (!(p >= 0 && p <= 1)) return NaN
   switch (d.family) {
-    case 'normal':
-      return d.mu + d.sigma * normalQuantile(p)
-    case 'student-t':
-      return d.mu + d.sigma * studentTQuantile(p, d.df)
-    case 'lognormal':
-      return Math.exp(d.meanlog + d.sdlog * normalQuantile(p))
-    case 'uniform':
-      return d.lower + p * (d.upper - d.lower)
+    case 'normal': {
+      const { mu, sigma } = d
+      return (p) => (p >= 0 && p <= 1 ? mu + sigma * normalQuantile(p) : NaN)
+    }
+    case 'student-t': {
+      const { mu, sigma, df } = d
+      return (p) => (p >= 0 && p <= 1 ? mu + sigma * studentTQuantile(p, df) : NaN)
+    }
+    case 'lognormal': {
+      const { meanlog, sdlog } = d
+      return (p) => (p >= 0 && p <= 1 ? Math.exp(meanlog + sdlog * normalQuantile(p)) : NaN)
+    }
+    case 'uniform': {
+      const { lower, upper } = d
+      return (p) => (p >= 0 && p <= 1 ? lower + p * (upper - lower) : NaN)
+    }
     case 'gamma': {
-      if (p === 0) return 0
-      if (p === 1) return Infinity
-      const a = d.shape
+      const { shape: a, rate } = d
       const tails: Tails = {
         lower: (y) => gammaPQ(a, y).p,
         upper: (y) => gammaPQ(a, y).q,
         density: (y) => Math.exp(logGammaPrefactor(a, y) - Math.log(y)),
       }
-      return refineQuantile(p, gammaQuantileStart(p, a), tails, 'log') / d.rate
+      return (p) => (!(p >= 0 && p <= 1) ? NaN : p === 0 ? 0 : p === 1 ? Infinity : refineQuantile(p, gammaQuantileStart(p, a), tails, 'log') / rate)
     }
-    case 'beta':
-      return betaQuantile(p, d.alpha, d.beta)
-    case 'scaled-beta':
-      return d.lower + (d.upper - d.lower) * betaQuantile(p, d.alpha, d.beta)
+    case 'beta': {
+      const unit = betaQuantileFunction(d.alpha, d.beta)
+      return (p) => (p >= 0 && p <= 1 ? unit(p) : NaN)
+    }
+    case 'scaled-beta': {
+      const { lower, upper } = d
+      const unit = betaQuantileFunction(d.alpha, d.beta)
+      return (p) => (p >= 0 && p <= 1 ? lower + (upper - lower) * unit(p) : NaN)
+    }
     case 'half-normal': {
-      if (p === 0) return 0
-      if (p === 1) return Infinity
       const s = d.scale
       const tails: Tails = {
         lower: (x) => erf(x / (s * Math.SQRT2)),
         upper: (x) => erfc(x / (s * Math.SQRT2)),
         density: (x) => (2 * normPdf(x / s)) / s,
       }
-      return refineQuantile(p, -s * normalQuantile((1 - p) / 2), tails, 'log')
+      return (p) => (!(p >= 0 && p <= 1) ? NaN : p === 0 ? 0 : p === 1 ? Infinity : refineQuantile(p, -s * normalQuantile((1 - p) / 2), tails, 'log'))
     }
   }
 }
@@ -437,15 +484,15 @@ function gammaQuantileStart(p: number, a: number): number {
   return jStat.gamma.inv(p, a, 1)
 }
 
-function betaQuantile(p: number, a: number, b: number): number {
-  if (p === 0) return 0
-  if (p === 1) return 1
+/** The Beta(a, b) quantile for p in [0, 1]: jstat's inverse refined on the logit scale, with ln B(a, b) computed once. */
+function betaQuantileFunction(a: number, b: number): (p: number) => number {
+  const lb = lbeta(a, b)
   const tails: Tails = {
     lower: (y) => betaPQ(y, a, b).p,
     upper: (y) => betaPQ(y, a, b).q,
-    density: (y) => Math.exp(betaLogPdf(y, 1 - y, a, b)),
+    density: (y) => Math.exp(betaLogKernel(y, 1 - y, a, b) - lb),
   }
-  return refineQuantile(p, jStat.beta.inv(p, a, b), tails, 'logit')
+  return (p) => (p === 0 ? 0 : p === 1 ? 1 : refineQuantile(p, jStat.beta.inv(p, a, b), tails, 'logit'))
 }
 
 /** Mean (NaN where it does not exist, e.g. Student-t with df ≤ 1). */

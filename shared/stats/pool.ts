@@ -1,4 +1,4 @@
-import { logPdf, quantile, sd as sdOf, mean as meanOf, supportOf, toUnivariate, validateDistribution } from './distributions'
+import { logDensityFunction, quantile, sd as sdOf, mean as meanOf, supportOf, toUnivariate, validateDistribution } from './distributions'
 import { EngineInputError } from './errors'
 import { findRoot, LogIntegral } from './quadrature'
 import type { Distribution, Pool, Univariate } from './types'
@@ -125,12 +125,45 @@ function logPoolClosedForm(components: Distribution[], w: number[]): Distributio
   return null
 }
 
+/** How many numerically normalised log pools are kept, most recently used first (see numericLogPool). */
+const NUMERIC_POOL_CACHE_SIZE = 256
+
+/** How many quantiles one numeric log pool remembers (a view asks for the same few probabilities again and again). */
+const POOL_QUANTILE_MEMO_SIZE = 64
+
+const numericPoolCache = new Map<string, Pool>()
+
+/**
+ * The log pool normalised by quadrature, kept by its components and weights: the reconciliation view asks for the same
+ * pools (the full pool and each leave-one-out pool) on every view and every save, and a pool is an immutable value.
+ */
 function numericLogPool(components: Distribution[], w: number[]): Pool {
+  const key = JSON.stringify([components, w])
+  const cached = numericPoolCache.get(key)
+  if (cached) {
+    numericPoolCache.delete(key)
+    numericPoolCache.set(key, cached)
+    return cached
+  }
+  const pool = makeNumericLogPool(components, w)
+  numericPoolCache.set(key, pool)
+  if (numericPoolCache.size > NUMERIC_POOL_CACHE_SIZE) numericPoolCache.delete(numericPoolCache.keys().next().value as string)
+  return pool
+}
+
+function makeNumericLogPool(components: Distribution[], w: number[]): Pool {
   const active = components.map((c, i) => ({ c, w: w[i] })).filter((a) => a.w > 0)
   const lower = Math.max(...active.map((a) => supportOf(a.c).lower))
   const upper = Math.min(...active.map((a) => supportOf(a.c).upper))
   if (!(lower < upper)) throw new EngineInputError('components', 'The distributions have no common support, so their logarithmic pool is empty.')
-  const logF = (x: number): number => active.reduce((s, a) => s + a.w * logPdf(a.c, x), 0)
+  // Each component's log density is made once (parameters checked, constants computed), not at every quadrature node.
+  const logDensities = active.map((a) => logDensityFunction(a.c))
+  const activeWeights = active.map((a) => a.w)
+  const logF = (x: number): number => {
+    let s = 0
+    for (let i = 0; i < logDensities.length; i++) s += activeWeights[i] * logDensities[i](x)
+    return s
+  }
   const toX = (u: number): number =>
     Number.isFinite(lower) && Number.isFinite(upper)
       ? lower + (upper - lower) / (1 + Math.exp(-u))
@@ -167,16 +200,26 @@ function numericLogPool(components: Distribution[], w: number[]): Pool {
   const logNorm = li.logValue
   const mean = li.expect((u) => toX(u))
   const sd = Math.sqrt(li.expect((u) => (toX(u) - mean) ** 2))
-  return {
-    kind: 'log-pool',
-    components: active.map((a) => toUnivariate(a.c)),
-    weights: active.map((a) => a.w),
-    pdf: (x) => (x > lower && x < upper ? Math.exp(logF(x) - logNorm) : 0),
-    cdf: (x) => (x <= lower ? 0 : x >= upper ? 1 : li.cdf(fromX(x))),
-    quantile: (p) => (p <= 0 ? lower : p >= 1 ? upper : toX(li.quantile(p))),
+  const quantiles = new Map<number, number>()
+  const quantileOf = (p: number): number => {
+    if (p <= 0) return lower
+    if (p >= 1) return upper
+    const known = quantiles.get(p)
+    if (known !== undefined) return known
+    const q = toX(li.quantile(p))
+    if (quantiles.size < POOL_QUANTILE_MEMO_SIZE) quantiles.set(p, q)
+    return q
+  }
+  return Object.freeze({
+    kind: 'log-pool' as const,
+    components: Object.freeze(active.map((a) => toUnivariate(a.c))),
+    weights: Object.freeze(active.map((a) => a.w)),
+    pdf: (x: number) => (x > lower && x < upper ? Math.exp(logF(x) - logNorm) : 0),
+    cdf: (x: number) => (x <= lower ? 0 : x >= upper ? 1 : li.cdf(fromX(x))),
+    quantile: quantileOf,
     mean: () => mean,
     sd: () => sd,
-  }
+  })
 }
 
 /** Mean and sd of a pooled result, whichever form logPool returned. */

@@ -31,6 +31,7 @@ import {
   type Distribution,
 } from '../../shared/stats/index'
 import { fitWithRange, type PlausibleRange } from '../../shared/elicitation/fits'
+import { combine, fitCombination, leaveOneOut, resolveWeights, summarise, type Component } from '../../shared/elicitation/reconcile'
 import { supportBounds } from '../../shared/stats/points'
 
 function mulberry32(seed: number): () => number {
@@ -291,14 +292,48 @@ const tenMarginals: Distribution[] = [
 ]
 const tenR = nearestCorrelation(links.slice(0, 10).map((row) => row.slice(0, 10))).matrix
 sampleJoint(tenMarginals, tenR, 500, 1)
-const drawStart = performance.now()
-sampleJoint(tenMarginals, tenR, 10000, 20261203)
-const drawTime = performance.now() - drawStart
+const drawTimes = (n: number, repeats: number): number[] =>
+  Array.from({ length: repeats }, (_, r) => {
+    const s = performance.now()
+    sampleJoint(tenMarginals, tenR, n, 20261203 + r)
+    return performance.now() - s
+  })
+const tenThousandDraws = drawTimes(10_000, 5)
+const hundredThousandDraws = drawTimes(100_000, 3)
 console.log('')
 console.log('Joint priors')
 console.log(`  dirichletFromMarginals, 10 shares: median ${fmt(median(dirichletTimes))}`)
 console.log(`  nearestCorrelation, 20 × 20 (smallest eigenvalue ${repaired.minEigenvalue.toFixed(3)}, ${repaired.iterations} iterations, largest change ${repaired.maxChange.toFixed(3)}): ${fmt(ncTime)}`)
-console.log(`  sampleJoint, 10,000 draws of 10 quantities (beta, gamma, lognormal, normal, t, scaled beta, uniform marginals): ${fmt(drawTime)}`)
+console.log(`  sampleJoint, 10 quantities (beta, gamma, lognormal, normal, t, scaled beta, uniform marginals): 10,000 draws median ${fmt(median(tenThousandDraws))} (5 runs), 100,000 draws median ${fmt(median(hundredThousandDraws))} (3 runs)`)
+
+// The reconciliation view with a logarithmic pool of mixed families (normalised numerically): the pool, its summary, the
+// fit of every family and the leave-one-out pools. A first view makes every pool; a repeated view (the same answers
+// and weights, as on every reload and on a save that changed something else) finds them made.
+console.log('')
+console.log('Reconciliation view, logarithmic pool of lognormal, gamma and normal experts (median of 7 views)')
+for (const experts of [5, 10, 20]) {
+  const priors = (shift: number): Component[] =>
+    Array.from({ length: experts }, (_, i) => ({
+      expertId: i + 1,
+      label: `Expert ${i + 1}`,
+      distribution: (i % 3 === 0
+        ? { family: 'lognormal', meanlog: 2.3 + 0.05 * i + shift, sdlog: 0.3 + 0.01 * i }
+        : i % 3 === 1 ? { family: 'gamma', shape: 8 + i, rate: 0.7 - shift } : { family: 'normal', mu: 11 + 0.3 * i + shift, sigma: 2 + 0.1 * i }) as Distribution,
+    }))
+  const weights = resolveWeights('equal', experts)
+  const view = (components: Component[]): number => {
+    const s = performance.now()
+    const pooled = combine('logarithmic', components, weights)
+    summarise(pooled)
+    fitCombination(pooled, { kind: 'positive' })
+    leaveOneOut('logarithmic', components, weights)
+    return performance.now() - s
+  }
+  view(priors(-1e-3))
+  const first = Array.from({ length: 7 }, (_, r) => view(priors(1e-4 * (r + 1))))
+  const again = Array.from({ length: 7 }, () => view(priors(1e-4)))
+  console.log(`  ${String(experts).padStart(2)} experts: first view ${fmt(median(first))}, repeated view ${fmt(median(again))}`)
+}
 
 // Huge counts and parameters: Box's p and the evidence at n up to 1e12 (the prior's CDF averaged over a beta or gamma,
 // cost independent of n), and CDF + quantile at huge beta, gamma and t parameters (large-parameter expansions).

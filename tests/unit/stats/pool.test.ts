@@ -112,3 +112,33 @@ describe('logarithmic opinion pool (docs/methods/pooling.md)', () => {
     ).toThrow(EngineInputError)
   })
 })
+
+// The reconciliation view makes the same numeric log pools (the full pool and each leave-one-out pool) on every view and
+// save: they are kept by their components and weights, as immutable values.
+describe('numeric log pools are made once per components and weights', () => {
+  const mixed: Distribution[] = [
+    { family: 'lognormal', meanlog: 2.31, sdlog: 0.37 },
+    { family: 'gamma', shape: 9.5, rate: 0.73 },
+    { family: 'normal', mu: 11.7, sigma: 2.2 },
+  ]
+
+  it('gives back the same pool for the same input, and a new one when a weight or a parameter changes', () => {
+    const first = logPool(mixed, [1, 2, 3]) as Pool
+    expect(logPool(mixed.map((d) => ({ ...d })), [1, 2, 3])).toBe(first)
+    expect(Object.isFrozen(first)).toBe(true)
+    const reweighted = logPool(mixed, [1, 2, 4]) as Pool
+    expect(reweighted).not.toBe(first)
+    expect(reweighted.quantile(0.5)).not.toBe(first.quantile(0.5))
+    const moved = logPool([mixed[0], mixed[1], { family: 'normal', mu: 11.8, sigma: 2.2 }], [1, 2, 3]) as Pool
+    expect(moved.quantile(0.5)).toBeGreaterThan(first.quantile(0.5))
+  })
+
+  it('answers a repeated quantile with the value it computed (its CDF at that value is the probability)', () => {
+    const pool = logPool(mixed, [2, 1, 1]) as Pool
+    for (const p of [0.05, 0.5, 0.95]) {
+      const q = pool.quantile(p)
+      expect(pool.quantile(p)).toBe(q)
+      expectRel(pool.cdf(q), p, 1e-10, `F(Q(${p}))`)
+    }
+  })
+})
