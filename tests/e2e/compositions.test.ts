@@ -12,7 +12,9 @@ import { answerQuantile as answerWith } from '../support/quantile-answer'
  * a round asks the three shares; one expert answers on a 360 px phone and sees the total of their shares live, the
  * other answers through the API; the analyst reconciles two shares through the API and the last on its reconcile
  * screen, where the Dirichlet fitted to the three reconciled shares appears with its mismatch and model code; the analyst runs
- * it on pilot counts; the record page and the .docx state the Dirichlet, its model code and its impact.
+ * it on pilot counts. The same round links the burst rate and the repair time; both experts answer the link's question, the
+ * analyst reconciles both quantities and confirms the pooled correlation on the reconcile screen. The record page and the
+ * .docx state the Dirichlet, the correlation (matrix, scatter of the recorded draws) and the model code of both.
  */
 
 const TAG = `joint-${Date.now() % 100000}`
@@ -25,7 +27,17 @@ const SHARES = [
 interface Setup {
   studyId: number
   quantityIds: number[]
+  /** The burst rate and the repair time, linked in the round. */
+  linkedIds: number[]
 }
+
+/** Two quantities that move together, linked in the same round: quantile answers (range, median, quartiles) per expert, and each expert's chance for the link. */
+const LINKED = [
+  { name: 'Mains burst rate', symbol: 'burst_rate', unit: 'bursts per 100 km a year', answers: [[5, 40, 18, 14, 22], [6, 45, 20, 16, 25]] },
+  { name: 'Repair time', symbol: 'repair_time', unit: 'hours', answers: [[3, 20, 9, 7.5, 11], [3, 24, 10, 8, 12.5]] },
+]
+const LINK_CHANCES = [0.75, 0.7]
+let linkId: number
 
 let s: BrowserSession
 let expert: BrowserSession
@@ -55,7 +67,7 @@ describe('compositions', () => {
     const { page } = s
     await signInAs(s, 'analyst@kestrel.example')
     await page.waitForURL(/\/studies$/)
-    setup = await inPage(page, async (call, { tag, shares }) => {
+    setup = await inPage(page, async (call, { tag, shares, linked }) => {
       const study = await call<{ id: number }>('POST', '/api/studies', { title: `${tag} household uptake`, context: 'How Kestrel Valley households would answer the leak-alert and smart-meter offer.' })
       const quantityIds: number[] = []
       for (const q of shares) {
@@ -67,8 +79,15 @@ describe('compositions', () => {
       await call('POST', `/api/studies/${study.id}/quantities`, {
         name: 'Night-flow reduction', symbol: 'flow', unit: 'L/s', question: 'What will the mean reduction in night-time flow be after pressure management?', support: { kind: 'real' },
       })
-      return { studyId: study.id, quantityIds }
-    }, { tag: TAG, shares: SHARES })
+      const linkedIds: number[] = []
+      for (const q of linked) {
+        const made = await call<{ id: number }>('POST', `/api/studies/${study.id}/quantities`, {
+          name: q.name, symbol: q.symbol, unit: q.unit, question: `In the Kestrel Valley network, what is the ${q.name.toLowerCase()} (${q.unit})?`, support: { kind: 'positive' },
+        })
+        linkedIds.push(made.id)
+      }
+      return { studyId: study.id, quantityIds, linkedIds }
+    }, { tag: TAG, shares: SHARES, linked: LINKED })
 
     await page.goto(`${s.baseUrl}/studies/${setup.studyId}/quantities`)
     await page.getByTestId('compositions-empty').waitFor()
@@ -112,15 +131,17 @@ describe('compositions', () => {
   })
 
   it('a round asks the three shares; an expert on a 360 px phone sees the total of their shares live, in plain words', async () => {
-    roundId = await inPage(s.page, async (call, { studyId, quantityIds }) => {
+    ;({ roundId, linkId } = await inPage(s.page, async (call, { studyId, quantityIds, linkedIds }) => {
       const round = await call<{ id: number }>('POST', `/api/studies/${studyId}/rounds`, {
         title: 'Household uptake: shares of the offer', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * 864e5).toISOString(),
-        askCalibration: false, items: quantityIds.map((quantityId) => ({ quantityId, method: 'quantile' })),
+        askCalibration: false, items: [...quantityIds, ...linkedIds].map((quantityId) => ({ quantityId, method: 'quantile' })),
       })
+      // The burst rate and the repair time move together: one link, asked as a conditional question.
+      const link = await call<{ id: number }>('POST', `/api/rounds/${round.id}/links`, { firstQuantityId: linkedIds[0], secondQuantityId: linkedIds[1] })
       for (const n of [1, 2]) await call('POST', `/api/rounds/${round.id}/invitations`, { email: `expert${n}@kestrel.example`, name: `Expert ${n}` })
       await call('POST', `/api/rounds/${round.id}/open`)
-      return round.id
-    }, setup)
+      return { roundId: round.id, linkId: link.id }
+    }, setup))
 
     expert = await openBrowser({ viewport: { width: 360, height: 740 } })
     const { page } = expert
@@ -172,11 +193,20 @@ describe('compositions', () => {
 describe('the joint prior on the reconcile screen', () => {
   it('both experts submit; once the last share is reconciled the screen shows the Dirichlet, its mismatch and its model code', async () => {
     const { page } = expert
-    await inPage(page, async (call, { roundId }) => {
+    // The first expert answers the burst rate, the repair time and their link through the API, then submits.
+    await inPage(page, async (call, { roundId, linkedIds, linked, linkId, chance }) => {
+      for (const [i, quantityId] of linkedIds.entries()) {
+        const [lower, upper, median, q1, q3] = linked[i].answers[0]
+        await call('PUT', `/api/rounds/${roundId}/judgements/${quantityId}`, {
+          method: 'quantile', lower, upper, points: [{ value: q1, prob: 0.25 }, { value: median, prob: 0.5 }, { value: q3, prob: 0.75 }],
+          rationale: 'Burst and repair logs of the Board since 2015.', version: 0,
+        })
+      }
+      await call('PUT', `/api/rounds/${roundId}/link-answers/${linkId}`, { probability: chance, rationale: 'Frost bursts come in clusters and crews fall behind.', version: 0 })
       await call('POST', `/api/rounds/${roundId}/submit`)
-    }, { roundId })
+    }, { roundId, linkedIds: setup.linkedIds, linked: LINKED, linkId, chance: LINK_CHANCES[0] })
     // The second expert answers through the API.
-    await inPage(page, async (call, { roundId, quantityIds, answers, password }) => {
+    await inPage(page, async (call, { roundId, quantityIds, answers, password, linkedIds, linked, linkId, chance }) => {
       await call('POST', '/api/auth/sign-out')
       await call('POST', '/api/auth/sign-in', { email: 'expert2@kestrel.example', password })
       await call('PUT', `/api/rounds/${roundId}/declaration`, { expertise: 'Customer surveys for three water companies since 2012.', interests: 'none', interestsText: '', seenPilotData: false })
@@ -187,8 +217,16 @@ describe('the joint prior on the reconcile screen', () => {
           rationale: 'Take-up of the meter offer in the 2024 survey of the Board’s customers.', version: 0,
         })
       }
+      for (const [i, quantityId] of linkedIds.entries()) {
+        const [lower, upper, median, q1, q3] = linked[i].answers[1]
+        await call('PUT', `/api/rounds/${roundId}/judgements/${quantityId}`, {
+          method: 'quantile', lower, upper, points: [{ value: q1, prob: 0.25 }, { value: median, prob: 0.5 }, { value: q3, prob: 0.75 }],
+          rationale: 'Repair records of the eastern depot.', version: 0,
+        })
+      }
+      await call('PUT', `/api/rounds/${roundId}/link-answers/${linkId}`, { probability: chance, rationale: 'Busy winters lengthen every repair.', version: 0 })
       await call('POST', `/api/rounds/${roundId}/submit`)
-    }, { roundId, quantityIds: setup.quantityIds, answers: ANSWERS.expert2, password: 'priorsmith-demo' })
+    }, { roundId, quantityIds: setup.quantityIds, answers: ANSWERS.expert2, password: 'priorsmith-demo', linkedIds: setup.linkedIds, linked: LINKED, linkId, chance: LINK_CHANCES[1] })
 
     await inPage(s.page, async (call, { quantityIds }) => {
       for (const quantityId of quantityIds.slice(0, 2)) {
@@ -230,6 +268,33 @@ describe('the joint prior on the reconcile screen', () => {
     await analyst.getByTestId('composition-prior').scrollIntoViewIfNeeded()
     await s.shot('compositions-05-reconcile-dirichlet')
     await expectAccessible(analyst, 'composition joint prior on the reconcile screen')
+  })
+})
+
+describe('the linked pair at reconciliation', () => {
+  it('the analyst reconciles the burst rate and the repair time, then confirms the experts’ pooled correlation of their link', async () => {
+    const page = s.page
+    await inPage(page, async (call, { linkedIds }) => {
+      for (const quantityId of linkedIds) {
+        const view = await call<{ roundId: number }>('GET', `/api/quantities/${quantityId}/reconciliation`)
+        await call('PUT', `/api/quantities/${quantityId}/reconciliation`, {
+          roundId: view.roundId, method: 'linear', weights: 'equal', family: 'lognormal', reconciled: true, version: 0,
+          rationale: 'Equal weights: both experts keep the Board’s burst and repair logs; the lognormal fits the pool closely.',
+        })
+      }
+    }, { linkedIds: setup.linkedIds })
+    await page.goto(`${s.baseUrl}/studies/${setup.studyId}/reconcile/${setup.linkedIds[0]}`)
+    const card = page.locator(`[data-testid="link-card"][data-link-id="${linkId}"]`)
+    await card.waitFor()
+    // 75 % and 70 % mean sin(0.25π) and sin(0.2π); equal weights pool them on Fisher's z scale (constructed).
+    const pooled = Math.tanh((Math.atanh(Math.sin(0.25 * Math.PI)) + Math.atanh(Math.sin(0.2 * Math.PI))) / 2)
+    await expect(card.getByTestId('link-pooled').innerText()).resolves.toContain(`Pooled correlation ${pooled.toFixed(3)}`)
+    await card.getByTestId('link-decide').click()
+    const dialog = page.getByTestId('link-decision-dialog')
+    await dialog.waitFor()
+    await dialog.getByTestId('link-decision-save').click()
+    await dialog.waitFor({ state: 'hidden' })
+    await expect.poll(() => card.getAttribute('data-source')).toBe('confirmed')
   })
 })
 
@@ -282,8 +347,8 @@ describe('the joint prior in the record', () => {
     await page.goto(`${s.baseUrl}/studies/${setup.studyId}/record`)
     const section = page.locator('[data-testid="record-section"][data-section="Joint priors"]')
     await section.waitFor()
-    // Four quantities come first (the three shares and the night-flow reduction): the joint priors are section 8.
-    await expect(section.getByRole('heading', { level: 2 }).innerText()).resolves.toBe('8. Joint priors')
+    // Six quantities come first (the three shares, the night-flow reduction, the burst rate and the repair time): the joint priors are section 10.
+    await expect(section.getByRole('heading', { level: 2 }).innerText()).resolves.toBe('10. Joint priors')
     const composition = section.getByTestId('record-composition')
     await expect(composition.getAttribute('data-in-prior')).resolves.toBe('true')
     await expect(composition.getByTestId('record-composition-dirichlet').innerText()).resolves.toMatch(/^Dirichlet\([\d.]+, [\d.]+, [\d.]+\): total concentration /)
@@ -298,10 +363,34 @@ describe('the joint prior in the record', () => {
     await s.shot('compositions-07-record')
     await expectAccessible(page, 'joint priors in the record')
 
+    // The linked pair: the confirmed correlation, a scatter of the recorded draws, and the multivariate normal's code.
+    const linked = await inPage(page, async (call, { studyId }) => {
+      const view = await call<{ content: { linkedSets: { name: string; inPrior: boolean; links: { correlation: number }[]; modelCode: { language: string; code: string }[] }[] } }>('GET', `/api/studies/${studyId}/record`)
+      return view.content.linkedSets
+    }, { studyId: setup.studyId })
+    expect(linked.map((x) => [x.name, x.inPrior])).toEqual([['joint_burst_rate_repair_time', true]])
+    const set = section.getByTestId('record-linked-set')
+    await expect(set.getAttribute('data-in-prior')).resolves.toBe('true')
+    await expect(set.getByTestId('record-link-correlation').innerText()).resolves.toBe(linked[0].links[0].correlation.toFixed(3))
+    await expect(set.getByTestId('record-link-matrix').locator('td').allInnerTexts()).resolves.toEqual(['1', linked[0].links[0].correlation.toFixed(3), linked[0].links[0].correlation.toFixed(3), '1'])
+    await expect(set.getByTestId('record-link-scatter').getAttribute('data-points')).resolves.toBe('1000')
+    await expect.poll(() => set.getByTestId('record-link-scatter').locator('canvas').evaluate((c: HTMLCanvasElement) => c.width > 0 && c.height > 0)).toBe(true)
+    await expect(set.getByTestId('composition-model-code').evaluateAll((els) => els.map((e) => e.getAttribute('data-language')))).resolves.toEqual(['stan', 'pymc', 'jags', 'brms'])
+    await expect(set.getByTestId('composition-model-code').first().innerText()).resolves.toBe(linked[0].modelCode[0].code)
+    await expect(set.getByTestId('composition-model-check').evaluateAll((els) => els.map((e) => e.getAttribute('data-ok')))).resolves.toEqual(['true', 'true', 'true', 'true'])
+    await set.scrollIntoViewIfNeeded()
+    await s.shot('compositions-08-record-linked')
+    await expectAccessible(page, 'linked quantities in the record')
+
     const docx = await page.evaluate(async (id) => Array.from(new Uint8Array(await (await fetch(`/api/studies/${id}/record.docx`)).arrayBuffer())), setup.studyId)
     const text = (await mammoth.extractRawText({ buffer: Buffer.from(docx) })).value
-    for (const expected of ['8. Joint priors', '8.1 Household uptake (shares of a whole, household_uptake)', whole.modelCode[0].code.split('\n')[1], whole.modelCode[1].code.split('\n')[1], 'passed: the same parameters come out of the code'])
-      expect(text).toContain(expected)
+    for (const expected of [
+      '10. Joint priors', '10.1 Household uptake (shares of a whole, household_uptake)', whole.modelCode[0].code.split('\n')[1], whole.modelCode[1].code.split('\n')[1],
+      'passed: the same parameters come out of the code', '10.2 Linked: Mains burst rate, Repair time (joint_burst_rate_repair_time)',
+      `Expert 1: 75 % (correlation 0.707, weight 0.5); Expert 2: 70 % (correlation 0.588, weight 0.5)`, linked[0].modelCode[1].code.split('\n')[0],
+      'Figure: 1000 joint draws (seed 20261203) from the linked set’s joint prior: Mains burst rate (burst_rate) across, Repair time (repair_time) up.',
+    ]) expect(text).toContain(expected)
+    expect(text).toContain(`${linked[0].links[0].correlation.toFixed(3)}`)
     expect(text).toMatch(/Dirichlet\([\d.]+, [\d.]+, [\d.]+\): total concentration/)
     expect(text).toMatch(/The counts favour the (elicited Dirichlet|comparison prior)/)
   })
