@@ -52,6 +52,16 @@ describe('a link between two quantities of a round', () => {
     await dialog.waitFor()
     await expect.poll(() => dialog.getByTestId('link-form-wording').textContent()).toContain(
       'Suppose mains burst rate turned out above your middle value. How likely is it that repair time is also above yours?')
+    // The same quantity twice: the form says so beside the field and sends nothing.
+    await dialog.getByTestId('link-form-second').locator('.el-select').click()
+    await page.locator('.el-select-dropdown__item:visible').filter({ hasText: 'Mains burst rate' }).click()
+    await dialog.getByTestId('link-form-submit').click()
+    await expect.poll(() => dialog.getByTestId('link-form-second').textContent()).toContain('Choose two different quantities')
+    await dialog.getByTestId('link-form-swap').click()
+    await dialog.getByTestId('link-form-first').locator('.el-select').click()
+    await page.locator('.el-select-dropdown__item:visible').filter({ hasText: 'Repair time' }).click()
+    await dialog.getByTestId('link-form-swap').click()
+    await expect.poll(() => dialog.getByTestId('link-form-second').textContent()).not.toContain('Choose two different quantities')
     await analyst.shot('links-01-dialog')
     await expectAccessible(page, 'link dialog')
     await dialog.getByTestId('link-form-submit').click()
