@@ -10,6 +10,7 @@ import { RECORD_JOINT_DRAWS } from '../../shared/record/joint-draws'
 import type { Distribution } from '../../shared/stats/index'
 import { symmetricEigen } from '../../shared/stats/matrix'
 import { Client, normalQuantileAnswer, signedIn, startApi, type ApiHarness } from '../support/api'
+import { assertWellFormedXml } from '../support/xml'
 
 // Linked quantities in the prior record: each linked set's confirmed correlations, its matrix and repair, the seeded draws
 // of its scatter, the model code; the JSON export against docs/prior-record.schema.json; the .docx with a scatter per link.
@@ -180,6 +181,7 @@ describe('linked quantities in the prior record', () => {
     ]) expect(text).toContain(expected)
     // One scatter per link of the sets in the prior (1 + 3), each a 720 × 480 truecolour PNG whose pixels decode.
     const zip = await JSZip.loadAsync(res.body as Buffer)
+    for (const name of Object.keys(zip.files).filter((n) => /\.(xml|rels)$/.test(n))) assertWellFormedXml(await zip.file(name)!.async('string'), name)
     const pngs = Object.keys(zip.files).filter((n) => /^word\/media\/.*\.png$/.test(n))
     expect(pngs).toHaveLength(4)
     const png = await zip.file(pngs[0])!.async('nodebuffer')
