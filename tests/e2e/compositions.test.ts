@@ -5,6 +5,7 @@ import { openBrowser, signInAs, type BrowserSession, completeEntry, field, inPag
 import { expectAccessible } from '../support/axe'
 import { expectPhoneLayout } from '../support/phone'
 import { answerQuantile as answerWith } from '../support/quantile-answer'
+import { addLinkOnRoundScreen, answerLinkChance } from '../support/links'
 
 /**
  * Shares of a whole in chromium, in the Kestrel Valley household-uptake scenario: the analyst groups three proportion
@@ -130,18 +131,31 @@ describe('compositions', () => {
     await s.shot('compositions-02-saved')
   })
 
-  it('a round asks the three shares; an expert on a 360 px phone sees the total of their shares live, in plain words', async () => {
-    ;({ roundId, linkId } = await inPage(s.page, async (call, { studyId, quantityIds, linkedIds }) => {
+  it('a round asks the three shares and links the burst rate to the repair time on its screen', async () => {
+    roundId = await inPage(s.page, async (call, { studyId, quantityIds, linkedIds }) => {
       const round = await call<{ id: number }>('POST', `/api/studies/${studyId}/rounds`, {
         title: 'Household uptake: shares of the offer', opensAt: new Date(Date.now() - 3600e3).toISOString(), closesAt: new Date(Date.now() + 7 * 864e5).toISOString(),
         askCalibration: false, items: [...quantityIds, ...linkedIds].map((quantityId) => ({ quantityId, method: 'quantile' })),
       })
-      // The burst rate and the repair time move together: one link, asked as a conditional question.
-      const link = await call<{ id: number }>('POST', `/api/rounds/${round.id}/links`, { firstQuantityId: linkedIds[0], secondQuantityId: linkedIds[1] })
       for (const n of [1, 2]) await call('POST', `/api/rounds/${round.id}/invitations`, { email: `expert${n}@kestrel.example`, name: `Expert ${n}` })
-      await call('POST', `/api/rounds/${round.id}/open`)
-      return { roundId: round.id, linkId: link.id }
-    }, setup))
+      return round.id
+    }, setup)
+
+    // The burst rate and the repair time move together: the analyst links them on the draft round's screen.
+    const { page } = s
+    await page.goto(`${s.baseUrl}/studies/${setup.studyId}/rounds/${roundId}`)
+    await addLinkOnRoundScreen(page, LINKED[0].name, LINKED[1].name)
+    expect(await page.getByTestId('round-link').innerText()).toContain(`${LINKED[0].name} → ${LINKED[1].name}`)
+    const links = await inPage(page, async (call, { roundId }) => {
+      const round = await call<{ links: { id: number; first: { quantityId: number }; second: { quantityId: number } }[] }>('GET', `/api/rounds/${roundId}`)
+      await call('POST', `/api/rounds/${roundId}/open`)
+      return round.links
+    }, { roundId })
+    expect(links.map((l) => [l.first.quantityId, l.second.quantityId])).toEqual([setup.linkedIds])
+    linkId = links[0].id
+  })
+
+  it('an expert on a 360 px phone sees the total of their shares live, in plain words', async () => {
 
     expert = await openBrowser({ viewport: { width: 360, height: 740 } })
     const { page } = expert
@@ -193,8 +207,8 @@ describe('compositions', () => {
 describe('the joint prior on the reconcile screen', () => {
   it('both experts submit; once the last share is reconciled the screen shows the Dirichlet, its mismatch and its model code', async () => {
     const { page } = expert
-    // The first expert answers the burst rate, the repair time and their link through the API, then submits.
-    await inPage(page, async (call, { roundId, linkedIds, linked, linkId, chance }) => {
+    // The first expert's burst rate and repair time go in through the API; the link is answered on the phone's screen.
+    await inPage(page, async (call, { roundId, linkedIds, linked }) => {
       for (const [i, quantityId] of linkedIds.entries()) {
         const [lower, upper, median, q1, q3] = linked[i].answers[0]
         await call('PUT', `/api/rounds/${roundId}/judgements/${quantityId}`, {
@@ -202,9 +216,22 @@ describe('the joint prior on the reconcile screen', () => {
           rationale: 'Burst and repair logs of the Board since 2015.', version: 0,
         })
       }
-      await call('PUT', `/api/rounds/${roundId}/link-answers/${linkId}`, { probability: chance, rationale: 'Frost bursts come in clusters and crews fall behind.', version: 0 })
+    }, { roundId, linkedIds: setup.linkedIds, linked: LINKED })
+    await page.reload()
+    await page.locator(`[data-testid="rail-item"][data-key="l-${linkId}"]`).click()
+    const linkScreen = page.locator(`[data-testid="link-screen"][data-link-id="${linkId}"]`)
+    await linkScreen.waitFor()
+    expect(await linkScreen.getByTestId('link-question').innerText()).toBe(
+      `Suppose ${LINKED[0].name.toLowerCase()} turned out above your middle value. How likely is it that ${LINKED[1].name.toLowerCase()} is also above yours?`)
+    await linkScreen.getByRole('textbox', { name: 'Why? (optional)' }).fill('Frost bursts come in clusters and crews fall behind.')
+    await answerLinkChance(page, LINK_CHANCES[0] * 100)
+    expect(await linkScreen.getByTestId('link-meaning').innerText()).toContain(`when ${LINKED[0].name.toLowerCase()} is high, ${LINKED[1].name.toLowerCase()} is more likely to be high too`)
+    const answered = await inPage(page, async (call, { roundId }) => {
+      const saved = await call<{ linkId: number; probability: number | null; rationale: string }[]>('GET', `/api/rounds/${roundId}/link-answers`)
       await call('POST', `/api/rounds/${roundId}/submit`)
-    }, { roundId, linkedIds: setup.linkedIds, linked: LINKED, linkId, chance: LINK_CHANCES[0] })
+      return saved
+    }, { roundId })
+    expect(answered.map((a) => [a.linkId, a.probability, a.rationale])).toEqual([[linkId, LINK_CHANCES[0], 'Frost bursts come in clusters and crews fall behind.']])
     // The second expert answers through the API.
     await inPage(page, async (call, { roundId, quantityIds, answers, password, linkedIds, linked, linkId, chance }) => {
       await call('POST', '/api/auth/sign-out')

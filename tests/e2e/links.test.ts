@@ -3,6 +3,7 @@ import { openBrowser, signInAs, type BrowserSession, completeEntry, inPage, keep
 import { expectAccessible } from '../support/axe'
 import { expectPhoneLayout } from '../support/phone'
 import { answerQuantile } from '../support/quantile-answer'
+import { answerLinkChance, chooseLinkQuantity } from '../support/links'
 
 /**
  * Quantities that move together, in chromium: the analyst links mains bursts and repair time on the round screen, an
@@ -53,13 +54,11 @@ describe('a link between two quantities of a round', () => {
     await expect.poll(() => dialog.getByTestId('link-form-wording').textContent()).toContain(
       'Suppose mains burst rate turned out above your middle value. How likely is it that repair time is also above yours?')
     // The same quantity twice: the form says so beside the field and sends nothing.
-    await dialog.getByTestId('link-form-second').locator('.el-select').click()
-    await page.locator('.el-select-dropdown__item:visible').filter({ hasText: 'Mains burst rate' }).click()
+    await chooseLinkQuantity(page, dialog, 'second', 'Mains burst rate')
     await dialog.getByTestId('link-form-submit').click()
     await expect.poll(() => dialog.getByTestId('link-form-second').textContent()).toContain('Choose two different quantities')
     await dialog.getByTestId('link-form-swap').click()
-    await dialog.getByTestId('link-form-first').locator('.el-select').click()
-    await page.locator('.el-select-dropdown__item:visible').filter({ hasText: 'Repair time' }).click()
+    await chooseLinkQuantity(page, dialog, 'first', 'Repair time')
     await dialog.getByTestId('link-form-swap').click()
     await expect.poll(() => dialog.getByTestId('link-form-second').textContent()).not.toContain('Choose two different quantities')
     await analyst.shot('links-01-dialog')
@@ -100,8 +99,7 @@ describe('a link between two quantities of a round', () => {
     expect(await page.getByTestId('link-question').innerText()).toBe(
       'Suppose mains burst rate turned out above your middle value. How likely is it that repair time is also above yours?')
     const chance = page.getByTestId('link-chance').locator('input')
-    await chance.fill('75')
-    await chance.press('Tab')
+    await answerLinkChance(page, 75)
     await expect.poll(() => page.getByTestId('link-meaning').innerText()).toContain(
       'In your view they tend to move together (strongly): when mains burst rate is high, repair time is more likely to be high too.')
     // The implied correlation is the secondary figure: sin(π/4) = 0.71.
@@ -124,8 +122,7 @@ describe('a link between two quantities of a round', () => {
     for (let i = 0; i < 49; i++) await page.keyboard.press('ArrowRight')
     await expect.poll(() => page.getByTestId('link-meaning').innerText()).toContain('The two are unrelated in your view')
     expect(await page.getByTestId('link-correlation').innerText()).toBe("Correlation this implies (for the analyst's model): 0")
-    await chance.fill('70')
-    await chance.press('Tab')
+    await answerLinkChance(page, 70)
     await expect.poll(() => page.getByTestId('link-meaning').innerText()).toContain('(clearly)')
 
     await page.getByTestId('item-next').click()
