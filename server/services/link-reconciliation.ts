@@ -90,9 +90,9 @@ export async function studyLinkedQuantities(db: Db, studyId: number): Promise<St
   const linkIds = links.map((l) => l.id)
   const quantities: { id: number; name: string; symbol: string }[] = await db('quantities').where({ study_id: studyId }).orderBy(['position', 'id']).select('id', 'name', 'symbol')
   const quantity = new Map(quantities.map((q) => [q.id, q]))
-  const answers: { link_id: number; expert_id: number; display_name: string; probability: number }[] = await db('link_answers as a')
+  const answers: { link_id: number; expert_id: number; display_name: string; probability: number; rationale: string }[] = await db('link_answers as a')
     .join('users as u', 'u.id', 'a.expert_id').whereIn('a.link_id', linkIds).where('a.status', 'submitted').whereNotNull('a.probability')
-    .orderBy(['a.link_id', 'a.expert_id']).select('a.link_id', 'a.expert_id', 'u.display_name', 'a.probability')
+    .orderBy(['a.link_id', 'a.expert_id']).select('a.link_id', 'a.expert_id', 'u.display_name', 'a.probability', 'a.rationale')
   const decisions: DecisionRow[] = await db('link_reconciliations as d').join('users as u', 'u.id', 'd.decided_by').whereIn('d.link_id', linkIds)
     .select('d.*', 'u.display_name as decided_by_name')
   const decisionOf = new Map(decisions.map((d) => [d.link_id, d]))
@@ -104,7 +104,7 @@ export async function studyLinkedQuantities(db: Db, studyId: number): Promise<St
     const given = answers.filter((a) => a.link_id === l.id)
     const { weights, rule } = linkPoolWeights(given.map((a) => a.expert_id), reconciled.get(l.first_quantity_id)?.weights ?? null, reconciled.get(l.second_quantity_id)?.weights ?? null)
     const experts: LinkExpertCorrelation[] = given.map((a, i) => ({
-      expertId: a.expert_id, label: labels.ofUser(a.expert_id), name: a.display_name, probability: a.probability,
+      expertId: a.expert_id, label: labels.ofUser(a.expert_id), name: a.display_name, probability: a.probability, rationale: a.rationale,
       correlation: copulaCorrelationFromConditional(a.probability), weight: weights[i],
     }))
     const weighted = experts.filter((e) => e.weight > 0)

@@ -19,6 +19,8 @@ export interface LinkExpertCorrelation {
   name: string
   /** P(second above the expert's median | first above theirs). */
   probability: number
+  /** The expert's reason for their answer, as they gave it ('' when they gave none). */
+  rationale: string
   /** sin(π(p − 1/2)). */
   correlation: number
   /** The expert's share of the pool (the weights add up to 1; 0 for an expert left out of both reconciliations). */

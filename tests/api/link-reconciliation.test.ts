@@ -89,6 +89,8 @@ describe('pooled correlation of a link', () => {
     const v = linkView(await linked(), link.burstsRepair)
     // sin(0.3π) = φ/2 and sin(0.1π) = 1/(2φ); with equal weights tanh(mean atanh ρ) = 1/φ = 0.6180339887… (constructed, by hand).
     expect(v.answers.map((a) => [a.label, a.probability, a.weight])).toEqual([['Expert 1', 0.8, 0.5], ['Expert 2', 0.6, 0.5]])
+    // The analyst reads each expert's reason beside their chance.
+    expect(v.answers.map((a) => a.rationale)).toEqual(['Both follow the winter pressure pattern.', 'Both follow the winter pressure pattern.'])
     expect(v.answers[0].correlation).toBeCloseTo(0.809016994374947, 14)
     expect(v.answers[1].correlation).toBeCloseTo(0.309016994374947, 14)
     expect(v.pooledCorrelation).toBeCloseTo(0.618033988749895, 13)

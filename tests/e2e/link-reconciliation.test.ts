@@ -97,7 +97,7 @@ describe('linked quantities on the reconcile screen', () => {
     const first = section.locator(`[data-testid="link-card"][data-link-id="${setup.linkIds[0]}"]`)
     const rows = await first.getByTestId('link-answer-row').allInnerTexts()
     expect(rows.map((r) => r.split('\t')[0].split(' ').slice(0, 2).join(' '))).toEqual(['Expert 1', 'Expert 2'])
-    expect(rows.map((r) => r.split('\t').slice(1))).toEqual([['80 %', '0.809', '0.5'], ['60 %', '0.309', '0.5']])
+    expect(rows.map((r) => r.split('\t').slice(1))).toEqual([['80 %', '0.809', '0.5', 'The districts share one trunk main.'], ['60 %', '0.309', '0.5', 'The districts share one trunk main.']])
     // tanh of the mean of atanh(sin 0.3π) and atanh(sin 0.1π) is 1/φ = 0.618 (constructed).
     await expect(first.getByTestId('link-pooled').innerText()).resolves.toContain('Pooled correlation 0.618')
     await expect(first.getAttribute('data-source')).resolves.toBe('pooled')
